@@ -1,0 +1,138 @@
+"""The one exception pdvoid raises for bad input, and the helpers that build its messages.
+
+Every message names the parameter (or file and line), the value received and what is allowed.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Iterable
+
+import numpy as np
+
+__all__ = [
+    "InputError",
+    "check_real",
+    "check_positive",
+    "check_nonnegative",
+    "check_range",
+    "check_choice",
+    "check_int",
+    "check_bool",
+    "check_array",
+]
+
+
+class InputError(ValueError):
+    """Bad input to a pdvoid function, constructor or file reader.
+
+    The message names the parameter or file line, the value received and what is allowed.
+    """
+
+
+def _show(value: object) -> str:
+    text = repr(value)
+    return text if len(text) <= 80 else text[:77] + "..."
+
+
+def check_real(name: str, value: object) -> float:
+    """Return ``value`` as a finite float, or raise :class:`InputError` naming ``name``."""
+    if isinstance(value, bool) or not isinstance(value, (int, float, np.integer, np.floating)):
+        raise InputError(f"{name} must be a real number; got {_show(value)} of type {type(value).__name__}")
+    x = float(value)
+    if not math.isfinite(x):
+        raise InputError(f"{name} must be finite; got {x!r}")
+    return x
+
+
+def check_positive(name: str, value: object, unit: str = "") -> float:
+    """A finite number > 0."""
+    x = check_real(name, value)
+    if x <= 0.0:
+        raise InputError(f"{name} must be > 0{' ' + unit if unit else ''}; got {x!r}")
+    return x
+
+
+def check_nonnegative(name: str, value: object, unit: str = "") -> float:
+    """A finite number >= 0."""
+    x = check_real(name, value)
+    if x < 0.0:
+        raise InputError(f"{name} must be >= 0{' ' + unit if unit else ''}; got {x!r}")
+    return x
+
+
+def check_range(
+    name: str,
+    value: object,
+    low: float,
+    high: float,
+    *,
+    low_open: bool = False,
+    high_open: bool = False,
+    unit: str = "",
+    allow_inf: bool = False,
+) -> float:
+    """A number inside [low, high] (ends open as asked); ``allow_inf`` lets +inf through when high is inf."""
+    if allow_inf and isinstance(value, (int, float, np.floating)) and float(value) == math.inf:
+        x = math.inf
+    else:
+        x = check_real(name, value)
+    lo_ok = x > low if low_open else x >= low
+    hi_ok = x < high if high_open else x <= high
+    if not (lo_ok and hi_ok):
+        lb = "(" if low_open else "["
+        hb = ")" if high_open else "]"
+        u = f" {unit}" if unit else ""
+        raise InputError(f"{name} must lie in {lb}{low:g}, {high:g}{hb}{u}; got {x!r}")
+    return x
+
+
+def check_choice(name: str, value: object, choices: Iterable[str]) -> str:
+    """One of a fixed set of strings (case-sensitive)."""
+    options = list(choices)
+    if not isinstance(value, str) or value not in options:
+        raise InputError(f"{name} must be one of {', '.join(map(repr, options))}; got {_show(value)}")
+    return value
+
+
+def check_int(name: str, value: object, low: int | None = None, high: int | None = None) -> int:
+    """A whole number (not bool) inside [low, high]."""
+    if isinstance(value, bool) or not isinstance(value, (int, np.integer)):
+        raise InputError(f"{name} must be a whole number; got {_show(value)}")
+    v = int(value)
+    if (low is not None and v < low) or (high is not None and v > high):
+        raise InputError(f"{name} must lie in [{low}, {high}]; got {v}")
+    return v
+
+
+def check_bool(name: str, value: object) -> bool:
+    """A real bool (not 0/1, not a string)."""
+    if not isinstance(value, (bool, np.bool_)):
+        raise InputError(f"{name} must be True or False; got {_show(value)}")
+    return bool(value)
+
+
+def check_array(
+    name: str,
+    value: object,
+    *,
+    ndim: int = 1,
+    min_size: int = 0,
+    max_size: int | None = None,
+    finite: bool = True,
+) -> np.ndarray:
+    """A float array of the given dimension with finite entries."""
+    try:
+        arr = np.asarray(value, dtype=float)
+    except (TypeError, ValueError) as exc:
+        raise InputError(f"{name} must be an array of real numbers; got {_show(value)}") from exc
+    if arr.ndim != ndim:
+        raise InputError(f"{name} must be {ndim}-dimensional; got shape {arr.shape}")
+    if arr.size < min_size:
+        raise InputError(f"{name} must hold at least {min_size} values; got {arr.size}")
+    if max_size is not None and arr.size > max_size:
+        raise InputError(f"{name} may hold at most {max_size} values; got {arr.size}")
+    if finite and not np.all(np.isfinite(arr)):
+        bad = int(np.flatnonzero(~np.isfinite(arr.ravel()))[0])
+        raise InputError(f"{name} must be finite everywhere; entry {bad} is {arr.ravel()[bad]!r}")
+    return arr
