@@ -1,0 +1,167 @@
+"""Scenario → the coefficients every model runs on (field enhancement, inception and residual field, charge per
+field drop, capacitances, inception voltage), computed from the physics functions."""
+
+from __future__ import annotations
+
+import math
+from dataclasses import asdict, dataclass
+
+from .errors import InputError
+from .parameters import NetworkModel
+from .physics.electrons import volume_electron_rate
+from .physics.geometry import (
+    depolarization_spheroid,
+    field_enhancement,
+    induced_charge_per_field,
+    layered_field_enhancement,
+    spheroid_volume,
+)
+from .physics.inception import gas_inception_field
+from .physics.network import flat_void_capacitances, spheroid_network_equivalent, void_voltage_ratio
+from .waveform import peak_value
+
+__all__ = ["Coefficients", "compute_coefficients"]
+
+
+@dataclass(frozen=True)
+class Coefficients:
+    """What the kernels run on, for inspection and tests (SI units).
+
+    Attributes:
+        field_enhancement: void field / (V/d) [-].
+        depolarization: N along the field [-] (effective value for a cylinder).
+        volume: void volume Ω [m³].
+        inception_field: E_inc inside the void by the model's criterion [V/m].
+        inception_field_streamer, inception_field_integral: E_inc by each criterion [V/m] (NaN if unavailable).
+        residual_field: E_res [V/m].
+        charge_per_field: apparent charge per unit drop of the void field [C/(V/m)].
+        charge_per_discharge: apparent charge of a lag-free discharge, (E_inc - E_res)·charge_per_field [C].
+        inception_voltage: applied rms voltage at which the void field first reaches E_inc [V].
+        inception_voltage_streamer, inception_voltage_integral: the same by each criterion [V].
+        extinction_voltage: the lowest applied rms voltage that sustains lag-free discharges once started,
+            (E_inc + E_res)/2 in place of E_inc (three-capacitance model, physics brief §1.4, derived) [V].
+        capacitance_void, capacitance_series, capacitance_parallel: C_c, C_b, C_a of the network [F]
+            (C_a NaN without a specimen area).
+        void_voltage_ratio: k = C_b/(C_b + C_c) [-].
+        volume_electron_rate: N_vol, start electrons per second from volume ionisation [1/s].
+        peak_factor: peak / rms of the supply waveform [-].
+        references: bibliography keys the numbers rest on.
+    """
+
+    field_enhancement: float
+    depolarization: float
+    volume: float
+    inception_field: float
+    inception_field_streamer: float
+    inception_field_integral: float
+    residual_field: float
+    charge_per_field: float
+    charge_per_discharge: float
+    inception_voltage: float
+    inception_voltage_streamer: float
+    inception_voltage_integral: float
+    extinction_voltage: float
+    capacitance_void: float
+    capacitance_series: float
+    capacitance_parallel: float
+    void_voltage_ratio: float
+    volume_electron_rate: float
+    peak_factor: float
+    references: tuple[str, ...]
+
+    def as_dict(self) -> dict:
+        return asdict(self)
+
+
+def supply_peak_factor(supply) -> float:
+    """Peak of |V| divided by the rms value the supply is specified with [-]."""
+    orders, a, b = supply.fourier()
+    return peak_value(orders, a, b) / supply.rms
+
+
+def compute_coefficients(scenario) -> Coefficients:
+    """All coefficients of a :class:`pdvoid.scenario.Scenario` (see :class:`Coefficients`)."""
+    ins, void, model = scenario.insulation, scenario.void, scenario.model
+    d, er = ins.thickness, ins.permittivity
+    D, h = void.diameter, void.height
+    refs = ["niemeyer1995", "gutfleisch1995", "hess1951"]
+
+    if void.shape == "spheroid":
+        n = depolarization_spheroid(D, h)
+        f = field_enhancement(er, n)
+        omega = spheroid_volume(D, h)
+        c_field = induced_charge_per_field(er, n, omega, d)
+        c_b, c_c, _k = spheroid_network_equivalent(D, h, d, er)
+        refs += ["dlmf19.33", "osborn1945", "stratton1941", "crichton1989", "pedersen1991"]
+    else:  # flat cylinder: layered-slab field, three-capacitance charge
+        f = layered_field_enhancement(er, h, d)
+        n = (er / f - er) / (1.0 - er) if er > 1.0 else 1.0
+        omega = math.pi * D * D / 4.0 * h
+        caps = flat_void_capacitances(D, h, d, er)
+        c_b, c_c = caps.b, caps.c
+        c_field = c_b * h
+        refs += ["gemant1932", "kreuger1989", "kuffel2000"]
+    c_a = math.nan
+    if ins.area is not None:
+        s_void = math.pi * D * D / 4.0
+        if ins.area <= s_void:
+            raise InputError(f"insulation.area must exceed the void's cross-section {s_void:g} m²; got {ins.area:g}")
+        c_a = flat_void_capacitances(D, min(h, 0.999 * d), d, er, specimen_area=ins.area).a
+
+    l_str = void.streamer_length
+    e_str = gas_inception_field(void.gas, void.pressure, l_str, void.temperature, criterion="streamer")
+    try:
+        e_int = gas_inception_field(void.gas, void.pressure, l_str, void.temperature,
+                                    criterion="ionization_integral")
+        refs.append("morrow1997" if void.gas == "air" else "pedersen1970")
+    except InputError:
+        # the second estimate is unavailable (no ionisation data for this gas, or a gap in the Townsend
+        # region); that is only an error when the model relies on it
+        if model.inception_criterion == "ionization_integral":
+            raise
+        e_int = math.nan
+    e_inc = e_str if model.inception_criterion == "streamer" else e_int
+    e_res = model.residual_ratio * e_inc
+
+    if isinstance(model, NetworkModel) and model.capacitance_void is not None:
+        c_c, c_b = model.capacitance_void, model.capacitance_series
+        c_field = c_b * h
+    k = void_voltage_ratio(c_b, c_c)
+    if isinstance(model, NetworkModel):
+        gain_field = k / h  # void field per applied volt
+        refs += ["gemant1932", "kreuger1989"]
+    else:
+        gain_field = f / d
+    pf = supply_peak_factor(scenario.supply)
+
+    def u_inc(e: float) -> float:
+        return e / (gain_field * pf) if math.isfinite(e) else math.nan
+
+    n_vol = volume_electron_rate(omega, void.pressure, void.temperature,
+                                 ionization_rate=model.ionization_rate, electron_yield=model.electron_yield)
+    if isinstance(model, NetworkModel):
+        f_eff = gain_field * d
+    else:
+        f_eff = f
+    return Coefficients(
+        field_enhancement=f_eff,
+        depolarization=n,
+        volume=omega,
+        inception_field=e_inc,
+        inception_field_streamer=e_str,
+        inception_field_integral=e_int,
+        residual_field=e_res,
+        charge_per_field=c_field,
+        charge_per_discharge=c_field * (e_inc - e_res),
+        inception_voltage=u_inc(e_inc),
+        inception_voltage_streamer=u_inc(e_str),
+        inception_voltage_integral=u_inc(e_int),
+        extinction_voltage=u_inc(0.5 * (e_inc + e_res)),
+        capacitance_void=c_c,
+        capacitance_series=c_b,
+        capacitance_parallel=c_a,
+        void_voltage_ratio=k,
+        volume_electron_rate=n_vol,
+        peak_factor=pf,
+        references=tuple(dict.fromkeys(refs)),
+    )
