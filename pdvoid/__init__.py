@@ -15,8 +15,20 @@ from .references import cite  # noqa: E402
 from .results import Result, load  # noqa: E402
 from .scenario import Scenario  # noqa: E402
 from .simulate import simulate  # noqa: E402
+from .analysis import (  # noqa: E402
+    design_margin,
+    fingerprint,
+    iec60270,
+    inception,
+    largest_pd_free_void,
+    margin_table,
+    pattern,
+    pulse_sequence,
+    weibull_fit,
+)
 
 __all__ = [
     "InputError", "cite", "__version__", "Events", "Insulation", "Void", "Sine", "Periodic", "FieldModel",
-    "NetworkModel", "Scenario", "simulate", "Result", "load",
+    "NetworkModel", "Scenario", "simulate", "Result", "load", "pattern", "fingerprint", "iec60270", "inception",
+    "largest_pd_free_void", "margin_table", "design_margin", "pulse_sequence", "weibull_fit",
 ]

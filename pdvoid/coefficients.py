@@ -91,7 +91,15 @@ def compute_coefficients(scenario) -> Coefficients:
         f = field_enhancement(er, n)
         omega = spheroid_volume(D, h)
         c_field = induced_charge_per_field(er, n, omega, d)
-        c_b, c_c, _k = spheroid_network_equivalent(D, h, d, er)
+        if f * h < d:
+            c_b, c_c, _k = spheroid_network_equivalent(D, h, d, er)
+        elif isinstance(model, NetworkModel) and model.capacitance_void is None:
+            raise InputError(
+                f"void.height {h:g} m is too large for the network equivalent of a spheroid in "
+                f"insulation.thickness {d:g} m (needs f·height < thickness; f = {f:.4g})"
+            )
+        else:
+            c_b = c_c = math.nan  # the field model does not need the network equivalent
         refs += ["dlmf19.33", "osborn1945", "stratton1941", "crichton1989", "pedersen1991"]
     else:  # flat cylinder: layered-slab field, three-capacitance charge
         f = layered_field_enhancement(er, h, d)
@@ -126,7 +134,7 @@ def compute_coefficients(scenario) -> Coefficients:
     if isinstance(model, NetworkModel) and model.capacitance_void is not None:
         c_c, c_b = model.capacitance_void, model.capacitance_series
         c_field = c_b * h
-    k = void_voltage_ratio(c_b, c_c)
+    k = void_voltage_ratio(c_b, c_c) if math.isfinite(c_b) else math.nan
     if isinstance(model, NetworkModel):
         gain_field = k / h  # void field per applied volt
         refs += ["gemant1932", "kreuger1989"]

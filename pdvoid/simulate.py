@@ -7,7 +7,7 @@ from collections.abc import Callable
 import numpy as np
 
 from . import __version__
-from .errors import InputError, check_int
+from .errors import InputError, check_int, check_range
 from .events import Events
 from .kernels import void_events as K
 from .models import kernel_arguments
@@ -16,11 +16,12 @@ from .results import Histogram, Result
 from .scenario import Scenario
 from .waveform import evaluate
 
-__all__ = ["simulate", "MAX_CYCLES"]
+__all__ = ["simulate", "VoidRunner", "MAX_CYCLES"]
 
 MAX_CYCLES = 10**9
 _BUFFER_EVENTS = 1 << 18  # events per kernel call when events are stored (grows by calls, not by copying)
-_MAX_STORED_EVENTS = 50_000_000  # about 1.6 GB of event arrays: beyond this use histogram mode
+_MAX_STORED_EVENTS = 50_000_000
+_MAX_EVENTS_PER_CYCLE = 1_000_000  # about 1.6 GB of event arrays: beyond this use histogram mode
 
 
 def _default_charge_edges(args) -> np.ndarray:
@@ -28,6 +29,75 @@ def _default_charge_edges(args) -> np.ndarray:
     q0 = abs(args.charge_per_unit * (args.x_inc - args.x_res))
     mags = np.geomspace(q0 * 1e-3, q0 * 10.0, 26)
     return np.concatenate([-mags[::-1], mags])
+
+
+class VoidRunner:
+    """A void that keeps its state (deposited charge, emission memory, generator) between runs, so the applied
+    voltage can change from one run to the next, as in a stepped voltage test.
+
+    The generator is numba's (process-global per thread): run one VoidRunner at a time per thread, or the
+    streams interleave and runs are no longer reproducible.
+
+    Args:
+        scenario: the void and its supply; ``run(scale=...)`` multiplies the supply waveform.
+        seed: seed of the random generator [-].
+    """
+
+    def __init__(self, scenario: Scenario, seed: int = 0, *, _args=None) -> None:
+        if not isinstance(scenario, Scenario):
+            raise InputError(f"scenario must be a pdvoid.Scenario; got {type(scenario).__name__}")
+        self.scenario = scenario
+        self.seed = check_seed(seed)
+        self.args = kernel_arguments(scenario) if _args is None else _args
+        self.state = np.zeros(K.STATE_SIZE)
+        self.state[K.S_TLAST] = -np.inf
+        self.totals = np.zeros(K.TOTALS_SIZE)
+        self.cycle = 0
+        K.seed_generator(self.seed)
+        if not self.args.lag_free:
+            K.start_wait(self.state)
+
+    def run(self, cycles: int, *, scale: float = 1.0, store: bool = True, counts=None, charge_edges=None):
+        """Advance ``cycles`` whole cycles with the supply multiplied by ``scale`` [-].
+
+        Returns (time [s], charge [C], field_before [V/m], field_after [V/m], voltage [V]) of the new events
+        (empty arrays when ``store`` is False; the running sums in ``totals`` and ``counts`` still grow)."""
+        cycles = check_int("cycles", cycles, 1, MAX_CYCLES)
+        scale = check_range("scale", scale, 0.0, 1e3)
+        a = self.args
+        bound = a.max_events_per_cycle(scale)
+        if counts is None:
+            counts = np.zeros((0, 1), dtype=np.int64)
+            charge_edges = np.array([0.0, 1.0])
+        if bound > _MAX_EVENTS_PER_CYCLE:
+            raise InputError(
+                f"this scenario could produce up to {bound} discharges per cycle (residual field too close to the "
+                "inception field for the applied voltage); lower model.residual_ratio or the voltage"
+            )
+        cap = min(bound * cycles, max(4 * _BUFFER_EVENTS, bound)) if store else 0
+        pieces = []
+        stop = self.cycle + cycles
+        a_coef, b_coef = a.a_coef * scale, a.b_coef * scale
+        while self.cycle < stop:
+            bt, bq, bb, ba = (np.empty(cap) for _ in range(4))
+            n, nxt = K.run_cycles(
+                self.state, self.cycle, stop, a.frequency, a.orders, a_coef, b_coef, a.seg_fracs, a.pure_sine,
+                a.gain, a.x_inc, a.x_res, a.charge_per_unit, a.lag_free, a.n_vol, a.n_same, a.n_rev, a.tau_s,
+                a.field_assisted, a.tau_q, store, bt, bq, bb, ba, bound, counts, charge_edges, self.totals,
+            )
+            if n < 0 or nxt == self.cycle:
+                raise RuntimeError("internal error: the event bound per cycle was exceeded; please report this")
+            if store:
+                pieces.append((bt[:n].copy(), bq[:n].copy(), bb[:n].copy(), ba[:n].copy()))
+            self.cycle = nxt
+        if not pieces:
+            e = np.empty(0)
+            return e, e, e, e, e
+        t, q, xb, xa = (np.concatenate(p) for p in zip(*pieces, strict=True))
+        f = a.frequency
+        frac = t * f - np.floor(t * f)
+        v = evaluate(frac, a.orders, a_coef, b_coef) if t.size else np.empty(0)
+        return t, q, xb * a.x_to_field, xa * a.x_to_field, v
 
 
 def simulate(
@@ -67,13 +137,7 @@ def simulate(
     if not isinstance(histogram, bool):
         raise InputError(f"histogram must be True or False; got {histogram!r}")
     args = kernel_arguments(scenario)
-    bound = args.max_events_per_cycle()
-    if bound > 10_000_000:
-        raise InputError(
-            f"this scenario could produce up to {bound} discharges per cycle (residual field too close to the "
-            "inception field for the applied voltage); raise model.residual_ratio's distance from 1 or lower "
-            "the voltage"
-        )
+    bound = args.max_events_per_cycle(1.0)
     if histogram:
         phase_bins = check_int("phase_bins", phase_bins, 1, 3600)
         edges = _default_charge_edges(args) if charge_edges is None else np.asarray(charge_edges, dtype=float)
@@ -89,54 +153,36 @@ def simulate(
         chunk_cycles = max(1, min(cycles, _BUFFER_EVENTS // max(bound, 1), 100_000))
     chunk_cycles = check_int("chunk_cycles", chunk_cycles, 1, MAX_CYCLES)
 
-    state = np.zeros(K.STATE_SIZE)
-    state[K.S_TLAST] = -np.inf
-    totals = np.zeros(K.TOTALS_SIZE)
-    K.seed_generator(seed)
-    if not args.lag_free:
-        K.start_wait(state)
-    cap = max(bound * min(chunk_cycles, cycles), 16) if not histogram else 0
+    runner = VoidRunner(scenario, seed, _args=args)
     pieces: list[tuple[np.ndarray, ...]] = []
     stored = 0
-    done = 0
-    while done < cycles:
-        stop = min(cycles, done + chunk_cycles)
-        bt = np.empty(cap)
-        bq = np.empty(cap)
-        bb = np.empty(cap)
-        ba = np.empty(cap)
-        n, nxt = K.run_cycles(
-            state, done, stop, args.frequency, args.orders, args.a_coef, args.b_coef, args.seg_fracs,
-            args.pure_sine, args.gain, args.x_inc, args.x_res, args.charge_per_unit, args.lag_free, args.n_vol,
-            args.n_same, args.n_rev, args.tau_s, args.field_assisted, args.tau_q, not histogram, bt, bq, bb, ba,
-            bound, counts, edges, totals,
-        )
-        if n < 0:
-            raise RuntimeError("internal error: the event bound per cycle was exceeded; please report this")
+    while runner.cycle < cycles:
+        stop = min(cycles, runner.cycle + chunk_cycles)
+        piece = runner.run(stop - runner.cycle, store=not histogram, counts=counts, charge_edges=edges)
         if not histogram:
-            pieces.append((bt[:n].copy(), bq[:n].copy(), bb[:n].copy(), ba[:n].copy()))
-            stored += n
+            pieces.append(piece)
+            stored += piece[0].size
             if stored > _MAX_STORED_EVENTS:
                 raise InputError(
                     f"more than {_MAX_STORED_EVENTS} events would be stored; use simulate(..., histogram=True)"
                 )
-        done = nxt
         if progress is not None:
-            progress(done, cycles)
+            progress(runner.cycle, cycles)
         if should_stop is not None and should_stop():
             break
+    done = runner.cycle
+    totals = runner.totals
 
     if pieces:
-        t, q, xb, xa = (np.concatenate(p) for p in zip(*pieces, strict=True))
+        t, q, xb, xa, v = (np.concatenate(p) for p in zip(*pieces, strict=True))
     else:
-        t = q = xb = xa = np.empty(0)
+        t = q = xb = xa = v = np.empty(0)
     f = args.frequency
     frac = t * f - np.floor(t * f)
     phase = np.minimum(frac * 360.0, np.nextafter(360.0, 0.0))
-    v = evaluate(frac, args.orders, args.a_coef, args.b_coef) if t.size else np.empty(0)
     events = Events(
         phase_deg=phase, charge=q, frequency=f, cycles=float(done), time=t, cycle=np.floor(t * f),
-        voltage=v, field_before=xb * args.x_to_field, field_after=xa * args.x_to_field, label="simulated",
+        voltage=v, field_before=xb, field_after=xa, label="simulated",
     )
     hist = None
     if histogram:

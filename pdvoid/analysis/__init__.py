@@ -1,0 +1,19 @@
+"""Reading discharge sequences: patterns, descriptors, magnitudes, pulse sequences, IEC 60270 quantities,
+inception studies and design margins."""
+
+from __future__ import annotations
+
+from .descriptors import fingerprint
+from .inception import inception, probability_of_missing, ramp_test
+from .magnitudes import weibull_fit
+from .margins import design_margin, largest_pd_free_void, margin_table
+from .patterns import half_cycle_distributions, magnitude_distribution, pattern
+from .quantities import iec60270, largest_repeated_magnitude
+from .sequence import pulse_sequence
+from .summary import run_summary
+
+__all__ = [
+    "pattern", "half_cycle_distributions", "magnitude_distribution", "fingerprint", "weibull_fit",
+    "pulse_sequence", "iec60270", "largest_repeated_magnitude", "inception", "ramp_test", "probability_of_missing",
+    "margin_table", "largest_pd_free_void", "design_margin", "run_summary",
+]

@@ -173,13 +173,13 @@ def _rate(t, pol, state, n_vol, n_same, n_rev, tau_s, field_assisted, x_inc,
     ns = _surface_level(pol, state[S_LASTPOL], n_same, n_rev)
     r = n_vol
     if ns > 0.0:
-        surf = ns
+        expo = 0.0
         if tau_s != math.inf:
-            surf *= math.exp(-(t - state[S_TLAST]) / tau_s)
+            expo = -(t - state[S_TLAST]) / tau_s
         if field_assisted:
             x = _x(t, gain, omega, orders, a_coef, b_coef, state[S_XQ0], state[S_TQ], tau_q)
-            surf *= math.exp(abs(x) / x_inc)
-        r += surf
+            expo += abs(x) / x_inc
+        r += ns * math.exp(expo)
     return r
 
 
@@ -218,12 +218,12 @@ def _invert_closed(t0, t1, need, ns, n_vol, tau_s, t_last):
 
 
 @njit_cached
-def _consume_window(t0, t1, pol, state, period, n_vol, n_same, n_rev, tau_s, field_assisted, x_inc,
+def _consume_window(t0, t1, x0, x1, pol, state, n_vol, n_same, n_rev, tau_s, field_assisted, x_inc,
                     gain, omega, orders, a_coef, b_coef, tau_q):
     """Spend the remaining hazard over the above-threshold window [t0, t1].
 
-    Returns the discharge time, or -1.0 when the window ends first (the hazard spent is subtracted from
-    state[S_REMAIN])."""
+    x0, x1 are |x| at t0 and t1. Returns the discharge time, or -1.0 when the window ends first (the hazard
+    spent is subtracted from state[S_REMAIN])."""
     need = state[S_REMAIN]
     ns = _surface_level(pol, state[S_LASTPOL], n_same, n_rev)
     if not field_assisted or ns == 0.0:
@@ -235,27 +235,36 @@ def _consume_window(t0, t1, pol, state, period, n_vol, n_same, n_rev, tau_s, fie
     # Field-assisted emission has no closed-form hazard: thinning (Lewis & Shedler 1979), exact in distribution.
     # Candidates come at a constant rate lam that bounds N(t) on a sub-window no longer than tau_s (the decay
     # factor is largest at the sub-window start; |x| is monotone on the window, so exp(|x|/x_inc) is largest at
-    # an end); a candidate at t is accepted with probability N(t)/lam.
+    # an end); a candidate at t is accepted with probability N(t)/lam. A lower bound of N on the sub-window
+    # accepts most candidates without evaluating N (a squeeze; the same draws, the same answer).
     t = t0
     t_last = state[S_TLAST]
     while t < t1:
         sub_end = t1
         if tau_s != math.inf and t + tau_s < t1:
             sub_end = t + tau_s
-        xa = abs(_x(t, gain, omega, orders, a_coef, b_coef, state[S_XQ0], state[S_TQ], tau_q))
-        xb = abs(_x(sub_end, gain, omega, orders, a_coef, b_coef, state[S_XQ0], state[S_TQ], tau_q))
-        lam = ns * math.exp(max(xa, xb) / x_inc)
+        xa = x0 if t == t0 else abs(_x(t, gain, omega, orders, a_coef, b_coef, state[S_XQ0], state[S_TQ], tau_q))
+        if sub_end == t1:
+            xb = x1
+        else:
+            xb = abs(_x(sub_end, gain, omega, orders, a_coef, b_coef, state[S_XQ0], state[S_TQ], tau_q))
+        hi = max(xa, xb) / x_inc
+        lo = min(xa, xb) / x_inc
         if tau_s != math.inf:
-            lam *= math.exp(-(t - t_last) / tau_s)
-        lam += n_vol
+            hi -= (t - t_last) / tau_s
+            lo -= (sub_end - t_last) / tau_s
+        lam = n_vol + ns * math.exp(hi)
+        floor = n_vol + ns * math.exp(lo)
         while True:
             t += np.random.exponential(1.0) / lam
             if t >= sub_end:
                 t = sub_end
                 break
-            r = _rate(t, pol, state, n_vol, n_same, n_rev, tau_s, field_assisted, x_inc,
-                      gain, omega, orders, a_coef, b_coef, tau_q)
-            if np.random.random() * lam <= r:
+            u = np.random.random() * lam
+            if u <= floor:
+                return t
+            if u <= _rate(t, pol, state, n_vol, n_same, n_rev, tau_s, field_assisted, x_inc,
+                          gain, omega, orders, a_coef, b_coef, tau_q):
                 return t
     return -1.0
 
@@ -384,6 +393,8 @@ def run_cycles(
                     if t_out > t:
                         inside = True
                         t_in = t
+                        x_in = abs(xt)
+                        x_out = abs(xe) if t_out == piece_end else x_inc
                 leaving = False
                 if not inside:
                     # heading for the threshold of the polarity x is moving towards
@@ -399,11 +410,13 @@ def run_cycles(
                         t_in = _root_x(pol * x_inc, t, piece_end, gain, omega, orders, a_coef, b_coef,
                                        xq0, tq, tau_q)
                     t_out = piece_end
+                    x_in = x_inc
+                    x_out = abs(xe)
                 # when does the discharge happen inside the window?
                 if lag_free:
                     t_d = t_in
                 else:
-                    t_d = _consume_window(t_in, t_out, pol, state, period, n_vol, n_same, n_rev, tau_s,
+                    t_d = _consume_window(t_in, t_out, x_in, x_out, pol, state, n_vol, n_same, n_rev, tau_s,
                                           field_assisted, x_inc, gain, omega, orders, a_coef, b_coef, tau_q)
                     if t_d < 0.0:
                         if t_out >= piece_end:

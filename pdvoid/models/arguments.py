@@ -36,12 +36,13 @@ class KernelArguments:
     x_to_field: float
     references: tuple[str, ...]
 
-    def max_events_per_cycle(self) -> int:
-        """An upper bound on discharges in one cycle (each discharge lowers |x| by at least x_inc - x_res;
-        on every monotone piece x travels at most the swing of g·V plus the decay of the deposited part)."""
+    def max_events_per_cycle(self, scale: float = 1.0) -> int:
+        """An upper bound on discharges in one cycle with the supply multiplied by ``scale`` (each discharge
+        lowers |x| by at least x_inc - x_res; on every monotone piece x travels at most the swing of g·V plus
+        the decay of the deposited part)."""
         from ..waveform import evaluate
 
-        v = evaluate(self.seg_fracs, self.orders, self.a_coef, self.b_coef)
+        v = scale * evaluate(self.seg_fracs, self.orders, self.a_coef, self.b_coef)
         swing = abs(self.gain) * float(np.sum(np.abs(np.diff(v))))
         vmax = abs(self.gain) * float(np.max(np.abs(v)))
         pieces = self.seg_fracs.size - 1
