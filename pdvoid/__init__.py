@@ -8,13 +8,6 @@ from __future__ import annotations
 
 __version__ = "0.1.0"
 
-from .errors import InputError  # noqa: E402
-from .events import Events  # noqa: E402
-from .parameters import FieldModel, Insulation, NetworkModel, Periodic, Sine, Void
-from .references import cite  # noqa: E402
-from .results import Result, load  # noqa: E402
-from .scenario import Scenario  # noqa: E402
-from .simulate import simulate  # noqa: E402
 from .analysis import (  # noqa: E402
     design_margin,
     fingerprint,
@@ -26,6 +19,13 @@ from .analysis import (  # noqa: E402
     pulse_sequence,
     weibull_fit,
 )
+from .errors import InputError  # noqa: E402
+from .events import Events  # noqa: E402
+from .parameters import FieldModel, Insulation, NetworkModel, Periodic, Sine, Void
+from .references import cite  # noqa: E402
+from .results import Result, load  # noqa: E402
+from .scenario import Scenario  # noqa: E402
+from .simulate import simulate  # noqa: E402
 
 __all__ = [
     "InputError", "cite", "__version__", "Events", "Insulation", "Void", "Sine", "Periodic", "FieldModel",
