@@ -1,0 +1,244 @@
+"""The design-review pack: the PDF, its pages and texts, the figures, the sensitivity numbers, the CLI."""
+
+from __future__ import annotations
+
+import argparse
+import math
+import re
+
+import matplotlib
+
+matplotlib.use("Agg")
+
+import numpy as np  # noqa: E402
+import pytest  # noqa: E402
+
+import pdvoid  # noqa: E402
+from pdvoid import InputError  # noqa: E402
+from pdvoid.analysis.inception import inception  # noqa: E402
+from pdvoid.cli_report import register  # noqa: E402
+from pdvoid.report import SAFETY_NOTE, at_voltage, design_review, sensitivity  # noqa: E402
+
+SAFETY_WORDS = (
+    "high voltage can kill",
+    "engineering estimates",
+    "applicable standards",
+    "local codes and licensed practice prevail",
+)
+
+
+def _flat(text: str) -> str:
+    """Page text with the line breaks of wrapped paragraphs and table cells removed."""
+    return " ".join(text.split())
+
+
+def _pdf_pages(path) -> int:
+    """Pages of a PDF: pypdf when installed, else the page objects (/Type /Page, not /Pages)."""
+    try:
+        from pypdf import PdfReader
+    except ImportError:
+        return len(re.findall(rb"/Type\s*/Page\b", path.read_bytes()))
+    return len(PdfReader(str(path)).pages)
+
+
+def _pdf_text(path) -> str | None:
+    try:
+        from pypdf import PdfReader
+    except ImportError:
+        return None
+    return "\n".join(p.extract_text() for p in PdfReader(str(path)).pages)
+
+
+@pytest.fixture(scope="module")
+def demo_pack(tmp_path_factory):
+    from pdvoid.cli import demo_scenario
+
+    out = tmp_path_factory.mktemp("pack") / "review.pdf"
+    return design_review(
+        demo_scenario(), test_voltage=18e3, service_voltage=8e3, cycles=200, seed=1, out=out, figures="png"
+    )
+
+
+def test_pdf_written_with_all_pages(demo_pack):
+    assert demo_pack.path.exists() and demo_pack.path.read_bytes()[:5] == b"%PDF-"
+    assert _pdf_pages(demo_pack.path) == demo_pack.pages
+    titles = demo_pack.page_titles
+    assert titles[0].startswith("Design review")
+    for needed in (
+        "Margin chart",
+        "Void field against time",
+        "Phase-resolved pattern",
+        "Sensitivity",
+        "Assumptions and validity limits",
+        "References",
+    ):
+        assert sum(t.startswith(needed) for t in titles) == 1, needed
+    assert 7 <= demo_pack.pages <= 9  # summary may continue on a second page
+
+
+def test_safety_note_on_first_and_last_page(demo_pack):
+    first, last = _flat(demo_pack.page_texts[0]).lower(), _flat(demo_pack.page_texts[-1]).lower()
+    for words in SAFETY_WORDS:
+        assert words in first and words in last
+    assert all("high voltage can kill" in t for t in demo_pack.page_texts)  # the footer of every page
+    text = _pdf_text(demo_pack.path)
+    if text is not None:  # a PDF text library is installed: check the file itself too
+        assert "high voltage can kill" in " ".join(text.lower().split())
+
+
+def test_summary_numbers_come_from_the_analysis(demo_pack):
+    from pdvoid.cli import demo_scenario
+
+    # the pack prints the analysis' numbers (pdvoid.analysis.inception; both criteria) and the margin
+    est = inception(demo_scenario())
+    page = _flat(demo_pack.page_texts[0] + "\n" + demo_pack.page_texts[1])
+    for v in (est.inception_voltage_streamer, est.inception_voltage_integral, est.extinction_voltage):
+        assert f"{v / 1e3:.3g}" in page
+    assert demo_pack.margin == pytest.approx(est.inception_voltage / 18e3)
+    assert f"{demo_pack.margin:.2f}: inception" in page
+    # material and gas data appear with their status (pdvoid.materials)
+    assert "epoxy_silica_filled" in page and "from memory" in page and "air: critical reduced field" in page
+    # the references page lists what the run used (pdvoid.cite)
+    refs = demo_pack.page_texts[-1]
+    for key in demo_pack.result.references:
+        assert f"[{key}]" in refs
+
+
+def test_figures_next_to_the_pdf(demo_pack):
+    names = sorted(p.name for p in demo_pack.figures)
+    assert names == [
+        "review_field_time.png",
+        "review_margin.png",
+        "review_pattern.png",
+        "review_sensitivity.png",
+    ]
+    for p in demo_pack.figures:
+        assert p.parent == demo_pack.path.parent
+        assert p.read_bytes()[:4] == b"\x89PNG"
+
+
+def test_pack_below_inception_svg_without_service(tmp_path, scenario_factory):
+    sc = scenario_factory()
+    u_inc = sc.coefficients().inception_voltage
+    pack = design_review(sc, test_voltage=0.8 * u_inc, cycles=20, out=tmp_path / "low.pdf", figures="svg")
+    assert _pdf_pages(pack.path) == pack.pages
+    assert pack.result.event_count == 0  # below inception nothing discharges (lag-free or not)
+    assert pack.margin == pytest.approx(1.25)
+    assert "expected to stay discharge-free" in _flat(pack.page_texts[0])
+    assert "service voltage" not in pack.page_texts[0]
+    assert all(p.suffix == ".svg" and p.read_bytes().lstrip().startswith(b"<?xml") for p in pack.figures)
+
+
+def test_sensitivity_follows_the_scalings(demo):
+    rows = {r.parameter: r for r in sensitivity(demo, 0.2)}
+    base = demo.coefficients()
+    t = rows["insulation.thickness"]
+    # spheroid in a uniform field: U_inc = E_inc·d/(f·peak factor) with E_inc and f independent of d, and the
+    # induced charge ∝ 1/d (physics brief §2.1 and §2.3, derived)
+    assert t.inception_high / base.inception_voltage == pytest.approx(1.2, rel=1e-12)
+    assert t.charge_low / base.charge_per_discharge == pytest.approx(1.0 / 0.8, rel=1e-12)
+    r = rows["model.residual_ratio"]
+    # the residual field changes only the charge: q ∝ E_inc − E_res = (1 − ratio)·E_inc (physics brief §2.3)
+    assert r.inception_low == r.inception_high == base.inception_voltage
+    assert r.charge_high / base.charge_per_discharge == pytest.approx((1 - 0.3) / (1 - 0.25), rel=1e-12)
+    assert len(rows) == 6
+
+
+def test_sensitivity_marks_invalid_variations(scenario_factory):
+    # a void of 5.5 mm height in 6 mm insulation: +20 % height is taller than the insulation (invalid)
+    sc = scenario_factory(height=5.5e-3, diameter=6e-3)
+    rows = {r.parameter: r for r in sensitivity(sc)}
+    assert math.isnan(rows["void.height"].inception_high) and math.isfinite(rows["void.height"].inception_low)
+    with pytest.raises(InputError, match="change"):
+        sensitivity(sc, 1.5)
+
+
+def test_at_voltage_scales_periodic_supplies(scenario_factory):
+    sc = scenario_factory()
+    wave = np.sin(2 * np.pi * np.arange(64) / 64) + 0.1 * np.sin(6 * np.pi * np.arange(64) / 64)
+    per = pdvoid.Scenario(insulation=sc.insulation, void=sc.void, supply=pdvoid.Periodic(samples=wave * 1e4))
+    assert at_voltage(per, 12e3).supply.rms == pytest.approx(12e3, rel=1e-12)
+    assert at_voltage(sc, 12e3).supply.rms == 12e3
+
+
+def test_bad_input(tmp_path, demo):
+    good = {"test_voltage": 18e3, "cycles": 10, "out": tmp_path / "r.pdf"}
+    with pytest.raises(InputError, match="scenario"):
+        design_review("demo.toml", **good)
+    for key, value, match in (
+        ("test_voltage", -1.0, "test_voltage"),
+        ("test_voltage", math.nan, "test_voltage"),
+        ("service_voltage", 0.0, "service_voltage"),
+        ("cycles", 0, "cycles"),
+        ("seed", -1, "seed"),
+        ("out", tmp_path / "r.png", ".pdf"),
+        ("out", tmp_path / "missing" / "r.pdf", "does not exist"),
+        ("figures", "jpg", "figures"),
+    ):
+        with pytest.raises(InputError, match=match):
+            design_review(demo, **{**good, key: value})
+    assert not (tmp_path / "r.pdf").exists()  # nothing written for bad input
+
+
+def _parser():
+    p = argparse.ArgumentParser(prog="pdvoid")
+    register(p.add_subparsers(dest="command", required=True))
+    return p
+
+
+def test_cli_report(tmp_path, capsys):
+    from pdvoid.cli import demo_scenario_path
+
+    out = tmp_path / "cli.pdf"
+    ns = _parser().parse_args(
+        [
+            "report",
+            str(demo_scenario_path()),
+            "--out",
+            str(out),
+            "--test-voltage",
+            "18kV",
+            "--service-voltage",
+            "8 kV",
+            "--cycles",
+            "50",
+            "--seed",
+            "2",
+            "--figures",
+            "png",
+        ]
+    )
+    assert ns.func(ns) == 0
+    text = capsys.readouterr().out
+    assert out.exists() and f"wrote {out}" in text and SAFETY_NOTE in text
+    assert (tmp_path / "cli_margin.png").exists()
+
+
+def test_cli_report_bad_voltage(tmp_path):
+    from pdvoid.cli import demo_scenario_path
+
+    ns = _parser().parse_args(
+        [
+            "report",
+            str(demo_scenario_path()),
+            "--out",
+            str(tmp_path / "x.pdf"),
+            "--test-voltage",
+            "18 furlong",
+        ]
+    )
+    with pytest.raises(InputError, match="--test-voltage"):
+        ns.func(ns)
+    with pytest.raises(SystemExit):
+        _parser().parse_args(["report", "x.toml"])  # --test-voltage is required
+
+
+def test_cli_main_when_hooked(tmp_path, capsys):
+    from pdvoid import cli
+
+    if "report" not in cli.build_parser().format_help():
+        pytest.skip("pdvoid.cli does not register the report command yet")
+    code = cli.main(
+        ["report", str(cli.demo_scenario_path()), "--out", str(tmp_path / "m.pdf"), "--test-voltage=-5kV"]
+    )
+    assert code == 2 and "test_voltage" in capsys.readouterr().err
