@@ -26,9 +26,10 @@ from .references import cite  # noqa: E402
 from .results import Result, load  # noqa: E402
 from .scenario import Scenario  # noqa: E402
 from .simulate import simulate  # noqa: E402
+from .sweeps import sweep  # noqa: E402
 
 __all__ = [
     "InputError", "cite", "__version__", "Events", "Insulation", "Void", "Sine", "Periodic", "FieldModel",
     "NetworkModel", "Scenario", "simulate", "Result", "load", "pattern", "fingerprint", "iec60270", "inception",
-    "largest_pd_free_void", "margin_table", "design_margin", "pulse_sequence", "weibull_fit",
+    "largest_pd_free_void", "margin_table", "design_margin", "pulse_sequence", "weibull_fit", "sweep",
 ]

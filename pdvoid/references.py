@@ -106,6 +106,9 @@ REFERENCES: dict[str, Reference] = dict(
            "325-346", "from memory"),
         _r("lewis1979", "P. A. W. Lewis, G. S. Shedler, 'Simulation of nonhomogeneous Poisson processes by "
            "thinning', Naval Research Logistics Quarterly 26(3) (1979) 403-413", "from memory"),
+        _r("mckay1979", "M. D. McKay, R. J. Beckman, W. J. Conover, 'A comparison of three methods for selecting "
+           "values of input variables in the analysis of output from a computer code', Technometrics 21(2) (1979) "
+           "239-245", "from memory"),
         _r("codata2018", "E. Tiesinga et al., 'CODATA recommended values of the fundamental physical constants: "
            "2018', Rev. Mod. Phys. 93 (2021) 025010 (via scipy.constants)", "confirmed"),
         _r("lux_paschen", "J. Lux, notes on Paschen's law and the breakdown of air (web page, "

@@ -25,7 +25,7 @@ RANK = {
     "coefficients": 2, "scenario": 2, "scenario_files": 2, "kernels": 2,
     "models": 3,
     "simulate": 4, "results": 4,
-    "analysis": 5, "io": 5, "fields": 5, "sweep": 5, "data": 1,
+    "analysis": 5, "io": 5, "fields": 5, "sweeps": 5, "data": 1,
     "plots": 6,
     "report": 7, "workbench": 7, "cli": 7, "cli_analysis": 7, "cli_report": 7, "cli_sweep": 7,
 }

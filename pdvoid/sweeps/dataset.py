@@ -1,0 +1,183 @@
+"""Sweep outcomes → a labelled xarray Dataset (units in attributes), and its NetCDF file.
+
+Layout:
+
+- grid: one dimension per swept parameter, named by its dotted path ("void.diameter"), with the listed
+  values as coordinate; random/lhs: one dimension "point" (0..n-1) with each parameter's values as a
+  coordinate along it.
+- one float64 variable per metric, ``attrs["units"]`` SI ("1" = dimensionless); NaN where the point failed
+  or the metric is undefined there (the largest charge of a run without discharges);
+- "seed" (int32): the simulation seed of each point; "error" (text): why a point failed, "" where it ran.
+- dataset attributes: design, master seed, cycles, samples, parameters, the base scenario as TOML text,
+  the pdvoid version, the number of failed points.
+
+Everything in the Dataset fits NetCDF-3 (no 64-bit integers, no booleans in attributes), so
+``write_netcdf`` works with scipy alone.
+"""
+
+from __future__ import annotations
+
+import os
+import tomllib
+from collections.abc import Callable, Sequence
+from pathlib import Path
+
+import numpy as np
+
+from .. import __version__
+from ..errors import InputError
+from ..scenario import Scenario
+from ..scenario_files import scenario_from_dict, scenario_to_dict
+from .metrics import DESCRIPTIONS, RESERVED, split_key
+from .names import parameter_unit
+from .optional import require
+from .plan import Plan
+
+__all__ = ["assemble", "write_netcdf", "read_netcdf", "base_scenario"]
+
+COMMENT = (
+    "simulated with pdvoid: engineering estimates from idealised models; test and acceptance levels come "
+    "from the applicable standards"
+)
+SEEDING = (
+    "point i simulates with seed SeedSequence(seed).spawn(n)[i].generate_state(1)[0] >> 1; random/lhs "
+    "samples come from default_rng(SeedSequence(seed))"
+)
+
+
+def _metric_order(
+    outcomes: Sequence[tuple[dict, str]], names: Sequence[str]
+) -> dict[str, tuple[str, str | None]]:
+    """key -> (variable, unit), in order of first appearance; clashes are InputError."""
+    seen: dict[str, tuple[str, str | None]] = {}
+    taken = {v: "a swept parameter" for v in names} | {v: "reserved" for v in RESERVED}
+    for values, _ in outcomes:
+        for key in values:
+            if key in seen:
+                continue
+            var, unit = split_key(key)
+            if var in taken:
+                raise InputError(f"metric {key!r} gives the variable name {var!r}, which is {taken[var]}")
+            taken[var] = f"the variable of metric {key!r}"
+            seen[key] = (var, unit)
+    return seen
+
+
+def assemble(
+    plan: Plan,
+    outcomes: Sequence[tuple[dict[str, float], str]],
+    *,
+    scenario: Scenario,
+    cycles: int,
+    metrics: Callable | None = None,
+):
+    """Build the sweep Dataset from the plan and one (metrics, error) outcome per point (flat, plan order)."""
+    xr = require("xarray")
+    n = plan.n_points
+    if len(outcomes) != n:
+        raise InputError(f"expected {n} outcomes (one per point); got {len(outcomes)}")
+    order = _metric_order(outcomes, plan.names)
+    if plan.design == "grid":
+        dims = plan.names
+        coords = {name: (name, plan.axes[name], _param_attrs(name, scenario, plan)) for name in plan.names}
+    else:
+        dims = ("point",)
+        coords = {"point": ("point", np.arange(n, dtype=np.int32), {"long_name": "sweep point"})}
+        coords |= {
+            name: ("point", plan.values[name], _param_attrs(name, scenario, plan)) for name in plan.names
+        }
+    data = {}
+    for key, (var, unit) in order.items():
+        arr = np.full(n, np.nan)
+        for i, (values, _) in enumerate(outcomes):
+            if key in values:
+                arr[i] = values[key]
+        attrs = {"long_name": DESCRIPTIONS.get(var, var.replace("_", " "))}
+        if unit is not None:
+            attrs["units"] = unit
+        data[var] = (dims, arr.reshape(plan.shape), attrs)
+    errors = [err for _, err in outcomes]
+    data["seed"] = (dims, plan.seeds.reshape(plan.shape), {"long_name": DESCRIPTIONS["seed"], "units": "1"})
+    data["error"] = (
+        dims,
+        np.array(errors, dtype=str).reshape(plan.shape),
+        {"long_name": DESCRIPTIONS["error"]},
+    )
+    attrs = {
+        "title": "pdvoid parameter sweep",
+        "design": plan.design,
+        "seed": int(plan.seed),
+        "cycles": int(cycles),
+        "parameters": ", ".join(plan.names),
+        "points": int(n),
+        "failed_points": int(sum(1 for e in errors if e)),
+        "metrics": "default" if metrics is None else getattr(metrics, "__qualname__", repr(metrics)),
+        "seeding": SEEDING,
+        "scenario_toml": _scenario_text(scenario),
+        "pdvoid_version": __version__,
+        "comment": COMMENT,
+    }
+    if plan.design != "grid":
+        attrs["samples"] = int(n)
+    return xr.Dataset(data, coords=coords, attrs=attrs)
+
+
+def _param_attrs(name: str, scenario: Scenario, plan: Plan) -> dict:
+    attrs: dict = {"long_name": f"swept parameter {name}"}
+    unit = parameter_unit(name, scenario)
+    if unit is not None:
+        attrs["units"] = unit
+    if name in plan.bounds:
+        low, high = plan.bounds[name]
+        attrs["sampled_low"] = float(low)
+        attrs["sampled_high"] = float(high)
+        attrs["sampling"] = ("log-uniform" if name in plan.log_scale else "uniform") + (
+            ", Latin hypercube" if plan.design == "lhs" else ", independent"
+        )
+    return attrs
+
+
+def _scenario_text(scenario: Scenario) -> str:
+    import tomli_w
+
+    return tomli_w.dumps(scenario_to_dict(scenario))
+
+
+def base_scenario(ds) -> Scenario:
+    """The scenario a sweep Dataset started from (its points are ``base_scenario(ds).replace(...)``)."""
+    text = getattr(ds, "attrs", {}).get("scenario_toml")
+    if not isinstance(text, str):
+        raise InputError("this Dataset has no 'scenario_toml' attribute: it was not made by pdvoid.sweeps")
+    return scenario_from_dict(tomllib.loads(text), source="sweep dataset attribute scenario_toml")
+
+
+def write_netcdf(ds, path: str | os.PathLike, *, engine: str = "scipy") -> Path:
+    """Write the sweep Dataset to a NetCDF file.
+
+    Args:
+        ds: a Dataset from :func:`pdvoid.sweeps.sweep`.
+        path: file to write.
+        engine: xarray backend; "scipy" (default, no extra package) writes NetCDF-3 classic, readable by every
+            NetCDF tool; "netcdf4" or "h5netcdf" write NetCDF-4 if those packages are installed.
+    """
+    xr = require("xarray")
+    if not isinstance(ds, xr.Dataset):
+        raise InputError(f"ds must be an xarray.Dataset; got {type(ds).__name__}")
+    p = Path(path)
+    try:
+        ds.to_netcdf(p, engine=engine)
+    except OSError as exc:
+        raise InputError(f"{p}: cannot write NetCDF file ({exc.strerror or exc})") from None
+    return p
+
+
+def read_netcdf(path: str | os.PathLike, *, engine: str | None = None):
+    """Read a sweep NetCDF file fully into memory (the file is closed on return)."""
+    xr = require("xarray")
+    p = Path(path)
+    if not p.is_file():
+        raise InputError(f"{p}: no such file")
+    ds = xr.load_dataset(p, engine=engine)
+    if "error" in ds:
+        ds["error"] = ds["error"].astype(str)  # NetCDF-3 text comes back as objects
+    return ds

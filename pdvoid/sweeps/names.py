@@ -1,0 +1,65 @@
+"""What a swept parameter is: its dimension and SI unit, read from the scenario-file schema; value parsing."""
+
+from __future__ import annotations
+
+from dataclasses import fields
+
+from ..errors import InputError
+from ..parameters import Sine
+from ..scenario import Scenario, with_changes
+
+# The scenario-file schema is the one table of parameter dimensions and SI units; it is private to
+# scenario_files, which exposes no accessor yet (asked for in the sweep report).
+from ..scenario_files import _DIMS, _quantity
+
+__all__ = ["check_parameter_names", "parameter_dimension", "parameter_unit", "parse_parameter_value"]
+
+
+def _schema_key(name: str, scenario: Scenario) -> tuple[str, str]:
+    part, field = name.split(".")
+    if part == "supply":
+        part = "sine" if isinstance(scenario.supply, Sine) else "periodic"
+    return part, field
+
+
+def check_parameter_names(scenario: Scenario, names) -> None:
+    """Raise InputError unless every dotted name is a field of ``scenario`` (checked before any run)."""
+    for name in names:
+        if not isinstance(name, str) or name.count(".") != 1:
+            raise InputError(f"parameter names look like 'void.diameter'; got {name!r}")
+        part, field = name.split(".")
+        obj = getattr(scenario, part, None) if part in ("insulation", "void", "supply", "model") else None
+        if obj is None:
+            raise InputError(f"{name!r}: the part must be insulation, void, supply or model")
+        if field not in {f.name for f in fields(obj)}:
+            raise InputError(f"{name!r}: {type(obj).__name__} has no field {field!r}")
+    # the same path Scenario.replace takes, with the current values: catches anything the loop above missed
+    with_changes(scenario, {n: getattr(getattr(scenario, n.split(".")[0]), n.split(".")[1]) for n in names})
+
+
+def parameter_dimension(name: str, scenario: Scenario) -> str | None:
+    """The physical dimension of a dotted parameter ("length", "pressure", ...), None for text/flags/lists."""
+    part, field = _schema_key(name, scenario)
+    entry = _DIMS.get(part, {}).get(field)
+    return None if entry is None else entry[0]
+
+
+def parameter_unit(name: str, scenario: Scenario) -> str | None:
+    """The SI unit of a dotted parameter as written in files ("m", "Pa", "1/s"; "1" for dimensionless), or
+    None for parameters that are not quantities (text, flags, lists)."""
+    part, field = _schema_key(name, scenario)
+    entry = _DIMS.get(part, {}).get(field)
+    if entry is None or entry[0] is None:
+        return None
+    return entry[1] or "1"
+
+
+def parse_parameter_value(name: str, value: object, scenario: Scenario, where: str) -> object:
+    """A parameter value from a sweep file: a quantity ("1.5 mm", "1 atm", bare numbers are SI) → SI float;
+    text or True/False for the parameters that are not quantities. ``where`` prefixes error messages."""
+    dim = parameter_dimension(name, scenario)
+    if dim is None:
+        if isinstance(value, (str, bool, int)):
+            return value
+        raise InputError(f"{where}: {name} takes text, a whole number or true/false; got {value!r}")
+    return _quantity(value, dim, where)

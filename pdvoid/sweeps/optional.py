@@ -1,0 +1,48 @@
+"""The one door for optional dependencies: import them by name, or say which extra to install."""
+
+from __future__ import annotations
+
+import importlib
+from types import ModuleType
+
+__all__ = ["MissingDependencyError", "require", "available"]
+
+# module -> the pip extra of pdvoid that brings it
+_EXTRA = {
+    "xarray": "sweep",
+    "dask": "sweep",
+    "distributed": "sweep",
+    "tqdm": "sweep",
+    "tqdm.auto": "sweep",
+    "joblib": "sweep",
+}
+
+
+class MissingDependencyError(ImportError):
+    """An optional package that this feature needs is not installed.
+
+    A subclass of ImportError (not of InputError: the input was fine, the installation lacks a package), so
+    ``except ImportError`` catches it. The message names the package and the extra to install.
+    """
+
+
+def require(module: str, *, feature: str = "parameter sweeps") -> ModuleType:
+    """Import ``module`` or raise :class:`MissingDependencyError` naming the extra, e.g. ``pdvoid[sweep]``."""
+    try:
+        return importlib.import_module(module)
+    except ImportError as exc:
+        extra = _EXTRA.get(module, "all")
+        top = module.split(".")[0]
+        raise MissingDependencyError(
+            f"{feature} need the optional package {top!r}, which is not installed ({exc}); "
+            f'install it with: pip install "pdvoid[{extra}]"'
+        ) from exc
+
+
+def available(module: str) -> bool:
+    """True when ``module`` can be imported (it is imported to find out)."""
+    try:
+        importlib.import_module(module)
+    except ImportError:
+        return False
+    return True
