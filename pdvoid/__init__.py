@@ -21,6 +21,7 @@ from .analysis import (  # noqa: E402
 )
 from .errors import InputError  # noqa: E402
 from .events import Events  # noqa: E402
+from .io import read_events  # noqa: E402
 from .parameters import FieldModel, Insulation, NetworkModel, Periodic, Sine, Void
 from .references import cite  # noqa: E402
 from .results import Result, load  # noqa: E402
@@ -31,5 +32,5 @@ from .sweeps import sweep  # noqa: E402
 __all__ = [
     "InputError", "cite", "__version__", "Events", "Insulation", "Void", "Sine", "Periodic", "FieldModel",
     "NetworkModel", "Scenario", "simulate", "Result", "load", "pattern", "fingerprint", "iec60270", "inception",
-    "largest_pd_free_void", "margin_table", "design_margin", "pulse_sequence", "weibull_fit", "sweep",
+    "largest_pd_free_void", "margin_table", "design_margin", "pulse_sequence", "weibull_fit", "sweep", "read_events",
 ]

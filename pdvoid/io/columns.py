@@ -1,0 +1,241 @@
+"""Column names and units of event files: ``"name [unit]"`` header fields, options, and conversion to SI.
+
+Recognised column names (case-insensitive; spaces and underscores are the same):
+
+========================  ==============================  ===================================
+name (synonyms)           meaning                          units accepted
+========================  ==============================  ===================================
+phase (phase angle)       phase from the positive-going    deg, rad
+                          zero crossing of the voltage
+charge (apparent charge)  apparent charge, signed          C, nC, pC, fC
+time                      time from the start of the       s, ms, us (or µs), ns
+                          observation
+cycle (cycle index)       index of the AC cycle            - (or no unit, or 1)
+voltage (applied voltage) instantaneous applied voltage    V, kV, MV
+field_before, field_after void field before/after a PD     V/m, kV/mm, kV/cm, MV/m
+skip                      a column to read and ignore      any
+========================  ==============================  ===================================
+
+A unit goes in square brackets (``charge [pC]``) or round brackets (``charge (pC)``).
+"""
+
+from __future__ import annotations
+
+import re
+from collections.abc import Mapping, Sequence
+from dataclasses import dataclass
+
+from ..errors import InputError
+from ..units import UNITS
+
+__all__ = [
+    "Column",
+    "COLUMN_UNITS",
+    "checked_column",
+    "parse_column",
+    "resolve_columns",
+    "column_label",
+    "SI_UNITS",
+]
+
+#: column name -> units accepted (the conversion factors come from :data:`pdvoid.units.UNITS`)
+COLUMN_UNITS: dict[str, tuple[str, ...]] = {
+    "phase": ("deg", "rad"),
+    "charge": ("C", "nC", "pC", "fC"),
+    "time": ("s", "ms", "us", "µs", "ns"),
+    "cycle": ("-",),
+    "voltage": ("V", "kV", "MV"),
+    "field_before": ("V/m", "kV/mm", "kV/cm", "MV/m"),
+    "field_after": ("V/m", "kV/mm", "kV/cm", "MV/m"),
+}
+#: the unit each column is written in by pdvoid's writers (SI; phase in degrees)
+SI_UNITS: dict[str, str] = {
+    "phase": "deg",
+    "charge": "C",
+    "time": "s",
+    "cycle": "-",
+    "voltage": "V",
+    "field_before": "V/m",
+    "field_after": "V/m",
+}
+_SYNONYMS = {
+    "phase": "phase",
+    "phase angle": "phase",
+    "charge": "charge",
+    "apparent charge": "charge",
+    "time": "time",
+    "cycle": "cycle",
+    "cycle index": "cycle",
+    "voltage": "voltage",
+    "applied voltage": "voltage",
+    "field before": "field_before",
+    "field after": "field_after",
+    "skip": "skip",
+}
+_FIELD = re.compile(r"^\s*([A-Za-z][A-Za-z0-9_ ]*?)\s*(?:[\[(]\s*([^\[\]()]*?)\s*[\])])?\s*$")
+
+
+@dataclass(frozen=True)
+class Column:
+    """One column: canonical ``name``, ``unit`` (None if not given), ``factor`` to SI (None if unknown)."""
+
+    name: str
+    unit: str | None
+
+    @property
+    def factor(self) -> float:
+        if self.name == "cycle" or self.name == "skip":
+            return 1.0
+        return UNITS[self.unit][1] if self.unit is not None else float("nan")
+
+
+def column_label(name: str, unit: str | None = None) -> str:
+    """``"charge [pC]"``: the header text of a column."""
+    return f"{name} [{unit if unit is not None else SI_UNITS[name]}]"
+
+
+def _unit(name: str, unit: str | None, where: str) -> str | None:
+    if unit is None or name == "skip":
+        return unit
+    u = unit.strip()
+    if name == "cycle":
+        if u in ("", "-", "1"):
+            return "-"
+        raise InputError(f"{where}: the cycle column is a whole number without unit ('-'); got unit {unit!r}")
+    if u == "":
+        return None
+    if u not in COLUMN_UNITS[name]:
+        raise InputError(
+            f"{where}: unit {unit!r} is not accepted for column {name!r}; accepted: "
+            f"{', '.join(COLUMN_UNITS[name])}"
+        )
+    return u
+
+
+def checked_column(name: str, unit: str, where: str) -> Column:
+    """A :class:`Column` for a canonical ``name`` with a ``unit`` that column accepts."""
+    if name not in COLUMN_UNITS:
+        raise InputError(f"{where}: unknown column {name!r}; known: {', '.join(COLUMN_UNITS)}")
+    u = _unit(name, unit, where)
+    if u is None:
+        raise InputError(f"{where}: column {name!r} needs a unit (accepted: {', '.join(COLUMN_UNITS[name])})")
+    return Column(name, u)
+
+
+def parse_column(text: object, where: str) -> Column:
+    """Parse ``"charge [pC]"``, ``"charge (pC)"`` or ``"charge"`` into a :class:`Column`."""
+    if not isinstance(text, str):
+        raise InputError(f"{where}: a column must be text like 'charge [pC]'; got {text!r}")
+    m = _FIELD.match(text)
+    if not m:
+        raise InputError(f"{where}: {text[:60]!r} is not a column name like 'charge [pC]'")
+    key = re.sub(r"[\s_]+", " ", m.group(1).strip().lower())
+    if key not in _SYNONYMS:
+        names = ", ".join(sorted(set(_SYNONYMS.values())))
+        raise InputError(
+            f"{where}: unknown column {m.group(1)!r}; known columns: {names} (use 'skip' to ignore a column)"
+        )
+    name = _SYNONYMS[key]
+    unit = m.group(2)
+    return Column(name, _unit(name, unit, where))
+
+
+def _as_list(columns: object, where: str) -> list[str]:
+    if isinstance(columns, str):
+        parts = [c for c in re.split(r"[,;\t]", columns)]
+    elif isinstance(columns, Sequence) and not isinstance(columns, (bytes, bytearray)):
+        parts = list(columns)
+    else:
+        raise InputError(
+            f"{where} must be a list of column names or a text like 'phase [deg],charge [pC]'; "
+            f"got {columns!r}"
+        )
+    if not parts:
+        raise InputError(f"{where} must name at least one column")
+    return parts
+
+
+def resolve_columns(
+    header: list[str] | None,
+    header_where: str,
+    columns: object,
+    units: object,
+) -> list[Column]:
+    """The columns of an event file from its header line and/or the ``columns`` and ``units`` options.
+
+    Rules: with both a header and ``columns``, the names must agree column by column, except that a
+    ``skip`` in ``columns`` accepts any header name (units may be given in either; where both give one,
+    they must agree). ``units`` ({name: unit}) supplies units missing from both;
+    it may not contradict a unit already given. Every column except cycle and skip needs a unit in the end.
+    Names may not repeat (except skip); charge and one of phase or time are required.
+    """
+    if columns is None:
+        cols = [parse_column(t, f"{header_where}, column {i}") for i, t in enumerate(header or [], 1)]
+    else:
+        given = [parse_column(t, f"columns[{i}]") for i, t in enumerate(_as_list(columns, "columns"))]
+        cols = given
+        if header is not None:
+            if len(header) != len(given):
+                raise InputError(
+                    f"{header_where}: the header has {len(header)} columns, but columns= gives {len(given)}"
+                )
+            cols = []
+            for i, (g, t) in enumerate(zip(given, header, strict=True), 1):
+                if g.name == "skip":  # a skipped column may carry any name in the header
+                    cols.append(g)
+                    continue
+                h = parse_column(t, f"{header_where}, column {i}")
+                if h.name != g.name:
+                    raise InputError(
+                        f"{header_where}: column {i} is {h.name!r} in the header, but columns= gives "
+                        f"{g.name!r}"
+                    )
+                if g.unit is not None and h.unit is not None and g.unit != h.unit:
+                    raise InputError(
+                        f"{header_where}: column {h.name!r} has unit {h.unit!r} in the header but "
+                        f"{g.unit!r} in columns="
+                    )
+                cols.append(Column(g.name, g.unit if g.unit is not None else h.unit))
+    if units is not None:
+        if not isinstance(units, Mapping):
+            raise InputError(
+                f"units must be a mapping {{column name: unit}}, e.g. {{'charge': 'pC'}}; got {units!r}"
+            )
+        names = {c.name for c in cols}
+        out = []
+        canon_units = {}
+        for k, v in units.items():
+            col = parse_column(k, "units")
+            if col.name not in names:
+                raise InputError(
+                    f"units names column {k!r}, which the file does not have (columns: "
+                    f"{[c.name for c in cols]})"
+                )
+            if not isinstance(v, str):
+                raise InputError(f"units[{k!r}] must be a unit text like 'pC'; got {v!r}")
+            canon_units[col.name] = _unit(col.name, v, f"units[{k!r}]")
+        for c in cols:
+            u = canon_units.get(c.name)
+            if u is not None and c.unit is not None and u != c.unit:
+                raise InputError(
+                    f"units gives {u!r} for column {c.name!r}, which already has unit {c.unit!r}"
+                )
+            out.append(Column(c.name, c.unit if c.unit is not None else u))
+        cols = out
+    seen = set()
+    for c in cols:
+        if c.name != "skip" and c.name in seen:
+            raise InputError(f"{header_where}: column {c.name!r} appears twice")
+        seen.add(c.name)
+        if c.name not in ("skip", "cycle") and c.unit is None:
+            raise InputError(
+                f"{header_where}: column {c.name!r} has no unit; write it as '{c.name} [unit]' or give "
+                f"units={{'{c.name}': ...}} (accepted: {', '.join(COLUMN_UNITS[c.name])})"
+            )
+    if "charge" not in seen:
+        raise InputError(f"{header_where}: no charge column (columns: {[c.name for c in cols]})")
+    if "phase" not in seen and "time" not in seen:
+        raise InputError(
+            f"{header_where}: needs a phase or a time column (columns: {[c.name for c in cols]})"
+        )
+    return cols

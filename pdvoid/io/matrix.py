@@ -1,0 +1,352 @@
+"""Phase-resolved count matrices with their bin edges: :class:`PatternMatrix`, reader and writer.
+
+Delimited layout read by :func:`read_pattern_matrix` (our own; comma, semicolon or tab delimiter as for event
+lists, decimal comma with semicolons; ``#`` comment lines and blank lines anywhere)::
+
+    # frequency = 50 Hz
+    # cycles = 3000
+    phase edges [deg],0,5,10,...,360
+    charge edges [pC],-1000,-300,...,1000
+    counts
+    0,2,7,...
+    ...
+
+- ``phase edges [unit]`` (deg or rad) and ``charge edges [unit]`` (C, nC, pC, fC) lines, in either order, each
+  followed by the strictly increasing bin edges: n_phase + 1 phase edges inside [0, 360] deg and
+  n_charge + 1 signed charge edges.
+- a line ``counts``, then exactly n_phase rows of n_charge whole numbers >= 0: row i holds the counts of phase
+  bin i, column j those of charge bin j.
+- the number of cycles and the frequency are required, as ``# cycles = ...`` / ``# frequency = ...`` comment
+  lines or as options (see :mod:`pdvoid.io.options`).
+"""
+
+from __future__ import annotations
+
+import os
+import re
+from collections.abc import Mapping, Sequence
+from dataclasses import dataclass, field
+from pathlib import Path
+
+import numpy as np
+
+from ..errors import InputError, check_array, check_choice, check_positive
+from ..events import Events, as_events
+from . import lines as L
+from .columns import checked_column
+from .options import CommentKeys, quantity_option
+
+__all__ = ["PatternMatrix", "matrix_from_events", "read_pattern_matrix", "write_pattern_matrix"]
+
+_EDGES = re.compile(r"^(phase|charge)\s+edges\s*(?:[\[(]\s*([^\[\]()]*?)\s*[\])])?$", re.IGNORECASE)
+
+
+def _frozen(a: np.ndarray, dtype: type = float) -> np.ndarray:
+    a = np.ascontiguousarray(a, dtype=dtype)
+    a.setflags(write=False)
+    return a
+
+
+@dataclass(frozen=True, eq=False)
+class PatternMatrix:
+    """Counts of discharges per (phase bin, charge bin) over an observation of ``cycles`` AC cycles.
+
+    Attributes:
+        counts: whole numbers >= 0, shape (n_phase, n_charge) [-].
+        phase_edges_deg: n_phase + 1 strictly increasing edges inside [0, 360] [deg].
+        charge_edges: n_charge + 1 strictly increasing signed edges [C].
+        cycles: number of AC cycles observed [-].
+        frequency: supply frequency [Hz].
+        label: free text.
+        extra: free dictionary (the readers put their summary and metadata here).
+    """
+
+    counts: np.ndarray
+    phase_edges_deg: np.ndarray
+    charge_edges: np.ndarray
+    cycles: float
+    frequency: float
+    label: str = ""
+    extra: dict = field(default_factory=dict)
+
+    def __post_init__(self) -> None:
+        object.__setattr__(self, "cycles", check_positive("cycles", self.cycles))
+        object.__setattr__(self, "frequency", check_positive("frequency", self.frequency, "Hz"))
+        pe = np.asarray(self.phase_edges_deg, dtype=float)
+        ce = np.asarray(self.charge_edges, dtype=float)
+        for name, e in (("phase_edges_deg", pe), ("charge_edges", ce)):
+            if e.ndim != 1 or e.size < 2 or not np.all(np.isfinite(e)) or np.any(np.diff(e) <= 0.0):
+                raise InputError(f"{name} must hold at least 2 finite, strictly increasing values")
+        if pe[0] < 0.0 or pe[-1] > 360.0:
+            raise InputError(f"phase_edges_deg must lie inside [0, 360] deg; got {pe[0]!r} ... {pe[-1]!r}")
+        c = np.asarray(self.counts)
+        if c.shape != (pe.size - 1, ce.size - 1):
+            raise InputError(
+                f"counts must have shape (phase bins, charge bins) = ({pe.size - 1}, {ce.size - 1}); "
+                f"got {c.shape}"
+            )
+        cf = np.asarray(c, dtype=float)
+        if not np.all(np.isfinite(cf)) or np.any(cf < 0) or np.any(cf != np.floor(cf)):
+            raise InputError("counts must be whole numbers >= 0")
+        object.__setattr__(self, "counts", _frozen(cf, np.int64))
+        object.__setattr__(self, "phase_edges_deg", _frozen(pe))
+        object.__setattr__(self, "charge_edges", _frozen(ce))
+        if not isinstance(self.label, str):
+            raise InputError(f"label must be text; got {self.label!r}")
+
+    @property
+    def total(self) -> int:
+        """Number of discharges counted [-]."""
+        return int(self.counts.sum())
+
+    @property
+    def phase_centres_deg(self) -> np.ndarray:
+        e = self.phase_edges_deg
+        return 0.5 * (e[:-1] + e[1:])
+
+    def charge_centres(self, centre: str = "arithmetic") -> np.ndarray:
+        """Bin centres [C]: "arithmetic" mean of the edges, or signed "geometric" mean (bins off 0)."""
+        check_choice("centre", centre, ("arithmetic", "geometric"))
+        lo, hi = self.charge_edges[:-1], self.charge_edges[1:]
+        if centre == "arithmetic":
+            return 0.5 * (lo + hi)
+        if np.any(lo * hi <= 0.0):
+            raise InputError("geometric charge centres need bins that neither contain nor touch 0 C")
+        return np.sign(lo) * np.sqrt(lo * hi)
+
+    def to_events(self, centre: str = "arithmetic") -> Events:
+        """One event per count at its bin's centre (phase centre, charge centre); times unknown.
+
+        An approximation for the analysis functions that take events: phases and charges are known only to
+        their bin. Events at a charge centre of 0 (a bin symmetric about 0) have zero charge and count as no
+        pulse in :mod:`pdvoid.analysis`.
+
+        Parameters:
+            centre: "arithmetic" or "geometric" charge centre of each bin [-]
+        """
+        total = self.total
+        if total > L.MAX_ROWS:
+            raise InputError(
+                f"the matrix counts {total} discharges, more than the event limit of {L.MAX_ROWS}"
+            )
+        qc = self.charge_centres(centre)
+        pc = self.phase_centres_deg
+        flat = self.counts.ravel()
+        phase = np.repeat(np.repeat(pc, qc.size), flat)
+        charge = np.repeat(np.tile(qc, pc.size), flat)
+        return Events(
+            phase_deg=phase,
+            charge=charge,
+            frequency=self.frequency,
+            cycles=self.cycles,
+            label=self.label or "events at the centres of a count matrix",
+            extra={"from matrix": True},
+        )
+
+
+def matrix_from_events(events: object, phase_edges_deg: object, charge_edges: object) -> PatternMatrix:
+    """Count events into a :class:`PatternMatrix` (bins [a, b), the last one [a, b]).
+
+    Parameters:
+        events: discharge events or a result holding them [-]
+        phase_edges_deg: phase edges inside [0, 360] [deg]
+        charge_edges: signed charge edges [C]
+
+    Raises:
+        InputError: if any event lies outside the edges (nothing is dropped).
+    """
+    ev = as_events(events)
+    pe = check_array("phase_edges_deg", phase_edges_deg, min_size=2)
+    ce = check_array("charge_edges", charge_edges, min_size=2)
+    probe = PatternMatrix(
+        np.zeros((pe.size - 1, ce.size - 1)), pe, ce, ev.cycles, ev.frequency
+    )  # checks edges
+    counts, _, _ = np.histogram2d(ev.phase_deg, ev.charge, bins=[probe.phase_edges_deg, probe.charge_edges])
+    missed = ev.count - int(counts.sum())
+    if missed:
+        raise InputError(
+            f"{missed} events lie outside the given edges; widen phase_edges_deg or charge_edges"
+        )
+    return PatternMatrix(np.rint(counts), pe, ce, ev.cycles, ev.frequency, label=ev.label)
+
+
+def read_pattern_matrix(
+    path: str | os.PathLike,
+    *,
+    cycles: float | None = None,
+    frequency: float | str | None = None,
+    delimiter: str | None = None,
+    decimal: str | None = None,
+) -> PatternMatrix:
+    """Read a phase-resolved count matrix with its bin edges (layout: :mod:`pdvoid.io.matrix`).
+
+    Parameters:
+        path: the file [-]
+        cycles: number of AC cycles observed [-], unless the file has ``# cycles = ...``
+        frequency: supply frequency [Hz], unless the file has ``# frequency = ...``
+        delimiter: ",", ";" or "\\t"; None to detect [-]
+        decimal: "." or ","; None to detect (a decimal comma only with ";") [-]
+
+    Returns:
+        :class:`PatternMatrix` with ``extra["summary"]`` and ``extra["metadata"]``.
+    """
+    p = L.checked_path(path)
+    if delimiter is not None:
+        check_choice("delimiter", delimiter, (",", ";", "\t"))
+    if decimal is not None:
+        check_choice("decimal", decimal, (".", ","))
+    if delimiter == "," and decimal == ",":
+        raise InputError("decimal=',' cannot be used with delimiter=','")
+    opt_cycles = quantity_option("cycles", cycles, "dimensionless")
+    opt_frequency = quantity_option("frequency", frequency, "frequency")
+    keys = CommentKeys(p)
+    edges: dict[str, tuple[np.ndarray, str, int]] = {}
+    parser: L.RowParser | None = None
+    counts_line = None
+    nlines = comments = 0
+    for lineno, text in L.iter_lines(p):
+        nlines = lineno
+        s = text.strip()
+        if not s:
+            continue
+        if s.startswith("#"):
+            comments += 1
+            kv = L.parse_comment_key(s)
+            if kv is not None:
+                keys.add(kv[0], kv[1], lineno)
+            continue
+        if delimiter is None:
+            delimiter = L.sniff_delimiter(s)
+        if decimal is None and delimiter == ";" and ("," in s or "." in s):
+            decimal = "," if "," in s else "."
+            if parser is not None:
+                parser.decimal = decimal
+        if parser is not None:
+            parser.add(lineno, s)
+            continue
+        fields = L.split_fields(s, delimiter)
+        if fields[0].lower() == "counts":
+            if any(fields[1:]):
+                raise L.line_error(p, lineno, "the 'counts' line holds nothing else")
+            missing = [k for k in ("phase", "charge") if k not in edges]
+            if missing:
+                raise L.line_error(p, lineno, f"'counts' comes before the {' and '.join(missing)} edges line")
+            counts_line = lineno
+            parser = L.RowParser(p, edges["charge"][0].size - 1, delimiter, decimal or ".")
+            continue
+        m = _EDGES.match(fields[0])
+        if not m:
+            raise L.line_error(
+                p,
+                lineno,
+                f"expected 'phase edges [deg]', 'charge edges [pC]' or 'counts'; got {fields[0][:40]!r}",
+            )
+        kind = m.group(1).lower()
+        if kind in edges:
+            raise L.line_error(p, lineno, f"a second {kind} edges line (the first is line {edges[kind][2]})")
+        try:
+            col = checked_column(kind, m.group(2) or "", "unit")
+        except InputError as exc:
+            raise L.line_error(p, lineno, str(exc)) from None
+        if len(fields) < 3:
+            raise L.line_error(p, lineno, f"{kind} edges must be at least 2 values")
+        row = L.RowParser(p, len(fields) - 1, delimiter, decimal or ".", field_offset=1)
+        row.add(lineno, delimiter.join(fields[1:]))
+        values = row.result()[0][0] * col.factor
+        if values.size < 2 or np.any(np.diff(values) <= 0.0):
+            raise L.line_error(p, lineno, f"{kind} edges must be at least 2 strictly increasing values")
+        if kind == "phase":
+            values = np.where(np.isclose(values, 360.0, rtol=1e-12, atol=0.0), 360.0, values)  # rad rounding
+            if values[0] < 0.0 or values[-1] > 360.0:
+                raise L.line_error(p, lineno, "phase edges must lie inside [0, 360] deg")
+        edges[kind] = (values, col.unit, lineno)
+    if parser is None:
+        raise L.line_error(p, None, "no 'counts' line: the file is not a count matrix (see pdvoid.io.matrix)")
+    counts, linenos = parser.result()
+    n_phase = edges["phase"][0].size - 1
+    if counts.shape[0] != n_phase:
+        where = int(linenos[n_phase]) if counts.shape[0] > n_phase else None
+        raise L.line_error(p, where, f"{counts.shape[0]} count rows for {n_phase} phase bins")
+    bad = (counts < 0) | (counts != np.floor(counts))
+    if bad.any():
+        row = int(np.argwhere(bad)[0][0])
+        raise L.line_error(p, int(linenos[row]), "counts must be whole numbers >= 0")
+    f, f_src = keys.quantity("frequency", opt_frequency)
+    c, c_src = keys.quantity("cycles", opt_cycles)
+    for name, value in (("frequency", f), ("cycles", c)):
+        if value is None:
+            raise L.line_error(p, None, f"{name} unknown: give {name}= or a comment line '# {name} = ...'")
+    summary = {
+        "file": str(p),
+        "lines": nlines,
+        "comment lines": comments,
+        "counts line": counts_line,
+        "phase bins": n_phase,
+        "charge bins": edges["charge"][0].size - 1,
+        "phase edges unit": edges["phase"][1],
+        "charge edges unit": edges["charge"][1],
+        "discharges counted": int(counts.sum()),
+        "frequency [Hz]": f,
+        "frequency from": f_src,
+        "cycles": c,
+        "cycles from": c_src,
+    }
+    return PatternMatrix(
+        counts,
+        edges["phase"][0],
+        edges["charge"][0],
+        c,
+        f,
+        label=keys.text("label") or f"read from {p.name}",
+        extra={"summary": summary, "metadata": keys.metadata},
+    )
+
+
+def write_pattern_matrix(
+    matrix: PatternMatrix,
+    path: str | os.PathLike,
+    *,
+    charge_unit: str = "C",
+    phase_unit: str = "deg",
+    metadata: Mapping[str, object] | None = None,
+    comments: Sequence[str] = (),
+    delimiter: str = ",",
+) -> Path:
+    """Write a :class:`PatternMatrix` in the layout :func:`read_pattern_matrix` reads (17 significant digits).
+
+    Parameters:
+        matrix: the matrix [-]
+        path: the file to write [-]
+        charge_unit: unit of the charge edges: C, nC, pC, fC [-]
+        phase_unit: unit of the phase edges: deg or rad [-]
+        metadata: extra ``# key = value`` lines [-]
+        comments: free comment lines written first [-]
+        delimiter: ",", ";" or "\\t" [-]
+    """
+    if not isinstance(matrix, PatternMatrix):
+        raise InputError(f"matrix must be a PatternMatrix; got {type(matrix).__name__}")
+    check_choice("delimiter", delimiter, (",", ";", "\t"))
+    qc = checked_column("charge", charge_unit, "charge_unit")
+    pc = checked_column("phase", phase_unit, "phase_unit")
+    head = [f"# {c}" for c in comments]
+    head += [f"# frequency = {matrix.frequency!r} Hz", f"# cycles = {matrix.cycles!r}"]
+    if matrix.label:
+        head.append(f"# label = {matrix.label}")
+    for k, v in (metadata or {}).items():
+        if L.parse_comment_key(f"# {k} = {v}") != (str(k).strip().lower(), str(v)):
+            raise InputError(f"metadata key {k!r} or value {v!r} cannot be written as a '# key = value' line")
+        head.append(f"# {k} = {v}")
+    if any("\n" in h or "\r" in h for h in head):
+        raise InputError("comment lines may not contain line breaks")
+
+    def row(label: str, values: np.ndarray) -> str:
+        return delimiter.join([label] + [f"{x:.17g}" for x in values])
+
+    p = Path(path)
+    with open(p, "w", encoding="utf-8", newline="\n") as fh:
+        fh.write("\n".join(head) + "\n")
+        fh.write(row(f"phase edges [{pc.unit}]", matrix.phase_edges_deg / pc.factor) + "\n")
+        fh.write(row(f"charge edges [{qc.unit}]", matrix.charge_edges / qc.factor) + "\n")
+        fh.write("counts\n")
+        np.savetxt(fh, matrix.counts, delimiter=delimiter, fmt="%d")
+    return p
