@@ -9,8 +9,10 @@ from __future__ import annotations
 __version__ = "0.1.0"
 
 from .analysis import (  # noqa: E402
+    compare,
     design_margin,
     fingerprint,
+    fit,
     iec60270,
     inception,
     largest_pd_free_void,
@@ -32,5 +34,5 @@ from .sweeps import sweep  # noqa: E402
 __all__ = [
     "InputError", "cite", "__version__", "Events", "Insulation", "Void", "Sine", "Periodic", "FieldModel",
     "NetworkModel", "Scenario", "simulate", "Result", "load", "pattern", "fingerprint", "iec60270", "inception",
-    "largest_pd_free_void", "margin_table", "design_margin", "pulse_sequence", "weibull_fit", "sweep", "read_events",
+    "largest_pd_free_void", "margin_table", "design_margin", "pulse_sequence", "weibull_fit", "sweep", "read_events", "fit", "compare",
 ]

@@ -128,9 +128,9 @@ def build_parser() -> argparse.ArgumentParser:
     s.add_argument("--out", required=True, help="output folder")
     s.add_argument("--json", action="store_true")
     s.set_defaults(func=_cmd_simulate)
-    from . import cli_analysis, cli_report, cli_sweep
+    from . import cli_analysis, cli_fit, cli_report, cli_sweep
 
-    for module in (cli_analysis, cli_report, cli_sweep):
+    for module in (cli_analysis, cli_fit, cli_report, cli_sweep):
         module.register(sub)
     return p
 

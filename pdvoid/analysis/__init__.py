@@ -3,7 +3,9 @@ inception studies and design margins."""
 
 from __future__ import annotations
 
+from .compare import compare
 from .descriptors import fingerprint
+from .fit import fit
 from .inception import inception, probability_of_missing, ramp_test
 from .magnitudes import weibull_fit
 from .margins import design_margin, largest_pd_free_void, margin_table
@@ -15,5 +17,5 @@ from .summary import run_summary
 __all__ = [
     "pattern", "half_cycle_distributions", "magnitude_distribution", "fingerprint", "weibull_fit",
     "pulse_sequence", "iec60270", "largest_repeated_magnitude", "inception", "ramp_test", "probability_of_missing",
-    "margin_table", "largest_pd_free_void", "design_margin", "run_summary",
+    "margin_table", "largest_pd_free_void", "design_margin", "run_summary", "compare", "fit",
 ]

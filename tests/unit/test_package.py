@@ -27,7 +27,7 @@ RANK = {
     "simulate": 4, "results": 4,
     "analysis": 5, "io": 5, "fields": 5, "sweeps": 5, "data": 1,
     "plots": 6,
-    "report": 7, "workbench": 7, "cli": 7, "cli_analysis": 7, "cli_report": 7, "cli_sweep": 7,
+    "report": 7, "workbench": 7, "cli": 7, "cli_analysis": 7, "cli_report": 7, "cli_sweep": 7, "cli_fit": 7,
 }
 
 
