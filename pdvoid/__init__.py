@@ -34,5 +34,6 @@ from .sweeps import sweep  # noqa: E402
 __all__ = [
     "InputError", "cite", "__version__", "Events", "Insulation", "Void", "Sine", "Periodic", "FieldModel",
     "NetworkModel", "Scenario", "simulate", "Result", "load", "pattern", "fingerprint", "iec60270", "inception",
-    "largest_pd_free_void", "margin_table", "design_margin", "pulse_sequence", "weibull_fit", "sweep", "read_events", "fit", "compare",
+    "largest_pd_free_void", "margin_table", "design_margin", "pulse_sequence", "weibull_fit", "sweep",
+    "read_events", "fit", "compare",
 ]
