@@ -109,6 +109,14 @@ REFERENCES: dict[str, Reference] = dict(
         _r("mckay1979", "M. D. McKay, R. J. Beckman, W. J. Conover, 'A comparison of three methods for selecting "
            "values of input variables in the analysis of output from a computer code', Technometrics 21(2) (1979) "
            "239-245", "from memory"),
+        _r("richardson1911", "L. F. Richardson, 'The approximate arithmetical solution by finite differences of "
+           "physical problems involving differential equations', Phil. Trans. R. Soc. A 210 (1911) 307-357",
+           "from memory"),
+        _r("patankar1980", "S. V. Patankar, Numerical Heat Transfer and Fluid Flow, Hemisphere, New York 1980 "
+           "(harmonic averaging of interface coefficients)", "from memory"),
+        _r("mason1955", "J. H. Mason, 'Breakdown of solid dielectrics in divergent fields', Proc. IEE C 102 "
+           "(1955) 254-263 (hyperboloid point-plane tip field), as quoted in Kuffel, Zaengl & Kuffel 2000",
+           "from memory"),
         _r("codata2018", "E. Tiesinga et al., 'CODATA recommended values of the fundamental physical constants: "
            "2018', Rev. Mod. Phys. 93 (2021) 025010 (via scipy.constants)", "confirmed"),
         _r("lux_paschen", "J. Lux, notes on Paschen's law and the breakdown of air (web page, "

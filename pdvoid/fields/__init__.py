@@ -8,7 +8,10 @@ Layers of this subpackage (each imports only those above it):
 - :mod:`~pdvoid.fields.layout`: the field problem (electrodes, dielectrics, void, floating conductors);
 - :mod:`~pdvoid.fields.assembly`, :mod:`~pdvoid.fields.solver`: finite-volume assembly and sparse LU;
 - :mod:`~pdvoid.fields.maps`: field maps, surface fields, critical regions, lowest critical voltage;
-- :mod:`~pdvoid.fields.derived`: coefficients for the fast models (:func:`coefficients_for`);
+- :mod:`~pdvoid.fields.pointplane`: exact and handbook apex fields of a point-plane gap;
+- :mod:`~pdvoid.fields.streamer`: field lines and the ionisation-integral (streamer) inception voltage;
+- :mod:`~pdvoid.fields.derived`: coefficients for the fast models (:func:`coefficients_for` from plain SI
+  arguments, :func:`coefficients` from a scenario);
 - :mod:`~pdvoid.fields.timedomain`: the conductive-void time-domain reference model.
 
 Everything is SI: lengths in m, potentials in V, fields in V/m, charges in C.
@@ -18,11 +21,10 @@ from __future__ import annotations
 
 from .derived import (
     FieldCoefficients,
+    coefficients,
     coefficients_for,
     coefficients_from_solver,
     equivalent_depolarization,
-    hyperboloid_tip_field,
-    mason_tip_field,
     peak_enhancement,
     void_region,
 )
@@ -38,11 +40,15 @@ from .maps import (
     region_mask,
     surface_field,
 )
+from .pointplane import hyperboloid_tip_field, mason_tip_field
 from .solver import FieldSolver, Potential
+from .streamer import FieldLine, StreamerInception, streamer_inception_voltage, trace_field_line
+from .timedomain import TimeDomainResult, conductive_void_reference
 
 __all__ = [
     "ELECTRODES",
     "FieldCoefficients",
+    "FieldLine",
     "FieldSolver",
     "Grid",
     "Hyperboloid",
@@ -54,9 +60,13 @@ __all__ = [
     "RoundedCylinder",
     "Slab",
     "Spheroid",
+    "StreamerInception",
     "SurfaceField",
+    "TimeDomainResult",
+    "coefficients",
     "coefficients_for",
     "coefficients_from_solver",
+    "conductive_void_reference",
     "critical_region",
     "equivalent_depolarization",
     "field_components",
@@ -70,6 +80,8 @@ __all__ = [
     "peak_enhancement",
     "region_mask",
     "specimen_layout",
+    "streamer_inception_voltage",
     "surface_field",
+    "trace_field_line",
     "void_region",
 ]
