@@ -73,7 +73,7 @@ def fixed_step_comparison(cycles_event, cycles_fixed, cycles_python):
         if name.startswith("network"):
             continue
         a = kernel_arguments(sc)
-        args = (50.0, a.a_coef[0], a.gain, a.x_inc, a.x_res, a.charge_per_unit, a.n_vol, a.n_same, a.n_rev,
+        args = (50.0, a.a_coef[0], a.gain, a.x_inc, a.x_res, a.charge_per_unit, a.n_vol_pos, a.n_same, a.n_rev,
                 a.tau_s, a.field_assisted, 1)
         fixed_step_numba(10, 3600, *args)
         t_event, res = best_of(lambda sc=sc: pdvoid.simulate(sc, cycles=cycles_event, seed=1, histogram=True))

@@ -48,9 +48,9 @@ def register(subparsers) -> argparse.ArgumentParser:
 
 def run(ns: argparse.Namespace) -> int:
     """Execute the parsed ``sweep`` command; InputError propagates to the caller (``pdvoid.cli.main``)."""
+    from .optional import MissingDependencyError
     from .sweeps import sweep, write_netcdf
     from .sweeps.files import read_sweep_file
-    from .sweeps.optional import MissingDependencyError
 
     out = Path(ns.out)
     if not out.parent.is_dir():

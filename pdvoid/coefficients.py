@@ -87,12 +87,16 @@ def compute_coefficients(scenario) -> Coefficients:
     refs = ["niemeyer1995", "gutfleisch1995", "hess1951"]
 
     if void.shape == "spheroid":
-        n = depolarization_spheroid(D, h)
+        # a void on an electrode is half a spheroid; with its mirror image in the equipotential electrode it is a
+        # whole spheroid of height 2h (method of images): same field, and the real half carries half the dipole
+        h_full = h if void.position == "centred" else 2.0 * h
+        n = depolarization_spheroid(D, h_full)
         f = field_enhancement(er, n)
-        omega = spheroid_volume(D, h)
+        omega = spheroid_volume(D, h_full) * (h / h_full)
         c_field = induced_charge_per_field(er, n, omega, d)
         if f * h < d:
-            c_b, c_c, _k = spheroid_network_equivalent(D, h, d, er)
+            c_b, c_c, _k = spheroid_network_equivalent(D, h, d, er) if void.position == "centred" else (
+                c_field / h, c_field / h * (d / (f * h) - 1.0), f * h / d)
         elif isinstance(model, NetworkModel) and model.capacitance_void is None:
             raise InputError(
                 f"void.height {h:g} m is too large for the network equivalent of a spheroid in "
@@ -109,6 +113,13 @@ def compute_coefficients(scenario) -> Coefficients:
         c_b, c_c = caps.b, caps.c
         c_field = c_b * h
         refs += ["gemant1932", "kreuger1989", "kuffel2000"]
+    if void.field_enhancement is not None:  # a numerical field solution replaces the closed forms
+        f, c_field = void.field_enhancement, void.charge_per_field
+        n = (er / f - er) / (1.0 - er) if er > 1.0 and f != er else math.nan
+        k_eq = f * h / d
+        c_b = c_field / h
+        c_c = c_b * (1.0 / k_eq - 1.0) if k_eq < 1.0 else math.nan
+        refs.append("pedersen1991")
     c_a = math.nan
     if ins.area is not None:
         s_void = math.pi * D * D / 4.0

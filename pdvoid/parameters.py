@@ -32,6 +32,7 @@ __all__ = [
 
 GASES = ("air", "nitrogen", "sf6")
 VOID_SHAPES = ("spheroid", "cylinder")
+VOID_POSITIONS = ("centred", "high_voltage_electrode", "ground_electrode")
 P0 = 101325.0  # reference pressure of the ion-pair production rate [Pa]
 
 
@@ -83,6 +84,11 @@ class Void:
         shape: "spheroid" (closed-form field and induced charge) or "cylinder" (flat disc: three-capacitance
             formulas; the field model then uses the layered-slab field, valid for diameter ≫ height).
         inception_length: the length l in the streamer criterion [m]; defaults to ``height``.
+        position: "centred" (far from both electrodes), or "high_voltage_electrode" / "ground_electrode" for a
+            void whose flat side lies on that electrode (a half spheroid; closed forms by the image method).
+        field_enhancement: void field / (V/d) [-] from a numerical field solution (pdvoid.fields), replacing
+            the closed form for geometries it does not cover; give it together with ``charge_per_field``.
+        charge_per_field: apparent charge per unit drop of the void field [C/(V/m)], likewise.
     """
 
     diameter: float
@@ -92,6 +98,9 @@ class Void:
     temperature: float = 293.15
     shape: str = "spheroid"
     inception_length: float | None = None
+    position: str = "centred"
+    field_enhancement: float | None = None
+    charge_per_field: float | None = None
 
     def __post_init__(self) -> None:
         _set(self, "diameter", check_range("void.diameter", self.diameter, 1e-7, 1.0, unit="m"))
@@ -103,6 +112,15 @@ class Void:
         if self.inception_length is not None:
             _set(self, "inception_length",
                  check_range("void.inception_length", self.inception_length, 1e-7, 1.0, unit="m"))
+        check_choice("void.position", self.position, VOID_POSITIONS)
+        given = (self.field_enhancement is not None, self.charge_per_field is not None)
+        if given[0] != given[1]:
+            raise InputError("void.field_enhancement and void.charge_per_field must be given together")
+        if given[0]:
+            _set(self, "field_enhancement", check_range("void.field_enhancement", self.field_enhancement, 0.0, 1e3,
+                                                        low_open=True))
+            _set(self, "charge_per_field", check_positive("void.charge_per_field", self.charge_per_field,
+                                                          "C/(V/m)"))
 
     @property
     def streamer_length(self) -> float:
@@ -242,6 +260,7 @@ class _ElectronOptions:
     field_assisted: bool = False
     charge_decay_time: float = math.inf
     inception_criterion: str = "streamer"
+    cathode_emission_rate: float = 0.0
 
     def __post_init__(self) -> None:
         check_choice("model.inception_criterion", self.inception_criterion, ("streamer", "ionization_integral"))
@@ -257,6 +276,8 @@ class _ElectronOptions:
              check_nonnegative("model.surface_rate_reversed", self.surface_rate_reversed, "1/s"))
         _set(self, "surface_decay_time", check_range("model.surface_decay_time", self.surface_decay_time, 0.0,
                                                      math.inf, low_open=True, unit="s", allow_inf=True))
+        _set(self, "cathode_emission_rate",
+             check_nonnegative("model.cathode_emission_rate", self.cathode_emission_rate, "1/s"))
         _set(self, "charge_decay_time", check_range("model.charge_decay_time", self.charge_decay_time, 0.0,
                                                     math.inf, low_open=True, unit="s", allow_inf=True))
 
@@ -283,6 +304,9 @@ class FieldModel(_ElectronOptions):
         charge_decay_time: τ_q of the deposited charge's field [s]; inf for no decay.
         inception_criterion: "streamer" (the streamer-inception formula, default) or "ionization_integral"
             (the effective-ionisation integral reaching K over the void height).
+        cathode_emission_rate: extra start electrons [1/s] when the void lies on an electrode and the metal
+            wall is the cathode of the pending discharge (electrons from the metal). Default 0; illustrative
+            values are hundreds to thousands per second.
     """
 
 

@@ -36,7 +36,8 @@ _DIMS: dict[str, dict[str, tuple[str | None, str]]] = {
                    "material": (None, ""), "area": ("area", "m2")},
     "void": {"diameter": ("length", "m"), "height": ("length", "m"), "pressure": ("pressure", "Pa"),
              "gas": (None, ""), "temperature": ("temperature", "K"), "shape": (None, ""),
-             "inception_length": ("length", "m")},
+             "inception_length": ("length", "m"), "position": (None, ""),
+             "field_enhancement": ("dimensionless", ""), "charge_per_field": ("charge per field", "C/(V/m)")},
     "sine": {"rms": ("voltage", "V"), "frequency": ("frequency", "Hz"), "harmonics": (None, "")},
     "periodic": {"samples": (None, ""), "frequency": ("frequency", "Hz"), "max_harmonic": (None, "")},
     "model": {"residual_ratio": ("dimensionless", ""), "lag_free": (None, ""),
@@ -44,9 +45,10 @@ _DIMS: dict[str, dict[str, tuple[str | None, str]]] = {
               "surface_rate_same": ("rate", "1/s"), "surface_rate_reversed": ("rate", "1/s"),
               "surface_decay_time": ("time", "s"), "field_assisted": (None, ""),
               "charge_decay_time": ("time", "s"), "inception_criterion": (None, ""),
-              "capacitance_void": ("capacitance", "F"), "capacitance_series": ("capacitance", "F")},
+              "capacitance_void": ("capacitance", "F"), "capacitance_series": ("capacitance", "F"),
+              "cathode_emission_rate": ("rate", "1/s")},
 }
-_SI_ONLY = {"area": "m2", "capacitance": "F"}
+_SI_ONLY = {"area": "m2", "capacitance": "F", "charge per field": "C/(V/m)"}
 
 
 def _quantity(value: Any, dim: str, where: str) -> float:
@@ -166,7 +168,7 @@ def scenario_to_dict(s: Scenario) -> dict:
             if v is None:
                 continue
             dim, unit = schema[f.name]
-            out[part][f.name] = _q(v, unit) if dim is not None and unit else v
+            out[part][f.name] = _q(v, unit) if dim is not None and unit and dim not in _SI_ONLY else v
     if isinstance(s.supply, Sine):
         out["supply"] = {"kind": "sine", "rms": _q(s.supply.rms, "V"), "frequency": _q(s.supply.frequency, "Hz")}
         if s.supply.harmonics:

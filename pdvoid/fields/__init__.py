@@ -27,6 +27,7 @@ from .derived import (
     equivalent_depolarization,
     peak_enhancement,
     void_region,
+    with_field_solution,
 )
 from .geometry import Hyperboloid, Outline, Region, Rod, RoundedCylinder, Slab, Spheroid
 from .grid import Grid, graded_faces, make_grid
@@ -66,6 +67,7 @@ __all__ = [
     "coefficients",
     "coefficients_for",
     "coefficients_from_solver",
+    "with_field_solution",
     "conductive_void_reference",
     "critical_region",
     "equivalent_depolarization",

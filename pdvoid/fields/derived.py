@@ -336,10 +336,11 @@ def peak_enhancement(solver: FieldSolver, where: object = "dielectric") -> float
 def coefficients(scenario: object, **options: object) -> FieldCoefficients:
     """Field-solver coefficients for a scenario's insulation and void.
 
-    Reads only ``scenario.insulation.thickness``, ``scenario.insulation.permittivity``,
-    ``scenario.void.diameter`` and ``scenario.void.height`` (the void centred in the slab unless
-    ``void_center`` is given); every other option of :func:`coefficients_for` (void_shape, rim_radius,
-    void_center, needle, inclusions, grid settings, measuring electrode, extrapolation) passes through.
+    Reads ``scenario.insulation.thickness``, ``scenario.insulation.permittivity``, ``scenario.void.diameter``,
+    ``scenario.void.height``, ``scenario.void.shape`` and ``scenario.void.position`` (a void on an electrode is
+    the half of a spheroid of twice its height that lies in the insulation); every other option of
+    :func:`coefficients_for` (rim_radius, needle, inclusions, grid settings, measuring electrode,
+    extrapolation) passes through.
 
     Parameters:
         scenario: a :class:`pdvoid.Scenario` or any object with those attributes [-].
@@ -360,4 +361,22 @@ def coefficients(scenario: object, **options: object) -> FieldCoefficients:
     for name in ("thickness", "permittivity", "void_diameter", "void_height"):
         if name in options:
             raise InputError(f"{name} comes from the scenario; do not pass it as an option")
+    position = getattr(void, "position", "centred")
+    if position != "centred" and "void_center" not in options:
+        height = 2.0 * height
+        options["void_center"] = 0.0 if position == "ground_electrode" else thickness
+    if "void_shape" not in options:
+        options["void_shape"] = getattr(void, "shape", "spheroid")
     return coefficients_for(thickness, permittivity, diameter, height, **options)  # type: ignore[arg-type]
+
+
+def with_field_solution(scenario: object, solution: FieldCoefficients) -> object:
+    """``scenario`` with its void's field enhancement and charge per field taken from a numerical solution, so
+    that :func:`pdvoid.simulate` runs the solved geometry through the same kernels at full speed."""
+    if not isinstance(solution, FieldCoefficients):
+        raise InputError(f"solution must be a FieldCoefficients; got {type(solution).__name__}")
+    try:
+        return scenario.replace(**{"void.field_enhancement": solution.field_enhancement,  # type: ignore[attr-defined]
+                                   "void.charge_per_field": solution.charge_per_field})
+    except AttributeError:
+        raise InputError(f"scenario must be a pdvoid.Scenario; got {type(scenario).__name__}") from None

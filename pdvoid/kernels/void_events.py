@@ -8,7 +8,8 @@ Both models reduce to one scalar "void quantity" x(t) = g·V(t) + x_q(t):
 A discharge can start only while |x| >= x_inc and, unless lag-free, only when a start electron appears. Start
 electrons form a Poisson process of rate N(t) = N_vol + N_surf(t) with N_surf(t) = N_s·exp(-(t - t_last)/tau_s)
 (N_s = n_same when the pending discharge repeats the last polarity, n_rev when it reverses; zero before the
-first discharge), optionally times exp(|x|/x_inc). At a discharge x falls to sign(x)·x_res; the apparent charge is
+first discharge), optionally times exp(|x|/x_inc). N_vol may differ by polarity (n_vol_pos, n_vol_neg): a void
+bounded by an electrode receives extra start electrons when the metal wall is its cathode. At a discharge x falls to sign(x)·x_res; the apparent charge is
 c·(x_before - x_after). The deposited quantity x_q may decay with time constant tau_q.
 
 Time is not discretised. The period is cut at the extrema of V into pieces where V is monotone; with charge
@@ -312,7 +313,8 @@ def run_cycles(
     x_res,
     charge_per_unit,
     lag_free,
-    n_vol,
+    n_vol_pos,
+    n_vol_neg,
     n_same,
     n_rev,
     tau_s,
@@ -416,6 +418,7 @@ def run_cycles(
                 if lag_free:
                     t_d = t_in
                 else:
+                    n_vol = n_vol_pos if pol > 0.0 else n_vol_neg
                     t_d = _consume_window(t_in, t_out, x_in, x_out, pol, state, n_vol, n_same, n_rev, tau_s,
                                           field_assisted, x_inc, gain, omega, orders, a_coef, b_coef, tau_q)
                     if t_d < 0.0:

@@ -8,7 +8,7 @@ import numpy as np
 
 from ..waveform import monotone_breakpoints
 
-__all__ = ["KernelArguments", "supply_arrays"]
+__all__ = ["KernelArguments", "supply_arrays", "cathode_rate"]
 
 
 @dataclass(frozen=True, eq=False)
@@ -27,7 +27,8 @@ class KernelArguments:
     x_res: float
     charge_per_unit: float
     lag_free: bool
-    n_vol: float
+    n_vol_pos: float
+    n_vol_neg: float
     n_same: float
     n_rev: float
     tau_s: float
@@ -63,3 +64,20 @@ def supply_arrays(supply) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarra
     else:
         seg = monotone_breakpoints(orders, a, b)
     return orders, a, b, seg, pure
+
+
+def cathode_rate(scenario, polarity: float) -> float:
+    """Extra start electrons [1/s] for discharges of ``polarity`` (+1: void field along the field of the positive
+    half cycle) in a void bounded by an electrode: model.cathode_emission_rate when the metal wall is the
+    cathode of that discharge, else 0.
+
+    The positive half cycle drives electrons towards the high-voltage electrode, so a void on the high-voltage
+    electrode has the metal as its cathode in negative discharges, a void on the ground electrode in positive
+    ones (electron drift against the field; the metal supplies electrons far more readily than the dielectric
+    wall — the mechanism behind the asymmetric patterns of electrode-bounded cavities reported by Forssén &
+    Edin 2008, as summarised by Illias, Chen & Lewin 2011)."""
+    position = scenario.void.position
+    if position == "centred":
+        return 0.0
+    cathode_polarity = -1.0 if position == "high_voltage_electrode" else 1.0
+    return scenario.model.cathode_emission_rate if polarity == cathode_polarity else 0.0

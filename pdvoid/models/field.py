@@ -9,7 +9,7 @@ from __future__ import annotations
 
 from ..coefficients import Coefficients
 from ..scenario import Scenario
-from .arguments import KernelArguments, supply_arrays
+from .arguments import KernelArguments, cathode_rate, supply_arrays
 
 __all__ = ["field_kernel_arguments"]
 
@@ -21,7 +21,8 @@ def field_kernel_arguments(scenario: Scenario, c: Coefficients) -> KernelArgumen
         frequency=scenario.supply.frequency, orders=orders, a_coef=a, b_coef=b, seg_fracs=seg, pure_sine=pure,
         gain=c.field_enhancement / scenario.insulation.thickness,
         x_inc=c.inception_field, x_res=c.residual_field, charge_per_unit=c.charge_per_field,
-        lag_free=m.lag_free, n_vol=c.volume_electron_rate, n_same=m.surface_rate_same,
+        lag_free=m.lag_free, n_vol_pos=c.volume_electron_rate + cathode_rate(scenario, +1.0),
+        n_vol_neg=c.volume_electron_rate + cathode_rate(scenario, -1.0), n_same=m.surface_rate_same,
         n_rev=m.surface_rate_reversed, tau_s=m.surface_decay_time, field_assisted=m.field_assisted,
         tau_q=m.charge_decay_time, x_to_field=1.0,
         references=c.references + ("illias2011", "illias2011jpd"),

@@ -8,10 +8,10 @@ processes or on a Dask cluster with identical results. xarray, tqdm, joblib and 
 
 from __future__ import annotations
 
+from ..optional import MissingDependencyError
 from .dataset import base_scenario, read_netcdf, write_netcdf
 from .execute import backend_name, local_workers, parallel_map
 from .metrics import default_metrics
-from .optional import MissingDependencyError
 from .plan import Plan, grid_plan, lhs_plan, make_plan, point_seeds, random_plan
 from .run import sweep
 

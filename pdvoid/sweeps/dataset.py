@@ -26,11 +26,11 @@ import numpy as np
 
 from .. import __version__
 from ..errors import InputError
+from ..optional import require
 from ..scenario import Scenario
 from ..scenario_files import scenario_from_dict, scenario_to_dict
 from .metrics import DESCRIPTIONS, RESERVED, split_key
 from .names import parameter_unit
-from .optional import require
 from .plan import Plan
 
 __all__ = ["assemble", "write_netcdf", "read_netcdf", "base_scenario"]

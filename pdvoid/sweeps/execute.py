@@ -20,7 +20,7 @@ from functools import partial
 from typing import Any
 
 from ..errors import InputError, check_int
-from .optional import available, require
+from ..optional import available, require
 
 __all__ = ["parallel_map", "local_workers", "backend_name"]
 

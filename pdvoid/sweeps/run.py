@@ -7,13 +7,13 @@ from functools import partial
 from typing import Any
 
 from ..errors import InputError, check_int
+from ..optional import require
 from ..scenario import Scenario
 from ..simulate import MAX_CYCLES
 from .dataset import assemble
 from .execute import parallel_map
 from .metrics import run_point
 from .names import check_parameter_names
-from .optional import require
 from .plan import make_plan
 
 __all__ = ["sweep"]

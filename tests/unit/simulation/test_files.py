@@ -117,3 +117,15 @@ def test_loading_junk_raises_input_error(tmp_path):
     np.savez(tmp_path / "other.npz", a=np.arange(3))
     with pytest.raises(pdvoid.InputError, match="metadata"):
         pdvoid.load(tmp_path / "other.npz")
+
+
+def test_electrode_void_and_solved_coefficients_round_trip(tmp_path, demo):
+    sc = demo.replace(**{"void.position": "ground_electrode", "void.height": 0.7e-3, "void.field_enhancement": 1.3,
+                         "void.charge_per_field": 1.5e-17, "model.cathode_emission_rate": 4e3})
+    p = tmp_path / "e.toml"
+    sc.to_file(p)
+    assert pdvoid.Scenario.from_file(p) == sc
+    with pytest.raises(pdvoid.InputError, match="together"):
+        pdvoid.Void(diameter=1e-3, height=1e-3, field_enhancement=1.2)
+    with pytest.raises(pdvoid.InputError, match="void.position"):
+        pdvoid.Void(diameter=1e-3, height=1e-3, position="floating")

@@ -8,9 +8,9 @@ import sys
 import pytest
 
 from pdvoid import InputError
+from pdvoid.optional import MissingDependencyError, require
 from pdvoid.sweeps import execute
 from pdvoid.sweeps.execute import backend_name, parallel_map
-from pdvoid.sweeps.optional import MissingDependencyError, require
 
 # functions from the standard library: picklable by reference in any worker (test modules are not importable
 # by name in worker processes under pytest's importlib mode)

@@ -1,4 +1,5 @@
-"""The one door for optional dependencies: import them by name, or say which extra to install."""
+"""The one door for optional dependencies (sweeps, workbench): import them by name, or say which extra to
+install."""
 
 from __future__ import annotations
 
@@ -15,7 +16,11 @@ _EXTRA = {
     "tqdm": "sweep",
     "tqdm.auto": "sweep",
     "joblib": "sweep",
+    "ipywidgets": "workbench",
+    "ipykernel": "workbench",
+    "jupyterlab": "workbench",
 }
+_FEATURE = {"sweep": "parameter sweeps", "workbench": "the workbench"}
 
 
 class MissingDependencyError(ImportError):
@@ -26,15 +31,16 @@ class MissingDependencyError(ImportError):
     """
 
 
-def require(module: str, *, feature: str = "parameter sweeps") -> ModuleType:
+def require(module: str, *, feature: str | None = None) -> ModuleType:
     """Import ``module`` or raise :class:`MissingDependencyError` naming the extra, e.g. ``pdvoid[sweep]``."""
     try:
         return importlib.import_module(module)
     except ImportError as exc:
         extra = _EXTRA.get(module, "all")
+        feature = feature or _FEATURE.get(extra, "this feature")
         top = module.split(".")[0]
         raise MissingDependencyError(
-            f"{feature} need the optional package {top!r}, which is not installed ({exc}); "
+            f"{feature}: needs the optional package {top!r}, which is not installed ({exc}); "
             f'install it with: pip install "pdvoid[{extra}]"'
         ) from exc
 

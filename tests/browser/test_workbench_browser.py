@@ -1,0 +1,246 @@
+"""The workbench in a real browser: JupyterLab serves a temporary copy of the notebooks on 127.0.0.1, headless
+Debian chromium (driven by Playwright) runs the workbench notebook, changes the void-size and pressure
+controls and checks that the pictures and the summary numbers change. Marker ``browser``; writes
+test-artifacts/workbench.png.
+
+Skipped only when chromium (/usr/bin/chromium) or the Python package playwright is missing. No browser is ever
+downloaded: Playwright drives the system chromium.
+"""
+
+from __future__ import annotations
+
+import os
+import shutil
+import socket
+import subprocess
+import sys
+import time
+import urllib.request
+from pathlib import Path
+from urllib.parse import urlparse
+
+import pytest
+
+pytestmark = [
+    pytest.mark.browser,
+    pytest.mark.filterwarnings("ignore::DeprecationWarning"),
+    pytest.mark.filterwarnings("ignore::ResourceWarning"),
+]
+
+CHROMIUM = Path("/usr/bin/chromium")
+REPO = Path(__file__).resolve().parents[2]
+ARTIFACTS = REPO / "test-artifacts"
+CHROMIUM_ARGS = [
+    "--headless",
+    "--no-sandbox",
+    "--disable-gpu",
+    "--disable-quic",
+    "--no-first-run",
+    "--disable-background-networking",
+    "--disable-component-update",
+    "--disable-sync",
+]
+U_INC = "inception voltage"
+
+_JS_IMAGE_DIGEST = """async (sel) => {
+    const img = document.querySelector(sel);
+    if (!img || !img.src) return null;
+    const buf = await (await fetch(img.src)).arrayBuffer();
+    const hash = await crypto.subtle.digest('SHA-256', buf);
+    const hex = Array.from(new Uint8Array(hash)).map(b => b.toString(16).padStart(2, '0'));
+    return hex.join('') + ':' + buf.byteLength;
+}"""
+
+_JS_SUMMARY_VALUE = """(name) => {
+    for (const row of document.querySelectorAll('.pdvoid-summary tr')) {
+        const cells = row.querySelectorAll('td');
+        if (cells.length >= 2 && cells[0].innerText.trim() === name) return parseFloat(cells[1].innerText);
+    }
+    return null;
+}"""
+
+_JS_STATUS_HAS = """(words) => {
+    const el = document.querySelector('.pdvoid-status');
+    return !!el && words.every(w => el.innerText.includes(w));
+}"""
+
+_JS_KERNEL_IDLE = """() => {
+    const app = window.jupyterapp;
+    const w = app && app.shell.currentWidget;
+    const kernel = w && w.sessionContext && w.sessionContext.session && w.sessionContext.session.kernel;
+    return !!kernel && kernel.status === 'idle' && !!w.content;
+}"""
+
+
+def _free_port() -> int:
+    with socket.socket(socket.AF_INET, socket.SOCK_STREAM) as s:
+        s.bind(("127.0.0.1", 0))
+        return s.getsockname()[1]
+
+
+def _wait_for_status(base: str, proc: subprocess.Popen, timeout: float = 90.0) -> None:
+    end = time.monotonic() + timeout
+    while time.monotonic() < end:
+        if proc.poll() is not None:
+            raise RuntimeError(f"JupyterLab exited with code {proc.returncode}")
+        try:
+            with urllib.request.urlopen(f"{base}/api/status", timeout=2) as r:
+                if r.status == 200:
+                    return
+        except OSError:
+            time.sleep(0.3)
+    raise TimeoutError(f"JupyterLab did not answer {base}/api/status within {timeout} s")
+
+
+@pytest.fixture
+def playwright_api():
+    if not CHROMIUM.exists():
+        pytest.skip(f"chromium is not installed ({CHROMIUM} missing; apt-get install -y chromium)")
+    try:
+        from playwright.sync_api import sync_playwright
+    except ImportError:
+        pytest.skip("the Python package playwright is not installed (pip install playwright)")
+    return sync_playwright
+
+
+@pytest.fixture
+def lab(tmp_path):
+    """JupyterLab on 127.0.0.1 serving a temporary copy of notebooks/, with its own config and settings."""
+    root = tmp_path / "notebooks"
+    shutil.copytree(REPO / "notebooks", root, ignore=shutil.ignore_patterns(".ipynb_checkpoints"))
+    env = dict(os.environ)
+    for var, sub in (
+        ("JUPYTER_CONFIG_DIR", "config"),
+        ("JUPYTERLAB_SETTINGS_DIR", "settings"),
+        ("JUPYTERLAB_WORKSPACES_DIR", "workspaces"),
+        ("JUPYTER_RUNTIME_DIR", "runtime"),
+    ):
+        (tmp_path / sub).mkdir()
+        env[var] = str(tmp_path / sub)
+    # no news or update checks (they would ask to reach the internet, and their prompt covers the panel)
+    news = tmp_path / "settings" / "@jupyterlab" / "apputils-extension"
+    news.mkdir(parents=True)
+    (news / "notification.jupyterlab-settings").write_text(
+        '{"fetchNews": "false", "checkForUpdates": false}', encoding="utf-8"
+    )
+    env["PATH"] = str(Path(sys.executable).parent) + os.pathsep + env.get("PATH", "")
+    env["PYDEVD_DISABLE_FILE_VALIDATION"] = "1"
+    port = _free_port()
+    log = open(tmp_path / "jupyterlab.log", "wb")  # noqa: SIM115 - closed below
+    proc = subprocess.Popen(
+        [
+            sys.executable,
+            "-m",
+            "jupyterlab",
+            "--no-browser",
+            "--ip=127.0.0.1",
+            f"--port={port}",
+            "--ServerApp.port_retries=0",
+            "--ServerApp.token=",
+            "--ServerApp.password=",
+            "--allow-root",
+            "--LabApp.expose_app_in_browser=True",
+            f"--ServerApp.root_dir={root}",
+        ],
+        cwd=root,
+        env=env,
+        stdout=log,
+        stderr=subprocess.STDOUT,
+    )
+    base = f"http://127.0.0.1:{port}"
+    try:
+        _wait_for_status(base, proc)
+        yield base
+    finally:
+        proc.terminate()
+        try:
+            proc.wait(15)
+        except subprocess.TimeoutExpired:
+            proc.kill()
+            proc.wait(10)
+        log.close()
+
+
+def _local_only(route) -> None:
+    url = route.request.url
+    host = urlparse(url[5:] if url.startswith("blob:") else url).hostname
+    if host == "127.0.0.1" or url.startswith("data:"):
+        route.continue_()
+    else:
+        route.abort()
+
+
+def _set_slider(page, name: str, value: str) -> float:
+    """Type ``value`` into the readout of slider ``name`` and press Enter; returns the time [s]."""
+    readout = page.locator(f".pdvoid-{name} .widget-readout")
+    readout.click()
+    readout.fill(value)
+    t0 = time.perf_counter()
+    readout.press("Enter")
+    return t0
+
+
+def _wait_updated(page, words: list[str], timeout_ms: int = 60_000) -> None:
+    page.wait_for_function(_JS_STATUS_HAS, arg=["updated:", *words], timeout=timeout_ms)
+
+
+def _images(page) -> dict[str, str]:
+    return {
+        v: page.evaluate(_JS_IMAGE_DIGEST, f"img.pdvoid-image-{v}") for v in ("field", "pattern", "sequence")
+    }
+
+
+def test_workbench_reacts_to_void_size_and_pressure(playwright_api, lab):
+    ARTIFACTS.mkdir(exist_ok=True)
+    timings = {}
+    with playwright_api() as pw:
+        browser = pw.chromium.launch(executable_path=str(CHROMIUM), headless=True, args=CHROMIUM_ARGS)
+        page = browser.new_page(viewport={"width": 1600, "height": 1500})
+        page.route("**/*", _local_only)
+        try:
+            t0 = time.perf_counter()
+            page.goto(f"{lab}/lab/tree/workbench.ipynb?reset", wait_until="domcontentloaded")
+            page.wait_for_function(_JS_KERNEL_IDLE, timeout=90_000)
+            page.evaluate("window.jupyterapp.commands.execute('notebook:run-all-cells')")
+            _wait_updated(page, ["void 1.5 mm × 1.5 mm"], timeout_ms=90_000)
+            timings["open and first draw [s]"] = time.perf_counter() - t0
+            page.wait_for_selector("img.pdvoid-image-field", state="visible")
+            start_images = _images(page)
+            start_u = page.evaluate(_JS_SUMMARY_VALUE, U_INC)
+            assert all(start_images.values()) and start_u and 5.0 < start_u < 50.0
+
+            t_change = _set_slider(page, "diameter_mm", "2.5")
+            _wait_updated(page, ["void 2.5 mm × 1.5 mm"])
+            timings["diameter change to redrawn panel, in the browser [s]"] = time.perf_counter() - t_change
+            size_images = _images(page)
+            size_u = page.evaluate(_JS_SUMMARY_VALUE, U_INC)
+            # a larger void discharges at a lower voltage (streamer criterion, Niemeyer 1995; physics brief
+            # §3.1)
+            assert size_u < start_u
+            assert size_images["field"] != start_images["field"]
+            assert size_images["pattern"] != start_images["pattern"]
+
+            t_change = _set_slider(page, "pressure_kPa", "130")
+            _wait_updated(page, ["air at 130 kPa"])
+            timings["pressure change to redrawn panel, in the browser [s]"] = time.perf_counter() - t_change
+            pressure_images = _images(page)
+            pressure_u = page.evaluate(_JS_SUMMARY_VALUE, U_INC)
+            # a higher gas pressure raises the inception field (streamer criterion, Niemeyer 1995)
+            assert pressure_u > size_u
+            assert pressure_images["pattern"] != size_images["pattern"]
+            assert pressure_images["field"] != size_images["field"]
+            assert page.locator(".pdvoid-error").inner_text().strip() == ""
+
+            page.evaluate("window.jupyterapp.shell.collapseLeft()")
+            page.locator(".pdvoid-workbench").evaluate("e => e.scrollIntoView({block: 'start'})")
+            page.wait_for_timeout(300)
+            page.screenshot(path=str(ARTIFACTS / "workbench.png"))
+        except Exception:
+            page.screenshot(path=str(ARTIFACTS / "workbench-failure.png"))
+            raise
+        finally:
+            try:
+                page.evaluate("window.jupyterapp.serviceManager.sessions.shutdownAll()")
+            finally:
+                browser.close()
+    print("; ".join(f"{k} {v:.2f}" for k, v in timings.items()))

@@ -1,0 +1,214 @@
+"""The workbench logic without widgets: control values → scenario → run → summary numbers (invented
+scenarios)."""
+
+from __future__ import annotations
+
+import math
+
+import pytest
+
+import pdvoid
+from pdvoid.workbench.controls import CUSTOM_MATERIAL, SPECS, Controls
+from pdvoid.workbench.session import WorkbenchSession
+
+U_INC = "inception voltage [kV rms]"
+PER_CYCLE = "discharges per cycle [-]"
+
+
+@pytest.fixture
+def session():
+    return WorkbenchSession(cycles=200, seed=1)
+
+
+def test_controls_round_trip_the_demo_scenario(demo):
+    c = Controls.from_scenario(demo)
+    back = c.to_scenario(demo)
+    # display units → SI and back: mm, kPa, kV, ms are exact powers of ten (common practice: SI prefixes)
+    assert back.void.diameter == pytest.approx(demo.void.diameter, rel=1e-12)
+    assert back.void.pressure == pytest.approx(demo.void.pressure, rel=1e-12)
+    assert back.supply.rms == pytest.approx(demo.supply.rms, rel=1e-12)
+    assert back.model.surface_decay_time == pytest.approx(demo.model.surface_decay_time, rel=1e-12)
+    assert back.insulation.material == demo.insulation.material == c.material
+    assert back.void.temperature == demo.void.temperature  # not a control: kept from the base scenario
+
+
+def test_every_control_has_a_label_with_a_unit_or_is_a_choice():
+    for name, spec in SPECS.items():
+        assert spec.kind in ("slider", "number", "int", "choice", "bool"), name
+        if spec.kind in ("slider", "number", "int"):
+            assert spec.label.endswith("]"), f"{name}: {spec.label!r} names no unit"
+
+
+def test_larger_void_lowers_the_inception_voltage(session):
+    base = session.run().summary[U_INC]
+    session.set(diameter_mm=3.0, height_mm=3.0)
+    larger = session.run().summary[U_INC]
+    # streamer criterion E_inc = (E/p)_cr p [1 + B/(p l)^n] falls as l grows (Niemeyer 1995; physics brief
+    # §3.1)
+    assert larger < base * 0.95
+
+
+def test_higher_pressure_raises_the_inception_voltage(session):
+    base = session.run().summary[U_INC]
+    session.set(pressure_kPa=200.0)
+    higher = session.run().summary[U_INC]
+    # E_inc grows with p in the streamer criterion (Niemeyer 1995; physics brief §3.1)
+    assert higher > base * 1.5
+
+
+def test_higher_permittivity_lowers_the_inception_voltage(session):
+    session.set(permittivity=2.0)
+    low = session.run().summary
+    session.set(permittivity=8.0)
+    high = session.run().summary
+    # spherical void: f = 3 εr / (2 εr + 1) grows with εr (textbook electrostatics; physics brief §2.1)
+    assert high["field enhancement [-]"] == pytest.approx(3 * 8.0 / 17.0, rel=1e-9)
+    assert low["field enhancement [-]"] == pytest.approx(3 * 2.0 / 5.0, rel=1e-9)
+    assert high[U_INC] < low[U_INC]
+
+
+def test_thicker_insulation_raises_the_inception_voltage(session):
+    base = session.run().summary[U_INC]
+    session.set(thickness_mm=12.0)
+    thick = session.run().summary[U_INC]
+    # same void field needs twice the applied field over a slab twice as thick: U_inc = E_inc d / f
+    # (textbook electrostatics, uniform field between plane electrodes)
+    assert thick == pytest.approx(2.0 * base, rel=1e-9)
+
+
+def test_higher_voltage_gives_more_discharges_per_cycle(session):
+    session.set(voltage_kV=16.0)
+    low = session.run().summary[PER_CYCLE]
+    session.set(voltage_kV=30.0)
+    high = session.run().summary[PER_CYCLE]
+    # the lag-free count per half cycle grows with the applied amplitude above inception (physics brief §1.4)
+    assert high > 1.5 * low > 0.0
+
+
+def test_margin_is_inception_over_test_level(session):
+    session.set(test_voltage_kV=10.0)
+    s = session.run().summary
+    # definition of the margin used by pdvoid.design_margin: U_inc / U_test
+    assert s["margin to test level U_inc/U_test [-]"] == pytest.approx(s[U_INC] / 10.0, rel=1e-12)
+    assert s["test level [kV rms]"] == 10.0
+
+
+def test_summary_matches_the_library_functions(session):
+    out = session.run()
+    # the panel shows the library's numbers unchanged (pdvoid.inception, pdvoid.iec60270)
+    est = pdvoid.inception(out.scenario)
+    iec = pdvoid.iec60270(out.result)
+    assert out.summary[U_INC] == pytest.approx(est.inception_voltage / 1e3, rel=1e-12)
+    assert out.summary["extinction voltage [kV rms]"] == pytest.approx(
+        est.extinction_voltage / 1e3, rel=1e-12
+    )
+    assert out.summary["average discharge current I [nA]"] == pytest.approx(
+        iec.average_current * 1e9, rel=1e-9
+    )
+    assert out.summary["pulse repetition rate n [1/s]"] == pytest.approx(iec.repetition_rate, rel=1e-9)
+    assert out.summary[PER_CYCLE] == pytest.approx(out.result.event_count / 200, rel=1e-12)
+
+
+def test_void_taller_than_the_insulation_shows_the_message_not_an_exception(session):
+    session.set(height_mm=7.0)  # the demo wall is 6 mm thick
+    out = session.run()
+    assert not out.ok and out.result is None and out.summary == {}
+    assert "void.height must be smaller than insulation.thickness" in out.error
+
+
+@pytest.mark.parametrize(
+    ("changes", "words"),
+    [
+        ({"permittivity": 0.5}, "insulation.permittivity"),
+        ({"pressure_kPa": float("nan")}, "gas pressure must be finite"),
+        ({"cycles": 0}, "cycles"),
+        ({"residual_ratio": 1.0}, "model.residual_ratio"),
+        ({"frequency_Hz": -50.0}, "supply.frequency"),
+        ({"test_voltage_kV": 0.0}, "test level"),
+    ],
+)
+def test_invalid_values_give_input_error_messages(session, changes, words):
+    session.set(**changes)
+    out = session.run()
+    assert not out.ok
+    assert words in out.error
+
+
+def test_unknown_control_is_an_input_error(session):
+    with pytest.raises(pdvoid.InputError, match="unknown workbench controls"):
+        session.set(void_size=2.0)
+
+
+def test_material_sets_permittivity_and_a_typed_permittivity_makes_it_custom(session):
+    session.set(material="ptfe")
+    # the parameter set's PTFE value (pdvoid.materials)
+    assert session.controls.permittivity == pdvoid.materials.get_material("ptfe").permittivity
+    assert session.scenario().insulation.material == "ptfe"
+    session.set(permittivity=2.5)
+    assert session.controls.material == CUSTOM_MATERIAL
+    assert session.scenario().insulation.material is None
+    assert session.scenario().insulation.permittivity == 2.5
+
+
+def test_switching_the_model_keeps_the_electron_parameters(session):
+    session.set(model="network", residual_ratio=0.3)
+    sc = session.scenario()
+    assert isinstance(sc.model, pdvoid.NetworkModel)
+    assert sc.model.residual_ratio == 0.3
+    assert sc.model.ionization_rate == session.base.model.ionization_rate
+    assert session.run().ok
+
+
+def test_model_parameters_reach_the_scenario(session):
+    session.set(surface_decay_time_ms=5.0, ionization_rate=2e9, field_assisted=True, lag_free=True)
+    m = session.scenario().model
+    assert m.surface_decay_time == pytest.approx(5e-3, rel=1e-12)
+    assert (m.ionization_rate, m.field_assisted, m.lag_free) == (2e9, True, True)
+
+
+def test_stop_keeps_the_partial_result(session):
+    session.set(cycles=100_000)
+    calls = []
+    out = session.run(
+        progress=lambda done, total: calls.append((done, total)), should_stop=lambda: True, chunk_cycles=100
+    )
+    assert out.ok and out.stopped
+    assert out.result.cycles == 100 and out.result.requested_cycles == 100_000
+    assert calls == [(100, 100_000)]
+    assert out.summary["cycles run [-]"] == 100.0
+
+
+def test_same_seed_gives_the_same_numbers(session):
+    a = session.run().summary
+    b = session.run().summary
+    assert a == b
+    session.set(seed=2)
+    c = session.run().summary
+    assert c[PER_CYCLE] != a[PER_CYCLE] or c["mean apparent charge [pC]"] != a["mean apparent charge [pC]"]
+
+
+def test_measured_pattern_is_compared(session, tmp_path):
+    from pdvoid.io import write_events
+
+    reference = session.run()
+    path = write_events(reference.result.events, tmp_path / "measured.csv")
+    text = session.load_measured(path)
+    assert f"{reference.result.event_count} discharges" in text
+    same = session.run()
+    # identical patterns score 0 (definition in pdvoid.analysis.compare)
+    assert same.comparison is not None and same.comparison.score == pytest.approx(0.0, abs=1e-12)
+    session.set(voltage_kV=30.0)
+    other = session.run()
+    assert other.comparison.score > 0.05
+    session.clear_measured()
+    assert session.run().comparison is None
+
+
+def test_unreadable_measured_file_raises_input_error(session, tmp_path):
+    bad = tmp_path / "bad.csv"
+    bad.write_text("phase [deg],charge [pC]\n10,5\n", encoding="utf-8")
+    with pytest.raises(pdvoid.InputError, match="frequency"):
+        session.load_measured(bad, cycles=10)  # no frequency anywhere: refused, not guessed
+    assert session.measured is None
+    session.load_measured(bad, cycles=10, frequency=50.0)
+    assert session.measured.count == 1 and math.isclose(session.measured.cycles, 10.0)
