@@ -21,7 +21,8 @@ def network_kernel_arguments(scenario: Scenario, c: Coefficients) -> KernelArgum
     return KernelArguments(
         frequency=scenario.supply.frequency, orders=orders, a_coef=a, b_coef=b, seg_fracs=seg, pure_sine=pure,
         gain=c.void_voltage_ratio, x_inc=c.inception_field * h, x_res=c.residual_field * h,
-        charge_per_unit=c.capacitance_series, lag_free=m.lag_free, n_vol_pos=c.volume_electron_rate + cathode_rate(scenario, +1.0),
+        charge_per_unit=c.capacitance_series, lag_free=m.lag_free,
+        n_vol_pos=c.volume_electron_rate + cathode_rate(scenario, +1.0),
         n_vol_neg=c.volume_electron_rate + cathode_rate(scenario, -1.0),
         n_same=m.surface_rate_same, n_rev=m.surface_rate_reversed, tau_s=m.surface_decay_time,
         field_assisted=m.field_assisted, tau_q=m.charge_decay_time, x_to_field=1.0 / h,
