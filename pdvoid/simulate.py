@@ -83,7 +83,8 @@ class VoidRunner:
             n, nxt = K.run_cycles(
                 self.state, self.cycle, stop, a.frequency, a.orders, a_coef, b_coef, a.seg_fracs, a.pure_sine,
                 a.gain, a.x_inc, a.x_res, a.charge_per_unit, a.lag_free, a.n_vol_pos, a.n_vol_neg, a.n_same,
-                a.n_rev, a.tau_s, a.field_assisted, a.tau_q, store, bt, bq, bb, ba, bound, counts, charge_edges, self.totals,
+                a.n_rev, a.tau_s, a.field_assisted, a.tau_q, store, bt, bq, bb, ba, bound, counts, charge_edges,
+                self.totals,
             )
             if n < 0 or nxt == self.cycle:
                 raise RuntimeError("internal error: the event bound per cycle was exceeded; please report this")

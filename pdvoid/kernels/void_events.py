@@ -10,7 +10,8 @@ electrons form a Poisson process of rate N(t) = N_vol + N_surf(t) with N_surf(t)
 (N_s = n_same when the pending discharge repeats the last polarity, n_rev when it reverses; zero before the
 first discharge), optionally times exp(|x|/x_inc). N_vol may differ by polarity (n_vol_pos, n_vol_neg): a void
 bounded by an electrode receives extra start electrons when the metal wall is its cathode. At a discharge x falls
-to sign(x)·x_res; the apparent charge is c·(x_before - x_after). The deposited quantity x_q may decay with time constant tau_q.
+to sign(x)·x_res; the apparent charge is c·(x_before - x_after). The deposited quantity x_q may decay with time
+constant tau_q.
 
 Time is not discretised. The period is cut at the extrema of V into pieces where V is monotone; with charge
 decay the pieces are cut again where dx/dt changes sign. On a monotone piece every threshold crossing is one root,
