@@ -31,7 +31,7 @@ def register(subparsers) -> argparse.ArgumentParser:
         "--scheduler",
         metavar="ADDRESS",
         default=None,
-        help="run on the Dask scheduler at ADDRESS (e.g. tcp://10.0.0.5:8786)",
+        help="run on the Dask scheduler at ADDRESS (e.g. tcp://127.0.0.1:8786)",
     )
     where.add_argument(
         "--workers",

@@ -173,7 +173,7 @@ def parallel_map(
             (tasks not yet started are cancelled).
         items: the arguments, picklable.
         client: None for local execution; a ``dask.distributed.Client``, or a scheduler address string
-            such as ``"tcp://10.0.0.5:8786"`` (a client is opened and closed for this call), to run on Dask.
+            such as ``"tcp://127.0.0.1:8786"`` (a client is opened and closed for this call), to run on Dask.
         workers: local worker processes [-]; None uses every core this process may use; 1 runs serially in
             this process. Ignored with ``client``.
         progress: show a progress bar (tqdm, notebook-aware).
