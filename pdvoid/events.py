@@ -10,15 +10,12 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from .arrays import frozen_array as _frozen
 from .errors import InputError, check_positive
 
 __all__ = ["Events", "as_events"]
 
 
-def _frozen(a: np.ndarray) -> np.ndarray:
-    a = np.ascontiguousarray(a, dtype=float)
-    a.setflags(write=False)
-    return a
 
 
 @dataclass(frozen=True, eq=False)

@@ -16,6 +16,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from ..arrays import frozen_array as _frozen
 from ..errors import InputError, check_bool, check_choice, check_int, check_real
 from ..events import Events, as_events
 
@@ -38,10 +39,6 @@ HALVES: tuple[str, ...] = ("+", "-")
 _MAX_BINS = 100_000
 
 
-def _frozen(a: np.ndarray, dtype: type = float) -> np.ndarray:
-    a = np.ascontiguousarray(a, dtype=dtype)
-    a.setflags(write=False)
-    return a
 
 
 def _stored_events(obj: object) -> Events:

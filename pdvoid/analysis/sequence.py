@@ -7,16 +7,13 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from ..arrays import frozen_array as _frozen
 from ..errors import InputError
 from .patterns import _stored_events
 
 __all__ = ["PulseSequence", "pulse_sequence"]
 
 
-def _frozen(a: np.ndarray) -> np.ndarray:
-    a = np.ascontiguousarray(a, dtype=float)
-    a.setflags(write=False)
-    return a
 
 
 @dataclass(frozen=True, eq=False)

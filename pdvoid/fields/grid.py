@@ -17,6 +17,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from ..arrays import frozen_array as _frozen
 from ..errors import InputError, check_int, check_positive, check_range
 
 __all__ = ["Grid", "graded_faces", "make_grid"]
@@ -24,10 +25,6 @@ __all__ = ["Grid", "graded_faces", "make_grid"]
 _SAMPLES = 40001  # resolution of the numerical inverse of the cell-count function (common practice)
 
 
-def _frozen(a: np.ndarray) -> np.ndarray:
-    a = np.ascontiguousarray(a, dtype=float)
-    a.setflags(write=False)
-    return a
 
 
 @dataclass(frozen=True, eq=False)

@@ -32,6 +32,7 @@ import scipy.sparse as sp
 import scipy.sparse.linalg as spla
 from scipy.optimize import brentq
 
+from ..arrays import frozen_array as _frozen
 from ..errors import InputError, check_choice, check_int, check_positive, check_real
 from ..units import EPSILON_0
 from .layout import ELECTRODES
@@ -42,10 +43,6 @@ __all__ = ["TimeDomainResult", "conductive_void_reference"]
 REFERENCES = ("illias2011", "pedersen1991")
 
 
-def _frozen(a) -> np.ndarray:
-    a = np.ascontiguousarray(a, dtype=float)
-    a.setflags(write=False)
-    return a
 
 
 @dataclass(frozen=True, eq=False)

@@ -30,6 +30,7 @@ from pathlib import Path
 
 import numpy as np
 
+from ..arrays import frozen_array as _frozen
 from ..errors import InputError, check_array, check_choice, check_positive
 from ..events import Events, as_events
 from . import lines as L
@@ -41,10 +42,6 @@ __all__ = ["PatternMatrix", "matrix_from_events", "read_pattern_matrix", "write_
 _EDGES = re.compile(r"^(phase|charge)\s+edges\s*(?:[\[(]\s*([^\[\]()]*?)\s*[\])])?$", re.IGNORECASE)
 
 
-def _frozen(a: np.ndarray, dtype: type = float) -> np.ndarray:
-    a = np.ascontiguousarray(a, dtype=dtype)
-    a.setflags(write=False)
-    return a
 
 
 @dataclass(frozen=True, eq=False)

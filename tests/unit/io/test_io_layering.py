@@ -8,7 +8,7 @@ from pathlib import Path
 
 import pdvoid.io
 
-ALLOWED = {"errors", "units", "events", "results", "scenario_files", "io", "__version__"}
+ALLOWED = {"errors", "units", "arrays", "events", "results", "scenario_files", "io", "__version__"}
 
 
 def test_io_imports_only_lower_layers():
