@@ -263,7 +263,7 @@ def morrow_lowke_coefficients(field: object, gas_number_density: object) -> tupl
         (alpha, eta2, eta3) [1/m], floats or arrays.
 
     References:
-        morrow1997 (appendix; coefficients confirmed via independent transcriptions).
+        morrow1997 (appendix; coefficients confirmed against independent public code copies).
     """
     e, s1 = _values("field", field, unit="V/m")
     n, s2 = _values("gas_number_density", gas_number_density, unit="1/m³")
