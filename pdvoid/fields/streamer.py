@@ -234,7 +234,7 @@ def streamer_inception_voltage(
         morrow1997 (α_eff of air, via pdvoid.physics.inception); the streamer criterion itself as in the
         physics brief §7 (Raether–Meek; K about 9.15-9.2 from mikropoulos2009, confirmed).
     """
-    from ..physics.inception import effective_ionization_air, sf6_effective_ionization, streamer_integral
+    from ..physics.ionization import effective_ionization_air, sf6_effective_ionization, streamer_integral
 
     if not isinstance(solver, FieldSolver):
         raise InputError(f"solver must be a FieldSolver; got {type(solver).__name__}")

@@ -13,7 +13,9 @@ import numpy as np
 
 from ..errors import check_range
 from ..units import ATM, T_ROOM
-from .inception import _broadcast, _shape_out, _values
+from .checks import broadcast as _broadcast
+from .checks import shape_out as _shape_out
+from .checks import values as _values
 
 __all__ = [
     "REFERENCE_IONIZATION_RATE",

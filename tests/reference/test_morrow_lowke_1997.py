@@ -10,11 +10,7 @@ import numpy as np
 import pytest
 from scipy.constants import k as K_B
 
-from pdvoid.physics.inception import (
-    critical_field_air,
-    effective_ionization_air,
-    morrow_lowke_coefficients,
-)
+from pdvoid.physics.ionization import critical_field_air, effective_ionization_air, morrow_lowke_coefficients
 
 N_CM = 2.5e19  # gas density [1/cm³] for the spot checks
 N_SI = N_CM * 1e6  # [1/m³]

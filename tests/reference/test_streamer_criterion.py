@@ -9,14 +9,8 @@ from __future__ import annotations
 import pytest
 
 from pdvoid.materials import get_gas
-from pdvoid.physics.inception import (
-    empirical_air_breakdown_voltage,
-    gas_inception_field,
-    ionization_integral_inception_field,
-    sf6_effective_ionization,
-    streamer_inception_field,
-    streamer_integral,
-)
+from pdvoid.physics.inception import empirical_air_breakdown_voltage, gas_inception_field, streamer_inception_field
+from pdvoid.physics.ionization import ionization_integral_inception_field, sf6_effective_ionization, streamer_integral
 
 # illias2011 / niemeyer1995, from memory
 AIR = dict(critical_reduced_field=24.2, b_constant=8.6, exponent=0.5)

@@ -17,7 +17,7 @@ from pdvoid.fields import (
     specimen_layout,
 )
 from pdvoid.fields.streamer import streamer_inception_voltage, trace_field_line
-from pdvoid.physics.inception import ionization_integral_inception_field
+from pdvoid.physics.ionization import ionization_integral_inception_field
 
 
 def test_uniform_gap_equals_uniform_field_criterion():

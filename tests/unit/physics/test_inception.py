@@ -12,18 +12,20 @@ from hypothesis import strategies as st
 from pdvoid import InputError
 from pdvoid.materials import get_gas, load_gases
 from pdvoid.physics.inception import (
-    critical_field_air,
     density_equivalent_pressure,
-    effective_ionization_air,
     empirical_air_breakdown_voltage,
     gas_inception_field,
-    ionization_integral_inception_field,
-    morrow_lowke_coefficients,
     paschen_minimum,
     paschen_voltage,
+    streamer_inception_field,
+)
+from pdvoid.physics.ionization import (
+    critical_field_air,
+    effective_ionization_air,
+    ionization_integral_inception_field,
+    morrow_lowke_coefficients,
     sf6_effective_ionization,
     sf6_ionization_integral_inception_field,
-    streamer_inception_field,
     streamer_integral,
 )
 
