@@ -8,7 +8,8 @@ import numpy as np
 
 from ..errors import InputError, check_array, check_nonnegative, check_positive, check_range
 
-__all__ = ["values", "shape_out", "broadcast"]
+__all__ = ["values", "shape_out", "broadcast", "checked", "positive", "broadcast_named", "scalar_or_array",
+           "less_than"]
 
 
 def values(name: str, value: object, *, low: float = 0.0, low_open: bool = True, high: float = math.inf,
@@ -41,3 +42,65 @@ def broadcast(**arrays: np.ndarray) -> list[np.ndarray]:
     except ValueError:
         shapes = ", ".join(f"{k} {np.shape(v)}" for k, v in arrays.items())
         raise InputError(f"array arguments must have broadcast-compatible shapes; got {shapes}") from None
+
+
+def checked(
+    name: str,
+    value: object,
+    low: float,
+    high: float = math.inf,
+    *,
+    low_open: bool = False,
+    high_open: bool = False,
+    unit: str = "",
+) -> float | np.ndarray:
+    """``value`` as a float (scalar input) or float array; every entry finite and inside the interval."""
+    if isinstance(value, np.ndarray) and value.ndim == 0:
+        value = value[()]
+    if np.ndim(value) == 0:
+        return check_range(
+            name, value, low, high, low_open=low_open, high_open=high_open or high == math.inf, unit=unit
+        )
+    arr = check_array(name, value, ndim=np.ndim(value))
+    lo_ok = arr > low if low_open else arr >= low
+    hi_ok = arr < high if (high_open or high == math.inf) else arr <= high
+    bad = ~(lo_ok & hi_ok)
+    if np.any(bad):
+        i = int(np.flatnonzero(bad.ravel())[0])
+        lb = "(" if low_open else "["
+        hb = ")" if (high_open or high == math.inf) else "]"
+        u = f" {unit}" if unit else ""
+        raise InputError(f"{name} must lie in {lb}{low:g}, {high:g}{hb}{u}; entry {i} is {arr.ravel()[i]!r}")
+    return arr
+
+
+def positive(name: str, value: object, unit: str = "") -> float | np.ndarray:
+    return checked(name, value, 0.0, low_open=True, unit=unit)
+
+
+def broadcast_named(**named: float | np.ndarray) -> list[np.ndarray]:
+    """Broadcast checked inputs together; InputError naming them if their shapes do not fit."""
+    try:
+        return np.broadcast_arrays(*(np.asarray(v, dtype=float) for v in named.values()))
+    except ValueError:
+        shapes = ", ".join(f"{k} {np.shape(v)}" for k, v in named.items())
+        raise InputError(f"array shapes do not broadcast together: {shapes}") from None
+
+
+def scalar_or_array(x: np.ndarray, *inputs: object) -> float | np.ndarray:
+    """A float when every input was a scalar, else the array."""
+    if all(np.ndim(v) == 0 for v in inputs):
+        return float(np.asarray(x).reshape(()))
+    return x
+
+
+def less_than(name_small: str, small: object, name_large: str, large: object, unit: str = "m") -> None:
+    """InputError unless small < large everywhere."""
+    s, g = broadcast_named(**{name_small: small, name_large: large})
+    bad = ~(s < g)
+    if np.any(bad):
+        i = int(np.flatnonzero(bad.ravel())[0])
+        raise InputError(
+            f"{name_small} must be smaller than {name_large}; got {name_small} = {s.ravel()[i]!r} {unit} and "
+            f"{name_large} = {g.ravel()[i]!r} {unit}"
+        )

@@ -11,8 +11,12 @@ import math
 import numpy as np
 from scipy.special import elliprd
 
-from ..errors import InputError, check_array, check_range
 from ..units import EPSILON_0
+from .checks import broadcast_named as _broadcast
+from .checks import checked as _checked
+from .checks import less_than as _less_than
+from .checks import positive as _positive
+from .checks import scalar_or_array as _out
 
 __all__ = [
     "depolarization_ellipsoid",
@@ -23,71 +27,6 @@ __all__ = [
     "induced_charge_per_field",
     "layered_field_enhancement",
 ]
-
-
-# ------------------------------------------------------------------------------------------------------------
-# input checks shared by the physics modules (scalars and arrays)
-# ------------------------------------------------------------------------------------------------------------
-def _checked(
-    name: str,
-    value: object,
-    low: float,
-    high: float = math.inf,
-    *,
-    low_open: bool = False,
-    high_open: bool = False,
-    unit: str = "",
-) -> float | np.ndarray:
-    """``value`` as a float (scalar input) or float array; every entry finite and inside the interval."""
-    if isinstance(value, np.ndarray) and value.ndim == 0:
-        value = value[()]
-    if np.ndim(value) == 0:
-        return check_range(
-            name, value, low, high, low_open=low_open, high_open=high_open or high == math.inf, unit=unit
-        )
-    arr = check_array(name, value, ndim=np.ndim(value))
-    lo_ok = arr > low if low_open else arr >= low
-    hi_ok = arr < high if (high_open or high == math.inf) else arr <= high
-    bad = ~(lo_ok & hi_ok)
-    if np.any(bad):
-        i = int(np.flatnonzero(bad.ravel())[0])
-        lb = "(" if low_open else "["
-        hb = ")" if (high_open or high == math.inf) else "]"
-        u = f" {unit}" if unit else ""
-        raise InputError(f"{name} must lie in {lb}{low:g}, {high:g}{hb}{u}; entry {i} is {arr.ravel()[i]!r}")
-    return arr
-
-
-def _positive(name: str, value: object, unit: str = "") -> float | np.ndarray:
-    return _checked(name, value, 0.0, low_open=True, unit=unit)
-
-
-def _broadcast(**named: float | np.ndarray) -> list[np.ndarray]:
-    """Broadcast checked inputs together; InputError naming them if their shapes do not fit."""
-    try:
-        return np.broadcast_arrays(*(np.asarray(v, dtype=float) for v in named.values()))
-    except ValueError:
-        shapes = ", ".join(f"{k} {np.shape(v)}" for k, v in named.items())
-        raise InputError(f"array shapes do not broadcast together: {shapes}") from None
-
-
-def _out(x: np.ndarray, *inputs: object) -> float | np.ndarray:
-    """A float when every input was a scalar, else the array."""
-    if all(np.ndim(v) == 0 for v in inputs):
-        return float(np.asarray(x).reshape(()))
-    return x
-
-
-def _less_than(name_small: str, small: object, name_large: str, large: object, unit: str = "m") -> None:
-    """InputError unless small < large everywhere."""
-    s, g = _broadcast(**{name_small: small, name_large: large})
-    bad = ~(s < g)
-    if np.any(bad):
-        i = int(np.flatnonzero(bad.ravel())[0])
-        raise InputError(
-            f"{name_small} must be smaller than {name_large}; got {name_small} = {s.ravel()[i]!r} {unit} and "
-            f"{name_large} = {g.ravel()[i]!r} {unit}"
-        )
 
 
 # ------------------------------------------------------------------------------------------------------------

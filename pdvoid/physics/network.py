@@ -14,12 +14,12 @@ import numpy as np
 
 from ..errors import InputError, check_nonnegative, check_positive, check_range, check_real
 from ..units import EPSILON_0
+from .checks import broadcast_named as _broadcast
+from .checks import checked as _checked
+from .checks import less_than as _less_than
+from .checks import positive as _positive
+from .checks import scalar_or_array as _out
 from .geometry import (
-    _broadcast,
-    _checked,
-    _less_than,
-    _out,
-    _positive,
     _spheroid_axial,
     field_enhancement,
     induced_charge_per_field,
