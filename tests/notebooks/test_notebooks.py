@@ -6,11 +6,10 @@ import base64
 import time
 from pathlib import Path
 
+import ipykernel  # noqa: F401 - the notebooks need a kernel
+import nbclient
+import nbformat
 import pytest
-
-nbformat = pytest.importorskip("nbformat")
-nbclient = pytest.importorskip("nbclient")
-pytest.importorskip("ipykernel")
 
 pytestmark = [
     pytest.mark.notebook,

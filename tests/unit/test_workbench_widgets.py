@@ -14,8 +14,6 @@ import pytest
 import pdvoid
 from pdvoid.workbench.scheduler import DebouncedWorker
 
-ipywidgets = pytest.importorskip("ipywidgets")
-
 U_INC = "inception voltage [kV rms]"
 PNG = b"\x89PNG\r\n\x1a\n"  # PNG file signature (PNG specification, ISO/IEC 15948 section 5.2)
 

@@ -2,12 +2,11 @@
 
 from __future__ import annotations
 
+import distributed
 import pytest
+import xarray as xr
 
 from pdvoid.sweeps import parallel_map, sweep
-
-xr = pytest.importorskip("xarray")
-distributed = pytest.importorskip("distributed")
 
 PARAMS = {"void.diameter": [0.8e-3, 1.5e-3], "supply.rms": [12e3, 18e3]}
 

@@ -23,7 +23,6 @@ def test_serial_map_in_order():
 
 
 def test_local_processes_give_the_same_list_in_order():
-    pytest.importorskip("joblib")
     out = parallel_map(math.factorial, ITEMS, workers=2)
     assert out == [math.factorial(x) for x in ITEMS]
     assert backend_name(workers=2) == "loky"

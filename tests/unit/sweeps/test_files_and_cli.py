@@ -7,12 +7,11 @@ import json
 import textwrap
 
 import pytest
+import xarray as xr
 
 from pdvoid import InputError
 from pdvoid.cli_sweep import register
 from pdvoid.sweeps.files import read_sweep_file
-
-xr = pytest.importorskip("xarray")
 
 
 def _write(path, text):

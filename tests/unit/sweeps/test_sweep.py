@@ -4,14 +4,13 @@ from __future__ import annotations
 
 import numpy as np
 import pytest
+import xarray as xr
 
 import pdvoid
 from pdvoid import InputError
 from pdvoid.analysis.summary import run_summary
 from pdvoid.sweeps import base_scenario, read_netcdf, sweep, write_netcdf
 from pdvoid.sweeps.plan import point_seeds
-
-xr = pytest.importorskip("xarray")
 
 GRID = {"void.diameter": [0.8e-3, 1.5e-3], "void.height": [1.0e-3, 7.0e-3]}  # 7 mm > 6 mm wall: impossible
 
