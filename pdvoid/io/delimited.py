@@ -41,11 +41,11 @@ from pathlib import Path
 
 import numpy as np
 
-from ..errors import InputError, check_choice
+from ..errors import InputError
 from ..events import Events
 from . import lines as L
 from .columns import Column, column_label, resolve_columns
-from .options import CommentKeys, quantity_option
+from .options import CommentKeys, check_layout_options, quantity_option
 
 __all__ = ["read_events", "describe_read", "PHASE_TOLERANCE_DEG", "CYCLE_TOLERANCE"]
 
@@ -60,15 +60,6 @@ def _is_number(field: str, decimal_comma: bool) -> bool:
     except ValueError:
         return False
     return True
-
-
-def _check_options(delimiter: object, decimal: object) -> None:
-    if delimiter is not None:
-        check_choice("delimiter", delimiter, (",", ";", "\t"))
-    if decimal is not None:
-        check_choice("decimal", decimal, (".", ","))
-    if delimiter == "," and decimal == ",":
-        raise InputError("decimal=',' cannot be used with delimiter=','")
 
 
 class _Scan:
@@ -194,7 +185,7 @@ def read_events(
         InputError: naming the file (and the line) for every malformed input; see the module docs.
     """
     p = L.checked_path(path)
-    _check_options(delimiter, decimal)
+    check_layout_options(delimiter, decimal)
     opt_cycles = quantity_option("cycles", cycles, "dimensionless")
     opt_duration = quantity_option("duration", duration, "time")
     opt_frequency = quantity_option("frequency", frequency, "frequency")

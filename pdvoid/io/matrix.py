@@ -35,7 +35,7 @@ from ..errors import InputError, check_array, check_choice, check_positive
 from ..events import Events, as_events
 from . import lines as L
 from .columns import checked_column
-from .options import CommentKeys, quantity_option
+from .options import CommentKeys, check_layout_options, quantity_option
 
 __all__ = ["PatternMatrix", "matrix_from_events", "read_pattern_matrix", "write_pattern_matrix"]
 
@@ -188,12 +188,7 @@ def read_pattern_matrix(
         :class:`PatternMatrix` with ``extra["summary"]`` and ``extra["metadata"]``.
     """
     p = L.checked_path(path)
-    if delimiter is not None:
-        check_choice("delimiter", delimiter, (",", ";", "\t"))
-    if decimal is not None:
-        check_choice("decimal", decimal, (".", ","))
-    if delimiter == "," and decimal == ",":
-        raise InputError("decimal=',' cannot be used with delimiter=','")
+    check_layout_options(delimiter, decimal)
     opt_cycles = quantity_option("cycles", cycles, "dimensionless")
     opt_frequency = quantity_option("frequency", frequency, "frequency")
     keys = CommentKeys(p)

@@ -18,11 +18,11 @@ from __future__ import annotations
 import math
 from pathlib import Path
 
-from ..errors import InputError, check_positive
+from ..errors import InputError, check_choice, check_positive
 from ..units import parse_quantity
 from .lines import line_error
 
-__all__ = ["RECOGNISED_KEYS", "quantity_option", "CommentKeys"]
+__all__ = ["RECOGNISED_KEYS", "quantity_option", "CommentKeys", "check_layout_options"]
 
 #: comment keys with a meaning for the readers -> dimension of their value ("" for text)
 RECOGNISED_KEYS: dict[str, str] = {
@@ -96,3 +96,13 @@ class CommentKeys:
         if from_comment is not None:
             return from_comment[0], f"comment line {from_comment[1]}"
         return None, None
+
+
+def check_layout_options(delimiter: object, decimal: object) -> None:
+    """Validate the ``delimiter`` and ``decimal`` options of the text readers (None = detect)."""
+    if delimiter is not None:
+        check_choice("delimiter", delimiter, (",", ";", "\t"))
+    if decimal is not None:
+        check_choice("decimal", decimal, (".", ","))
+    if delimiter == "," and decimal == ",":
+        raise InputError("decimal=',' cannot be used with delimiter=','")
