@@ -15,6 +15,8 @@ import time
 
 import numpy as np
 
+import pdvoid
+
 
 def best(fn, repeat: int) -> tuple[float, object]:
     out = None
@@ -30,8 +32,8 @@ def main() -> None:
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     parser.add_argument("--repeat", type=int, default=3)
     args = parser.parse_args()
-    from pdvoid.fields import FieldSolver, coefficients_for, grid_for, specimen_layout, void_region
-    from pdvoid.fields.assembly import assemble
+    from pdvoid.coefficients.fields import FieldSolver, coefficients_for, grid_for, specimen_layout, void_region
+    from pdvoid.coefficients.fields.assembly import assemble
 
     geometry = dict(thickness=2e-3, permittivity=4.0, void_diameter=1e-3, void_height=1e-3)
     t, c = best(lambda: coefficients_for(**geometry, cells=(200, 400), extrapolate=False), args.repeat)
@@ -54,22 +56,28 @@ def main() -> None:
 
 def cycle_benchmark(repeat: int) -> None:
     """Time per simulated cycle: time-domain reference vs the reduced model (pdvoid.simulate), lag-free."""
-    from pdvoid.fields import FieldSolver, conductive_void_reference, grid_for, specimen_layout, void_region
+    from pdvoid.coefficients.fields import (
+        FieldSolver,
+        conductive_void_reference,
+        grid_for,
+        specimen_layout,
+        void_region,
+    )
 
     try:
         import importlib
 
         simulate_module = importlib.import_module("pdvoid.simulate")
-        from pdvoid.parameters import FieldModel, Insulation, Sine, Void
-        from pdvoid.scenario import Scenario
+        from pdvoid import FieldModel, Insulation, Sine, Void
+        from pdvoid.inputs.scenario import Scenario
     except ImportError as exc:  # the reduced model is another part of the package
         print(f"reduced model not available ({exc}); skipping the per-cycle comparison")
         return
     base = Scenario(Insulation(2e-3, 4.0), Void(1e-3, 1e-3), Sine(1.0), FieldModel(lag_free=True))
-    coef = base.coefficients()
+    coef = pdvoid.compute_coefficients(base)
     rms = 2.0 * coef.inception_voltage  # twice the inception voltage: a few discharges per cycle
     scenario = Scenario(Insulation(2e-3, 4.0), Void(1e-3, 1e-3), Sine(rms), FieldModel(lag_free=True))
-    coef = scenario.coefficients()
+    coef = pdvoid.compute_coefficients(scenario)
     simulate_module.simulate(scenario, cycles=10, seed=1)  # compile / warm up
     n_red = 20000
     t_red, res = best(lambda: simulate_module.simulate(scenario, cycles=n_red, seed=1), repeat)

@@ -11,7 +11,7 @@ import time
 import pdvoid
 from pdvoid.analysis.fit import fit
 from pdvoid.analysis.synthetic import demo_measured_path, hidden_parameters
-from pdvoid.cli import demo_scenario
+from pdvoid.inputs.demo import demo_scenario
 
 VARY = {
     "void.diameter": (0.5e-3, 3e-3),

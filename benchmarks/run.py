@@ -23,7 +23,7 @@ HERE = Path(__file__).resolve().parent
 sys.path.insert(0, str(HERE))
 
 import pdvoid  # noqa: E402
-from pdvoid.cli import demo_scenario  # noqa: E402
+from pdvoid.inputs.demo import demo_scenario  # noqa: E402
 from pdvoid.models import kernel_arguments  # noqa: E402
 
 
@@ -92,7 +92,7 @@ FIRST_CALL = """
 import time
 t0 = time.perf_counter()
 import pdvoid
-from pdvoid.cli import demo_scenario
+from pdvoid.inputs.demo import demo_scenario
 r = pdvoid.simulate(demo_scenario(), cycles=100, seed=1)
 print(time.perf_counter() - t0)
 """
@@ -112,7 +112,7 @@ def first_call_times():
 
 MEMORY = """
 import resource, pdvoid
-from pdvoid.cli import demo_scenario
+from pdvoid.inputs.demo import demo_scenario
 r = pdvoid.simulate(demo_scenario(), cycles={cycles}, seed=1, histogram=True)
 print(r.event_count, resource.getrusage(resource.RUSAGE_SELF).ru_maxrss / 1024)
 """

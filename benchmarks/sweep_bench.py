@@ -17,7 +17,7 @@ import time
 
 import numpy as np
 
-from pdvoid.cli import demo_scenario
+from pdvoid.inputs.demo import demo_scenario
 from pdvoid.sweeps import local_workers, parallel_map, sweep
 
 

@@ -3,23 +3,31 @@
 Results are engineering estimates. Test and acceptance levels come from the applicable standards; local codes and
 licensed practice prevail. High voltage can kill.
 
-The simulation core is imported at once; the analysis, measured-data, sweep and fit functions are loaded on first
-use (PEP 562), so a plain simulation does not pay for scipy.stats, scipy.signal or xarray.
+The packages follow the data flow: :mod:`~pdvoid.core` → :mod:`~pdvoid.inputs` → :mod:`~pdvoid.physics` →
+:mod:`~pdvoid.coefficients` → :mod:`~pdvoid.kernels` → :mod:`~pdvoid.models` → :mod:`~pdvoid.simulation` →
+:mod:`~pdvoid.analysis`, :mod:`~pdvoid.io`, :mod:`~pdvoid.sweeps` → :mod:`~pdvoid.faces`.
+
+The simulation core is imported at once; the analysis, measured-data, sweep and fit functions and the
+:mod:`pdvoid.fields` solver are loaded on first use (PEP 562), so a plain simulation does not pay for
+scipy.stats, scipy.signal or xarray.
 """
 
 from __future__ import annotations
 
 import importlib
+from typing import Any
 
-__version__ = "0.1.0"
-
-from .errors import InputError  # noqa: E402
-from .events import Events  # noqa: E402
-from .parameters import FieldModel, Insulation, NetworkModel, Periodic, Sine, Void  # noqa: E402
-from .references import cite  # noqa: E402
-from .results import Result, load  # noqa: E402
-from .scenario import Scenario  # noqa: E402
-from .simulate import simulate  # noqa: E402
+from pdvoid._version import __version__
+from pdvoid.coefficients import Coefficients, compute_coefficients
+from pdvoid.core.errors import InputError
+from pdvoid.core.references import cite
+from pdvoid.core.versions import show_versions
+from pdvoid.inputs.parameters import Insulation, Periodic, Sine, Void
+from pdvoid.inputs.scenario import Scenario
+from pdvoid.models import FieldModel, NetworkModel
+from pdvoid.simulation.events import Events
+from pdvoid.simulation.results import Result, load
+from pdvoid.simulation.simulate import simulate
 
 # public name -> module that defines it (loaded on first access)
 _LAZY = {
@@ -32,26 +40,40 @@ _LAZY = {
     "design_margin": "pdvoid.analysis.margins",
     "pulse_sequence": "pdvoid.analysis.sequence",
     "weibull_fit": "pdvoid.analysis.magnitudes",
+    "run_summary": "pdvoid.analysis.summary",
     "compare": "pdvoid.analysis.compare",
     "fit": "pdvoid.analysis.fit",
     "read_events": "pdvoid.io",
+    "read_pattern_matrix": "pdvoid.io",
     "sweep": "pdvoid.sweeps",
+}
+# public subpackages reachable as attributes after a plain ``import pdvoid``
+_SUBPACKAGES = {
+    "fields": "pdvoid.coefficients.fields",
+    "plots": "pdvoid.faces.plots",
+    "workbench": "pdvoid.faces.workbench",
+    "analysis": "pdvoid.analysis",
+    "io": "pdvoid.io",
+    "sweeps": "pdvoid.sweeps",
 }
 
 __all__ = [
-    "InputError", "cite", "__version__", "Events", "Insulation", "Void", "Sine", "Periodic", "FieldModel",
-    "NetworkModel", "Scenario", "simulate", "Result", "load", *_LAZY,
+    "__version__", "InputError", "cite", "show_versions", "Insulation", "Void", "Sine", "Periodic", "FieldModel",
+    "NetworkModel", "Scenario", "Coefficients", "compute_coefficients", "Events", "simulate", "Result", "load",
+    *_LAZY,
 ]
 
 
-def __getattr__(name: str):
-    module = _LAZY.get(name)
-    if module is None:
+def __getattr__(name: str) -> Any:
+    if name in _SUBPACKAGES:
+        value = importlib.import_module(_SUBPACKAGES[name])
+    elif name in _LAZY:
+        value = getattr(importlib.import_module(_LAZY[name]), name)
+    else:
         raise AttributeError(f"module 'pdvoid' has no attribute {name!r}")
-    value = getattr(importlib.import_module(module), name)
     globals()[name] = value
     return value
 
 
 def __dir__() -> list[str]:
-    return sorted(set(globals()) | set(_LAZY))
+    return sorted(set(globals()) | set(_LAZY) | set(_SUBPACKAGES))

@@ -26,7 +26,7 @@ def scenario_factory():
 
 @pytest.fixture
 def demo():
-    from pdvoid.cli import demo_scenario
+    from pdvoid.inputs.demo import demo_scenario
 
     return demo_scenario()
 

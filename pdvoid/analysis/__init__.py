@@ -3,16 +3,16 @@ inception studies and design margins."""
 
 from __future__ import annotations
 
-from .compare import compare
-from .descriptors import fingerprint
-from .fit import fit
-from .inception import inception, probability_of_missing, ramp_test
-from .magnitudes import weibull_fit
-from .margins import design_margin, largest_pd_free_void, margin_table
-from .patterns import half_cycle_distributions, magnitude_distribution, pattern
-from .quantities import iec60270, largest_repeated_magnitude
-from .sequence import pulse_sequence
-from .summary import run_summary
+from pdvoid.analysis.compare import compare
+from pdvoid.analysis.descriptors import fingerprint
+from pdvoid.analysis.fit import fit
+from pdvoid.analysis.inception import inception, probability_of_missing, ramp_test
+from pdvoid.analysis.magnitudes import weibull_fit
+from pdvoid.analysis.margins import design_margin, largest_pd_free_void, margin_table
+from pdvoid.analysis.patterns import half_cycle_distributions, magnitude_distribution, pattern
+from pdvoid.analysis.quantities import iec60270, largest_repeated_magnitude
+from pdvoid.analysis.sequence import pulse_sequence
+from pdvoid.analysis.summary import run_summary
 
 __all__ = [
     "pattern", "half_cycle_distributions", "magnitude_distribution", "fingerprint", "weibull_fit",

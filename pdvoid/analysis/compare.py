@@ -59,10 +59,10 @@ from dataclasses import dataclass
 import numpy as np
 from scipy.spatial.distance import jensenshannon
 
-from ..errors import InputError, check_int, check_nonnegative
-from ..events import Events
-from .descriptors import FINGERPRINT_NAMES, fingerprint
-from .patterns import HALVES, _stored_events
+from pdvoid.analysis.descriptors import FINGERPRINT_NAMES, fingerprint
+from pdvoid.analysis.patterns import HALVES, _stored_events
+from pdvoid.core.errors import InputError, check_int, check_nonnegative
+from pdvoid.simulation.events import Events
 
 __all__ = [
     "PART_NAMES",

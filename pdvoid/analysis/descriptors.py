@@ -13,8 +13,8 @@ import math
 import numpy as np
 from scipy.signal import find_peaks
 
-from ..errors import InputError, check_array, check_int
-from .patterns import DISTRIBUTION_NAMES, HALVES, _half_split, _stored_events, half_cycle_distributions
+from pdvoid.analysis.patterns import DISTRIBUTION_NAMES, HALVES, _half_split, _stored_events, half_cycle_distributions
+from pdvoid.core.errors import InputError, check_array, check_int
 
 __all__ = [
     "skewness",

@@ -30,12 +30,12 @@ from typing import Any
 import numpy as np
 from scipy.optimize import differential_evolution, minimize
 
-from ..errors import InputError, check_int, check_nonnegative, check_positive
-from ..events import Events
-from ..scenario import Scenario
-from ..simulate import simulate
-from .compare import compare, summarise
-from .synthetic import measurement_effects
+from pdvoid.analysis.compare import compare, summarise
+from pdvoid.analysis.synthetic import measurement_effects
+from pdvoid.core.errors import InputError, check_int, check_nonnegative, check_positive
+from pdvoid.inputs.scenario import Scenario
+from pdvoid.simulation.events import Events
+from pdvoid.simulation.simulate import simulate
 
 __all__ = ["FitResult", "fit", "FitObjective", "PENALTY"]
 
@@ -109,7 +109,7 @@ class _RecordingMap:
         """Evaluate without recording."""
         if (self.workers == 1 and self.client is None) or len(items) == 1:
             return [func(x) for x in items]
-        from ..sweeps import parallel_map
+        from pdvoid.simulation.parallel import parallel_map
 
         return parallel_map(func, items, workers=self.workers, client=self.client)
 

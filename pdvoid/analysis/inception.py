@@ -15,9 +15,10 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from ..errors import InputError, check_int, check_nonnegative, check_positive
-from ..scenario import Scenario
-from ..simulate import VoidRunner
+from pdvoid.coefficients import compute_coefficients
+from pdvoid.core.errors import InputError, check_int, check_nonnegative, check_positive
+from pdvoid.inputs.scenario import Scenario
+from pdvoid.simulation.simulate import VoidRunner
 
 __all__ = ["InceptionEstimate", "RampTest", "inception", "ramp_test", "probability_of_missing",
            "time_above_inception_fraction"]
@@ -86,7 +87,7 @@ def inception(scenario: Scenario, ramp: bool = False, **ramp_options):
         return ramp_test(scenario, **ramp_options)
     if ramp_options:
         raise InputError(f"ramp options {sorted(ramp_options)} need ramp=True")
-    c = scenario.coefficients()
+    c = compute_coefficients(scenario)
     return InceptionEstimate(
         inception_voltage=c.inception_voltage, inception_voltage_streamer=c.inception_voltage_streamer,
         inception_voltage_integral=c.inception_voltage_integral, extinction_voltage=c.extinction_voltage,
@@ -203,16 +204,16 @@ def time_above_inception_fraction(scenario: Scenario, voltage: float) -> float:
     evaluated numerically on 20001 points per period.
     """
     voltage = check_positive("voltage", voltage, "V")
-    u_inc = scenario.coefficients().inception_voltage
+    u_inc = compute_coefficients(scenario).inception_voltage
     if voltage <= u_inc:
         return 0.0
     if getattr(scenario.supply, "is_pure", False):
         return 1.0 - 2.0 / math.pi * math.asin(u_inc / voltage)
-    from ..waveform import evaluate
+    from pdvoid.inputs.waveform import evaluate
 
     orders, a, b = scenario.supply.fourier()
     v = evaluate(np.linspace(0.0, 1.0, 20001)[:-1], orders, a, b) * (voltage / scenario.supply.rms)
-    c = scenario.coefficients()
+    c = compute_coefficients(scenario)
     gain = c.field_enhancement / scenario.insulation.thickness
     return float(np.mean(np.abs(gain * v) >= c.inception_field))
 
@@ -229,5 +230,5 @@ def probability_of_missing(scenario: Scenario, voltage: float, duration: float) 
         return 1.0
     if scenario.model.lag_free:
         return 0.0
-    n_vol = scenario.coefficients().volume_electron_rate
+    n_vol = compute_coefficients(scenario).volume_electron_rate
     return math.exp(-n_vol * duration * frac)

@@ -14,7 +14,8 @@ from dataclasses import dataclass
 import numpy as np
 from scipy import stats
 
-from ..errors import (
+from pdvoid.analysis.patterns import _stored_events
+from pdvoid.core.errors import (
     InputError,
     check_array,
     check_choice,
@@ -23,8 +24,7 @@ from ..errors import (
     check_range,
     check_real,
 )
-from ..events import Events
-from .patterns import _stored_events
+from pdvoid.simulation.events import Events
 
 __all__ = [
     "WeibullFit",

@@ -12,8 +12,9 @@ from dataclasses import dataclass, fields
 import numpy as np
 from scipy.optimize import brentq
 
-from ..errors import InputError, check_array, check_positive
-from ..scenario import Scenario
+from pdvoid.coefficients import compute_coefficients
+from pdvoid.core.errors import InputError, check_array, check_positive
+from pdvoid.inputs.scenario import Scenario
 
 __all__ = ["MarginTable", "margin_table", "LargestVoid", "largest_pd_free_void", "DesignMargin", "design_margin",
            "SQRT3"]
@@ -105,7 +106,7 @@ def margin_table(scenario: Scenario, parameter: str = "void.size", values=None,
     errors = []
     for i, v in enumerate(vals):
         try:
-            c = _changed(scenario, parameter, float(v)).coefficients()
+            c = compute_coefficients(_changed(scenario, parameter, float(v)))
         except InputError as exc:  # an impossible combination (e.g. a void taller than the insulation)
             errors.append(str(exc))
             continue
@@ -148,7 +149,7 @@ def largest_pd_free_void(scenario: Scenario, test_voltage: float) -> LargestVoid
     d_min = max(1e-6, 1e-7 / min(aspect, 1.0))
 
     def u_inc(d: float) -> float:
-        return _changed(scenario, "void.size", d).coefficients().inception_voltage
+        return compute_coefficients(_changed(scenario, "void.size", d)).inception_voltage
 
     hi_u, lo_u = u_inc(d_min), u_inc(d_max)
     if lo_u >= test_voltage:
@@ -189,7 +190,7 @@ def design_margin(scenario: Scenario, nominal_voltage: float, test_factor: float
     1.73 × U0 is common practice in routine PD tests of extruded cables (the applicable standard rules)."""
     nominal_voltage = check_positive("nominal_voltage", nominal_voltage, "V")
     test_factor = check_positive("test_factor", test_factor)
-    c = scenario.coefficients()
+    c = compute_coefficients(scenario)
     u_test = nominal_voltage * test_factor
     lv = largest_pd_free_void(scenario, u_test)
     return DesignMargin(

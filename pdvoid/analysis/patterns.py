@@ -16,9 +16,9 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from ..arrays import frozen_array as _frozen
-from ..errors import InputError, check_bool, check_choice, check_int, check_real
-from ..events import Events, as_events
+from pdvoid.core.arrays import frozen_array as _frozen
+from pdvoid.core.errors import InputError, check_bool, check_choice, check_int, check_real
+from pdvoid.simulation.events import Events, as_events
 
 __all__ = [
     "PhasePattern",
@@ -42,7 +42,7 @@ _MAX_BINS = 100_000
 
 
 def _stored_events(obj: object) -> Events:
-    """:func:`pdvoid.events.as_events`, refusing results that did not store their events (histogram runs)."""
+    """:func:`pdvoid.simulation.events.as_events`, refusing results that did not store their events (histogram runs)."""
     ev = as_events(obj)
     recorded = getattr(obj, "event_count", None)
     if isinstance(recorded, (int, np.integer)) and not isinstance(obj, Events) and int(recorded) != ev.count:
@@ -220,7 +220,7 @@ def pattern(
     "linear".
 
     Parameters:
-        events: discharge events or a result holding them (see :func:`pdvoid.events.as_events`) [-]
+        events: discharge events or a result holding them (see :func:`pdvoid.simulation.events.as_events`) [-]
         phase_bins: number of equal phase bins over 0-360 deg, 1 ... 100000 [-]
         charge_bins: total number of charge bins, even (half per polarity), 2 ... 100000 [-]
         charge_scale: "log" or "linear" [-]

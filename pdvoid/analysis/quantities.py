@@ -8,10 +8,10 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from ..errors import InputError, check_nonnegative, check_positive, check_real
-from ..events import Events
-from ..physics.iec60270 import average_discharge_current, discharge_power, quadratic_rate, repetition_rate
-from .patterns import _stored_events
+from pdvoid.analysis.patterns import _stored_events
+from pdvoid.core.errors import InputError, check_nonnegative, check_positive, check_real
+from pdvoid.physics.iec60270 import average_discharge_current, discharge_power, quadratic_rate, repetition_rate
+from pdvoid.simulation.events import Events
 
 __all__ = ["IECQuantities", "iec60270", "largest_repeated_magnitude", "DEFAULT_REPETITION_RATE"]
 

@@ -7,9 +7,9 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from ..arrays import frozen_array as _frozen
-from ..errors import InputError
-from .patterns import _stored_events
+from pdvoid.analysis.patterns import _stored_events
+from pdvoid.core.arrays import frozen_array as _frozen
+from pdvoid.core.errors import InputError
 
 __all__ = ["PulseSequence", "pulse_sequence"]
 

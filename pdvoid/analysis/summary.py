@@ -4,13 +4,13 @@ from __future__ import annotations
 
 import numpy as np
 
-from ..errors import InputError
+from pdvoid.core.errors import InputError
 
 __all__ = ["run_summary"]
 
 
 def run_summary(result) -> dict[str, float]:
-    """Summary of a :class:`pdvoid.results.Result` with units in the keys.
+    """Summary of a :class:`pdvoid.simulation.results.Result` with units in the keys.
 
     The IEC 60270 quantities use the whole simulated time as reference time and come from the kernel's running
     sums, so they hold for histogram-only runs too (IEC 60270 clause 3 definitions, from memory):

@@ -15,7 +15,8 @@ detector, not any instrument's):
    (360 / width must be a whole number); times become (cycle + phase / 360) / frequency.
 
 The noise uses its own generator, ``numpy.random.default_rng([seed, 1])``, so the same seed gives the same
-data. The demo file ``pdvoid/data/demo_measured.csv`` is written by :func:`write_demo_measured`; regenerate it
+data. The demo file ``pdvoid/inputs/examples/demo_measured.csv`` is written by
+:func:`write_demo_measured`; regenerate it
 with::
 
     python -m pdvoid.analysis.synthetic
@@ -28,11 +29,12 @@ from pathlib import Path
 
 import numpy as np
 
-from ..errors import InputError, check_int, check_nonnegative, check_range
-from ..events import Events, as_events
-from ..parameters import check_seed
-from ..scenario import Scenario
-from ..simulate import simulate
+from pdvoid.core.errors import InputError, check_int, check_nonnegative, check_range
+from pdvoid.inputs.demo import demo_measured_path, demo_scenario_path
+from pdvoid.inputs.parameters import check_seed
+from pdvoid.inputs.scenario import Scenario
+from pdvoid.simulation.events import Events, as_events
+from pdvoid.simulation.simulate import simulate
 
 __all__ = [
     "SYNTHETIC_LABEL",
@@ -64,17 +66,6 @@ DEMO_SETTINGS: dict[str, float] = {
     "relative_noise": 0.03,
     "phase_resolution_deg": 1.0,
 }
-_PACKAGE = Path(__file__).resolve().parent.parent
-
-
-def demo_scenario_path() -> Path:
-    """The demo scenario file, ``pdvoid/examples/demo.toml``."""
-    return _PACKAGE / "examples" / "demo.toml"
-
-
-def demo_measured_path() -> Path:
-    """The synthetic demo pattern shipped with pdvoid, ``pdvoid/data/demo_measured.csv``."""
-    return _PACKAGE / "data" / "demo_measured.csv"
 
 
 def synthetic_measurement(
@@ -101,7 +92,7 @@ def synthetic_measurement(
         phase_resolution_deg: width of the phase bins [deg]; 360 / width must be whole; 0 for none
 
     Returns:
-        :class:`pdvoid.events.Events` labelled :data:`SYNTHETIC_LABEL`, with ``extra["synthetic"]`` recording
+        :class:`pdvoid.simulation.events.Events` labelled :data:`SYNTHETIC_LABEL`, with ``extra["synthetic"]`` recording
         the hidden parameters, seed, cycles and effects, and ``extra["threshold"]`` the threshold [C].
     """
     if not isinstance(scenario, Scenario):
@@ -164,7 +155,7 @@ def measurement_effects(
         phase_resolution_deg: width of the phase bins [deg], 0 ... 360; 360 / width must be whole; 0 for none
 
     Returns:
-        :class:`pdvoid.events.Events` with phase, charge, cycle and time (no voltage or void fields), label of
+        :class:`pdvoid.Events` with phase, charge, cycle and time (no voltage or void fields), label of
         the input, and ``extra["measurement effects"]`` recording the settings and the number dropped.
     """
     ev = as_events(events)
@@ -241,12 +232,12 @@ def write_demo_measured(path: str | Path | None = None) -> Path:
     :data:`DEMO_SETTINGS`, with comment lines that say it is synthetic and list the hidden parameters.
 
     Parameters:
-        path: file to write; None for the packaged ``pdvoid/data/demo_measured.csv`` [-]
+        path: file to write; None for the packaged ``pdvoid/inputs/examples/demo_measured.csv`` [-]
 
     Returns:
         the path written.
     """
-    from ..io import write_events  # same layer (io); imported here so that analysis never needs io to load
+    from pdvoid.io import write_events  # imported here: a plain analysis never loads the file writers
 
     s = DEMO_SETTINGS
     scenario = Scenario.from_file(demo_scenario_path())
@@ -264,7 +255,7 @@ def write_demo_measured(path: str | Path | None = None) -> Path:
     comments = [
         "SYNTHETIC DATA - NOT A MEASUREMENT.",
         "Produced by pdvoid's simulator (pdvoid.analysis.synthetic.synthetic_measurement) from the",
-        "demo scenario pdvoid/examples/demo.toml at its test voltage, with the hidden parameters listed",
+        "demo scenario pdvoid/inputs/examples/demo.toml at its test voltage, with the hidden parameters listed",
         "below (keys 'hidden.<parameter>', SI units), then simulated measurement effects: Gaussian charge",
         "noise (sigma = sqrt(noise^2 + (relative_noise |q|)^2)), a detection threshold (smaller pulses",
         "dropped) and a limited phase resolution (phases at bin centres).",
@@ -274,7 +265,7 @@ def write_demo_measured(path: str | Path | None = None) -> Path:
         "threshold": f"{rec['threshold']!r} C",
         "synthetic": "true",
         "synthetic.seed": rec["seed"],
-        "synthetic.scenario": "pdvoid/examples/demo.toml",
+        "synthetic.scenario": "pdvoid/inputs/examples/demo.toml",
         "synthetic.supply.rms": f"{rec['supply.rms']!r} V",
     }
     metadata.update({f"hidden.{k}": repr(v) for k, v in rec["hidden"].items()})

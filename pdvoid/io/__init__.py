@@ -12,10 +12,10 @@ Every malformed input raises :class:`pdvoid.InputError` naming the file and, whe
 
 from __future__ import annotations
 
-from .delimited import describe_read, read_events
-from .event_writer import write_events
-from .exchange import EXCHANGE_FORMAT, EXCHANGE_VERSION, read_exchange, write_exchange
-from .matrix import PatternMatrix, matrix_from_events, read_pattern_matrix, write_pattern_matrix
+from pdvoid.io.delimited import describe_read, read_events
+from pdvoid.io.event_writer import write_events
+from pdvoid.io.exchange import EXCHANGE_FORMAT, EXCHANGE_VERSION, read_exchange, write_exchange
+from pdvoid.io.matrix import PatternMatrix, matrix_from_events, read_pattern_matrix, write_pattern_matrix
 
 __all__ = [
     "read_events",

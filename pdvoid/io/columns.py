@@ -25,8 +25,8 @@ import re
 from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 
-from ..errors import InputError
-from ..units import UNITS
+from pdvoid.core.errors import InputError
+from pdvoid.core.units import UNITS
 
 __all__ = [
     "Column",
@@ -38,7 +38,7 @@ __all__ = [
     "SI_UNITS",
 ]
 
-#: column name -> units accepted (the conversion factors come from :data:`pdvoid.units.UNITS`)
+#: column name -> units accepted (the conversion factors come from :data:`pdvoid.core.units.UNITS`)
 COLUMN_UNITS: dict[str, tuple[str, ...]] = {
     "phase": ("deg", "rad"),
     "charge": ("C", "nC", "pC", "fC"),

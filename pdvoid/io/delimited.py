@@ -28,7 +28,7 @@ How time, phase and cycles are found:
   if present, must hold whole numbers in [0, cycles); the times are then (cycle + phase / 360) / frequency,
   otherwise they are unknown (NaN).
 
-Nothing is dropped silently: a malformed line raises :class:`~pdvoid.errors.InputError` naming the file, the
+Nothing is dropped silently: a malformed line raises :class:`~pdvoid.core.errors.InputError` naming the file, the
 line and the reason. Limits: :data:`pdvoid.io.lines.MAX_FILE_BYTES`, ``MAX_LINE_CHARS`` and ``MAX_ROWS``
 (events).
 """
@@ -41,11 +41,11 @@ from pathlib import Path
 
 import numpy as np
 
-from ..errors import InputError
-from ..events import Events
-from . import lines as L
-from .columns import Column, column_label, resolve_columns
-from .options import CommentKeys, check_layout_options, quantity_option
+from pdvoid.core.errors import InputError
+from pdvoid.io import lines as L
+from pdvoid.io.columns import Column, column_label, resolve_columns
+from pdvoid.io.options import CommentKeys, check_layout_options, quantity_option
+from pdvoid.simulation.events import Events
 
 __all__ = ["read_events", "describe_read", "PHASE_TOLERANCE_DEG", "CYCLE_TOLERANCE"]
 
@@ -179,7 +179,7 @@ def read_events(
         decimal: "." or ","; None to detect (a decimal comma only with ";") [-]
 
     Returns:
-        :class:`pdvoid.events.Events` in SI units.
+        :class:`pdvoid.simulation.events.Events` in SI units.
 
     Raises:
         InputError: naming the file (and the line) for every malformed input; see the module docs.

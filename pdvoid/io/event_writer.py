@@ -8,10 +8,10 @@ from pathlib import Path
 
 import numpy as np
 
-from ..errors import InputError, check_choice
-from ..events import Events
-from . import lines as L
-from .columns import SI_UNITS, checked_column, column_label
+from pdvoid.core.errors import InputError, check_choice
+from pdvoid.io import lines as L
+from pdvoid.io.columns import SI_UNITS, checked_column, column_label
+from pdvoid.simulation.events import Events
 
 __all__ = ["write_events"]
 

@@ -46,11 +46,11 @@ from pathlib import Path
 
 import numpy as np
 
-from ..errors import InputError
-from ..events import Events, as_events
-from . import lines as L
-from .columns import SI_UNITS, column_label, parse_column
-from .matrix import PatternMatrix
+from pdvoid.core.errors import InputError
+from pdvoid.io import lines as L
+from pdvoid.io.columns import SI_UNITS, column_label, parse_column
+from pdvoid.io.matrix import PatternMatrix
+from pdvoid.simulation.events import Events, as_events
 
 __all__ = ["EXCHANGE_FORMAT", "EXCHANGE_VERSION", "MAX_HEADER_CHARS", "write_exchange", "read_exchange"]
 
@@ -67,7 +67,7 @@ def _provenance_of(obj: object) -> dict:
     scenario = getattr(obj, "scenario", None)
     if scenario is None or not hasattr(obj, "seed"):
         return {}
-    from ..scenario_files import scenario_to_dict
+    from pdvoid.inputs.scenario_files import scenario_to_dict
 
     return {
         "source": "pdvoid simulation",
@@ -97,7 +97,7 @@ def write_exchange(
     """Write events (or a Result) or a :class:`PatternMatrix` in the "pdvoid-pattern" format.
 
     Parameters:
-        data: :class:`pdvoid.events.Events`, a Result, or a :class:`PatternMatrix` [-]
+        data: :class:`pdvoid.simulation.events.Events`, a Result, or a :class:`PatternMatrix` [-]
         path: the file to write [-]
         provenance: JSON-able description of where the data came from; merged over the provenance a Result
             supplies (source, seed, cycles, version, scenario) [-]
@@ -106,7 +106,7 @@ def write_exchange(
     Returns:
         the path written.
     """
-    from .. import __version__
+    from pdvoid._version import __version__
 
     if provenance is not None and not isinstance(provenance, dict):
         raise InputError(f"provenance must be a dict; got {type(provenance).__name__}")

@@ -17,7 +17,7 @@ from pathlib import Path
 
 import numpy as np
 
-from ..errors import InputError
+from pdvoid.core.errors import InputError
 
 __all__ = [
     "MAX_FILE_BYTES",

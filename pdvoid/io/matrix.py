@@ -30,12 +30,12 @@ from pathlib import Path
 
 import numpy as np
 
-from ..arrays import frozen_array as _frozen
-from ..errors import InputError, check_array, check_choice, check_positive
-from ..events import Events, as_events
-from . import lines as L
-from .columns import checked_column
-from .options import CommentKeys, check_layout_options, quantity_option
+from pdvoid.core.arrays import frozen_array as _frozen
+from pdvoid.core.errors import InputError, check_array, check_choice, check_positive
+from pdvoid.io import lines as L
+from pdvoid.io.columns import checked_column
+from pdvoid.io.options import CommentKeys, check_layout_options, quantity_option
+from pdvoid.simulation.events import Events, as_events
 
 __all__ = ["PatternMatrix", "matrix_from_events", "read_pattern_matrix", "write_pattern_matrix"]
 

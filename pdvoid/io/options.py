@@ -10,7 +10,7 @@ Recognised comment keys (case-insensitive), one per line, anywhere in a delimite
 
 Every other ``# key = value`` line is kept, as text, in the summary's ``"metadata"``; other comment lines are
 only counted. A key given twice with different values, or given both as a comment and as an option with a
-different value, is an :class:`~pdvoid.errors.InputError`.
+different value, is an :class:`~pdvoid.core.errors.InputError`.
 """
 
 from __future__ import annotations
@@ -18,9 +18,9 @@ from __future__ import annotations
 import math
 from pathlib import Path
 
-from ..errors import InputError, check_choice, check_positive
-from ..units import parse_quantity
-from .lines import line_error
+from pdvoid.core.errors import InputError, check_choice, check_positive
+from pdvoid.core.units import parse_quantity
+from pdvoid.io.lines import line_error
 
 __all__ = ["RECOGNISED_KEYS", "quantity_option", "CommentKeys", "check_layout_options"]
 

@@ -32,7 +32,7 @@ import math
 
 import numpy as np
 
-from .jit import njit_cached
+from pdvoid.kernels.jit import njit_cached
 
 # state vector layout (float64 array of length STATE_SIZE)
 S_XQ0 = 0  # deposited quantity at time S_TQ

@@ -1,21 +1,19 @@
-"""Models turn a Scenario into kernel arguments. Adding a model never touches analysis or plots."""
+"""The models stage: one module per void model, each a registered :class:`ModelParameters` subclass that turns a
+scenario and its coefficients into kernel arguments. Adding a model touches this package and nothing else.
+
+- :mod:`~pdvoid.models.field`: :class:`FieldModel` (Pedersen's induced charge);
+- :mod:`~pdvoid.models.network`: :class:`NetworkModel` (three capacitances);
+- :mod:`~pdvoid.models.arguments`: :class:`KernelArguments`, the plain numbers a kernel call needs;
+- :mod:`~pdvoid.models.protocol`: :class:`VoidModel`, what a model provides, and :func:`kernel_arguments`.
+"""
 
 from __future__ import annotations
 
-from ..parameters import FieldModel, NetworkModel
-from ..scenario import Scenario
-from .arguments import KernelArguments
-from .field import field_kernel_arguments
-from .network import network_kernel_arguments
+from pdvoid.inputs.model_parameters import ModelParameters, model_class, model_kinds, register_model
+from pdvoid.models.arguments import KernelArguments
+from pdvoid.models.field import FieldModel
+from pdvoid.models.network import NetworkModel
+from pdvoid.models.protocol import VoidModel, kernel_arguments
 
-__all__ = ["KernelArguments", "kernel_arguments"]
-
-
-def kernel_arguments(scenario: Scenario) -> KernelArguments:
-    """The kernel arguments for ``scenario``'s model."""
-    c = scenario.coefficients()
-    if isinstance(scenario.model, NetworkModel):
-        return network_kernel_arguments(scenario, c)
-    if isinstance(scenario.model, FieldModel):
-        return field_kernel_arguments(scenario, c)
-    raise TypeError(f"unknown model {type(scenario.model).__name__}")  # unreachable: Scenario validates
+__all__ = ["FieldModel", "KernelArguments", "ModelParameters", "NetworkModel", "VoidModel", "kernel_arguments",
+           "model_class", "model_kinds", "register_model"]

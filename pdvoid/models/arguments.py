@@ -6,7 +6,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from ..waveform import monotone_breakpoints
+from pdvoid.inputs.waveform import monotone_breakpoints
 
 __all__ = ["KernelArguments", "supply_arrays", "cathode_rate"]
 
@@ -41,7 +41,7 @@ class KernelArguments:
         """An upper bound on discharges in one cycle with the supply multiplied by ``scale`` (each discharge
         lowers |x| by at least x_inc - x_res; on every monotone piece x travels at most the swing of g·V plus
         the decay of the deposited part)."""
-        from ..waveform import evaluate
+        from pdvoid.inputs.waveform import evaluate
 
         v = scale * evaluate(self.seg_fracs, self.orders, self.a_coef, self.b_coef)
         swing = abs(self.gain) * float(np.sum(np.abs(np.diff(v))))

@@ -7,23 +7,60 @@ volume ionisation plus surface emission with the polarity memory rule of Illias,
 
 from __future__ import annotations
 
-from ..coefficients import Coefficients
-from ..scenario import Scenario
-from .arguments import KernelArguments, cathode_rate, supply_arrays
+from dataclasses import dataclass
+from typing import TYPE_CHECKING
 
-__all__ = ["field_kernel_arguments"]
+from pdvoid.coefficients.record import Coefficients
+from pdvoid.inputs.model_parameters import ModelParameters, register_model
+from pdvoid.models.arguments import KernelArguments, cathode_rate, supply_arrays
+
+if TYPE_CHECKING:
+    from pdvoid.inputs.scenario import Scenario
+
+__all__ = ["FieldModel"]
 
 
-def field_kernel_arguments(scenario: Scenario, c: Coefficients) -> KernelArguments:
-    m = scenario.model
-    orders, a, b, seg, pure = supply_arrays(scenario.supply)
-    return KernelArguments(
-        frequency=scenario.supply.frequency, orders=orders, a_coef=a, b_coef=b, seg_fracs=seg, pure_sine=pure,
-        gain=c.field_enhancement / scenario.insulation.thickness,
-        x_inc=c.inception_field, x_res=c.residual_field, charge_per_unit=c.charge_per_field,
-        lag_free=m.lag_free, n_vol_pos=c.volume_electron_rate + cathode_rate(scenario, +1.0),
-        n_vol_neg=c.volume_electron_rate + cathode_rate(scenario, -1.0), n_same=m.surface_rate_same,
-        n_rev=m.surface_rate_reversed, tau_s=m.surface_decay_time, field_assisted=m.field_assisted,
-        tau_q=m.charge_decay_time, x_to_field=1.0,
-        references=c.references + ("illias2011", "illias2011jpd"),
-    )
+@register_model
+@dataclass(frozen=True)
+class FieldModel(ModelParameters):
+    """Induced-charge void model with stochastic start electrons (Pedersen's induced charge; Niemeyer-type
+    electron supply).
+
+    The void quantity is the void field; a discharge lowers it to the residual field and the apparent charge
+    follows from Pedersen's induced charge. Every parameter is one of :class:`ModelParameters`.
+
+    References
+    ----------
+    Crichton, Karlsson & Pedersen 1989; Pedersen, Crichton & McAllister 1991; Niemeyer 1995; Illias, Chen &
+    Lewin 2011 (see :func:`pdvoid.cite`).
+    """
+
+    kind = "field"
+    title = "field model (Pedersen's induced charge)"
+
+    def kernel_arguments(self, scenario: Scenario, c: Coefficients) -> KernelArguments:
+        """The kernel arguments of this model for ``scenario`` with coefficients ``c``.
+
+        Parameters
+        ----------
+        scenario : pdvoid.Scenario
+            The scenario this model belongs to.
+        c : pdvoid.coefficients.Coefficients
+            Its coefficients.
+
+        Returns
+        -------
+        pdvoid.models.KernelArguments
+            Plain floats and arrays for the kernel; the void quantity is the void field [V/m].
+        """
+        orders, a, b, seg, pure = supply_arrays(scenario.supply)
+        return KernelArguments(
+            frequency=scenario.supply.frequency, orders=orders, a_coef=a, b_coef=b, seg_fracs=seg, pure_sine=pure,
+            gain=c.field_enhancement / scenario.insulation.thickness,
+            x_inc=c.inception_field, x_res=c.residual_field, charge_per_unit=c.charge_per_field,
+            lag_free=self.lag_free, n_vol_pos=c.volume_electron_rate + cathode_rate(scenario, +1.0),
+            n_vol_neg=c.volume_electron_rate + cathode_rate(scenario, -1.0), n_same=self.surface_rate_same,
+            n_rev=self.surface_rate_reversed, tau_s=self.surface_decay_time, field_assisted=self.field_assisted,
+            tau_q=self.charge_decay_time, x_to_field=1.0,
+            references=c.references + ("illias2011", "illias2011jpd"),
+        )

@@ -6,7 +6,7 @@ import math
 
 import numpy as np
 
-from ..errors import InputError, check_array, check_nonnegative, check_positive, check_range
+from pdvoid.core.errors import InputError, check_array, check_nonnegative, check_positive, check_range
 
 __all__ = ["values", "shape_out", "broadcast", "checked", "positive", "broadcast_named", "scalar_or_array",
            "less_than"]

@@ -11,11 +11,11 @@ import math
 
 import numpy as np
 
-from ..errors import check_range
-from ..units import ATM, T_ROOM
-from .checks import broadcast as _broadcast
-from .checks import shape_out as _shape_out
-from .checks import values as _values
+from pdvoid.core.errors import check_range
+from pdvoid.core.units import ATM, T_ROOM
+from pdvoid.physics.checks import broadcast as _broadcast
+from pdvoid.physics.checks import shape_out as _shape_out
+from pdvoid.physics.checks import values as _values
 
 __all__ = [
     "REFERENCE_IONIZATION_RATE",

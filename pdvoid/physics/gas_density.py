@@ -4,9 +4,9 @@ from __future__ import annotations
 
 import numpy as np
 
-from ..units import T_ROOM
-from .checks import shape_out as _shape_out
-from .checks import values as _values
+from pdvoid.core.units import T_ROOM
+from pdvoid.physics.checks import shape_out as _shape_out
+from pdvoid.physics.checks import values as _values
 
 __all__ = ["density_equivalent_pressure"]
 

@@ -11,12 +11,12 @@ import math
 import numpy as np
 from scipy.special import elliprd
 
-from ..units import EPSILON_0
-from .checks import broadcast_named as _broadcast
-from .checks import checked as _checked
-from .checks import less_than as _less_than
-from .checks import positive as _positive
-from .checks import scalar_or_array as _out
+from pdvoid.core.units import EPSILON_0
+from pdvoid.physics.checks import broadcast_named as _broadcast
+from pdvoid.physics.checks import checked as _checked
+from pdvoid.physics.checks import less_than as _less_than
+from pdvoid.physics.checks import positive as _positive
+from pdvoid.physics.checks import scalar_or_array as _out
 
 __all__ = [
     "depolarization_ellipsoid",

@@ -1,7 +1,7 @@
 """Integrated partial-discharge quantities and the phase angle as defined in IEC 60270, clause 3.
 
 The wording of the definitions is from memory of IEC 60270:2000+A1:2015 (status "from memory" in
-:mod:`pdvoid.references`); the formulas are the standard ones. Charges are apparent charges in coulombs
+:mod:`pdvoid.core.references`); the formulas are the standard ones. Charges are apparent charges in coulombs
 (signed by pulse polarity), voltages in volts, times in seconds. Event arrays may be empty.
 """
 
@@ -9,7 +9,7 @@ from __future__ import annotations
 
 import numpy as np
 
-from ..errors import InputError, check_array, check_nonnegative, check_positive, check_real
+from pdvoid.core.errors import InputError, check_array, check_nonnegative, check_positive, check_real
 
 __all__ = [
     "phase_angle_deg",

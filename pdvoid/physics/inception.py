@@ -2,7 +2,7 @@
 
 Plain functions on floats (numpy arrays where the formula is closed-form). Pressure and temperature enter
 through the gas density, written as the density-equivalent pressure p·T_ref/T with T_ref = 293.15 K
-(:data:`pdvoid.units.T_ROOM`).
+(:data:`pdvoid.core.units.T_ROOM`).
 
 Two independent inception estimates are offered: the closed-form streamer inception field (Niemeyer-type
 formula, constants fitted per gas) and the uniform-field ionisation integral ∫ α_eff dx = K with the
@@ -16,13 +16,13 @@ import math
 
 import numpy as np
 
-from ..errors import InputError, check_choice, check_range
-from ..units import ATM, T_ROOM
-from .checks import broadcast as _broadcast
-from .checks import shape_out as _shape_out
-from .checks import values as _values
-from .gas_density import density_equivalent_pressure
-from .ionization import ionization_integral_inception_field, sf6_ionization_integral_inception_field
+from pdvoid.core.errors import InputError, check_choice, check_range
+from pdvoid.core.units import ATM, T_ROOM
+from pdvoid.physics.checks import broadcast as _broadcast
+from pdvoid.physics.checks import shape_out as _shape_out
+from pdvoid.physics.checks import values as _values
+from pdvoid.physics.gas_density import density_equivalent_pressure
+from pdvoid.physics.ionization import ionization_integral_inception_field, sf6_ionization_integral_inception_field
 
 __all__ = [
     "density_equivalent_pressure",
@@ -178,7 +178,7 @@ def empirical_air_breakdown_voltage(gap: object, pressure: object = ATM,
 
 def gas_inception_field(gas: object, pressure: float, length: float, temperature: float = T_ROOM,
                         criterion: str = "streamer", k_streamer: float | None = None) -> float:
-    """Inception field of a named gas (or a :class:`pdvoid.materials.GasData`) from its parameter set.
+    """Inception field of a named gas (or a :class:`pdvoid.inputs.materials.GasData`) from its parameter set.
 
     criterion "streamer" uses :func:`streamer_inception_field` with the gas's (E/p)_cr, B, n;
     "ionization_integral" uses the gas's ionisation model: Morrow–Lowke for air
@@ -200,7 +200,7 @@ def gas_inception_field(gas: object, pressure: float, length: float, temperature
     References:
         niemeyer1995, illias2011, morrow1997, pedersen1970 (see the functions used).
     """
-    from ..materials import GasData, get_gas, list_gases
+    from pdvoid.inputs.materials import GasData, get_gas, list_gases
 
     data = gas if isinstance(gas, GasData) else get_gas(gas)  # get_gas raises InputError for unknown names
     check_choice("criterion", criterion, ("streamer", "ionization_integral"))

@@ -8,12 +8,12 @@ import math
 import numpy as np
 from scipy import integrate, optimize
 
-from ..errors import InputError, check_array, check_choice, check_range
-from ..units import ATM, BOLTZMANN, T_ROOM
-from .checks import broadcast as _broadcast
-from .checks import shape_out as _shape_out
-from .checks import values as _values
-from .gas_density import density_equivalent_pressure
+from pdvoid.core.errors import InputError, check_array, check_choice, check_range
+from pdvoid.core.units import ATM, BOLTZMANN, T_ROOM
+from pdvoid.physics.checks import broadcast as _broadcast
+from pdvoid.physics.checks import shape_out as _shape_out
+from pdvoid.physics.checks import values as _values
+from pdvoid.physics.gas_density import density_equivalent_pressure
 
 __all__ = [
     "morrow_lowke_coefficients",

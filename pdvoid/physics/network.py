@@ -12,14 +12,14 @@ from typing import NamedTuple
 
 import numpy as np
 
-from ..errors import InputError, check_nonnegative, check_positive, check_range, check_real
-from ..units import EPSILON_0
-from .checks import broadcast_named as _broadcast
-from .checks import checked as _checked
-from .checks import less_than as _less_than
-from .checks import positive as _positive
-from .checks import scalar_or_array as _out
-from .geometry import (
+from pdvoid.core.errors import InputError, check_nonnegative, check_positive, check_range, check_real
+from pdvoid.core.units import EPSILON_0
+from pdvoid.physics.checks import broadcast_named as _broadcast
+from pdvoid.physics.checks import checked as _checked
+from pdvoid.physics.checks import less_than as _less_than
+from pdvoid.physics.checks import positive as _positive
+from pdvoid.physics.checks import scalar_or_array as _out
+from pdvoid.physics.geometry import (
     _spheroid_axial,
     field_enhancement,
     induced_charge_per_field,

@@ -8,12 +8,12 @@ processes or on a Dask cluster with identical results. xarray, tqdm, joblib and 
 
 from __future__ import annotations
 
-from ..optional import MissingDependencyError
-from .dataset import base_scenario, read_netcdf, write_netcdf
-from .execute import backend_name, local_workers, parallel_map
-from .metrics import default_metrics
-from .plan import Plan, grid_plan, lhs_plan, make_plan, point_seeds, random_plan
-from .run import sweep
+from pdvoid.core.optional import MissingDependencyError
+from pdvoid.simulation.parallel import backend_name, local_workers, parallel_map
+from pdvoid.sweeps.dataset import base_scenario, read_netcdf, write_netcdf
+from pdvoid.sweeps.metrics import default_metrics
+from pdvoid.sweeps.plan import Plan, grid_plan, lhs_plan, make_plan, point_seeds, random_plan
+from pdvoid.sweeps.run import sweep
 
 __all__ = [
     "sweep",

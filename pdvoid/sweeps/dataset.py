@@ -24,14 +24,14 @@ from pathlib import Path
 
 import numpy as np
 
-from .. import __version__
-from ..errors import InputError
-from ..optional import require
-from ..scenario import Scenario
-from ..scenario_files import scenario_from_dict, scenario_to_dict
-from .metrics import DESCRIPTIONS, RESERVED, split_key
-from .names import parameter_unit
-from .plan import Plan
+from pdvoid._version import __version__
+from pdvoid.core.errors import InputError
+from pdvoid.core.optional import require
+from pdvoid.inputs.scenario import Scenario, scenario_from_dict
+from pdvoid.inputs.scenario_files import scenario_to_dict
+from pdvoid.sweeps.metrics import DESCRIPTIONS, RESERVED, split_key
+from pdvoid.sweeps.names import parameter_unit
+from pdvoid.sweeps.plan import Plan
 
 __all__ = ["assemble", "write_netcdf", "read_netcdf", "base_scenario"]
 

@@ -27,13 +27,13 @@ from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
-from ..errors import InputError, check_int
-from ..parameters import check_seed
-from ..scenario import Scenario
-from ..scenario_files import MAX_FILE_BYTES, read_scenario, scenario_from_dict
-from ..simulate import MAX_CYCLES
-from .names import check_parameter_names, parse_parameter_value
-from .plan import DESIGNS, MAX_POINTS
+from pdvoid.core.errors import InputError, check_int
+from pdvoid.inputs.parameters import check_seed
+from pdvoid.inputs.scenario import Scenario, read_scenario, scenario_from_dict
+from pdvoid.inputs.scenario_files import MAX_FILE_BYTES
+from pdvoid.simulation.simulate import MAX_CYCLES
+from pdvoid.sweeps.names import check_parameter_names, parse_parameter_value
+from pdvoid.sweeps.plan import DESIGNS, MAX_POINTS
 
 __all__ = ["SweepSpec", "read_sweep_file"]
 

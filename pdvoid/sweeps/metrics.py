@@ -1,6 +1,6 @@
 """What a sweep records at each point: the default metrics (SI, snake_case) and the worker function.
 
-A metric function takes a :class:`pdvoid.results.Result` and returns ``{"name [unit]": number}``; the sweep
+A metric function takes a :class:`pdvoid.simulation.results.Result` and returns ``{"name [unit]": number}``; the sweep
 turns each key into a variable ``name`` with ``attrs["units"] = unit``. It must be picklable (defined at
 module level) to run on worker processes or Dask.
 """
@@ -13,10 +13,11 @@ from collections.abc import Callable, Mapping
 
 import numpy as np
 
-from ..analysis.summary import run_summary
-from ..errors import InputError
-from ..scenario import Scenario
-from ..simulate import simulate
+from pdvoid.analysis.summary import run_summary
+from pdvoid.coefficients import compute_coefficients
+from pdvoid.core.errors import InputError
+from pdvoid.inputs.scenario import Scenario
+from pdvoid.simulation.simulate import simulate
 
 __all__ = ["default_metrics", "split_key", "run_point", "DESCRIPTIONS", "RESERVED"]
 
@@ -85,7 +86,7 @@ def default_metrics(result) -> dict[str, float]:
         else:
             var, unit = split_key(key)
             out[f"{var} [{unit}]" if unit else var] = float(value)
-    c = result.scenario.coefficients()
+    c = compute_coefficients(result.scenario)
     out["inception_voltage [V]"] = float(c.inception_voltage)
     out["extinction_voltage [V]"] = float(c.extinction_voltage)
     return out

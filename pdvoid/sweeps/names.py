@@ -4,22 +4,16 @@ from __future__ import annotations
 
 from dataclasses import fields
 
-from ..errors import InputError
-from ..parameters import Sine
-from ..scenario import Scenario, with_changes
-
-# The scenario-file schema is the one table of parameter dimensions and SI units; it is private to
-# scenario_files, which exposes no accessor yet (asked for in the sweep report).
-from ..scenario_files import _DIMS, _quantity
+from pdvoid.core.errors import InputError
+from pdvoid.inputs.scenario import Scenario, with_changes
+from pdvoid.inputs.scenario_files import field_schema, quantity_value
 
 __all__ = ["check_parameter_names", "parameter_dimension", "parameter_unit", "parse_parameter_value"]
 
 
-def _schema_key(name: str, scenario: Scenario) -> tuple[str, str]:
+def _schema_entry(name: str, scenario: Scenario) -> tuple[str | None, str] | None:
     part, field = name.split(".")
-    if part == "supply":
-        part = "sine" if isinstance(scenario.supply, Sine) else "periodic"
-    return part, field
+    return field_schema(part, getattr(scenario, part)).get(field)
 
 
 def check_parameter_names(scenario: Scenario, names) -> None:
@@ -39,16 +33,14 @@ def check_parameter_names(scenario: Scenario, names) -> None:
 
 def parameter_dimension(name: str, scenario: Scenario) -> str | None:
     """The physical dimension of a dotted parameter ("length", "pressure", ...), None for text/flags/lists."""
-    part, field = _schema_key(name, scenario)
-    entry = _DIMS.get(part, {}).get(field)
+    entry = _schema_entry(name, scenario)
     return None if entry is None else entry[0]
 
 
 def parameter_unit(name: str, scenario: Scenario) -> str | None:
     """The SI unit of a dotted parameter as written in files ("m", "Pa", "1/s"; "1" for dimensionless), or
     None for parameters that are not quantities (text, flags, lists)."""
-    part, field = _schema_key(name, scenario)
-    entry = _DIMS.get(part, {}).get(field)
+    entry = _schema_entry(name, scenario)
     if entry is None or entry[0] is None:
         return None
     return entry[1] or "1"
@@ -62,4 +54,4 @@ def parse_parameter_value(name: str, value: object, scenario: Scenario, where: s
         if isinstance(value, (str, bool, int)):
             return value
         raise InputError(f"{where}: {name} takes text, a whole number or true/false; got {value!r}")
-    return _quantity(value, dim, where)
+    return quantity_value(value, dim, where)

@@ -26,8 +26,8 @@ from dataclasses import dataclass, field
 import numpy as np
 from scipy.stats import qmc
 
-from ..errors import InputError, check_int, check_real
-from ..parameters import check_seed
+from pdvoid.core.errors import InputError, check_int, check_real
+from pdvoid.inputs.parameters import check_seed
 
 __all__ = [
     "Plan",

@@ -6,15 +6,15 @@ from collections.abc import Callable, Mapping
 from functools import partial
 from typing import Any
 
-from ..errors import InputError, check_int
-from ..optional import require
-from ..scenario import Scenario
-from ..simulate import MAX_CYCLES
-from .dataset import assemble
-from .execute import parallel_map
-from .metrics import run_point
-from .names import check_parameter_names
-from .plan import make_plan
+from pdvoid.core.errors import InputError, check_int
+from pdvoid.core.optional import require
+from pdvoid.inputs.scenario import Scenario
+from pdvoid.simulation.parallel import parallel_map
+from pdvoid.simulation.simulate import MAX_CYCLES
+from pdvoid.sweeps.dataset import assemble
+from pdvoid.sweeps.metrics import run_point
+from pdvoid.sweeps.names import check_parameter_names
+from pdvoid.sweeps.plan import make_plan
 
 __all__ = ["sweep"]
 

@@ -12,7 +12,7 @@ import math
 import pytest
 
 from pdvoid import InputError
-from pdvoid.materials import get_gas
+from pdvoid.inputs.materials import get_gas
 from pdvoid.physics.inception import empirical_air_breakdown_voltage, paschen_minimum, paschen_voltage
 
 TORR_CM = 101325.0 / 760.0 * 0.01  # 1 Torr cm in Pa m, exact (1 Torr = 101325/760 Pa)

@@ -12,9 +12,16 @@ import math
 
 import pytest
 
-from pdvoid.fields import FieldSolver, Spheroid, coefficients_for, coefficients_from_solver, grid_for, specimen_layout
+from pdvoid.coefficients.fields import (
+    FieldSolver,
+    Spheroid,
+    coefficients_for,
+    coefficients_from_solver,
+    grid_for,
+    specimen_layout,
+)
+from pdvoid.core.units import EPSILON_0
 from pdvoid.physics.geometry import depolarization_spheroid
-from pdvoid.units import EPSILON_0
 
 EPS = 4.0
 GAP = 40e-3  # voids of 2-3 mm: far from the electrodes

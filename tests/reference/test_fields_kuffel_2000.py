@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import pytest
 
-from pdvoid.fields import (
+from pdvoid.coefficients.fields import (
     FieldSolver,
     Hyperboloid,
     Layout,

@@ -13,7 +13,7 @@ import math
 import numpy as np
 import pytest
 
-from pdvoid.fields import (
+from pdvoid.coefficients.fields import (
     FieldSolver,
     Layout,
     Rod,
@@ -24,7 +24,7 @@ from pdvoid.fields import (
     specimen_layout,
     surface_field,
 )
-from pdvoid.units import EPSILON_0
+from pdvoid.core.units import EPSILON_0
 
 EPS = 4.0
 A = 1e-3  # sphere radius [m]

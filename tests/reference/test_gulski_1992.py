@@ -26,7 +26,7 @@ from pdvoid.analysis.descriptors import (
     skewness,
 )
 from pdvoid.analysis.patterns import half_cycle_distributions
-from pdvoid.events import Events
+from pdvoid.simulation.events import Events
 
 REF = Path(__file__).resolve().parents[2] / "reference" / "gulski_1992"
 RTOL = tomllib.loads((REF / "source.toml").read_text())["tolerance"]["relative"]

@@ -3,7 +3,7 @@
 The model is that of Kreuger (1989), Gemant & Philippoff (1932) and Kuffel, Zaengl & Kuffel (2000) (all from
 memory); no table of those books is transcribed. Every expected value below is hand arithmetic on the
 relations of the physics brief §1.2-1.4 (derived), written out in the comments. ε0 is written out (CODATA
-2018) so the test does not depend on pdvoid.units.
+2018) so the test does not depend on pdvoid.core.units.
 """
 
 from __future__ import annotations

@@ -34,7 +34,7 @@ def _network_scenario(peak, inception, residual, k=0.4, frequency=50.0):
         model=pdvoid.NetworkModel(lag_free=True, residual_ratio=residual / inception, capacitance_void=c_c,
                                   capacitance_series=c_b),
     )
-    c = base.coefficients()
+    c = pdvoid.compute_coefficients(base)
     v_i = c.inception_field * 1e-3  # void voltage at inception = E_inc · h
     scale = v_i / inception
     rms = peak * scale / (k * math.sqrt(2.0))

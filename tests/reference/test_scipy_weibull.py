@@ -20,7 +20,7 @@ from pdvoid.analysis.magnitudes import (
     weibull_log_likelihood_hessian,
     weibull_probability_points,
 )
-from pdvoid.events import Events
+from pdvoid.simulation.events import Events
 
 
 def _sample(shape, scale, n, seed, loc=0.0):

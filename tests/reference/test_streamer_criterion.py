@@ -8,7 +8,7 @@ from __future__ import annotations
 
 import pytest
 
-from pdvoid.materials import get_gas
+from pdvoid.inputs.materials import get_gas
 from pdvoid.physics.inception import empirical_air_breakdown_voltage, gas_inception_field, streamer_inception_field
 from pdvoid.physics.ionization import ionization_integral_inception_field, sf6_effective_ionization, streamer_integral
 

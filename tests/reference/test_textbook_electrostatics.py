@@ -12,6 +12,7 @@ import math
 
 import pytest
 
+from pdvoid.core.units import EPSILON_0
 from pdvoid.physics.geometry import (
     depolarization_ellipsoid,
     depolarization_spheroid,
@@ -21,7 +22,6 @@ from pdvoid.physics.geometry import (
     layered_field_enhancement,
     spheroid_volume,
 )
-from pdvoid.units import EPSILON_0
 
 PERMITTIVITIES = [1.0, 2.3, 3.6, 4.4, 10.0, 100.0]
 

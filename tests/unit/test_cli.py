@@ -6,7 +6,7 @@ import json
 
 import pytest
 
-from pdvoid.cli import main
+from pdvoid.faces.cli.command import main
 
 
 def test_demo_json(capsys):
@@ -30,7 +30,7 @@ def test_demo_text(capsys):
 
 
 def test_simulate_writes_files(tmp_path, capsys):
-    from pdvoid.cli import demo_scenario_path
+    from pdvoid.inputs.demo import demo_scenario_path
 
     out = tmp_path / "run"
     assert main(["simulate", str(demo_scenario_path()), "--cycles", "100", "--seed", "3", "--out", str(out),

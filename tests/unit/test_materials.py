@@ -1,4 +1,4 @@
-"""Unit tests of pdvoid.materials and the built-in parameter sets (materials.toml, gases.toml)."""
+"""Unit tests of pdvoid.inputs.materials and the built-in parameter sets (materials.toml, gases.toml)."""
 
 from __future__ import annotations
 
@@ -9,7 +9,8 @@ from importlib import resources
 import pytest
 
 from pdvoid import InputError
-from pdvoid.materials import (
+from pdvoid.core.references import REFERENCES
+from pdvoid.inputs.materials import (
     STATUSES,
     GasData,
     Material,
@@ -20,7 +21,6 @@ from pdvoid.materials import (
     load_gases,
     load_materials,
 )
-from pdvoid.references import REFERENCES
 
 # Ranges of physics brief §11 (relative permittivity near power frequency), with their markers there.
 BRIEF_RANGES = {
@@ -90,7 +90,7 @@ def test_gas_values():
 
 def test_builtin_files_only_use_valid_statuses():
     # Source: project rules; reads the raw TOML so nothing the loader drops can hide.
-    root = resources.files("pdvoid.parameter_sets")
+    root = resources.files("pdvoid.inputs.parameter_sets")
     gases = tomllib.loads((root / "gases.toml").read_text(encoding="utf-8"))
     for name, entry in gases.items():
         if name == "schema":
@@ -168,7 +168,7 @@ def test_user_gas_round_trip(tmp_path):
 
 def test_builtin_files_reload_identically():
     # Source: the built-in files read through the public user-file loaders give the same objects.
-    root = resources.files("pdvoid.parameter_sets")
+    root = resources.files("pdvoid.inputs.parameter_sets")
     with resources.as_file(root / "materials.toml") as p:
         assert load_materials(p) == {n: get_material(n) for n in list_materials()}
     with resources.as_file(root / "gases.toml") as p:

@@ -16,8 +16,8 @@ import pytest  # noqa: E402
 import pdvoid  # noqa: E402
 from pdvoid import InputError  # noqa: E402
 from pdvoid.analysis.inception import inception  # noqa: E402
-from pdvoid.cli_report import register  # noqa: E402
-from pdvoid.report import SAFETY_NOTE, at_voltage, design_review, sensitivity  # noqa: E402
+from pdvoid.faces.cli.report import register  # noqa: E402
+from pdvoid.faces.report import SAFETY_NOTE, at_voltage, design_review, sensitivity  # noqa: E402
 
 SAFETY_WORDS = (
     "high voltage can kill",
@@ -51,7 +51,7 @@ def _pdf_text(path) -> str | None:
 
 @pytest.fixture(scope="module")
 def demo_pack(tmp_path_factory):
-    from pdvoid.cli import demo_scenario
+    from pdvoid.inputs.demo import demo_scenario
 
     out = tmp_path_factory.mktemp("pack") / "review.pdf"
     return design_review(
@@ -87,7 +87,7 @@ def test_safety_note_on_first_and_last_page(demo_pack):
 
 
 def test_summary_numbers_come_from_the_analysis(demo_pack):
-    from pdvoid.cli import demo_scenario
+    from pdvoid.inputs.demo import demo_scenario
 
     # the pack prints the analysis' numbers (pdvoid.analysis.inception; both criteria) and the margin
     est = inception(demo_scenario())
@@ -96,7 +96,7 @@ def test_summary_numbers_come_from_the_analysis(demo_pack):
         assert f"{v / 1e3:.3g}" in page
     assert demo_pack.margin == pytest.approx(est.inception_voltage / 18e3)
     assert f"{demo_pack.margin:.2f}: inception" in page
-    # material and gas data appear with their status (pdvoid.materials)
+    # material and gas data appear with their status (pdvoid.inputs.materials)
     assert "epoxy_silica_filled" in page and "from memory" in page and "air: critical reduced field" in page
     # the references page lists what the run used (pdvoid.cite)
     refs = demo_pack.page_texts[-1]
@@ -119,7 +119,7 @@ def test_figures_next_to_the_pdf(demo_pack):
 
 def test_pack_below_inception_svg_without_service(tmp_path, scenario_factory):
     sc = scenario_factory()
-    u_inc = sc.coefficients().inception_voltage
+    u_inc = pdvoid.compute_coefficients(sc).inception_voltage
     pack = design_review(sc, test_voltage=0.8 * u_inc, cycles=20, out=tmp_path / "low.pdf", figures="svg")
     assert _pdf_pages(pack.path) == pack.pages
     assert pack.result.event_count == 0  # below inception nothing discharges (lag-free or not)
@@ -131,7 +131,7 @@ def test_pack_below_inception_svg_without_service(tmp_path, scenario_factory):
 
 def test_sensitivity_follows_the_scalings(demo):
     rows = {r.parameter: r for r in sensitivity(demo, 0.2)}
-    base = demo.coefficients()
+    base = pdvoid.compute_coefficients(demo)
     t = rows["insulation.thickness"]
     # spheroid in a uniform field: U_inc = E_inc·d/(f·peak factor) with E_inc and f independent of d, and the
     # induced charge ∝ 1/d (physics brief §2.1 and §2.3, derived)
@@ -187,7 +187,7 @@ def _parser():
 
 
 def test_cli_report(tmp_path, capsys):
-    from pdvoid.cli import demo_scenario_path
+    from pdvoid.inputs.demo import demo_scenario_path
 
     out = tmp_path / "cli.pdf"
     ns = _parser().parse_args(
@@ -215,7 +215,7 @@ def test_cli_report(tmp_path, capsys):
 
 
 def test_cli_report_bad_voltage(tmp_path):
-    from pdvoid.cli import demo_scenario_path
+    from pdvoid.inputs.demo import demo_scenario_path
 
     ns = _parser().parse_args(
         [
@@ -234,10 +234,11 @@ def test_cli_report_bad_voltage(tmp_path):
 
 
 def test_cli_main_when_hooked(tmp_path, capsys):
-    from pdvoid import cli
+    from pdvoid.faces import cli
+    from pdvoid.inputs.demo import demo_scenario_path
 
     assert "report" in cli.build_parser().format_help()
     code = cli.main(
-        ["report", str(cli.demo_scenario_path()), "--out", str(tmp_path / "m.pdf"), "--test-voltage=-5kV"]
+        ["report", str(demo_scenario_path()), "--out", str(tmp_path / "m.pdf"), "--test-voltage=-5kV"]
     )
     assert code == 2 and "test_voltage" in capsys.readouterr().err

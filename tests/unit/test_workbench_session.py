@@ -8,8 +8,8 @@ import math
 import pytest
 
 import pdvoid
-from pdvoid.workbench.controls import CUSTOM_MATERIAL, SPECS, Controls
-from pdvoid.workbench.session import WorkbenchSession
+from pdvoid.faces.workbench.controls import CUSTOM_MATERIAL, SPECS, Controls
+from pdvoid.faces.workbench.session import WorkbenchSession
 
 U_INC = "inception voltage [kV rms]"
 PER_CYCLE = "discharges per cycle [-]"
@@ -141,8 +141,8 @@ def test_unknown_control_is_an_input_error(session):
 
 def test_material_sets_permittivity_and_a_typed_permittivity_makes_it_custom(session):
     session.set(material="ptfe")
-    # the parameter set's PTFE value (pdvoid.materials)
-    assert session.controls.permittivity == pdvoid.materials.get_material("ptfe").permittivity
+    # the parameter set's PTFE value (pdvoid.inputs.materials)
+    assert session.controls.permittivity == pdvoid.inputs.materials.get_material("ptfe").permittivity
     assert session.scenario().insulation.material == "ptfe"
     session.set(permittivity=2.5)
     assert session.controls.material == CUSTOM_MATERIAL

@@ -12,7 +12,7 @@ from datetime import UTC, datetime
 import pytest
 
 import pdvoid
-from pdvoid.workbench.scheduler import DebouncedWorker
+from pdvoid.faces.workbench.scheduler import DebouncedWorker
 
 U_INC = "inception voltage [kV rms]"
 PNG = b"\x89PNG\r\n\x1a\n"  # PNG file signature (PNG specification, ISO/IEC 15948 section 5.2)
@@ -20,7 +20,7 @@ PNG = b"\x89PNG\r\n\x1a\n"  # PNG file signature (PNG specification, ISO/IEC 159
 
 @pytest.fixture
 def wb():
-    from pdvoid.workbench import Workbench
+    from pdvoid.faces.workbench import Workbench
 
     bench = Workbench(cycles=200, seed=1, delay=0.02)
     yield bench
@@ -75,15 +75,15 @@ def test_invalid_height_shows_the_message_and_keeps_the_panel(wb):
 
 def test_material_dropdown_sets_the_permittivity_widget(wb):
     wb.widgets["material"].value = "polyethylene"
-    assert wb.widgets["permittivity"].value == pdvoid.materials.get_material("polyethylene").permittivity
+    assert wb.widgets["permittivity"].value == pdvoid.inputs.materials.get_material("polyethylene").permittivity
     wb.widgets["permittivity"].value = 3.1
-    assert wb.widgets["material"].value == pdvoid.workbench.CUSTOM_MATERIAL
+    assert wb.widgets["material"].value == pdvoid.faces.workbench.CUSTOM_MATERIAL
     assert wb.wait(60)
     assert wb.outcome.scenario.insulation.permittivity == 3.1
 
 
 def test_changes_in_quick_succession_give_one_run():
-    from pdvoid.workbench import Workbench
+    from pdvoid.faces.workbench import Workbench
 
     bench = Workbench(cycles=200, seed=1, delay=0.3)
     try:
@@ -192,7 +192,7 @@ def test_redraw_latency_for_200_cycles_is_reported(wb):
 
 def test_import_loads_neither_ipywidgets_nor_matplotlib():
     code = (
-        "import sys, pdvoid, pdvoid.workbench; "
+        "import sys, pdvoid, pdvoid.faces.workbench; "
         "print('ipywidgets' in sys.modules, 'matplotlib' in sys.modules)"
     )
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True, check=True)
@@ -200,7 +200,7 @@ def test_import_loads_neither_ipywidgets_nor_matplotlib():
 
 
 def test_missing_ipywidgets_names_the_extra(monkeypatch):
-    from pdvoid.workbench import WorkbenchDependencyError, optional
+    from pdvoid.faces.workbench import WorkbenchDependencyError, optional
 
     monkeypatch.setitem(sys.modules, "ipywidgets", None)  # "import ipywidgets" fails as if not installed
     with pytest.raises(WorkbenchDependencyError, match=r'pip install "pdvoid\[workbench\]"'):

@@ -5,7 +5,7 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
-from pdvoid.events import Events
+from pdvoid.simulation.events import Events
 
 
 def build_events(phase_deg, charge, *, frequency=50.0, cycles=1.0, cycle=None, voltage=None, time=None):

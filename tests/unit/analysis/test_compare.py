@@ -19,8 +19,8 @@ from pdvoid.analysis.compare import (
     compare,
     summarise,
 )
-from pdvoid.events import Events
 from pdvoid.io import PatternMatrix
+from pdvoid.simulation.events import Events
 
 
 def family(n=3000, shift=0.0, scale=1.0, seed=1, cycles=500.0):
@@ -183,7 +183,7 @@ def test_weights():
 
 
 def test_accepts_results_and_count_matrices():
-    from pdvoid.cli import demo_scenario
+    from pdvoid.inputs.demo import demo_scenario
 
     r = pdvoid.simulate(demo_scenario(), cycles=40, seed=1)
     m = PatternMatrix(
@@ -195,7 +195,7 @@ def test_accepts_results_and_count_matrices():
 
 
 def test_histogram_only_results_are_refused():
-    from pdvoid.cli import demo_scenario
+    from pdvoid.inputs.demo import demo_scenario
 
     r = pdvoid.simulate(demo_scenario(), cycles=40, seed=1, histogram=True)
     with pytest.raises(pdvoid.InputError, match="histogram"):

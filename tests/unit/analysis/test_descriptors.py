@@ -62,7 +62,7 @@ def test_fingerprint_nan_when_a_half_is_empty(make_events):
 
 
 def test_fingerprint_of_no_events_is_all_nan_or_zero():
-    from pdvoid.events import Events
+    from pdvoid.simulation.events import Events
 
     fp = fingerprint(Events(phase_deg=[], charge=[], frequency=50.0, cycles=5.0))
     assert all(math.isnan(v) or v == 0.0 for v in fp.values())

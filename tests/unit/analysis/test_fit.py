@@ -15,7 +15,7 @@ import pytest
 import pdvoid
 from pdvoid.analysis.fit import fit
 from pdvoid.analysis.synthetic import demo_measured_path, hidden_parameters
-from pdvoid.cli import demo_scenario
+from pdvoid.inputs.demo import demo_scenario
 
 DETECTOR = dict(noise=2e-12, relative_noise=0.03, phase_resolution_deg=1.0)
 

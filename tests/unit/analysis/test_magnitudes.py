@@ -16,7 +16,7 @@ from pdvoid.analysis.magnitudes import (
     weibull_log_likelihood_hessian,
     weibull_probability_points,
 )
-from pdvoid.events import Events
+from pdvoid.simulation.events import Events
 
 SAMPLE = stats.weibull_min.rvs(2.0, scale=1e-12, size=50, random_state=np.random.default_rng(0))
 

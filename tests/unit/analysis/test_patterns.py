@@ -11,7 +11,7 @@ from hypothesis import strategies as st
 
 from pdvoid import InputError
 from pdvoid.analysis.patterns import half_cycle_distributions, magnitude_distribution, pattern
-from pdvoid.events import Events
+from pdvoid.simulation.events import Events
 
 
 @pytest.mark.parametrize("scale", ["log", "linear"])

@@ -13,7 +13,7 @@ import pytest
 
 from pdvoid import InputError
 from pdvoid.analysis.quantities import DEFAULT_REPETITION_RATE, iec60270, largest_repeated_magnitude
-from pdvoid.events import Events
+from pdvoid.simulation.events import Events
 
 
 @pytest.fixture

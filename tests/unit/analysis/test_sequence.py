@@ -10,7 +10,7 @@ import pytest
 
 from pdvoid import InputError
 from pdvoid.analysis.sequence import pulse_sequence
-from pdvoid.events import Events
+from pdvoid.simulation.events import Events
 
 
 def test_hand_built_sequence(make_events):

@@ -19,8 +19,8 @@ from pdvoid.analysis.synthetic import (
     synthetic_measurement,
     write_demo_measured,
 )
-from pdvoid.events import Events
 from pdvoid.io import read_events
+from pdvoid.simulation.events import Events
 
 HIDDEN = {"void.diameter": 1.7e-3, "model.residual_ratio": 0.3}
 

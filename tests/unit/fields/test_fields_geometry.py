@@ -8,8 +8,8 @@ import numpy as np
 import pytest
 
 from pdvoid import InputError
-from pdvoid.fields import Hyperboloid, Outline, Rod, RoundedCylinder, Slab, Spheroid
-from pdvoid.fields.geometry import crossing
+from pdvoid.coefficients.fields import Hyperboloid, Outline, Rod, RoundedCylinder, Slab, Spheroid
+from pdvoid.coefficients.fields.geometry import crossing
 
 
 def test_spheroid_inside_and_volume():

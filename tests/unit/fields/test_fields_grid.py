@@ -6,7 +6,7 @@ import numpy as np
 import pytest
 
 from pdvoid import InputError
-from pdvoid.fields import Grid, graded_faces, make_grid
+from pdvoid.coefficients.fields import Grid, graded_faces, make_grid
 
 
 def test_uniform_without_focus():

@@ -6,7 +6,7 @@ import numpy as np
 import pytest
 
 from pdvoid import InputError
-from pdvoid.fields import (
+from pdvoid.coefficients.fields import (
     FieldSolver,
     Layout,
     Rod,

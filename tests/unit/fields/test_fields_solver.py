@@ -8,8 +8,17 @@ import numpy as np
 import pytest
 
 from pdvoid import InputError
-from pdvoid.fields import FieldSolver, Grid, Layout, Slab, Spheroid, field_components, make_grid, specimen_layout
-from pdvoid.units import EPSILON_0
+from pdvoid.coefficients.fields import (
+    FieldSolver,
+    Grid,
+    Layout,
+    Slab,
+    Spheroid,
+    field_components,
+    make_grid,
+    specimen_layout,
+)
+from pdvoid.core.units import EPSILON_0
 
 
 def _slab_solver(eps=3.0, layers=(), cells=(6, 17), faces_z=None):

@@ -6,7 +6,7 @@ import numpy as np
 import pytest
 
 from pdvoid import InputError
-from pdvoid.fields import (
+from pdvoid.coefficients.fields import (
     FieldSolver,
     Layout,
     Rod,
@@ -16,7 +16,7 @@ from pdvoid.fields import (
     make_grid,
     specimen_layout,
 )
-from pdvoid.fields.streamer import streamer_inception_voltage, trace_field_line
+from pdvoid.coefficients.fields.streamer import streamer_inception_voltage, trace_field_line
 from pdvoid.physics.ionization import ionization_integral_inception_field
 
 

@@ -8,8 +8,8 @@ import numpy as np
 import pytest
 
 from pdvoid import InputError
-from pdvoid.fields import FieldSolver, Spheroid, coefficients_from_solver, grid_for, specimen_layout
-from pdvoid.fields.timedomain import conductive_void_reference
+from pdvoid.coefficients.fields import FieldSolver, Spheroid, coefficients_from_solver, grid_for, specimen_layout
+from pdvoid.coefficients.fields.timedomain import conductive_void_reference
 
 E_INC, E_RES = 3e6, 0.5e6
 GAP = 4e-3

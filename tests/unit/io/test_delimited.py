@@ -6,9 +6,9 @@ import numpy as np
 import pytest
 
 import pdvoid
-from pdvoid.events import Events
 from pdvoid.io import describe_read, read_events, write_events
 from pdvoid.io import lines as L
+from pdvoid.simulation.events import Events
 
 # Exactness of the round trips rests on two facts (common practice): printing a double with 17 significant
 # digits and parsing it back gives the same double (IEEE 754-2008, clause 5.12.2), and numpy's text parser
@@ -26,7 +26,7 @@ def write(tmp_path, text: str | bytes, name: str = "events.csv"):
 
 @pytest.fixture(scope="module")
 def simulated():
-    from pdvoid.cli import demo_scenario
+    from pdvoid.inputs.demo import demo_scenario
 
     return pdvoid.simulate(demo_scenario(), cycles=60, seed=3)
 

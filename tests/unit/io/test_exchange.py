@@ -8,9 +8,9 @@ import numpy as np
 import pytest
 
 import pdvoid
-from pdvoid.events import Events
 from pdvoid.io import EXCHANGE_FORMAT, PatternMatrix, read_exchange, write_exchange
 from pdvoid.io import exchange as X
+from pdvoid.simulation.events import Events
 
 # Exactness: 17 significant digits reproduce a double (IEEE 754-2008 clause 5.12.2); Python's json writes the
 # shortest repr of a float, which also round-trips (Python language reference, float.__repr__).
@@ -19,7 +19,7 @@ FIELDS = ("phase_deg", "charge", "time", "cycle", "voltage", "field_before", "fi
 
 @pytest.fixture(scope="module")
 def result():
-    from pdvoid.cli import demo_scenario
+    from pdvoid.inputs.demo import demo_scenario
 
     return pdvoid.simulate(demo_scenario(), cycles=50, seed=9)
 

@@ -6,7 +6,6 @@ import numpy as np
 import pytest
 
 import pdvoid
-from pdvoid.events import Events
 from pdvoid.io import (
     PatternMatrix,
     describe_read,
@@ -14,6 +13,7 @@ from pdvoid.io import (
     read_pattern_matrix,
     write_pattern_matrix,
 )
+from pdvoid.simulation.events import Events
 
 # Exact round trips: 17 significant digits reproduce a double (IEEE 754-2008 clause 5.12.2); counts are
 # integers. SI prefixes from the BIPM SI Brochure (9th ed., table 7).

@@ -11,6 +11,7 @@ from hypothesis import strategies as st
 from scipy.special import elliprd
 
 from pdvoid import InputError
+from pdvoid.core.units import EPSILON_0
 from pdvoid.physics.geometry import (
     depolarization_ellipsoid,
     depolarization_spheroid,
@@ -20,7 +21,6 @@ from pdvoid.physics.geometry import (
     layered_field_enhancement,
     spheroid_volume,
 )
-from pdvoid.units import EPSILON_0
 
 axis = st.floats(min_value=-3.0, max_value=3.0).map(lambda e: 10.0**e)  # log-uniform 1e-3 ... 1e3
 ratio = st.floats(min_value=-6.0, max_value=6.0).map(lambda e: 10.0**e)  # aspect ratios 1e-6 ... 1e6

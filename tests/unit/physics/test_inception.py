@@ -10,7 +10,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from pdvoid import InputError
-from pdvoid.materials import get_gas, load_gases
+from pdvoid.inputs.materials import get_gas, load_gases
 from pdvoid.physics.inception import (
     density_equivalent_pressure,
     empirical_air_breakdown_voltage,

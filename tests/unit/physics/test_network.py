@@ -10,6 +10,7 @@ from hypothesis import assume, given, settings
 from hypothesis import strategies as st
 
 from pdvoid import InputError
+from pdvoid.core.units import EPSILON_0
 from pdvoid.physics.geometry import (
     depolarization_spheroid,
     field_enhancement,
@@ -26,7 +27,6 @@ from pdvoid.physics.network import (
     spheroid_network_equivalent,
     void_voltage_ratio,
 )
-from pdvoid.units import EPSILON_0
 
 
 # --- an independent exact event simulation of the lag-free network model (physics brief §1.4 assumptions) ---

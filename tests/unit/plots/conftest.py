@@ -71,13 +71,13 @@ def render():
 @pytest.fixture(scope="session")
 def demo_result():
     """The demo scenario over 300 cycles, seed 1 (an invented example; stochastic but seeded)."""
-    from pdvoid.cli import demo_scenario
+    from pdvoid.inputs.demo import demo_scenario
 
     return pdvoid.simulate(demo_scenario(), 300, 1)
 
 
 @pytest.fixture(scope="session")
 def demo_histogram_result():
-    from pdvoid.cli import demo_scenario
+    from pdvoid.inputs.demo import demo_scenario
 
     return pdvoid.simulate(demo_scenario(), 200, 1, histogram=True)

@@ -7,14 +7,14 @@ import pytest
 
 import pdvoid
 from pdvoid import InputError
-from pdvoid.events import Events
-from pdvoid.plots import compare
-from pdvoid.plots.style import new_figure
+from pdvoid.faces.plots import compare
+from pdvoid.faces.plots.style import new_figure
+from pdvoid.simulation.events import Events
 
 
 @pytest.fixture(scope="module")
 def measured():
-    from pdvoid.cli import demo_scenario
+    from pdvoid.inputs.demo import demo_scenario
 
     demo = demo_scenario()
     # stand-in for a measurement: the demo at 20 kV, another seed, phases and charges only (synthetic data)

@@ -9,7 +9,7 @@ import pytest
 
 import pdvoid
 from pdvoid import InputError
-from pdvoid.plots import field_time, void_field_trace
+from pdvoid.faces.plots import field_time, void_field_trace
 
 
 def _check_trace_matches_events(result, start, cycles):
@@ -84,7 +84,7 @@ def test_field_time_renders(render, demo_result):
 
 
 def test_field_time_into_given_axes_and_svg(render, demo_result):
-    from pdvoid.plots.style import new_figure
+    from pdvoid.faces.plots.style import new_figure
 
     fig = new_figure()
     ax0 = fig.add_subplot()

@@ -10,7 +10,7 @@ import pytest
 
 from pdvoid import InputError
 from pdvoid.analysis.margins import largest_pd_free_void, margin_table
-from pdvoid.plots import crossings, inception_chart, sensitivity_chart
+from pdvoid.faces.plots import crossings, inception_chart, sensitivity_chart
 
 
 def _table(parameter="void.diameter", unit="m", scale=1.0, test_voltage=None):

@@ -8,8 +8,8 @@ from matplotlib.colors import LogNorm
 
 from pdvoid import InputError
 from pdvoid.analysis.patterns import pattern
-from pdvoid.events import Events
-from pdvoid.plots import pattern_mesh, phase_pattern
+from pdvoid.faces.plots import pattern_mesh, phase_pattern
+from pdvoid.simulation.events import Events
 
 
 def test_pattern_from_result(render, demo_result):

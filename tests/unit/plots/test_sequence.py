@@ -7,8 +7,8 @@ import pytest
 
 import pdvoid
 from pdvoid import InputError
-from pdvoid.events import Events
-from pdvoid.plots import pulse_sequence_plot
+from pdvoid.faces.plots import pulse_sequence_plot
+from pdvoid.simulation.events import Events
 
 
 @pytest.mark.parametrize("kind", ["du", "q_du", "dphi"])

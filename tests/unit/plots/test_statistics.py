@@ -7,8 +7,8 @@ import pytest
 
 from pdvoid import InputError
 from pdvoid.analysis.magnitudes import weibull_fit
-from pdvoid.events import Events
-from pdvoid.plots import half_cycle, weibull_plot
+from pdvoid.faces.plots import half_cycle, weibull_plot
+from pdvoid.simulation.events import Events
 
 
 @pytest.mark.parametrize("quantity", ["H_n", "H_qn", "H_qmax"])

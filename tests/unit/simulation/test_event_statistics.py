@@ -30,7 +30,7 @@ def _scenario(rms=18e3, **model):
 
 def _rescaled_intervals(res, sc, n_max=400, samples=4000):
     """Λ_i = ∫ λ(t) dt over (t_{i-1}, t_i], from the model's definition of λ (issue text / physics brief §3.3)."""
-    c = sc.coefficients()
+    c = pdvoid.compute_coefficients(sc)
     m = sc.model
     g = c.field_enhancement / sc.insulation.thickness
     amp = math.sqrt(2.0) * sc.supply.rms
@@ -83,7 +83,7 @@ def test_constant_rate_time_lag_is_exponential_with_mean_one_over_n():
     sc = sc.replace(**{"model.surface_rate_same": n_rate, "model.surface_rate_reversed": n_rate,
                        "model.surface_decay_time": math.inf, "model.ionization_rate": 5e11})
     res = pdvoid.simulate(sc, cycles=400, seed=5)
-    c = sc.coefficients()
+    c = pdvoid.compute_coefficients(sc)
     g = c.field_enhancement / sc.insulation.thickness
     amp = math.sqrt(2.0) * sc.supply.rms
     w = 2.0 * math.pi * sc.supply.frequency

@@ -8,7 +8,7 @@ import numpy as np
 import pytest
 
 import pdvoid
-from pdvoid.scenario_files import read_scenario
+from pdvoid.inputs.scenario import read_scenario
 
 
 def test_scenario_round_trip_is_exact(tmp_path, demo):

@@ -29,7 +29,7 @@ def test_lag_free_field_model_first_discharge_phase():
     # first discharge where f·E_peak·sin φ = E_inc, E_peak = √2·U/d (uniform void field, brief §2.1 and
     # issue statement of the lag-free field model; derived)
     sc = _sc(pdvoid.FieldModel(lag_free=True))
-    c = sc.coefficients()
+    c = pdvoid.compute_coefficients(sc)
     res = pdvoid.simulate(sc, cycles=3, seed=0)
     e_peak = math.sqrt(2.0) * sc.supply.rms / sc.insulation.thickness
     expected = math.degrees(math.asin(c.inception_field / (c.field_enhancement * e_peak)))
@@ -44,7 +44,7 @@ def test_lag_free_field_model_first_discharge_phase():
 def test_lag_free_field_model_count_matches_closed_form():
     # the field model is the network model with k_eff = f·h/d (brief §4): same closed-form count (brief §1.4)
     sc = _sc(pdvoid.FieldModel(lag_free=True, residual_ratio=0.3), rms=25e3)
-    c = sc.coefficients()
+    c = pdvoid.compute_coefficients(sc)
     a = c.field_enhancement * math.sqrt(2.0) * sc.supply.rms / sc.insulation.thickness
     n = lag_free_discharges_per_cycle(a, c.inception_field, c.residual_field)
     res = pdvoid.simulate(sc, cycles=20, seed=0)
@@ -85,7 +85,7 @@ def test_chunking_does_not_change_the_answer(demo):
 
 _JIT_SCRIPT = """
 import sys, numpy as np, pdvoid
-from pdvoid.cli import demo_scenario
+from pdvoid.inputs.demo import demo_scenario
 sc = demo_scenario().replace(**{{"model.field_assisted": {fa}}})
 r = pdvoid.simulate(sc, cycles=40, seed=2)
 np.save(sys.argv[1], np.stack([r.time, r.charge, r.field_before]))
@@ -128,7 +128,7 @@ def test_harmonics_shift_the_discharges():
     b = pdvoid.simulate(flat_top, cycles=5, seed=0)
     # a third harmonic in anti-phase flattens the crest: the first inception comes at another phase
     assert abs(a.phase_deg[0] - b.phase_deg[0]) > 1.0
-    c = flat_top.coefficients()
+    c = pdvoid.compute_coefficients(flat_top)
     assert c.peak_factor < math.sqrt(2.0)
 
 
@@ -147,7 +147,7 @@ def test_charge_decay_follows_its_time_constant_and_misses_no_crossing():
     tau = 4e-3
     sc = _sc(pdvoid.FieldModel(lag_free=True, charge_decay_time=tau, residual_ratio=0.1), rms=20e3)
     res = pdvoid.simulate(sc, cycles=6, seed=0)
-    c = sc.coefficients()
+    c = pdvoid.compute_coefficients(sc)
     g = c.field_enhancement / sc.insulation.thickness
     amp = math.sqrt(2.0) * sc.supply.rms
     w = 2 * math.pi * 50.0

@@ -10,7 +10,7 @@ import pytest
 import xarray as xr
 
 from pdvoid import InputError
-from pdvoid.cli_sweep import register
+from pdvoid.faces.cli.sweep import register
 from pdvoid.sweeps.files import read_sweep_file
 
 

@@ -1,0 +1,134 @@
+"""Scenario → the coefficients every model runs on (field enhancement, inception and residual field, charge per
+field drop, capacitances, inception voltage), computed from the physics functions."""
+
+from __future__ import annotations
+
+import math
+
+from pdvoid.coefficients.record import Coefficients
+from pdvoid.core.errors import InputError
+from pdvoid.inputs.waveform import peak_value
+from pdvoid.physics.electrons import volume_electron_rate
+from pdvoid.physics.geometry import (
+    depolarization_spheroid,
+    field_enhancement,
+    induced_charge_per_field,
+    layered_field_enhancement,
+    spheroid_volume,
+)
+from pdvoid.physics.inception import gas_inception_field
+from pdvoid.physics.network import flat_void_capacitances, spheroid_network_equivalent, void_voltage_ratio
+
+__all__ = ["compute_coefficients", "supply_peak_factor"]
+
+
+def supply_peak_factor(supply) -> float:
+    """Peak of |V| divided by the rms value the supply is specified with [-]."""
+    orders, a, b = supply.fourier()
+    return peak_value(orders, a, b) / supply.rms
+
+
+def compute_coefficients(scenario) -> Coefficients:
+    """All coefficients of a :class:`pdvoid.inputs.scenario.Scenario` (see :class:`Coefficients`)."""
+    ins, void, model = scenario.insulation, scenario.void, scenario.model
+    d, er = ins.thickness, ins.permittivity
+    D, h = void.diameter, void.height
+    refs = ["niemeyer1995", "gutfleisch1995", "hess1951"]
+
+    if void.shape == "spheroid":
+        # a void on an electrode is half a spheroid; with its mirror image in the equipotential electrode it is a
+        # whole spheroid of height 2h (method of images): same field, and the real half carries half the dipole
+        h_full = h if void.position == "centred" else 2.0 * h
+        n = depolarization_spheroid(D, h_full)
+        f = field_enhancement(er, n)
+        omega = spheroid_volume(D, h_full) * (h / h_full)
+        c_field = induced_charge_per_field(er, n, omega, d)
+        if f * h < d:
+            c_b, c_c, _k = spheroid_network_equivalent(D, h, d, er) if void.position == "centred" else (
+                c_field / h, c_field / h * (d / (f * h) - 1.0), f * h / d)
+        elif model.gain_from_network and model.network_capacitances() is None:
+            raise InputError(
+                f"void.height {h:g} m is too large for the network equivalent of a spheroid in "
+                f"insulation.thickness {d:g} m (needs f·height < thickness; f = {f:.4g})"
+            )
+        else:
+            c_b = c_c = math.nan  # the field model does not need the network equivalent
+        refs += ["dlmf19.33", "osborn1945", "stratton1941", "crichton1989", "pedersen1991"]
+    else:  # flat cylinder: layered-slab field, three-capacitance charge
+        f = layered_field_enhancement(er, h, d)
+        n = (er / f - er) / (1.0 - er) if er > 1.0 else 1.0
+        omega = math.pi * D * D / 4.0 * h
+        caps = flat_void_capacitances(D, h, d, er)
+        c_b, c_c = caps.b, caps.c
+        c_field = c_b * h
+        refs += ["gemant1932", "kreuger1989", "kuffel2000"]
+    if void.field_enhancement is not None:  # a numerical field solution replaces the closed forms
+        f, c_field = void.field_enhancement, void.charge_per_field
+        n = (er / f - er) / (1.0 - er) if er > 1.0 and f != er else math.nan
+        k_eq = f * h / d
+        c_b = c_field / h
+        c_c = c_b * (1.0 / k_eq - 1.0) if k_eq < 1.0 else math.nan
+        refs.append("pedersen1991")
+    c_a = math.nan
+    if ins.area is not None:
+        s_void = math.pi * D * D / 4.0
+        if ins.area <= s_void:
+            raise InputError(f"insulation.area must exceed the void's cross-section {s_void:g} m²; got {ins.area:g}")
+        c_a = flat_void_capacitances(D, min(h, 0.999 * d), d, er, specimen_area=ins.area).a
+
+    l_str = void.streamer_length
+    e_str = gas_inception_field(void.gas, void.pressure, l_str, void.temperature, criterion="streamer")
+    try:
+        e_int = gas_inception_field(void.gas, void.pressure, l_str, void.temperature,
+                                    criterion="ionization_integral")
+        refs.append("morrow1997" if void.gas == "air" else "pedersen1970")
+    except InputError:
+        # the second estimate is unavailable (no ionisation data for this gas, or a gap in the Townsend
+        # region); that is only an error when the model relies on it
+        if model.inception_criterion == "ionization_integral":
+            raise
+        e_int = math.nan
+    e_inc = e_str if model.inception_criterion == "streamer" else e_int
+    e_res = model.residual_ratio * e_inc
+
+    given = model.network_capacitances()
+    if given is not None:  # a network model with capacitances of its own
+        c_c, c_b = given
+        c_field = c_b * h
+    k = void_voltage_ratio(c_b, c_c) if math.isfinite(c_b) else math.nan
+    if model.gain_from_network:
+        gain_field = k / h  # void field per applied volt
+        refs += ["gemant1932", "kreuger1989"]
+    else:
+        gain_field = f / d
+    pf = supply_peak_factor(scenario.supply)
+
+    def u_inc(e: float) -> float:
+        return e / (gain_field * pf) if math.isfinite(e) else math.nan
+
+    n_vol = volume_electron_rate(omega, void.pressure, void.temperature,
+                                 ionization_rate=model.ionization_rate, electron_yield=model.electron_yield)
+    f_eff = gain_field * d if model.gain_from_network else f
+    return Coefficients(
+        field_enhancement=f_eff,
+        depolarization=n,
+        volume=omega,
+        inception_field=e_inc,
+        inception_field_streamer=e_str,
+        inception_field_integral=e_int,
+        residual_field=e_res,
+        charge_per_field=c_field,
+        charge_per_discharge=c_field * (e_inc - e_res),
+        inception_voltage=u_inc(e_inc),
+        inception_voltage_streamer=u_inc(e_str),
+        inception_voltage_integral=u_inc(e_int),
+        extinction_voltage=u_inc(0.5 * (e_inc + e_res)),
+        capacitance_void=c_c,
+        capacitance_series=c_b,
+        capacitance_parallel=c_a,
+        void_voltage_ratio=k,
+        volume_electron_rate=n_vol,
+        peak_factor=pf,
+        references=tuple(dict.fromkeys(refs)),
+        method="closed form" if void.field_enhancement is None else "field solver",
+    )

@@ -1,0 +1,2 @@
+"""The lowest layer: ``InputError`` and its validators, constants and unit parsing, references and citation
+tracking, the optional-dependency door and version information. Imports nothing else of pdvoid."""

@@ -1,0 +1,161 @@
+"""Bibliography: keys -> full citations, and the record of which keys a computation relied on.
+
+Every published formula in pdvoid names its key here. A :class:`~pdvoid.simulation.results.Result` carries the keys its
+scenario used; :func:`cite` prints them. Status markers follow the project's physics brief: ``confirmed`` (checked
+against public text), ``derived`` (derived here from stated equations and checked numerically), ``from memory``
+(recalled, unconfirmed; never a test oracle on its own).
+"""
+
+from __future__ import annotations
+
+from collections.abc import Iterable
+from dataclasses import dataclass
+
+from pdvoid.core.errors import InputError
+
+__all__ = ["Reference", "REFERENCES", "cite", "get_reference"]
+
+
+@dataclass(frozen=True)
+class Reference:
+    key: str
+    citation: str
+    status: str  # confirmed | derived | from memory | common practice
+
+    def __str__(self) -> str:
+        return f"[{self.key}] {self.citation} ({self.status})"
+
+
+def _r(key: str, citation: str, status: str) -> tuple[str, Reference]:
+    return key, Reference(key, citation, status)
+
+
+REFERENCES: dict[str, Reference] = dict(
+    [
+        _r("dlmf19.33", "NIST Digital Library of Mathematical Functions, §19.33(iii) Depolarization factors, "
+           "eq. 19.33.8 (F. W. J. Olver et al., eds., release 1.2)", "confirmed"),
+        _r("carlson1995", "B. C. Carlson, 'Numerical computation of real or complex elliptic integrals', "
+           "Numer. Algorithms 10 (1995) 13-26 (R_D as implemented by scipy.special.elliprd)", "confirmed"),
+        _r("osborn1945", "J. A. Osborn, 'Demagnetizing factors of the general ellipsoid', Phys. Rev. 67 (1945) "
+           "351-357 (closed forms for spheroids)", "from memory"),
+        _r("stratton1941", "J. A. Stratton, Electromagnetic Theory, McGraw-Hill 1941, §3.25-3.27 (dielectric "
+           "ellipsoid in a uniform field)", "from memory"),
+        _r("crichton1989", "G. C. Crichton, P. W. Karlsson, A. Pedersen, 'Partial discharges in ellipsoidal and "
+           "spheroidal voids', IEEE Trans. Electr. Insul. 24(2) (1989) 335-342", "from memory"),
+        _r("pedersen1991", "A. Pedersen, G. C. Crichton, I. W. McAllister, 'The theory and measurement of "
+           "partial discharge transients', IEEE Trans. Electr. Insul. 26(3) (1991) 487-497", "from memory"),
+        _r("pedersen1995", "A. Pedersen, G. C. Crichton, I. W. McAllister, 'The functional relation between "
+           "partial discharges and induced charge', IEEE Trans. Dielectr. Electr. Insul. 2(4) (1995) 535-543",
+           "from memory"),
+        _r("mcallister2002", "I. W. McAllister, 'Electric fields and electrical insulation', IEEE Trans. "
+           "Dielectr. Electr. Insul. 9(5) (2002) 672-696", "confirmed"),
+        _r("gemant1932", "A. Gemant, W. von Philippoff, 'Die Funkenstrecke mit Vorkondensator', Z. techn. Phys. "
+           "13 (1932) 425", "from memory"),
+        _r("kreuger1989", "F. H. Kreuger, Partial Discharge Detection in High-Voltage Equipment, Butterworths, "
+           "London 1989 (three-capacitance model)", "from memory"),
+        _r("kuffel2000", "E. Kuffel, W. S. Zaengl, J. Kuffel, High Voltage Engineering: Fundamentals, 2nd ed., "
+           "Newnes, Oxford 2000 (PD measurement chapter; gas breakdown chapter)", "from memory"),
+        _r("niemeyer1995", "L. Niemeyer, 'A generalized approach to partial discharge modeling', IEEE Trans. "
+           "Dielectr. Electr. Insul. 2(4) (1995) 510-528", "confirmed"),
+        _r("gutfleisch1995", "F. Gutfleisch, L. Niemeyer, 'Measurement and simulation of PD in epoxy voids', "
+           "IEEE Trans. Dielectr. Electr. Insul. 2(5) (1995) 729-743", "from memory"),
+        _r("illias2011", "H. Illias, G. Chen, P. L. Lewin, 'Modeling of partial discharge activity in spherical "
+           "cavities within a dielectric material', IEEE Electr. Insul. Mag. 27(1) (2011), "
+           "doi:10.1109/MEI.2011.5699446", "confirmed"),
+        _r("illias2011jpd", "H. Illias, G. Chen, P. L. Lewin, 'The influence of spherical cavity surface charge "
+           "distribution on the sequence of partial discharge events', J. Phys. D: Appl. Phys. 44(24) (2011) "
+           "245202", "confirmed"),
+        _r("morrow1997", "R. Morrow, J. J. Lowke, 'Streamer propagation in air', J. Phys. D: Appl. Phys. 30 "
+           "(1997) 614-627, appendix, doi:10.1088/0022-3727/30/4/017", "confirmed"),
+        _r("raizer1991", "Yu. P. Raizer, Gas Discharge Physics, Springer, Berlin 1991, Table 4.1 (A, B of the "
+           "first Townsend coefficient)", "from memory"),
+        _r("bazelyan1998", "E. M. Bazelyan, Yu. P. Raizer, Spark Discharge, CRC Press 1998, p. 32 (air: A = 15 "
+           "/(cm Torr), B = 365 V/(cm Torr), gamma = 0.01)", "confirmed"),
+        _r("dakin1974", "T. W. Dakin et al., 'Breakdown of gases in uniform fields. Paschen curves for nitrogen, "
+           "air and sulfur hexafluoride', Electra 32 (1974) 61-82", "from memory"),
+        _r("hess1951", "V. F. Hess, in Compendium of Meteorology, American Meteorological Society 1951, "
+           "atmospheric-electricity chapter, Table II (about 10 ion pairs per cm^3 per s near ground over land)",
+           "confirmed"),
+        _r("iec60270", "IEC 60270:2000+A1:2015, High-voltage test techniques - Partial discharge measurements, "
+           "clause 3 (definitions of apparent charge, phase angle, I, D, P, n)", "from memory"),
+        _r("gulski1992", "E. Gulski, F. H. Kreuger, 'Computer-aided recognition of discharge sources', IEEE "
+           "Trans. Electr. Insul. 27(1) (1992) 82-92", "from memory"),
+        _r("gulski1993", "E. Gulski, 'Computer-aided measurement of partial discharges in HV equipment', IEEE "
+           "Trans. Electr. Insul. 28(6) (1993) 969-983", "from memory"),
+        _r("gulski1995", "E. Gulski, 'Digital analysis of partial discharges', IEEE Trans. Dielectr. Electr. "
+           "Insul. 2(5) (1995) 822-837", "from memory"),
+        _r("hoof1995", "M. Hoof, R. Patsch, 'Pulse-sequence analysis: a new method for investigating the "
+           "physics of PD-induced ageing', IEE Proc.-Sci. Meas. Technol. 142(1) (1995) 95-101", "from memory"),
+        _r("cacciari1995", "M. Cacciari, A. Contin, G. C. Montanari, 'Use of a mixed-Weibull distribution for "
+           "the identification of PD phenomena', IEEE Trans. Dielectr. Electr. Insul. 2(4) (1995) 614-627",
+           "from memory"),
+        _r("forssen2008", "C. Forssén, H. Edin, 'Partial discharges in a cavity at variable applied frequency', "
+           "Parts 1 and 2, IEEE Trans. Dielectr. Electr. Insul. 15(6) (2008) 1601-1616", "from memory"),
+        _r("weibull1951", "W. Weibull, 'A statistical distribution function of wide applicability', J. Appl. "
+           "Mech. 18 (1951) 293-297", "from memory"),
+        _r("benard1953", "A. Benard, E. C. Bos-Levenbach, 'Het uitzetten van waarnemingen op "
+           "waarschijnlijkheids-papier', Statistica Neerlandica 7 (1953) 163-173 (median ranks)", "from memory"),
+        _r("meeker1998", "W. Q. Meeker, L. A. Escobar, Statistical Methods for Reliability Data, Wiley 1998",
+           "from memory"),
+        _r("smith1985", "R. L. Smith, 'Maximum likelihood estimation in a class of nonregular cases', "
+           "Biometrika 72 (1985) 67-90", "from memory"),
+        _r("efron1993", "B. Efron, R. J. Tibshirani, An Introduction to the Bootstrap, Chapman & Hall 1993",
+           "from memory"),
+        _r("brown2002", "E. N. Brown, R. Barbieri, V. Ventura, R. E. Kass, L. M. Frank, 'The time-rescaling "
+           "theorem and its application to neural spike train data analysis', Neural Computation 14 (2002) "
+           "325-346", "from memory"),
+        _r("lewis1979", "P. A. W. Lewis, G. S. Shedler, 'Simulation of nonhomogeneous Poisson processes by "
+           "thinning', Naval Research Logistics Quarterly 26(3) (1979) 403-413", "from memory"),
+        _r("mckay1979", "M. D. McKay, R. J. Beckman, W. J. Conover, 'A comparison of three methods for selecting "
+           "values of input variables in the analysis of output from a computer code', Technometrics 21(2) (1979) "
+           "239-245", "from memory"),
+        _r("richardson1911", "L. F. Richardson, 'The approximate arithmetical solution by finite differences of "
+           "physical problems involving differential equations', Phil. Trans. R. Soc. A 210 (1911) 307-357",
+           "from memory"),
+        _r("patankar1980", "S. V. Patankar, Numerical Heat Transfer and Fluid Flow, Hemisphere, New York 1980 "
+           "(harmonic averaging of interface coefficients)", "from memory"),
+        _r("mason1955", "J. H. Mason, 'Breakdown of solid dielectrics in divergent fields', Proc. IEE C 102 "
+           "(1955) 254-263 (hyperboloid point-plane tip field), as quoted in Kuffel, Zaengl & Kuffel 2000",
+           "from memory"),
+        _r("codata2018", "E. Tiesinga et al., 'CODATA recommended values of the fundamental physical constants: "
+           "2018', Rev. Mod. Phys. 93 (2021) 025010 (via scipy.constants)", "confirmed"),
+        _r("lux_paschen", "J. Lux, notes on Paschen's law and the breakdown of air (web page, "
+           "icestuff.com/~energy21/paschen2.htm; copy at neasmn.org): empirical air formula V = 24.22 x + "
+           "6.08 sqrt(x) kV with x = 293 p d/(760 T), p in Torr, d in cm; air A, B, gamma quoted from "
+           "Bazelyan & Raizer", "confirmed"),
+        _r("schumann1923", "W. O. Schumann, Elektrische Durchbruchfeldstärke von Gasen, Springer, Berlin "
+           "1923 (usual attribution of the empirical uniform-field breakdown formula of air)", "from memory"),
+        _r("pedersen1970", "A. Pedersen, 'Criteria for spark breakdown in sulfur hexafluoride', IEEE Trans. "
+           "Power App. Syst. PAS-89(8) (1970) 2043-2048 (linear effective ionisation of SF6, K = 10.5; "
+           "attribution of the constants 27.7 /kV and 88.6 kV/(cm bar))", "from memory"),
+        _r("mikropoulos2009", "P. N. Mikropoulos, V. N. Zagkanas, paper on positive corona inception in air, "
+           "Proc. 16th Int. Symp. High Voltage Engineering (ISH), Cape Town 2009 (avalanche number 1e4, "
+           "ionization integral about 9.2)", "confirmed"),
+        _r("nitrogen_breakdown_tf", "Taylor & Francis book chapter, doi:10.1201/9780203025260-14, abstract: "
+           "uniform-field breakdown of nitrogen about 30.4 kV for a 1 cm gap at 101.3 kPa", "confirmed"),
+    ]
+)
+
+
+def get_reference(key: str) -> Reference:
+    """The :class:`Reference` for ``key``; :class:`InputError` for an unknown key."""
+    try:
+        return REFERENCES[key]
+    except KeyError:
+        raise InputError(f"unknown reference key {key!r}; known keys: {sorted(REFERENCES)}") from None
+
+
+def cite(source: object) -> str:
+    """Full citations for a result, a scenario's coefficients, or an iterable of keys, one per line."""
+    keys: Iterable[str]
+    if isinstance(source, str):
+        keys = [source]
+    elif hasattr(source, "references"):
+        keys = source.references  # type: ignore[assignment]
+    else:
+        keys = source  # type: ignore[assignment]
+    try:
+        ordered = list(dict.fromkeys(keys))
+    except TypeError:
+        raise InputError(f"cite() needs a Result, Coefficients or keys; got {type(source).__name__}") from None
+    return "\n".join(str(get_reference(k)) for k in ordered)

@@ -1,0 +1,63 @@
+"""The command line: ``pdvoid demo``, ``pdvoid simulate`` and the other commands.
+
+Every report states that results are engineering estimates; test and acceptance levels come from the applicable
+standards; local codes and licensed practice prevail.
+"""
+
+from __future__ import annotations
+
+import argparse
+import sys
+from collections.abc import Sequence
+
+from pdvoid._version import __version__
+from pdvoid.core.errors import InputError
+from pdvoid.faces.cli import analysis, fit, report, simulate, sweep
+from pdvoid.faces.cli.output import SAFETY
+
+__all__ = ["build_parser", "main"]
+
+COMMAND_MODULES = (simulate, analysis, fit, report, sweep)
+
+
+def build_parser() -> argparse.ArgumentParser:
+    """The argument parser of the ``pdvoid`` command with every sub-command.
+
+    Returns
+    -------
+    argparse.ArgumentParser
+        The parser.
+    """
+    p = argparse.ArgumentParser(prog="pdvoid", description="Partial discharges in gas-filled voids: fields, "
+                                "inception, AC-cycle simulation, phase-resolved patterns. " + SAFETY)
+    p.add_argument("--version", action="version", version=f"pdvoid {__version__}")
+    sub = p.add_subparsers(dest="command", required=True)
+    for module in COMMAND_MODULES:
+        module.register(sub)
+    return p
+
+
+def main(argv: Sequence[str] | None = None) -> int:
+    """Run the ``pdvoid`` command.
+
+    Parameters
+    ----------
+    argv : sequence of str, optional
+        The arguments (default: ``sys.argv[1:]``).
+
+    Returns
+    -------
+    int
+        The exit status: 0 on success, 2 for a user error (printed as ``pdvoid: error: ...``).
+    """
+    parser = build_parser()
+    ns = parser.parse_args(argv)
+    try:
+        return int(ns.func(ns) or 0)
+    except InputError as exc:
+        print(f"pdvoid: error: {exc}", file=sys.stderr)
+        return 2
+
+
+if __name__ == "__main__":  # pragma: no cover
+    sys.exit(main())

@@ -1,0 +1,88 @@
+"""The ``fit`` command: fit a void's physics to a measured pattern file."""
+
+from __future__ import annotations
+
+import argparse
+import json
+
+from pdvoid.core.errors import InputError
+from pdvoid.core.units import parse_quantity
+from pdvoid.faces.cli.output import SAFETY, json_safe
+
+_DIMENSION = {"void.diameter": "length", "void.height": "length", "insulation.thickness": "length",
+              "void.pressure": "pressure", "void.temperature": "temperature", "model.surface_rate_same": "rate",
+              "model.surface_rate_reversed": "rate", "model.surface_decay_time": "time",
+              "model.charge_decay_time": "time", "model.ionization_rate": "rate density"}
+
+
+def parse_vary(items: list[str]) -> dict[str, tuple[float, float]]:
+    """``["void.diameter=0.5mm:3mm", "model.residual_ratio=0.05:0.6"]`` → {name: (low, high)} in SI."""
+    out = {}
+    for item in items:
+        if "=" not in item or ":" not in item.split("=", 1)[1]:
+            raise InputError(f"--vary must look like NAME=LOW:HIGH (e.g. void.diameter=0.5mm:3mm); got {item!r}")
+        name, rng = item.split("=", 1)
+        lo, hi = rng.split(":", 1)
+        dim = _DIMENSION.get(name.strip(), "dimensionless")
+        out[name.strip()] = (parse_quantity(lo, dim, name=f"--vary {name} low"),
+                             parse_quantity(hi, dim, name=f"--vary {name} high"))
+    return out
+
+
+def _cmd_fit(ns: argparse.Namespace) -> int:
+    from pdvoid.analysis.fit import fit
+    from pdvoid.analysis.synthetic import hidden_parameters
+    from pdvoid.inputs.scenario import Scenario
+    from pdvoid.io import read_events
+
+    measured = read_events(ns.measured, cycles=ns.cycles_measured, frequency=ns.frequency)
+    sc = Scenario.from_file(ns.scenario)
+    vary = parse_vary(ns.vary)
+    threshold = parse_quantity(ns.threshold, "charge", name="--threshold")
+    detector = None
+    if ns.noise is not None or ns.phase_resolution is not None:
+        detector = {"noise": parse_quantity(ns.noise or "0 C", "charge", name="--noise"),
+                    "relative_noise": ns.relative_noise,
+                    "phase_resolution_deg": float(ns.phase_resolution or 0.0)}
+    r = fit(measured, sc, vary, threshold=threshold, cycles=ns.cycles, seed=ns.seed, detector=detector,
+            popsize=ns.popsize, maxiter=ns.maxiter, workers=ns.workers)
+    truth = None
+    try:
+        hidden = hidden_parameters(measured)
+        truth = {k: hidden[k] for k in vary if k in hidden} or None
+    except InputError:
+        truth = None
+    doc = {"measured": ns.measured, "best": r.best, "ranges": r.ranges, "identified": r.identified,
+           "score": r.score, "score noise": r.noise, "start": r.start, "start score": r.start_score,
+           "simulations": r.runs, "elapsed [s]": r.elapsed, "safety": SAFETY}
+    if truth and len(truth) == len(vary):
+        doc["hidden (synthetic data)"] = truth
+    if ns.json:
+        print(json.dumps(json_safe(doc), indent=2))
+    else:
+        print(r.table(truth if truth and len(truth) == len(vary) else None))
+        print(SAFETY)
+    if ns.out:
+        r.scenario.to_file(ns.out)
+    return 0
+
+
+def register(sub) -> None:
+    f = sub.add_parser("fit", help="fit a void's parameters to a measured pattern file")
+    f.add_argument("measured", help="events file (e.g. header 'phase [deg],charge [pC]')")
+    f.add_argument("--scenario", required=True, help="starting scenario TOML")
+    f.add_argument("--vary", action="append", required=True, help="NAME=LOW:HIGH with units; repeat")
+    f.add_argument("--threshold", default="0 C", help="detection threshold of the measurement, e.g. 5pC")
+    f.add_argument("--noise", default=None, help="charge noise of the detector model, e.g. 2pC")
+    f.add_argument("--relative-noise", type=float, default=0.0)
+    f.add_argument("--phase-resolution", default=None, help="phase resolution of the detector model [deg]")
+    f.add_argument("--cycles", type=int, default=1000, help="simulated cycles per evaluation")
+    f.add_argument("--cycles-measured", type=int, default=None, help="cycles of a phase-only measured file")
+    f.add_argument("--frequency", type=float, default=None, help="supply frequency of the measured file [Hz]")
+    f.add_argument("--seed", type=int, default=0)
+    f.add_argument("--popsize", type=int, default=8)
+    f.add_argument("--maxiter", type=int, default=30)
+    f.add_argument("--workers", type=int, default=1, help="worker processes (default 1)")
+    f.add_argument("--out", default=None, help="write the fitted scenario (TOML) here")
+    f.add_argument("--json", action="store_true")
+    f.set_defaults(func=_cmd_fit)

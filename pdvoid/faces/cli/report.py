@@ -1,0 +1,80 @@
+"""The ``pdvoid report`` command: write the design-review pack of a scenario file.
+
+Hooked into :mod:`pdvoid.cli` through :func:`register`::
+
+    pdvoid report SCENARIO.toml --out review.pdf --test-voltage 18kV [--service-voltage 8kV]
+                  [--figures png|svg] [--cycles N] [--seed S]
+"""
+
+from __future__ import annotations
+
+import argparse
+
+__all__ = ["register"]
+
+
+def register(subparsers: argparse._SubParsersAction) -> argparse.ArgumentParser:
+    """Add the ``report`` command to ``subparsers`` (from ``ArgumentParser.add_subparsers``); return its
+    parser. The command's function is stored as ``func`` and returns the exit code."""
+    p = subparsers.add_parser(
+        "report",
+        help="write a design-review pack (multi-page PDF, optional PNG/SVG figures) for a scenario file",
+        description="Write a design-review pack: scenario with sources, inception and extinction, margins to "
+        "the test and service levels, margin chart, void field against time, phase-resolved pattern, "
+        "sensitivity chart, assumptions, references and the safety note.",
+    )
+    p.add_argument("scenario", help="scenario TOML file")
+    p.add_argument("--out", default="review.pdf", help="PDF file to write (default review.pdf)")
+    p.add_argument(
+        "--test-voltage",
+        required=True,
+        help="test voltage, rms, with a unit (e.g. 18kV or '18 kV'); a bare number is in V",
+    )
+    p.add_argument("--service-voltage", default=None, help="service voltage, rms, with a unit (e.g. 8kV)")
+    p.add_argument(
+        "--figures",
+        choices=("png", "svg"),
+        default=None,
+        help="also write each chart as PNG or SVG next to the PDF",
+    )
+    p.add_argument(
+        "--cycles", type=int, default=2000, help="cycles simulated at the test voltage (default 2000)"
+    )
+    p.add_argument("--seed", type=int, default=1, help="random seed (default 1)")
+    p.set_defaults(func=_cmd_report)
+    return p
+
+
+def _voltage(text: str, name: str) -> float:
+    from pdvoid.core.units import parse_quantity
+
+    return parse_quantity(text, "voltage", name=name)  # "18kV", "18 kV" or a bare number in V
+
+
+def _cmd_report(ns: argparse.Namespace) -> int:
+    from pdvoid.faces.report import SAFETY_NOTE, design_review
+    from pdvoid.inputs.scenario import Scenario
+
+    test = _voltage(ns.test_voltage, "--test-voltage")
+    service = None if ns.service_voltage is None else _voltage(ns.service_voltage, "--service-voltage")
+    scenario = Scenario.from_file(ns.scenario)
+    pack = design_review(
+        scenario,
+        test_voltage=test,
+        service_voltage=service,
+        cycles=ns.cycles,
+        seed=ns.seed,
+        out=ns.out,
+        figures=ns.figures,
+    )
+    est = pack.estimate
+    print(
+        f"inception voltage {est.inception_voltage / 1e3:.4g} kV rms, extinction estimate "
+        f"{est.extinction_voltage / 1e3:.4g} kV rms, test voltage {test / 1e3:.4g} kV rms, "
+        f"margin {pack.margin:.3g}"
+    )
+    print(f"wrote {pack.path} ({pack.pages} pages)")
+    for f in pack.figures:
+        print(f"wrote {f}")
+    print(SAFETY_NOTE)
+    return 0

@@ -1,0 +1,333 @@
+"""Pages and charts of the design-review pack (:func:`pdvoid.faces.report.design_review` computes; this module
+lays out)."""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from typing import Any
+
+from matplotlib.figure import Figure
+
+from pdvoid.core.errors import InputError
+from pdvoid.faces.plots.field import field_time
+from pdvoid.faces.plots.margins import inception_chart, sensitivity_chart
+from pdvoid.faces.plots.pages import PageWriter, figure_text
+from pdvoid.faces.plots.patterns import phase_pattern
+from pdvoid.faces.plots.style import new_figure
+
+__all__ = ["Context", "Pages", "build_pages", "standalone_chart", "CHART_NAMES"]
+
+CHART_NAMES = ("margin", "field_time", "pattern", "sensitivity")
+
+
+@dataclass(frozen=True, eq=False)
+class Context:
+    """Everything the pack shows, computed by :func:`pdvoid.faces.report.design_review` (voltages V rms, SI)."""
+
+    scenario: Any
+    estimate: Any
+    result: Any
+    test_voltage: float
+    service_voltage: float | None
+    sensitivity: list
+    summary: dict
+    largest: Any
+    largest_service: Any
+    tables: list
+    material: list
+    gas: list
+    inputs: list
+    references: str
+    safety: str
+    version: str
+    cycles: int
+    seed: int
+
+
+@dataclass(frozen=True)
+class Pages:
+    figures: list[Figure]
+    titles: list[str]
+    texts: list[str]
+
+
+def _kv(v: float) -> str:
+    return "n/a" if v is None or not math.isfinite(v) else f"{v / 1e3:.3g}"
+
+
+def _margin(u_inc: float, level: float, what: str) -> str:
+    ratio = u_inc / level
+    pct = abs(ratio - 1.0) * 100.0
+    if ratio >= 1.0:
+        return f"{ratio:.2f}: inception {pct:.0f} % above the {what} voltage"
+    return f"{ratio:.2f}: inception {pct:.0f} % below the {what} voltage, discharges expected"
+
+
+def _void_text(lv: Any) -> str:
+    size = f"{lv.diameter * 1e3:.3g} mm × {lv.height * 1e3:.3g} mm (diameter × height)"
+    if lv.limited_by == "insulation":
+        return f"at least {size}: every void up to half the insulation thickness stays discharge-free"
+    if lv.limited_by == "smallest":
+        return "none: even a 1 µm void of this shape would discharge"
+    return size
+
+
+def _verdict(ctx: Context) -> str:
+    u, ut = ctx.estimate.inception_voltage, ctx.test_voltage
+    if u >= ut:
+        return (
+            f"Inception voltage {_kv(u)} kV rms lies above the test voltage {_kv(ut)} kV rms (margin "
+            f"{u / ut:.2f}): a void of this size and gas is expected to stay discharge-free in the test."
+        )
+    return (
+        f"Inception voltage {_kv(u)} kV rms lies below the test voltage {_kv(ut)} kV rms (margin "
+        f"{u / ut:.2f}): a void of this size and gas is expected to discharge during the test."
+    )
+
+
+def _summary_page(w: PageWriter, ctx: Context) -> None:
+    sc, est, c = ctx.scenario, ctx.estimate, ctx.result.coefficients()
+    w.new_page("Design review: partial discharges in a gas-filled void")
+    w.paragraph(sc.name or "(unnamed scenario)", size=10, weight="bold")
+    w.paragraph(
+        f"pdvoid {ctx.version}; simulated at the test voltage for {ctx.cycles} cycles, seed {ctx.seed}.",
+        size=8.5,
+        colour="#444444",
+    )
+    w.box(ctx.safety, size=8.5)
+    w.box(_verdict(ctx), size=9.5, colour="#1b2a49", face="#f1f4fa")
+    w.heading("Inception, extinction and margins")
+    rows = [
+        ["inception voltage, streamer criterion", _kv(est.inception_voltage_streamer), "kV rms"],
+        ["inception voltage, ionisation integral", _kv(est.inception_voltage_integral), "kV rms"],
+        [
+            "inception voltage used (criterion: " + sc.model.inception_criterion.replace("_", " ") + ")",
+            _kv(est.inception_voltage),
+            "kV rms",
+        ],
+        ["extinction voltage estimate, (E_inc + E_res)/2", _kv(est.extinction_voltage), "kV rms"],
+        [
+            "inception field in the void, streamer / integral",
+            f"{c.inception_field_streamer / 1e6:.3g} / {c.inception_field_integral / 1e6:.3g}",
+            "kV/mm",
+        ],
+        ["residual field in the void", f"{c.residual_field / 1e6:.3g}", "kV/mm"],
+        ["field enhancement f = E_void / (V/d)", f"{c.field_enhancement:.3g}", "-"],
+        ["apparent charge of a lag-free discharge", f"{c.charge_per_discharge * 1e12:.3g}", "pC"],
+        ["test voltage", _kv(ctx.test_voltage), "kV rms"],
+        [
+            "margin to the test voltage, U_inc / U_test",
+            _margin(est.inception_voltage, ctx.test_voltage, "test"),
+            "-",
+        ],
+        ["largest discharge-free void at the test voltage (this shape)", _void_text(ctx.largest), "-"],
+    ]
+    if ctx.service_voltage is not None:
+        us = ctx.service_voltage
+        rows += [
+            ["service voltage", _kv(us), "kV rms"],
+            [
+                "margin to the service voltage, U_inc / U_service",
+                _margin(est.inception_voltage, us, "service"),
+                "-",
+            ],
+            [
+                "extinction / service voltage (> 1: discharges started by a transient die out)",
+                f"{est.extinction_voltage / us:.2f}",
+                "-",
+            ],
+            ["largest discharge-free void at the service voltage", _void_text(ctx.largest_service), "-"],
+        ]
+    s = ctx.summary
+    rows += [
+        [
+            "simulated at the test voltage: discharges per cycle",
+            f"{s['discharges per cycle [-]']:.3g}",
+            "1/cycle",
+        ],
+        [
+            "simulated: mean / largest apparent charge",
+            f"{s['mean apparent charge [pC]']:.3g} / {s.get('largest apparent charge [pC]', math.nan):.3g}",
+            "pC",
+        ],
+    ]
+    w.table(["quantity", "value", "unit"], rows, [0.52, 0.36, 0.12])
+    w.heading("Scenario")
+    w.table(["input", "value", "unit", "origin"], ctx.inputs, [0.42, 0.2, 0.12, 0.26])
+    w.heading("Material and gas data: source and status")
+    w.table(
+        ["quantity", "value", "unit", "status", "source"],
+        ctx.material + ctx.gas,
+        [0.2, 0.1, 0.1, 0.13, 0.47],
+        size=7.5,
+    )
+    w.paragraph(
+        "Status: confirmed (checked against public text), derived (derived here and checked "
+        "numerically), from memory (recalled, not confirmed), common practice.",
+        size=7.5,
+        colour="#444444",
+    )
+
+
+def draw_margin(ctx: Context, ax) -> None:
+    p = ctx.scenario.void.pressure
+    labels = [f"gas at {p / 1e3:.4g} kPa (design)", f"gas at {p / 2e3:.4g} kPa"][: len(ctx.tables)]
+    inception_chart(ctx.tables, ctx.service_voltage, ctx.test_voltage, ax=ax, labels=labels)
+    d = ctx.scenario.void.diameter * 1e3
+    ax.axvline(d, color="#222222", lw=1.0, ls=(0, (1, 1.5)), zorder=2)
+    ax.annotate(
+        f"this design: {d:.3g} mm",
+        (d, 0.03),
+        xycoords=("data", "axes fraction"),
+        xytext=(4, 0),
+        textcoords="offset points",
+        fontsize=8,
+        rotation=90,
+        va="bottom",
+        ha="left",
+        color="#222222",
+        bbox={"boxstyle": "square,pad=0.15", "fc": "white", "ec": "none"},
+    )
+
+
+def draw_field(ctx: Context, ax) -> None:
+    field_time(ctx.result, cycles=3, ax=ax)
+
+
+def draw_pattern(ctx: Context, ax) -> None:
+    phase_pattern(ctx.result, ax=ax)
+
+
+def draw_sensitivity(ctx: Context, ax_u, ax_q) -> None:
+    rows_u = [(r.label, r.inception_low, r.inception_high, r.inception_base) for r in ctx.sensitivity]
+    rows_q = [(r.label, r.charge_low, r.charge_high, r.charge_base) for r in ctx.sensitivity]
+    sensitivity_chart(rows_u, ax=ax_u, quantity="inception voltage, rms", unit="kV")
+    sensitivity_chart(rows_q, ax=ax_q, quantity="apparent charge of a lag-free discharge", unit="pC")
+
+
+def standalone_chart(ctx: Context, name: str) -> Figure:
+    """One chart of the pack as its own figure (for PNG/SVG export)."""
+    if name not in CHART_NAMES:
+        raise InputError(f"chart name must be one of {CHART_NAMES}; got {name!r}")
+    if name == "sensitivity":
+        fig = new_figure((6.5, 8.0))
+        a, b = fig.subplots(2, 1)
+        draw_sensitivity(ctx, a, b)
+        return fig
+    fig = new_figure((7.0, 4.6))
+    ax = fig.add_subplot()
+    {"margin": draw_margin, "field_time": draw_field, "pattern": draw_pattern}[name](ctx, ax)
+    return fig
+
+
+_ASSUMPTIONS = (
+    "The void is an idealised {shape} centred in a plane slab between plane electrodes, its axis along the "
+    "field; the host is a homogeneous linear dielectric. Other geometries need the numerical field solver.",
+    "Field enhancement and induced (apparent) charge use closed forms valid for a void small compared with "
+    "its distance to the electrodes (here height/thickness = {h_d:.2f}; the margin chart stops where the "
+    "void height reaches half the thickness).",
+    "Inception: streamer criterion E_inc = (E/p)_cr·p·(1 + B/(p·l)^n) with l = {l_mm:.3g} mm; the ionisation "
+    "integral of the effective ionisation coefficient is shown as a second estimate. The two differ by "
+    "{spread:.0f} % here; treat the spread as part of the uncertainty.",
+    "The residual field E_res = {rr:g}·E_inc is a model parameter, not a measured constant; it sets the "
+    "charge per discharge and the extinction estimate.",
+    "The extinction estimate (E_inc + E_res)/2 is derived for lag-free discharges; a real extinction voltage "
+    "depends on history and lies between it and the inception voltage.",
+    "Start electrons: volume ionisation and surface emission rates are illustrative unless fitted to "
+    "measurements. The statistical time lag makes an observed inception voltage higher and scattered; a "
+    "short test can miss a void entirely.",
+    "Not modelled: ageing of the void surface and gas, surface conductivity, temperature rise, several "
+    "voids, the measuring circuit (coupling capacitor, bandwidth) and noise. Apparent charges are those a "
+    "calibrated IEC 60270 system would read for this void alone.",
+    "The simulation starts from an uncharged void at the positive-going zero crossing of the test voltage "
+    "and runs {cycles} cycles with seed {seed}; other seeds give other patterns of the same statistics.",
+)
+
+
+def _assumptions_page(w: PageWriter, ctx: Context) -> None:
+    sc, est = ctx.scenario, ctx.estimate
+    a, b = est.inception_voltage_streamer, est.inception_voltage_integral
+    spread = abs(a - b) / min(a, b) * 100.0 if math.isfinite(b) else math.nan
+    w.new_page("Assumptions and validity limits")
+    values = {
+        "shape": "spheroid" if sc.void.shape == "spheroid" else "flat cylinder (disc)",
+        "h_d": sc.void.height / sc.insulation.thickness,
+        "l_mm": sc.void.streamer_length * 1e3,
+        "spread": spread,
+        "rr": sc.model.residual_ratio,
+        "cycles": ctx.cycles,
+        "seed": ctx.seed,
+    }
+    w.bullets([t.format(**values) for t in _ASSUMPTIONS])
+    if not math.isfinite(spread):
+        w.paragraph("The ionisation-integral estimate is not available for this gas and length.", size=8.5)
+    if values["h_d"] > 0.3:
+        w.box(
+            "Validity warning: the void is not small compared with the insulation thickness; the closed-form "
+            "field and charge are outside their validity range. Use the numerical field solver.",
+            size=8.5,
+        )
+
+
+def _references_page(w: PageWriter, ctx: Context) -> None:
+    w.new_page("References used by this run")
+    w.paragraph(
+        "Status in brackets: confirmed, derived, from memory, common practice.", size=8.5, colour="#444444"
+    )
+    w.bullets(ctx.references.splitlines(), size=8.5)
+    w.heading("Safety")
+    w.box(ctx.safety, size=9.5)
+
+
+def build_pages(ctx: Context) -> Pages:
+    """All pages of the pack, in order."""
+    w = PageWriter(
+        footer=lambda i, n: (
+            f"pdvoid {ctx.version} design-review pack · engineering estimates, not "
+            f"test results · high voltage can kill · page {i} of {n}"
+        )
+    )
+    _summary_page(w, ctx)
+    chart = w.chart_page(
+        "Margin chart: inception voltage against void size",
+        "Inception (solid) and extinction (dashed) voltage of a void of the design's shape against its "
+        "diameter, at the design's gas pressure and at half of it (voids cast under vacuum or degassed may "
+        "hold gas below atmospheric pressure). Where an inception curve crosses the test level the largest "
+        "discharge-free void is marked: every smaller void of this shape stays discharge-free at the test "
+        "voltage by this estimate. Analytic coefficients, no simulation.",
+    )
+    draw_margin(ctx, chart.add_subplot())
+    chart = w.chart_page(
+        "Void field against time at the test voltage",
+        "The void field (solid) between discharges is the field of an uncharged void, i.e. the applied "
+        "voltage times f/d (dashed, right axis), plus the field of the charge deposited by earlier "
+        "discharges. A discharge can start once |E_void| reaches the inception field (red dashed) and a "
+        "start electron is available; it drops the field to the residual field (blue dotted). Vertical "
+        "segments mark each discharge, from the field just before to just after it. The first cycles with "
+        "discharges are shown.",
+    )
+    draw_field(ctx, chart.add_subplot())
+    chart = w.chart_page(
+        "Phase-resolved pattern at the test voltage",
+        f"Discharges per cycle in each cell of phase × apparent charge over {ctx.result.cycles} simulated "
+        "cycles (logarithmic colour scale; empty cells white), with the applied voltage drawn over it. "
+        "Phase is measured from the positive-going zero crossing of the applied voltage (IEC 60270 "
+        "convention).",
+        chart_height=5.6,
+    )
+    draw_pattern(ctx, chart.add_subplot())
+    chart = w.chart_page(
+        "Sensitivity: how the estimates move with each input",
+        "Each input lowered (amber) and raised (blue) by 20 % with all others kept; bars run from the "
+        "design value to the changed value, the largest swing on top. Top: inception voltage. Bottom: "
+        "apparent charge of a lag-free discharge, the typical magnitude. Inputs whose change makes the "
+        "scenario invalid are marked. Analytic coefficients, no simulation.",
+        chart_height=7.4,
+    )
+    ax_u, ax_q = chart.subplots(2, 1)
+    draw_sensitivity(ctx, ax_u, ax_q)
+    _assumptions_page(w, ctx)
+    _references_page(w, ctx)
+    figs = w.finish()
+    return Pages(figures=figs, titles=list(w.titles), texts=[figure_text(f) for f in figs])

@@ -1,0 +1,370 @@
+"""The design-review pack: a multi-page PDF (and optional PNG/SVG figures) for one void in one design.
+
+Pages: summary (scenario with units and data sources, inception and extinction by both criteria, margins to
+the test and service levels), margin chart, void field against time, phase-resolved pattern, sensitivity
+chart, assumptions and validity limits, references and the safety note. No physics of its own: every number
+comes from the scenario's coefficients, :mod:`pdvoid.analysis` and :func:`pdvoid.simulate`.
+"""
+
+from __future__ import annotations
+
+import math
+import os
+from dataclasses import dataclass, fields, replace
+from pathlib import Path
+
+import numpy as np
+
+from pdvoid._version import __version__
+from pdvoid.analysis.inception import InceptionEstimate, inception
+from pdvoid.analysis.margins import largest_pd_free_void, margin_table
+from pdvoid.analysis.summary import run_summary
+from pdvoid.coefficients import compute_coefficients
+from pdvoid.core.errors import InputError, check_int, check_positive
+from pdvoid.core.references import cite
+from pdvoid.inputs.materials import get_gas, get_material
+from pdvoid.inputs.parameters import Periodic, check_seed
+from pdvoid.inputs.scenario import Scenario
+from pdvoid.simulation.results import Result
+from pdvoid.simulation.simulate import simulate
+
+__all__ = [
+    "SAFETY_NOTE",
+    "SENSITIVITY_INPUTS",
+    "ReviewPack",
+    "SensitivityRow",
+    "design_review",
+    "sensitivity",
+    "at_voltage",
+]
+
+#: printed on the first and last page of every pack and by the command line
+SAFETY_NOTE = (
+    "Safety: high voltage can kill. Only trained and authorised people may set up, energise or approach "
+    "high-voltage tests. The numbers in this pack are engineering estimates from idealised models, not test "
+    "results. Test and acceptance levels come from the applicable standards; local codes and licensed "
+    "practice prevail."
+)
+
+#: inputs varied by the sensitivity chart: (scenario path, label)
+SENSITIVITY_INPUTS = (
+    ("void.diameter", "void diameter"),
+    ("void.height", "void height"),
+    ("void.pressure", "gas pressure"),
+    ("insulation.permittivity", "host permittivity"),
+    ("insulation.thickness", "insulation thickness"),
+    ("model.residual_ratio", "residual field ratio"),
+)
+
+
+@dataclass(frozen=True)
+class SensitivityRow:
+    """One input varied by ±change (values SI; NaN where the varied scenario is not valid).
+
+    Attributes:
+        parameter, label: scenario path and readable name.
+        low, high: the input at (1 − change) and (1 + change) times its value [SI].
+        inception_low, inception_high, inception_base: inception voltage [V rms].
+        charge_low, charge_high, charge_base: lag-free apparent charge per discharge [C].
+    """
+
+    parameter: str
+    label: str
+    low: float
+    high: float
+    inception_low: float
+    inception_high: float
+    inception_base: float
+    charge_low: float
+    charge_high: float
+    charge_base: float
+
+
+def sensitivity(scenario: Scenario, change: float = 0.2) -> list[SensitivityRow]:
+    """Inception voltage and lag-free charge per discharge when each input of :data:`SENSITIVITY_INPUTS` is
+    lowered and raised by ``change`` (a fraction, 0 < change < 1) [-], all else kept. Recomputed from the
+    coefficients of ``scenario.replace(...)``; a variation that makes the scenario invalid gives NaN."""
+    if not isinstance(scenario, Scenario):
+        raise InputError(f"scenario must be a pdvoid.Scenario; got {type(scenario).__name__}")
+    change = check_positive("change", change)
+    if change >= 1.0:
+        raise InputError(f"change must lie in (0, 1); got {change!r}")
+    base = compute_coefficients(scenario)
+    rows = []
+    for path, label in SENSITIVITY_INPUTS:
+        part, name = path.split(".")
+        value = float(getattr(getattr(scenario, part), name))
+        out = []
+        for factor in (1.0 - change, 1.0 + change):
+            try:
+                c = compute_coefficients(scenario.replace(**{path: value * factor}))
+                out.append((c.inception_voltage, c.charge_per_discharge))
+            except InputError:
+                out.append((math.nan, math.nan))
+        rows.append(
+            SensitivityRow(
+                path,
+                label,
+                value * (1.0 - change),
+                value * (1.0 + change),
+                out[0][0],
+                out[1][0],
+                base.inception_voltage,
+                out[0][1],
+                out[1][1],
+                base.charge_per_discharge,
+            )
+        )
+    return rows
+
+
+def at_voltage(scenario: Scenario, rms: float) -> Scenario:
+    """``scenario`` with its supply scaled to ``rms`` [V] (a sine's rms replaced; periodic samples scaled)."""
+    rms = check_positive("rms", rms, "V")
+    if isinstance(scenario.supply, Periodic):
+        s = scenario.supply
+        return replace(scenario, supply=replace(s, samples=np.asarray(s.samples) * (rms / s.rms)))
+    return scenario.replace(**{"supply.rms": rms})
+
+
+@dataclass(frozen=True, eq=False)
+class ReviewPack:
+    """What :func:`design_review` wrote.
+
+    Attributes:
+        path: the PDF.
+        pages: number of pages [-].
+        page_titles: title of each page.
+        page_texts: all text drawn on each page (for search and checks).
+        figures: PNG/SVG files written next to the PDF.
+        estimate: inception and extinction of the scenario (V rms).
+        result: the simulation at the test voltage.
+        test_voltage, service_voltage: [V rms] (service None when not given).
+        margin: inception voltage / test voltage [-].
+    """
+
+    path: Path
+    pages: int
+    page_titles: tuple[str, ...]
+    page_texts: tuple[str, ...]
+    figures: tuple[Path, ...]
+    estimate: InceptionEstimate
+    result: Result
+    test_voltage: float
+    service_voltage: float | None
+    margin: float
+
+
+def _check_out(out: object, figures: object) -> tuple[Path, str | None]:
+    if not isinstance(out, (str, os.PathLike)):
+        raise InputError(f"out must be a file path ending in .pdf; got {out!r}")
+    path = Path(out)
+    if path.suffix.lower() != ".pdf":
+        raise InputError(f"out must end in .pdf; got {str(path)!r}")
+    if not path.parent.is_dir():
+        raise InputError(f"out: the folder {str(path.parent)!r} does not exist")
+    if figures not in (None, "png", "svg"):
+        raise InputError(f"figures must be None, 'png' or 'svg'; got {figures!r}")
+    return path, figures
+
+
+def design_review(
+    scenario: Scenario,
+    *,
+    test_voltage: float,
+    service_voltage: float | None = None,
+    cycles: int = 2000,
+    seed: int = 1,
+    out: str | os.PathLike = "review.pdf",
+    figures: str | None = None,
+) -> ReviewPack:
+    """Write the design-review pack of ``scenario`` as a multi-page PDF.
+
+    The simulation runs at the test voltage (the supply scaled to ``test_voltage``) for ``cycles`` cycles
+    from an uncharged void with ``seed``. The margin chart sweeps the void size at the scenario's shape
+    (:func:`pdvoid.analysis.margins.margin_table`) for the scenario's pressure and half of it; the sensitivity
+    chart varies each input by ±20 % (:func:`sensitivity`).
+
+    Parameters:
+        scenario: the design [-]
+        test_voltage: test level [V rms]
+        service_voltage: service level [V rms], optional
+        cycles: cycles simulated at the test voltage, 1 ... 1000000 [-]
+        seed: random seed, 0 ... 2**32 − 1 [-]
+        out: the PDF file (its folder must exist) [-]
+        figures: None, "png" or "svg": also write each chart as a file next to the PDF [-]
+
+    Returns:
+        :class:`ReviewPack`.
+
+    Raises:
+        InputError: for a bad scenario, voltages, cycles, seed, path or figure format.
+    """
+    from matplotlib.backends.backend_pdf import PdfPages
+
+    from pdvoid.faces.plots import review as rp
+
+    if not isinstance(scenario, Scenario):
+        raise InputError(f"scenario must be a pdvoid.Scenario; got {type(scenario).__name__}")
+    test_voltage = check_positive("test_voltage", test_voltage, "V")
+    if service_voltage is not None:
+        service_voltage = check_positive("service_voltage", service_voltage, "V")
+    cycles = check_int("cycles", cycles, 1, 1_000_000)
+    seed = check_seed(seed)
+    path, fmt = _check_out(out, figures)
+
+    est = inception(scenario)
+    result = simulate(at_voltage(scenario, test_voltage), cycles, seed)
+    rows = sensitivity(scenario)
+    ctx = rp.Context(
+        scenario=scenario,
+        estimate=est,
+        result=result,
+        test_voltage=test_voltage,
+        service_voltage=service_voltage,
+        sensitivity=rows,
+        summary=run_summary(result),
+        largest=largest_pd_free_void(scenario, test_voltage),
+        largest_service=(
+            largest_pd_free_void(scenario, service_voltage) if service_voltage is not None else None
+        ),
+        tables=_margin_tables(scenario, test_voltage),
+        material=_material_rows(scenario),
+        gas=_gas_rows(scenario),
+        inputs=_input_rows(scenario),
+        references=cite(result),
+        safety=SAFETY_NOTE,
+        version=__version__,
+        cycles=cycles,
+        seed=seed,
+    )
+    pages = rp.build_pages(ctx)
+    meta = {
+        "Title": f"Design review: {scenario.name or 'void in solid insulation'}",
+        "Author": "pdvoid",
+        "Subject": "Partial discharges in a gas-filled void: inception, margins, simulated pattern",
+        "Creator": f"pdvoid {__version__}",
+        "CreationDate": None,
+    }
+    with PdfPages(path, metadata=meta) as pdf:
+        for fig in pages.figures:
+            pdf.savefig(fig)
+    written = []
+    if fmt is not None:
+        for name in rp.CHART_NAMES:
+            fig = rp.standalone_chart(ctx, name)
+            target = path.with_name(f"{path.stem}_{name}.{fmt}")
+            fig.savefig(target, format=fmt, dpi=200)
+            written.append(target)
+    return ReviewPack(
+        path=path,
+        pages=len(pages.figures),
+        page_titles=tuple(pages.titles),
+        page_texts=tuple(pages.texts),
+        figures=tuple(written),
+        estimate=est,
+        result=result,
+        test_voltage=test_voltage,
+        service_voltage=service_voltage,
+        margin=est.inception_voltage / test_voltage,
+    )
+
+
+def _margin_tables(scenario: Scenario, test_voltage: float) -> list:
+    """Inception against void size at the scenario's shape, for its pressure and half of it."""
+    d, h, thick = scenario.void.diameter, scenario.void.height, scenario.insulation.thickness
+    hi = min(5.0 * d, 0.5 * thick * d / h, 1.0)  # the closed forms need a void small against the thickness
+    lo = max(d / 20.0, 1e-6)
+    values = np.geomspace(lo, hi, 60)
+    p = scenario.void.pressure
+    tables = [margin_table(scenario, "void.size", values, test_voltage)]
+    half = scenario.replace(**{"void.pressure": 0.5 * p}) if 0.5 * p >= 100.0 else None
+    if half is not None:
+        tables.append(margin_table(half, "void.size", values, test_voltage))
+    return tables
+
+
+def _material_rows(scenario: Scenario) -> list[list[str]]:
+    ins = scenario.insulation
+    if ins.material is None:
+        return [["host permittivity", f"{ins.permittivity:g}", "-", "scenario input", "given directly"]]
+    m = get_material(ins.material)
+    if m.permittivity != ins.permittivity:
+        return [
+            [
+                "host permittivity",
+                f"{ins.permittivity:g}",
+                "-",
+                "scenario input",
+                f"overrides {m.name} ({m.permittivity:g}; {m.source})",
+            ]
+        ]
+    rng = f"; typical {m.permittivity_range[0]:g}–{m.permittivity_range[1]:g}" if m.permittivity_range else ""
+    return [[f"host permittivity ({m.name})", f"{m.permittivity:g}", "-", m.status, m.source + rng]]
+
+
+def _gas_rows(scenario: Scenario) -> list[list[str]]:
+    g = get_gas(scenario.void.gas)
+    rows = []
+    for key, prov in g.provenance.items():
+        unit = "-" if prov.unit == "1" else prov.unit
+        rows.append(
+            [f"{g.name}: {key.replace('_', ' ')}", f"{getattr(g, key):.6g}", unit, prov.status, prov.source]
+        )
+    return rows
+
+
+_MODEL_UNITS = {
+    "residual_ratio": ("-", 1.0),
+    "ionization_rate": ("1/(m³ s)", 1.0),
+    "electron_yield": ("-", 1.0),
+    "surface_rate_same": ("1/s", 1.0),
+    "surface_rate_reversed": ("1/s", 1.0),
+    "surface_decay_time": ("ms", 1e-3),
+    "charge_decay_time": ("ms", 1e-3),
+    "capacitance_void": ("pF", 1e-12),
+    "capacitance_series": ("pF", 1e-12),
+}
+
+
+def _input_rows(scenario: Scenario) -> list[list[str]]:
+    ins, void, sup, model = scenario.insulation, scenario.void, scenario.supply, scenario.model
+    src = "scenario input"
+    rows = [
+        ["insulation thickness", f"{ins.thickness * 1e3:.4g}", "mm", src],
+        ["void diameter (across the field)", f"{void.diameter * 1e3:.4g}", "mm", src],
+        ["void height (along the field)", f"{void.height * 1e3:.4g}", "mm", src],
+        ["void shape", void.shape, "-", src],
+        ["gas", void.gas, "-", src],
+        ["gas pressure", f"{void.pressure / 1e3:.4g}", "kPa", src],
+        ["gas temperature", f"{void.temperature:.4g}", "K", src],
+        [
+            "streamer length",
+            f"{void.streamer_length * 1e3:.4g}",
+            "mm",
+            src if void.inception_length is not None else "default: the void height",
+        ],
+    ]
+    if isinstance(sup, Periodic):
+        rows.append(["supply waveform", f"periodic, {sup.samples.size} samples", "-", src])
+    else:
+        harm = ", ".join(f"{m}: {h:g} at {p:g} deg" for m, h, p in sup.harmonics) or "none"
+        rows.append(["supply harmonics (order: fraction at phase)", harm, "-", src])
+    rows.append(["supply frequency", f"{sup.frequency:g}", "Hz", src])
+    kind = model.title
+    rows.append(["model", kind, "-", src])
+    defaults = type(model)()
+    for f in fields(model):
+        v = getattr(model, f.name)
+        if v is None:
+            continue
+        unit, scale = _MODEL_UNITS.get(f.name, ("-", 1.0))
+        if isinstance(v, bool) or isinstance(v, str):
+            text = str(v)
+        elif math.isinf(v):
+            text = "none (no decay)" if "decay" in f.name else "inf"
+        else:
+            text = f"{v / scale:.4g}"
+        origin = "pdvoid default" if getattr(defaults, f.name) == v else src
+        rows.append([f"model: {f.name.replace('_', ' ')}", text, unit, origin])
+    return rows

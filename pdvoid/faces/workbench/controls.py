@@ -1,0 +1,230 @@
+"""The workbench's control values as plain data (display units carried in the names), and their translation to
+and from a :class:`pdvoid.Scenario`. No widgets here: the widget layer builds one widget per :data:`SPECS`
+entry.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, fields, replace
+
+from pdvoid.core.errors import InputError, check_choice, check_int, check_real
+from pdvoid.inputs.materials import get_material, list_materials
+from pdvoid.inputs.model_parameters import model_class, model_kinds
+from pdvoid.inputs.parameters import GASES, Periodic, Sine, check_seed
+from pdvoid.inputs.scenario import Scenario
+
+__all__ = ["Controls", "ControlSpec", "SPECS", "GROUPS", "CUSTOM_MATERIAL", "MAX_CYCLES"]
+
+CUSTOM_MATERIAL = "(custom permittivity)"  #: the material choice that means "permittivity as typed"
+MAX_CYCLES = 10_000_000  #: most cycles one workbench run may ask for [-]
+
+_MM, _KPA, _KV, _MS = 1e-3, 1e3, 1e3, 1e-3
+
+
+@dataclass(frozen=True)
+class ControlSpec:
+    """How one control is shown: label with unit, widget kind, for sliders range and step, and a longer
+    explanation shown when the pointer rests on it.
+
+    kind: "slider" (float), "number" (free float entry), "int", "choice" or "bool".
+    """
+
+    label: str
+    kind: str
+    low: float | None = None
+    high: float | None = None
+    step: float | None = None
+    choices: tuple[str, ...] = ()
+    tooltip: str = ""
+
+
+SPECS: dict[str, ControlSpec] = {
+    "diameter_mm": ControlSpec("void diameter [mm]", "slider", 0.05, 10.0, 0.05),
+    "height_mm": ControlSpec("void height [mm]", "slider", 0.05, 10.0, 0.05),
+    "gas": ControlSpec("gas in the void", "choice", choices=GASES),
+    "pressure_kPa": ControlSpec("gas pressure [kPa]", "slider", 1.0, 1000.0, 0.5),
+    "material": ControlSpec("host material", "choice", choices=(CUSTOM_MATERIAL, *list_materials())),
+    "permittivity": ControlSpec("relative permittivity [-]", "number"),
+    "thickness_mm": ControlSpec("insulation thickness [mm]", "number"),
+    "voltage_kV": ControlSpec("applied voltage [kV rms]", "slider", 0.5, 100.0, 0.1),
+    "frequency_Hz": ControlSpec("frequency [Hz]", "number"),
+    "model": ControlSpec("void model", "choice", choices=model_kinds()),
+    "residual_ratio": ControlSpec(
+        "residual / inception [-]", "number",
+        tooltip="residual field after a discharge divided by the inception field, 0 to < 1"),
+    "ionization_rate": ControlSpec(
+        "volume ionisation [1/(m³ s)]", "number",
+        tooltip="effective volume ionisation rate: ion pairs per m³ per s at 1 atm and 20 °C"),
+    "surface_rate_same": ControlSpec(
+        "surface, same [1/s]", "number",
+        tooltip="surface emission rate when the next discharge repeats the polarity of the last one"),
+    "surface_rate_reversed": ControlSpec(
+        "surface, reversed [1/s]", "number",
+        tooltip="surface emission rate when the next discharge reverses the polarity of the last one"),
+    "surface_decay_time_ms": ControlSpec(
+        "surface decay time [ms]", "number",
+        tooltip="decay time of the surface emission after a discharge"),
+    "field_assisted": ControlSpec(
+        "field-assisted surface emission", "bool",
+        tooltip="multiply the surface emission rate by exp(|E_void| / E_inception)"),
+    "lag_free": ControlSpec(
+        "no time lag (unlimited electrons)", "bool",
+        tooltip="a discharge exactly when the void field reaches the inception field"),
+    "cycles": ControlSpec("cycles [-]", "int"),
+    "seed": ControlSpec("seed [-]", "int"),
+    "test_voltage_kV": ControlSpec("test level [kV rms]", "number"),
+}
+
+#: the controls in the order and groups the panel shows them
+GROUPS: dict[str, tuple[str, ...]] = {
+    "void": ("diameter_mm", "height_mm", "gas", "pressure_kPa"),
+    "insulation": ("material", "permittivity", "thickness_mm"),
+    "supply and run": ("voltage_kV", "frequency_Hz", "model", "cycles", "seed", "test_voltage_kV"),
+    "model parameters": (
+        "residual_ratio",
+        "ionization_rate",
+        "surface_rate_same",
+        "surface_rate_reversed",
+        "surface_decay_time_ms",
+        "field_assisted",
+        "lag_free",
+    ),
+}
+
+
+@dataclass(frozen=True)
+class Controls:
+    """Every value the workbench panel shows, in the display unit its name carries.
+
+    Build one from a scenario with :meth:`from_scenario`; :meth:`to_scenario` turns it back into a Scenario,
+    raising :class:`pdvoid.InputError` for impossible values or combinations (e.g. a void taller than the
+    insulation). Inputs the panel does not show (temperature, shape, harmonics, charge decay, ...) are kept
+    from the base scenario.
+    """
+
+    diameter_mm: float = 1.5
+    height_mm: float = 1.5
+    gas: str = "air"
+    pressure_kPa: float = 101.325
+    material: str = CUSTOM_MATERIAL
+    permittivity: float = 4.2
+    thickness_mm: float = 6.0
+    voltage_kV: float = 18.0
+    frequency_Hz: float = 50.0
+    model: str = "field"
+    residual_ratio: float = 0.25
+    ionization_rate: float = 1e9
+    surface_rate_same: float = 1e4
+    surface_rate_reversed: float = 3e3
+    surface_decay_time_ms: float = 20.0
+    field_assisted: bool = False
+    lag_free: bool = False
+    cycles: int = 200
+    seed: int = 1
+    test_voltage_kV: float = 18.0
+
+    @classmethod
+    def from_scenario(
+        cls, scenario: Scenario, *, cycles: int = 200, seed: int = 1, test_voltage: float | None = None
+    ) -> Controls:
+        """The controls showing ``scenario``; ``test_voltage`` [V rms] defaults to the applied voltage."""
+        if not isinstance(scenario, Scenario):
+            raise InputError(f"scenario must be a pdvoid.Scenario; got {type(scenario).__name__}")
+        ins, void, sup, mod = scenario.insulation, scenario.void, scenario.supply, scenario.model
+        material = ins.material if ins.material in SPECS["material"].choices else CUSTOM_MATERIAL
+        return cls(
+            diameter_mm=void.diameter / _MM,
+            height_mm=void.height / _MM,
+            gas=void.gas,
+            pressure_kPa=void.pressure / _KPA,
+            material=material,
+            permittivity=float(ins.permittivity),
+            thickness_mm=ins.thickness / _MM,
+            voltage_kV=sup.rms / _KV,
+            frequency_Hz=sup.frequency,
+            model=mod.kind,
+            residual_ratio=mod.residual_ratio,
+            ionization_rate=mod.ionization_rate,
+            surface_rate_same=mod.surface_rate_same,
+            surface_rate_reversed=mod.surface_rate_reversed,
+            surface_decay_time_ms=mod.surface_decay_time / _MS,
+            field_assisted=mod.field_assisted,
+            lag_free=mod.lag_free,
+            cycles=cycles,
+            seed=seed,
+            test_voltage_kV=(sup.rms if test_voltage is None else test_voltage) / _KV,
+        )
+
+    def changed(self, **values) -> Controls:
+        """A copy with some values changed (names as the fields); unknown names raise InputError."""
+        known = {f.name for f in fields(self)}
+        unknown = sorted(set(values) - known)
+        if unknown:
+            raise InputError(f"unknown workbench controls {unknown}; known: {', '.join(sorted(known))}")
+        return replace(self, **values)
+
+    def material_permittivity(self) -> float | None:
+        """The permittivity of the chosen host material [-], or None for a custom permittivity."""
+        if self.material == CUSTOM_MATERIAL:
+            return None
+        return float(get_material(self.material).permittivity)
+
+    def to_scenario(self, base: Scenario) -> Scenario:
+        """The scenario these controls describe, starting from ``base`` for everything the panel does not
+        show.
+
+        Raises:
+            InputError: naming the control and the value for anything impossible.
+        """
+        check_choice("gas", self.gas, GASES)
+        check_choice("model", self.model, model_kinds())
+        check_choice("host material", self.material, SPECS["material"].choices)
+        eps = check_real("relative permittivity", self.permittivity)
+        material = self.material if self.material_permittivity() == eps else None
+        ins = replace(
+            base.insulation,
+            thickness=check_real("insulation thickness", self.thickness_mm) * _MM,
+            permittivity=eps,
+            material=material,
+        )
+        void = replace(
+            base.void,
+            diameter=check_real("void diameter", self.diameter_mm) * _MM,
+            height=check_real("void height", self.height_mm) * _MM,
+            gas=self.gas,
+            pressure=check_real("gas pressure", self.pressure_kPa) * _KPA,
+        )
+        rms = check_real("applied voltage", self.voltage_kV) * _KV
+        freq = check_real("frequency", self.frequency_Hz)
+        if isinstance(base.supply, Periodic):
+            scale = rms / base.supply.rms if base.supply.rms > 0 else math.nan
+            supply = Periodic(base.supply.samples * scale, freq, base.supply.max_harmonic)
+        else:
+            harmonics = base.supply.harmonics if isinstance(base.supply, Sine) else ()
+            supply = Sine(rms=rms, frequency=freq, harmonics=harmonics)
+        shared = {
+            f.name: getattr(base.model, f.name)
+            for f in fields(base.model)
+            if f.name in {g.name for g in fields(model_class(self.model))}
+        }
+        shared.update(
+            residual_ratio=self.residual_ratio,
+            ionization_rate=self.ionization_rate,
+            surface_rate_same=self.surface_rate_same,
+            surface_rate_reversed=self.surface_rate_reversed,
+            surface_decay_time=check_real("surface emission decay time", self.surface_decay_time_ms) * _MS,
+            field_assisted=self.field_assisted,
+            lag_free=self.lag_free,
+        )
+        model = model_class(self.model)(**shared)
+        return Scenario(insulation=ins, void=void, supply=supply, model=model, name=base.name)
+
+    def run_settings(self) -> tuple[int, int, float]:
+        """(cycles, seed, test voltage [V rms]), checked."""
+        cycles = check_int("cycles", self.cycles, 1, MAX_CYCLES)
+        seed = check_seed(self.seed)
+        test = check_real("test level", self.test_voltage_kV)
+        if test <= 0.0:
+            raise InputError(f"test level must be > 0 kV rms; got {test!r}")
+        return cycles, seed, test * _KV

@@ -1,0 +1,299 @@
+"""The workbench's widgets and their arrangement (ipywidgets, imported through :func:`require`). No physics
+and no callbacks here: :mod:`pdvoid.faces.workbench.app` wires them.
+
+Every widget a test or a browser drives carries a CSS class ``pdvoid-<name>`` (e.g. ``pdvoid-diameter_mm``,
+``pdvoid-status``, ``pdvoid-summary``).
+"""
+
+from __future__ import annotations
+
+import html
+import math
+from dataclasses import dataclass
+
+from pdvoid.faces.workbench.controls import GROUPS, SPECS, Controls
+from pdvoid.faces.workbench.optional import require
+
+__all__ = ["Panel", "build_panel", "control_widget", "summary_html", "message_html"]
+
+_LABEL_WIDTH = "190px"
+_CONTROL_WIDTH = "370px"
+_VIEW_WIDTH = "704px"
+
+
+def _style():
+    return {"description_width": _LABEL_WIDTH}
+
+
+def control_widget(name: str, value: object):
+    """The widget of one control (see :data:`pdvoid.faces.workbench.controls.SPECS`), showing ``value``.
+
+    A slider's range is widened to hold ``value`` (a slider would otherwise move the value silently)."""
+    w = require("ipywidgets")
+    spec = SPECS[name]
+    common = {"description": spec.label, "style": _style(), "layout": w.Layout(width=_CONTROL_WIDTH)}
+    if spec.kind == "slider":
+        low = min(spec.low, float(value))
+        high = max(spec.high, float(value))
+        digits = max(0, -math.floor(math.log10(spec.step))) if spec.step < 1 else 0
+        widget = w.FloatSlider(
+            value=float(value),
+            min=low,
+            max=high,
+            step=spec.step,
+            continuous_update=False,
+            readout_format=f".{digits + 1}f",
+            **common,
+        )
+    elif spec.kind == "number":
+        widget = w.FloatText(value=float(value), **common)
+    elif spec.kind == "int":
+        widget = w.IntText(value=int(value), **common)
+    elif spec.kind == "choice":
+        widget = w.Dropdown(options=list(spec.choices), value=value, **common)
+    else:
+        widget = w.Checkbox(
+            value=bool(value), description=spec.label, indent=False, layout=w.Layout(width=_CONTROL_WIDTH)
+        )
+    if spec.tooltip:
+        widget.tooltip = spec.tooltip
+    widget.add_class(f"pdvoid-{name}")
+    return widget
+
+
+@dataclass
+class Panel:
+    """The widgets of one workbench (attributes are ipywidgets)."""
+
+    root: object
+    controls: dict
+    images: dict
+    summary: object
+    status: object
+    error: object
+    progress: object
+    stop: object
+    measured: dict
+    export: dict
+
+
+def _heading(text: str):
+    w = require("ipywidgets")
+    return w.HTML(f"<b>{html.escape(text)}</b>")
+
+
+def _image(name: str):
+    w = require("ipywidgets")
+    hidden = w.Layout(max_width=_VIEW_WIDTH, height="auto", border="0", display="none")
+    img = w.Image(format="png", layout=hidden)
+    img.add_class(f"pdvoid-image-{name}")
+    return img
+
+
+def _labelled(widget, cls: str):
+    widget.add_class(cls)
+    return widget
+
+
+def build_panel(controls: Controls, title: str) -> Panel:
+    """All widgets of the workbench, arranged: controls on the left, views and summary on the right, the
+    measured-pattern and export sections folded below."""
+    w = require("ipywidgets")
+    values = controls.__dict__
+    ctl = {name: control_widget(name, values[name]) for name in SPECS}
+    left = []
+    for group, names in GROUPS.items():
+        if group == "model parameters":
+            continue
+        left.append(_heading(group))
+        left.extend(ctl[n] for n in names)
+    model_box = w.VBox([ctl[n] for n in GROUPS["model parameters"]])
+    fold = w.Accordion(
+        children=[model_box],
+        titles=("model parameters",),
+        selected_index=None,
+        layout=w.Layout(width=_CONTROL_WIDTH),
+    )
+    fold.add_class("pdvoid-model-parameters")
+    progress = _labelled(
+        w.IntProgress(
+            value=0,
+            min=0,
+            max=max(int(controls.cycles), 1),
+            description="cycles run",
+            style=_style(),
+            layout=w.Layout(width="300px"),
+        ),
+        "pdvoid-progress",
+    )
+    stop = _labelled(
+        w.Button(
+            description="Stop",
+            button_style="warning",
+            tooltip="stop the running simulation",
+            layout=w.Layout(width="64px"),
+        ),
+        "pdvoid-stop",
+    )
+    left += [fold, w.HBox([progress, stop])]
+
+    images = {name: _image(name) for name in ("field", "pattern", "sequence")}
+    summary = _labelled(w.HTML(layout=w.Layout(width="370px")), "pdvoid-summary")
+    status = _labelled(w.HTML(), "pdvoid-status")
+    error = _labelled(w.HTML(), "pdvoid-error")
+    right = w.VBox(
+        [
+            status,
+            error,
+            images["field"],
+            images["pattern"],
+            w.HBox([images["sequence"], summary], layout=w.Layout(align_items="flex-start")),
+        ],
+        layout=w.Layout(width="790px"),
+    )
+
+    measured = {
+        "upload": _labelled(
+            w.FileUpload(accept=".csv,.txt,.tsv,.dat,.npz", multiple=False, description="upload file"),
+            "pdvoid-upload",
+        ),
+        "path": _labelled(
+            w.Text(
+                placeholder="or a path to the file",
+                description="file path",
+                style=_style(),
+                layout=w.Layout(width="520px"),
+            ),
+            "pdvoid-measured-path",
+        ),
+        "cycles": w.FloatText(
+            value=0.0,
+            description="cycles observed [-]",
+            tooltip="AC cycles the measurement covers; 0: from the file",
+            style=_style(),
+            layout=w.Layout(width=_CONTROL_WIDTH),
+        ),
+        "frequency": w.FloatText(
+            value=0.0,
+            description="frequency [Hz]",
+            tooltip="supply frequency of the measurement; 0: from the file",
+            style=_style(),
+            layout=w.Layout(width=_CONTROL_WIDTH),
+        ),
+        "load": _labelled(w.Button(description="Load and compare", button_style="primary"), "pdvoid-load"),
+        "clear": w.Button(description="Clear"),
+        "message": _labelled(w.HTML(), "pdvoid-measured-message"),
+        "image": _image("comparison"),
+    }
+    m = measured
+    measured_box = w.VBox(
+        [
+            w.HTML(
+                "An event list as delimited text with units in the header (e.g. "
+                "<code>phase [deg],charge [pC]</code>), or a result file (.npz). Cycles observed and "
+                "frequency: 0 takes them from the file's <code># cycles = ...</code> and "
+                "<code># frequency = ...</code> lines."
+            ),
+            w.HBox([m["upload"], m["path"]]),
+            m["cycles"],
+            m["frequency"],
+            w.HBox([m["load"], m["clear"]]),
+            m["message"],
+            m["image"],
+        ]
+    )
+    export = {
+        "folder": _labelled(
+            w.Text(
+                value="pdvoid_export", description="folder", style=_style(), layout=w.Layout(width="520px")
+            ),
+            "pdvoid-export-folder",
+        ),
+        "png": w.Checkbox(value=True, description="figures as PNG", indent=False),
+        "svg": w.Checkbox(value=True, description="figures as SVG", indent=False),
+        "button": _labelled(
+            w.Button(
+                description="Export",
+                button_style="primary",
+                tooltip="figures, scenario (TOML) and result (NPZ)",
+            ),
+            "pdvoid-export",
+        ),
+        "message": _labelled(w.HTML(), "pdvoid-export-message"),
+    }
+    e = export
+    export_box = w.VBox([e["folder"], w.HBox([e["png"], e["svg"]]), e["button"], e["message"]])
+    lower = w.Accordion(
+        children=[measured_box, export_box],
+        titles=("compare with a measured pattern", "export figures, scenario and result"),
+        selected_index=None,
+    )
+    header = w.HTML(
+        f"<h3 style='margin:4px 0'>pdvoid workbench</h3><div>{html.escape(title)}</div>"
+        "<div style='color:#8a1c1c;font-size:90%'>Engineering estimates from idealised models. "
+        "Test and acceptance levels come from the applicable standards. High voltage can kill.</div>"
+    )
+    # the views move below the controls when the notebook is narrower than both columns
+    left_box = w.VBox(left, layout=w.Layout(width="390px"))
+    columns = w.HBox([left_box, right], layout=w.Layout(flex_flow="row wrap"))
+    root = w.VBox([header, columns, lower])
+    root.add_class("pdvoid-workbench")
+    return Panel(
+        root=root,
+        controls=ctl,
+        images=images,
+        summary=summary,
+        status=status,
+        error=error,
+        progress=progress,
+        stop=stop,
+        measured=measured,
+        export=export,
+    )
+
+
+_CELL = "padding:1px 6px 1px 0;border:0;"
+
+
+def _fmt(value: float) -> str:
+    if not math.isfinite(value):
+        return "n/a"
+    return f"{value:.4g}"
+
+
+def summary_html(summary: dict[str, float], comparison: object | None = None, note: str = "") -> str:
+    """The summary numbers as an HTML table ("name [unit]" keys split into name and unit columns)."""
+    rows = []
+    items = list(summary.items())
+    if comparison is not None:
+        items.append(("comparison score, 0 = identical [-]", float(comparison.score)))
+    for key, value in items:
+        name, _, unit = key.rpartition(" [")
+        name, unit = (name, unit.rstrip("]")) if name else (key, "")
+        rows.append(
+            f"<tr><td style='{_CELL}white-space:nowrap'>{html.escape(name)}</td>"
+            f"<td style='{_CELL}text-align:right'>{_fmt(value)}</td>"
+            f"<td style='{_CELL}color:#555;white-space:nowrap'>{html.escape(unit)}</td></tr>"
+        )
+    extra = f"<div style='color:#555;font-size:90%'>{html.escape(note)}</div>" if note else ""
+    return (
+        "<div style='font-size:12px;line-height:1.35;padding-left:8px'><b>summary</b>"
+        "<table style='border-collapse:collapse;margin-top:2px'>"
+        + "".join(rows)
+        + "</table>"
+        + extra
+        + "</div>"
+    )
+
+
+def message_html(text: str, kind: str = "info", compact: bool = False) -> str:
+    """A short message box: kind "info", "error" or "" (neutral); ``compact`` for long lists."""
+    if not text:
+        return ""
+    colour = {"info": "#1f4e79", "error": "#8a1c1c"}.get(kind, "#333333")
+    background = {"info": "#eef4fa", "error": "#fbeaea"}.get(kind, "#f5f5f5")
+    tight = ";line-height:1.3;font-size:12px" if compact else ""
+    return (
+        f"<div style='color:{colour};background:{background};padding:4px 8px;border-radius:3px;"
+        f"white-space:pre-wrap{tight}'>{html.escape(text)}</div>"
+    )

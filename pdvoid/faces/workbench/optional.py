@@ -1,0 +1,18 @@
+"""The workbench's optional dependencies, through pdvoid's one door (:mod:`pdvoid.core.optional`)."""
+
+from __future__ import annotations
+
+from types import ModuleType
+
+from pdvoid.core.optional import MissingDependencyError
+from pdvoid.core.optional import require as _require
+
+__all__ = ["WorkbenchDependencyError", "require", "INSTALL_HINT"]
+
+INSTALL_HINT = 'pip install "pdvoid[workbench]"'
+WorkbenchDependencyError = MissingDependencyError
+
+
+def require(module: str = "ipywidgets") -> ModuleType:
+    """Import ``module`` or raise :class:`pdvoid.core.optional.MissingDependencyError` naming ``pdvoid[workbench]``."""
+    return _require(module, feature="the workbench")

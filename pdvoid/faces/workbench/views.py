@@ -1,0 +1,186 @@
+"""The workbench's pictures and files: its views rendered to PNG bytes (for Image widgets, which show the same
+in JupyterLab and the classic notebook), and the export of figures, scenario and result into a folder.
+
+matplotlib is imported here only, through :mod:`pdvoid.plots` (Figure objects, never pyplot).
+"""
+
+from __future__ import annotations
+
+import io
+import math
+import textwrap
+from pathlib import Path
+
+from pdvoid.core.errors import InputError
+from pdvoid.faces.workbench.session import Outcome
+
+__all__ = [
+    "VIEW_NAMES",
+    "SCREEN_DPI",
+    "view_figure",
+    "render_views",
+    "render_comparison",
+    "figure_png",
+    "export",
+]
+
+SCREEN_DPI = 80  #: pixels per inch of the on-screen images [1/in]
+EXPORT_DPI = 200  #: pixels per inch of exported PNG files [1/in]
+VIEW_NAMES = ("field", "pattern", "sequence")
+
+# on-screen sizes [in]: 8.8 in × 80 dpi ≈ 700 px, the width of the view column
+_SIZES = {"field": (8.8, 3.3), "pattern": (8.8, 3.6), "sequence": (5.0, 3.8), "comparison": (8.8, 6.4)}
+# fixed margins (left, right, bottom, top) [in]: a layout engine would triple the drawing time of each update
+_MARGINS = {
+    "field": (0.75, 0.75, 1.05, 0.1),
+    "pattern": (0.75, 1.8, 0.5, 0.1),
+    "sequence": (0.75, 0.15, 0.55, 0.1),
+}
+_COLORBAR = (1.0, 0.14)  # pattern colour bar: distance of its left edge from the right edge, width [in]
+
+
+def _figure(name: str):
+    from matplotlib.figure import Figure
+
+    from pdvoid.faces.plots import new_figure
+
+    if name not in _MARGINS:
+        return new_figure(_SIZES[name])
+    w, h = _SIZES[name]
+    left, right, bottom, top = _MARGINS[name]
+    fig = Figure(figsize=(w, h), facecolor="white")
+    fig.subplots_adjust(left=left / w, right=1.0 - right / w, bottom=bottom / h, top=1.0 - top / h)
+    return fig
+
+
+def _pattern_colorbar(fig, ax) -> None:
+    from matplotlib.ticker import FuncFormatter
+
+    from pdvoid.faces.plots.style import plain_number
+
+    w, h = _SIZES["pattern"]
+    _, _, bottom, top = _MARGINS["pattern"]
+    cax = fig.add_axes((1.0 - _COLORBAR[0] / w, bottom / h, _COLORBAR[1] / w, 1.0 - (bottom + top) / h))
+    cb = fig.colorbar(ax.pdvoid_mesh, cax=cax)
+    cb.set_label("discharges per cycle per cell [1/cycle]", size=9)
+    cb.ax.tick_params(labelsize=8, which="both")
+    cb.ax.yaxis.set_major_formatter(FuncFormatter(plain_number))
+    cb.ax.yaxis.set_minor_formatter(FuncFormatter(_minor_label))
+
+
+def _minor_label(value: float, _pos: object = None) -> str:
+    """Minor colour-bar labels at 2 and 5 times a power of ten only, as plain numbers."""
+    from pdvoid.faces.plots.style import plain_number
+
+    if value <= 0.0:
+        return ""
+    lead = round(value / 10.0 ** math.floor(math.log10(value) + 1e-12))
+    return plain_number(value) if lead in (2, 5) else ""
+
+
+def _message_figure(name: str, message: str):
+    fig = _figure(name)
+    ax = fig.add_subplot()
+    ax.set_axis_off()
+    ax.text(
+        0.5,
+        0.5,
+        "\n".join(textwrap.wrap(message, 70)),
+        ha="center",
+        va="center",
+        fontsize=10,
+        color="#444444",
+        transform=ax.transAxes,
+    )
+    return fig
+
+
+def view_figure(name: str, result, measured=None):
+    """The matplotlib Figure of one view: "field", "pattern", "sequence" or "comparison" (needs ``measured``).
+    A view that cannot be drawn for this result shows its InputError message instead."""
+    from pdvoid.faces import plots
+
+    if name not in _SIZES:
+        raise InputError(f"view must be one of {tuple(_SIZES)}; got {name!r}")
+    fig = _figure(name)
+    try:
+        if name == "field":
+            plots.field_time(result, cycles=3, ax=fig.add_subplot())
+        elif name == "pattern":
+            ax = plots.phase_pattern(result, ax=fig.add_subplot(), colorbar=False)
+            _pattern_colorbar(fig, ax)
+        elif name == "sequence":
+            ax = plots.pulse_sequence_plot(result, "du", ax=fig.add_subplot())
+            ax.xaxis.label.set_size(9)
+            ax.yaxis.label.set_size(9)
+        else:
+            mosaic = fig.subplot_mosaic([["sim", "meas"], ["overlay", "overlay"]], height_ratios=[1.15, 1.0])
+            plots.compare(result, measured, [mosaic["sim"], mosaic["meas"], mosaic["overlay"]])
+    except InputError as exc:
+        fig = _message_figure(name, f"{name} view not available: {exc}")
+    return fig
+
+
+def figure_png(fig, dpi: float = SCREEN_DPI) -> bytes:
+    """PNG bytes of a Figure (fast compression: the panel redraws often)."""
+    buf = io.BytesIO()
+    fig.savefig(buf, format="png", dpi=dpi, facecolor="white", pil_kwargs={"compress_level": 1})
+    return buf.getvalue()
+
+
+def render_views(outcome: Outcome):
+    """(name, PNG bytes) of the field, pattern and pulse-sequence views of a successful outcome, one at a time
+    (a generator, so the panel can show each picture as soon as it is drawn)."""
+    if outcome.result is None:
+        raise InputError(f"there is nothing to draw: {outcome.error or 'no result'}")
+    return ((name, figure_png(view_figure(name, outcome.result))) for name in VIEW_NAMES)
+
+
+def render_comparison(outcome: Outcome, measured) -> bytes:
+    """PNG bytes of the simulated-against-measured view."""
+    if outcome.result is None:
+        raise InputError(f"there is nothing to compare: {outcome.error or 'no result'}")
+    return figure_png(view_figure("comparison", outcome.result, measured))
+
+
+def export(
+    folder: str | Path,
+    outcome: Outcome,
+    measured=None,
+    formats: tuple[str, ...] = ("png", "svg"),
+    stem: str = "pdvoid",
+) -> list[Path]:
+    """Write the figures (``formats`` from png, svg, pdf), the scenario (TOML, :meth:`Scenario.to_file`) and
+    the result (:meth:`Result.save`, NPZ) of ``outcome`` into ``folder`` (created if missing).
+
+    Returns:
+        The paths written. Raises InputError when there is no result or a format is unknown.
+    """
+    if outcome is None or outcome.result is None:
+        raise InputError(
+            "nothing to export yet: the last update has no result"
+            + (f" ({outcome.error})" if outcome is not None and outcome.error else "")
+        )
+    bad = [f for f in formats if f not in ("png", "svg", "pdf")]
+    if bad or not formats:
+        raise InputError(f"choose at least one figure format from png, svg, pdf; got {formats!r}")
+    if not isinstance(stem, str) or not stem or any(c in stem for c in "/\\:"):
+        raise InputError(f"stem must be a plain file-name prefix; got {stem!r}")
+    out = Path(folder).expanduser().resolve()
+    try:
+        out.mkdir(parents=True, exist_ok=True)
+    except OSError as exc:
+        raise InputError(f"export folder {str(out)!r} cannot be created: {exc}") from None
+    written: list[Path] = []
+    names = list(VIEW_NAMES) + (["comparison"] if measured is not None else [])
+    for name in names:
+        fig = view_figure(name, outcome.result, measured)
+        for fmt in formats:
+            path = out / f"{stem}_{name}.{fmt}"
+            fig.savefig(path, format=fmt, dpi=EXPORT_DPI, facecolor="white")
+            written.append(path)
+    scenario_path = out / f"{stem}_scenario.toml"
+    outcome.scenario.to_file(scenario_path)
+    written.append(scenario_path)
+    written.append(outcome.result.save(out / f"{stem}_result.npz"))
+    return written

@@ -1,0 +1,281 @@
+"""Scenario files: TOML whose quantities may carry units ("1.2 mm", "12 kV", "50 Hz", "1 atm").
+
+Layout (every key optional unless the class requires it; bare numbers are SI)::
+
+    name = "..."
+    [insulation]   thickness, permittivity, material, area
+    [void]         diameter, height, pressure, gas, temperature, shape, inception_length
+    [supply]       kind = "sine" | "periodic"; sine: rms, frequency, harmonics = [[order, fraction, phase_deg]]
+                   periodic: samples (V, one period), frequency, max_harmonic
+    [model]        kind = "field" | "network"; residual_ratio, lag_free, ionization_rate, electron_yield,
+                   surface_rate_same, surface_rate_reversed, surface_decay_time, field_assisted,
+                   charge_decay_time, inception_criterion; network: capacitance_void, capacitance_series
+"""
+
+from __future__ import annotations
+
+import math
+import os
+import tomllib
+from dataclasses import fields
+from pathlib import Path
+from typing import TYPE_CHECKING, Any
+
+from pdvoid.core.errors import InputError
+from pdvoid.core.units import parse_quantity
+from pdvoid.inputs.model_parameters import model_class, model_kinds
+from pdvoid.inputs.parameters import Insulation, Periodic, Sine, Void
+
+if TYPE_CHECKING:
+    from pdvoid.inputs.scenario import Scenario
+
+__all__ = ["read_scenario_parts", "parts_from_dict", "scenario_to_dict", "write_scenario_file", "field_schema",
+           "quantity_value"]
+
+MAX_FILE_BYTES = 1_000_000
+
+# key -> (dimension, SI unit written to files); None dimension = not a quantity (text, bool, list)
+_DIMS: dict[str, dict[str, tuple[str | None, str]]] = {
+    "insulation": {"thickness": ("length", "m"), "permittivity": ("dimensionless", ""),
+                   "material": (None, ""), "area": ("area", "m2")},
+    "void": {"diameter": ("length", "m"), "height": ("length", "m"), "pressure": ("pressure", "Pa"),
+             "gas": (None, ""), "temperature": ("temperature", "K"), "shape": (None, ""),
+             "inception_length": ("length", "m"), "position": (None, ""),
+             "field_enhancement": ("dimensionless", ""), "charge_per_field": ("charge per field", "C/(V/m)")},
+    "sine": {"rms": ("voltage", "V"), "frequency": ("frequency", "Hz"), "harmonics": (None, "")},
+    "periodic": {"samples": (None, ""), "frequency": ("frequency", "Hz"), "max_harmonic": (None, "")},
+}
+_SI_ONLY = {"area": "m2", "capacitance": "F", "charge per field": "C/(V/m)"}
+
+
+def field_schema(part: str, obj: Any) -> dict[str, tuple[str | None, str]]:
+    """The scenario-file schema of one part: field name to (dimension, SI unit as written in files).
+
+    Parameters
+    ----------
+    part : str
+        ``"insulation"``, ``"void"``, ``"supply"`` or ``"model"``.
+    obj : object
+        The part itself (the supply's and the model's schema depend on their kind).
+
+    Returns
+    -------
+    dict
+        Field name to (dimension or None for text, flags and lists; SI unit).
+    """
+    if part == "model":
+        return dict(obj.field_units)
+    if part == "supply":
+        return dict(_DIMS["sine" if isinstance(obj, Sine) else "periodic"])
+    if part not in _DIMS:
+        raise InputError(f"the part must be insulation, void, supply or model; got {part!r}")
+    return dict(_DIMS[part])
+
+
+def quantity_value(value: Any, dim: str, where: str) -> float:
+    """A quantity from a file: a number (SI) or text with a unit of dimension ``dim``, as an SI float.
+
+    Parameters
+    ----------
+    value : float or str
+        E.g. ``1.2e-3`` or ``"1.2 mm"``.
+    dim : str
+        The dimension required (``"length"``, ``"pressure"``, ...).
+    where : str
+        What to name in an error.
+
+    Returns
+    -------
+    float
+        The value in SI units.
+    """
+    if dim in _SI_ONLY:
+        if isinstance(value, str):
+            text = value.strip()
+            unit = _SI_ONLY[dim]
+            if text.endswith(unit):
+                text = text[: -len(unit)]
+            try:
+                return float(text)
+            except ValueError:
+                raise InputError(f"{where}: expected a number in {unit}; got {value!r}") from None
+        return parse_quantity(value, "dimensionless", name=where)
+    return parse_quantity(value, dim, name=where)
+
+
+def _section(data: dict, key: str, schema: dict, source: str) -> dict:
+    sec = data.get(key, {})
+    if not isinstance(sec, dict):
+        raise InputError(f"{source}: [{key}] must be a table")
+    out = {}
+    for k, v in sec.items():
+        if k == "kind":
+            continue
+        if k not in schema:
+            raise InputError(f"{source}: unknown key {key}.{k}; allowed: {', '.join(sorted(schema))}")
+        dim, _ = schema[k]
+        out[k] = quantity_value(v, dim, f"{source}: {key}.{k}") if dim is not None else v
+    return out
+
+
+def parts_from_dict(data: dict, *, source: str = "scenario") -> dict[str, Any]:
+    """The parts of a scenario (insulation, void, supply, model, name) from the dictionary form of a scenario
+    file, each constructed and validated.
+
+    Parameters
+    ----------
+    data : dict
+        The parsed TOML document.
+    source : str
+        What to name in error messages (a file name).
+
+    Returns
+    -------
+    dict
+        Keyword arguments of :class:`pdvoid.Scenario`.
+    """
+    try:
+        return _from_dict(data, source)
+    except InputError as exc:
+        if str(exc).startswith(source):
+            raise
+        raise InputError(f"{source}: {exc}") from None
+
+
+def _from_dict(data: dict, source: str) -> dict[str, Any]:
+    if not isinstance(data, dict):
+        raise InputError(f"{source}: a scenario must be a table")
+    unknown = set(data) - {"name", "insulation", "void", "supply", "model"}
+    if unknown:
+        raise InputError(f"{source}: unknown top-level keys {sorted(unknown)}; allowed: name, insulation, void, "
+                         "supply, model")
+    for part in ("insulation", "void", "supply"):
+        if part not in data:
+            raise InputError(f"{source}: missing [{part}] table")
+    ins = Insulation(**_section(data, "insulation", _DIMS["insulation"], source))
+    void = Void(**_section(data, "void", _DIMS["void"], source))
+    sup = data["supply"]
+    kind = sup.get("kind", "sine") if isinstance(sup, dict) else None
+    if kind == "sine":
+        kw = _section(data, "supply", _DIMS["sine"], source)
+        if "harmonics" in kw:
+            h = kw["harmonics"]
+            if not isinstance(h, list):
+                raise InputError(f"{source}: supply.harmonics must be a list of [order, fraction, phase_deg]")
+            kw["harmonics"] = tuple(tuple(x) if isinstance(x, list) else x for x in h)
+        supply: Sine | Periodic = Sine(**kw)
+    elif kind == "periodic":
+        kw = _section(data, "supply", _DIMS["periodic"], source)
+        supply = Periodic(**kw)
+    else:
+        raise InputError(f"{source}: supply.kind must be 'sine' or 'periodic'; got {kind!r}")
+    mod = data.get("model", {})
+    mkind = mod.get("kind", model_kinds()[0]) if isinstance(mod, dict) else None
+    try:
+        cls = model_class(mkind)
+    except InputError as exc:
+        raise InputError(f"{source}: {exc}") from None
+    kw = _section(data, "model", cls.field_units, source)
+    return {"insulation": ins, "void": void, "supply": supply, "model": cls(**kw), "name": data.get("name", "")}
+
+
+def read_scenario_parts(path: str | os.PathLike) -> dict[str, Any]:
+    """Read a TOML scenario file into the keyword arguments of :class:`pdvoid.Scenario`.
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+        The file.
+
+    Returns
+    -------
+    dict
+        insulation, void, supply, model and name, each validated. Errors name the file and the key (TOML syntax
+        errors: line and column).
+    """
+    p = Path(path)
+    try:
+        size = p.stat().st_size
+        if size > MAX_FILE_BYTES:
+            raise InputError(f"{p}: scenario file larger than {MAX_FILE_BYTES} bytes ({size})")
+        text = p.read_text(encoding="utf-8")
+    except OSError as exc:
+        raise InputError(f"{p}: cannot read scenario file ({exc.strerror})") from None
+    except UnicodeDecodeError as exc:
+        raise InputError(f"{p}: not UTF-8 text ({exc.reason} at byte {exc.start})") from None
+    try:
+        data = tomllib.loads(text)
+    except tomllib.TOMLDecodeError as exc:
+        raise InputError(f"{p}: malformed TOML: {exc}") from None
+    return parts_from_dict(data, source=str(p))
+
+
+def _q(value: float | None, unit: str) -> Any:
+    if value is None:
+        return None
+    if unit == "":
+        return value
+    return f"{value!r} {unit}" if math.isfinite(value) else f"inf {unit}"
+
+
+def scenario_to_dict(s: Scenario) -> dict[str, Any]:
+    """The dictionary form of a scenario: quantities as exact strings with SI units (round-trips bit for bit).
+
+    Parameters
+    ----------
+    s : pdvoid.Scenario
+        The scenario.
+
+    Returns
+    -------
+    dict
+        The TOML document as a dictionary.
+    """
+    out: dict[str, Any] = {"name": s.name}
+    for part, obj, schema in (("insulation", s.insulation, _DIMS["insulation"]), ("void", s.void, _DIMS["void"])):
+        out[part] = {}
+        for f in fields(obj):
+            v = getattr(obj, f.name)
+            if v is None:
+                continue
+            dim, unit = schema[f.name]
+            out[part][f.name] = _q(v, unit) if dim is not None and unit and dim not in _SI_ONLY else v
+    if isinstance(s.supply, Sine):
+        out["supply"] = {"kind": "sine", "rms": _q(s.supply.rms, "V"), "frequency": _q(s.supply.frequency, "Hz")}
+        if s.supply.harmonics:
+            out["supply"]["harmonics"] = [list(h) for h in s.supply.harmonics]
+    else:
+        out["supply"] = {"kind": "periodic", "samples": [float(x) for x in s.supply.samples],
+                         "frequency": _q(s.supply.frequency, "Hz"), "max_harmonic": int(s.supply.max_harmonic)}
+    m = s.model
+    out["model"] = {"kind": m.kind}
+    for f in fields(m):
+        v = getattr(m, f.name)
+        if v is None:
+            continue
+        dim, unit = m.field_units[f.name]
+        out["model"][f.name] = _q(v, unit) if dim is not None and unit else v
+    return out
+
+
+def write_scenario_file(s: Scenario, path: str | os.PathLike) -> Path:
+    """Write a TOML scenario file that :func:`pdvoid.inputs.scenario.read_scenario` restores exactly.
+
+    Parameters
+    ----------
+    s : pdvoid.Scenario
+        The scenario.
+    path : str or os.PathLike
+        The file to write.
+
+    Returns
+    -------
+    pathlib.Path
+        The file written.
+    """
+    import tomli_w
+
+    p = Path(path)
+    with open(p, "wb") as fh:
+        tomli_w.dump(scenario_to_dict(s), fh)
+    return p

@@ -1,0 +1,100 @@
+"""A plain container of discharge events: what every analysis function accepts.
+
+Simulated results (:class:`pdvoid.simulation.results.Result`) and measured data (:mod:`pdvoid.io`) both provide these
+attributes, so analysis never needs to know where the events came from.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from pdvoid.core.arrays import frozen_array as _frozen
+from pdvoid.core.errors import InputError, check_positive
+
+__all__ = ["Events", "as_events"]
+
+
+
+
+@dataclass(frozen=True, eq=False)
+class Events:
+    """Discharge events over an observation of whole AC cycles.
+
+    Attributes (SI):
+        time: event times from the start of the observation [s]; NaN where unknown (phase-only data).
+        phase_deg: phase from the positive-going zero crossing of the applied voltage [deg], in [0, 360).
+        cycle: index of the AC cycle each event falls in [-] (float array holding whole numbers).
+        charge: apparent charge, signed [C].
+        voltage: instantaneous applied voltage at each event [V]; NaN where unknown.
+        frequency: supply frequency [Hz].
+        cycles: number of AC cycles observed [-] (the reference time is cycles / frequency).
+        field_before, field_after: void field just before and after each event [V/m]; NaN where unknown.
+        label: free text (e.g. "simulated", "measured (synthetic demo data)").
+    """
+
+    phase_deg: np.ndarray
+    charge: np.ndarray
+    frequency: float
+    cycles: float
+    time: np.ndarray | None = None
+    cycle: np.ndarray | None = None
+    voltage: np.ndarray | None = None
+    field_before: np.ndarray | None = None
+    field_after: np.ndarray | None = None
+    label: str = ""
+    extra: dict = field(default_factory=dict)
+
+    def __post_init__(self) -> None:
+        f = check_positive("frequency", self.frequency, "Hz")
+        c = check_positive("cycles", self.cycles)
+        object.__setattr__(self, "frequency", f)
+        object.__setattr__(self, "cycles", c)
+        phase = np.asarray(self.phase_deg, dtype=float)
+        charge = np.asarray(self.charge, dtype=float)
+        if phase.ndim != 1 or charge.ndim != 1 or phase.shape != charge.shape:
+            raise InputError(
+                f"phase_deg and charge must be 1-D arrays of equal length; got shapes {phase.shape} and "
+                f"{charge.shape}"
+            )
+        n = phase.size
+        if n and (not np.all(np.isfinite(phase)) or phase.min() < 0.0 or phase.max() >= 360.0):
+            raise InputError("phase_deg must be finite and lie in [0, 360) deg")
+        if n and not np.all(np.isfinite(charge)):
+            raise InputError("charge must be finite everywhere")
+        object.__setattr__(self, "phase_deg", _frozen(phase))
+        object.__setattr__(self, "charge", _frozen(charge))
+        for name in ("time", "cycle", "voltage", "field_before", "field_after"):
+            v = getattr(self, name)
+            if v is None:
+                arr = np.full(n, np.nan)
+            else:
+                arr = np.asarray(v, dtype=float)
+                if arr.shape != (n,):
+                    raise InputError(f"{name} must have shape ({n},) like phase_deg; got {arr.shape}")
+            object.__setattr__(self, name, _frozen(arr))
+        if n and np.all(np.isnan(self.cycle)) and np.all(np.isfinite(self.time)):
+            object.__setattr__(self, "cycle", _frozen(np.floor(self.time * f)))
+
+    @property
+    def duration(self) -> float:
+        """Reference time of the observation [s]."""
+        return self.cycles / self.frequency
+
+    @property
+    def count(self) -> int:
+        return int(self.charge.size)
+
+    def __len__(self) -> int:
+        return self.count
+
+
+def as_events(obj: object) -> Events:
+    """Accept an :class:`Events`, a Result (anything with ``.events``) or raise :class:`InputError`."""
+    if isinstance(obj, Events):
+        return obj
+    ev = getattr(obj, "events", None)
+    if isinstance(ev, Events):
+        return ev
+    raise InputError(f"expected discharge events (a Result or Events); got {type(obj).__name__}")

@@ -1,0 +1,220 @@
+"""The parallel map every many-run feature uses: serially, on local worker processes, or on a Dask cluster.
+
+``parallel_map(func, items)`` returns ``[func(x) for x in items]`` in the order of ``items``, whichever
+backend runs it, so a deterministic ``func`` gives identical results serially, on local processes and on Dask.
+
+Local processes are never forked from this process: once a parallel numba kernel has run, a fork-based pool
+hangs. The local backend is joblib's loky executor (fresh interpreters, reused between calls so the numba
+start-up is paid once per worker) when joblib is installed, otherwise the standard library's
+ProcessPoolExecutor with the ``forkserver`` start method (``spawn`` where forkserver does not exist).
+"""
+
+from __future__ import annotations
+
+import atexit
+import concurrent.futures as cf
+import multiprocessing
+import os
+from collections.abc import Callable, Iterable, Sequence
+from functools import partial
+from typing import Any
+
+from pdvoid.core.errors import InputError, check_int
+from pdvoid.core.optional import available, require
+
+__all__ = ["parallel_map", "local_workers", "backend_name"]
+
+_MAX_WORKERS = 1024
+_stdlib_pools: dict[int, cf.ProcessPoolExecutor] = {}
+
+
+def local_workers() -> int:
+    """The number of cores this process may use [-] (CPU affinity and container limits respected)."""
+    if available("joblib"):
+        import joblib
+
+        return max(1, int(joblib.cpu_count()))
+    try:
+        return max(1, len(os.sched_getaffinity(0)))
+    except AttributeError:  # pragma: no cover - platforms without sched_getaffinity
+        return max(1, os.cpu_count() or 1)
+
+
+def backend_name(client: Any = None, workers: int | None = None) -> str:
+    """Which backend ``parallel_map`` would use: "serial", "loky", "processes" (stdlib) or "dask"."""
+    if client is not None:
+        return "dask"
+    if _resolve_workers(workers) == 1:
+        return "serial"
+    return "loky" if available("joblib") else "processes"
+
+
+def _resolve_workers(workers: int | None) -> int:
+    if workers is None:
+        return local_workers()
+    return check_int("workers", workers, 1, _MAX_WORKERS)
+
+
+def _run_chunk(func: Callable, chunk: Sequence) -> list:
+    return [func(x) for x in chunk]
+
+
+_MAX_CHUNK = 64
+
+
+def _chunks(n: int, workers: int) -> list[range]:
+    """Index ranges: about eight chunks per worker, at most 64 tasks each (load balance, progress updates),
+    so that many tiny tasks share one round trip."""
+    size = min(_MAX_CHUNK, max(1, n // (8 * workers)))
+    return [range(i, min(n, i + size)) for i in range(0, n, size)]
+
+
+def _progress_bar(total: int, enabled: bool, description: str):
+    if not enabled:
+        return None
+    tqdm = require("tqdm.auto", feature="progress bars").tqdm
+    return tqdm(total=total, desc=description or None, unit="task")
+
+
+def _stdlib_pool(workers: int) -> cf.ProcessPoolExecutor:
+    pool = _stdlib_pools.get(workers)
+    if pool is None:
+        methods = multiprocessing.get_all_start_methods()
+        ctx = multiprocessing.get_context("forkserver" if "forkserver" in methods else "spawn")
+        pool = cf.ProcessPoolExecutor(max_workers=workers, mp_context=ctx)
+        _stdlib_pools[workers] = pool
+    return pool
+
+
+@atexit.register
+def _shutdown_stdlib_pools() -> None:
+    for pool in _stdlib_pools.values():
+        pool.shutdown(wait=False, cancel_futures=True)
+    _stdlib_pools.clear()
+
+
+def _local_executor(workers: int) -> cf.Executor:
+    if available("joblib"):
+        from joblib.externals.loky import get_reusable_executor
+
+        return get_reusable_executor(max_workers=workers)
+    return _stdlib_pool(workers)
+
+
+def _collect(futures: dict, n: int, bar, wait_any: Callable) -> list:
+    """Gather chunk results into a list of n; on a failure cancel what has not started and re-raise."""
+    out: list = [None] * n
+    try:
+        for fut in wait_any(list(futures)):
+            rng = futures[fut]
+            values = fut.result()
+            for i, v in zip(rng, values, strict=True):
+                out[i] = v
+            if bar is not None:
+                bar.update(len(rng))
+    except BaseException:
+        for fut in futures:
+            fut.cancel()
+        raise
+    finally:
+        if bar is not None:
+            bar.close()
+    return out
+
+
+def _dask_client(client: Any):
+    """(client, owned): a Client as given, or a new one connected to a scheduler address string."""
+    distributed = require("distributed", feature="Dask clusters")
+    if isinstance(client, str):
+        if not client.strip():
+            raise InputError("client (scheduler address) must not be empty")
+        try:
+            return distributed.Client(client, set_as_default=False), True
+        except (OSError, TimeoutError) as exc:
+            raise InputError(f"cannot connect to the Dask scheduler at {client!r}: {exc}") from None
+    if not isinstance(client, distributed.Client):
+        raise InputError(
+            f"client must be a dask.distributed.Client or a scheduler address like 'tcp://host:8786'; got "
+            f"{type(client).__name__}"
+        )
+    return client, False
+
+
+def _dask_map(func: Callable, items: list, client: Any, make_bar: Callable) -> list:
+    distributed = require("distributed", feature="Dask clusters")
+    client, owned = _dask_client(client)
+    try:
+        bar = make_bar()
+        threads = sum(w.get("nthreads", 1) for w in client.scheduler_info()["workers"].values()) or 1
+        chunks = _chunks(len(items), threads)
+        futures = {
+            client.submit(_run_chunk, func, [items[i] for i in rng], pure=False): rng for rng in chunks
+        }
+        return _collect(futures, len(items), bar, partial(distributed.as_completed, loop=client.loop))
+    finally:
+        if owned:
+            client.close()
+
+
+def parallel_map(
+    func: Callable[[Any], Any],
+    items: Iterable,
+    *,
+    client: Any = None,
+    workers: int | None = None,
+    progress: bool = False,
+    description: str = "",
+) -> list:
+    """``[func(x) for x in items]``, in order, run serially, on local processes or on a Dask cluster.
+
+    Args:
+        func: a function of one argument, picklable (defined at module level, or a functools.partial of one)
+            for the process and Dask backends; exceptions it raises stop the map and are re-raised here
+            (tasks not yet started are cancelled).
+        items: the arguments, picklable.
+        client: None for local execution; a ``dask.distributed.Client``, or a scheduler address string
+            such as ``"tcp://127.0.0.1:8786"`` (a client is opened and closed for this call), to run on Dask.
+        workers: local worker processes [-]; None uses every core this process may use; 1 runs serially in
+            this process. Ignored with ``client``.
+        progress: show a progress bar (tqdm, notebook-aware).
+        description: label of the progress bar.
+
+    Returns:
+        The results in the order of ``items``.
+
+    Raises:
+        InputError: bad ``workers`` or ``client``.
+        MissingDependencyError: (an ImportError) Dask or tqdm is needed and not installed.
+    """
+    if not callable(func):
+        raise InputError(f"func must be callable; got {type(func).__name__}")
+    if not isinstance(progress, bool):
+        raise InputError(f"progress must be True or False; got {progress!r}")
+    items = list(items)
+    n = len(items)
+    if client is None:
+        workers = _resolve_workers(workers)
+    if n == 0:
+        return []
+    if client is not None:
+        return _dask_map(func, items, client, lambda: _progress_bar(n, progress, description))
+    bar = _progress_bar(n, progress, description)
+    if workers == 1 or n == 1:
+        out = []
+        try:
+            for x in items:
+                out.append(func(x))
+                if bar is not None:
+                    bar.update(1)
+        finally:
+            if bar is not None:
+                bar.close()
+        return out
+    try:
+        executor = _local_executor(workers)
+    except BaseException:
+        if bar is not None:
+            bar.close()
+        raise
+    futures = {executor.submit(_run_chunk, func, [items[i] for i in rng]): rng for rng in _chunks(n, workers)}
+    return _collect(futures, n, bar, cf.as_completed)

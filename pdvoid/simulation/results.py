@@ -1,0 +1,207 @@
+"""The immutable Result of a simulation, and its open file format (NPZ arrays + JSON metadata)."""
+
+from __future__ import annotations
+
+import json
+import os
+import zipfile
+from dataclasses import dataclass
+from pathlib import Path
+
+import numpy as np
+
+from pdvoid.coefficients import compute_coefficients
+from pdvoid.core.errors import InputError
+from pdvoid.inputs.scenario import Scenario
+from pdvoid.simulation.events import Events
+
+__all__ = ["Result", "Histogram", "load"]
+
+_FORMAT = "pdvoid-result"
+_FORMAT_VERSION = 1
+_EVENT_FIELDS = ("time", "phase_deg", "cycle", "charge", "voltage", "field_before", "field_after")
+_CSV_HEADER = {
+    "time": "time [s]", "phase_deg": "phase [deg]", "cycle": "cycle [-]", "charge": "charge [C]",
+    "voltage": "voltage [V]", "field_before": "field_before [V/m]", "field_after": "field_after [V/m]",
+}
+MAX_RESULT_FILE = 4 * 1024**3  # bytes
+
+
+@dataclass(frozen=True, eq=False)
+class Histogram:
+    """Phase-resolved counts accumulated inside the kernel (histogram-only runs).
+
+    counts[i, j]: events in phase bin i (edges phase_edges_deg [deg]) and charge bin j (edges charge_edges [C]);
+    below / above: events whose charge fell outside the charge edges (counted, never dropped silently)."""
+
+    counts: np.ndarray
+    phase_edges_deg: np.ndarray
+    charge_edges: np.ndarray
+    below: int = 0
+    above: int = 0
+
+
+@dataclass(frozen=True, eq=False)
+class Result:
+    """What one simulation produced: the events, the scenario, the seed, the package version and references.
+
+    Event arrays (SI): time [s], phase_deg [deg], cycle [-], charge [C] (apparent, signed), voltage [V] (applied,
+    at each event), field_before / field_after [V/m] (in the void). In histogram-only runs the event arrays are
+    empty and ``histogram`` plus the IEC 60270 sums hold the outcome.
+    """
+
+    events: Events
+    scenario: Scenario
+    seed: int
+    cycles: int
+    requested_cycles: int
+    version: str
+    references: tuple[str, ...]
+    histogram: Histogram | None
+    event_count: int
+    sum_abs_charge: float
+    sum_charge_squared: float
+    sum_charge_voltage: float
+
+    # event arrays, straight from the events
+    @property
+    def time(self) -> np.ndarray:
+        return self.events.time
+
+    @property
+    def phase_deg(self) -> np.ndarray:
+        return self.events.phase_deg
+
+    @property
+    def cycle(self) -> np.ndarray:
+        return self.events.cycle
+
+    @property
+    def charge(self) -> np.ndarray:
+        return self.events.charge
+
+    @property
+    def voltage(self) -> np.ndarray:
+        return self.events.voltage
+
+    @property
+    def field_before(self) -> np.ndarray:
+        return self.events.field_before
+
+    @property
+    def field_after(self) -> np.ndarray:
+        return self.events.field_after
+
+    @property
+    def frequency(self) -> float:
+        return self.events.frequency
+
+    @property
+    def duration(self) -> float:
+        """Simulated time [s]."""
+        return self.cycles / self.events.frequency
+
+    @property
+    def complete(self) -> bool:
+        """False when the run was stopped before all requested cycles."""
+        return self.cycles == self.requested_cycles
+
+    @property
+    def discharges_per_cycle(self) -> float:
+        return self.event_count / self.cycles if self.cycles else 0.0
+
+    def coefficients(self):
+        return compute_coefficients(self.scenario)
+
+    # ---- files -------------------------------------------------------------------------------------------
+    def save(self, path: str | os.PathLike) -> Path:
+        """Write an NPZ file: event arrays, histogram arrays and a JSON metadata entry (scenario, seed, version,
+        references, sums). Exactly restored by :func:`load`."""
+        from pdvoid.inputs.scenario_files import scenario_to_dict
+
+        p = Path(path)
+        meta = {
+            "format": _FORMAT, "format_version": _FORMAT_VERSION, "scenario": scenario_to_dict(self.scenario),
+            "seed": self.seed, "cycles": self.cycles, "requested_cycles": self.requested_cycles,
+            "version": self.version, "references": list(self.references), "event_count": self.event_count,
+            "sum_abs_charge": self.sum_abs_charge.hex(), "sum_charge_squared": self.sum_charge_squared.hex(),
+            "sum_charge_voltage": self.sum_charge_voltage.hex(), "label": self.events.label,
+            "histogram": None if self.histogram is None else {"below": self.histogram.below,
+                                                              "above": self.histogram.above},
+        }
+        arrays = {name: getattr(self.events, name) for name in _EVENT_FIELDS}
+        if self.histogram is not None:
+            arrays["hist_counts"] = self.histogram.counts
+            arrays["hist_phase_edges_deg"] = self.histogram.phase_edges_deg
+            arrays["hist_charge_edges"] = self.histogram.charge_edges
+        arrays["metadata"] = np.frombuffer(json.dumps(meta).encode("utf-8"), dtype=np.uint8)
+        with open(p, "wb") as fh:
+            np.savez_compressed(fh, **arrays)
+        return p
+
+    def to_csv(self, path: str | os.PathLike) -> Path:
+        """Events as CSV with units in the column headers (full double precision)."""
+        p = Path(path)
+        cols = np.column_stack([getattr(self.events, n) for n in _EVENT_FIELDS]) if self.events.count else None
+        header = ",".join(_CSV_HEADER[n] for n in _EVENT_FIELDS)
+        with open(p, "w", encoding="utf-8", newline="\n") as fh:
+            fh.write(header + "\n")
+            if cols is not None:
+                np.savetxt(fh, cols, delimiter=",", fmt="%.17g")
+        return p
+
+
+def load(path: str | os.PathLike) -> Result:
+    """Read a result written by :meth:`Result.save`. Malformed files raise :class:`InputError` naming the file."""
+    from pdvoid.inputs.scenario import scenario_from_dict
+
+    p = Path(path)
+    try:
+        size = p.stat().st_size
+    except OSError as exc:
+        raise InputError(f"{p}: cannot read result file ({exc.strerror})") from None
+    if size > MAX_RESULT_FILE:
+        raise InputError(f"{p}: result file larger than {MAX_RESULT_FILE} bytes")
+    try:
+        with np.load(p, allow_pickle=False) as z:
+            data = {k: z[k] for k in z.files}
+    except (OSError, ValueError, zipfile.BadZipFile, EOFError) as exc:
+        raise InputError(f"{p}: not a pdvoid result file ({exc})") from None
+    if "metadata" not in data:
+        raise InputError(f"{p}: not a pdvoid result file (no metadata entry)")
+    try:
+        meta = json.loads(data["metadata"].tobytes().decode("utf-8"))
+    except (UnicodeDecodeError, json.JSONDecodeError) as exc:
+        raise InputError(f"{p}: metadata is not valid JSON ({exc})") from None
+    if not isinstance(meta, dict) or meta.get("format") != _FORMAT:
+        raise InputError(f"{p}: metadata does not describe a pdvoid result")
+    if meta.get("format_version") != _FORMAT_VERSION:
+        raise InputError(f"{p}: result format version {meta.get('format_version')!r}; this pdvoid reads "
+                         f"{_FORMAT_VERSION}")
+    missing = [n for n in _EVENT_FIELDS if n not in data]
+    if missing:
+        raise InputError(f"{p}: missing event arrays {missing}")
+    try:
+        scenario = scenario_from_dict(meta["scenario"], source=str(p))
+        ev = Events(
+            phase_deg=data["phase_deg"], charge=data["charge"], frequency=scenario.supply.frequency,
+            cycles=float(meta["cycles"]), time=data["time"], cycle=data["cycle"], voltage=data["voltage"],
+            field_before=data["field_before"], field_after=data["field_after"], label=meta.get("label", ""),
+        )
+        hist = None
+        if meta.get("histogram") is not None:
+            hist = Histogram(counts=data["hist_counts"], phase_edges_deg=data["hist_phase_edges_deg"],
+                             charge_edges=data["hist_charge_edges"], below=int(meta["histogram"]["below"]),
+                             above=int(meta["histogram"]["above"]))
+        return Result(
+            events=ev, scenario=scenario, seed=int(meta["seed"]), cycles=int(meta["cycles"]),
+            requested_cycles=int(meta["requested_cycles"]), version=str(meta["version"]),
+            references=tuple(meta["references"]), histogram=hist, event_count=int(meta["event_count"]),
+            sum_abs_charge=float.fromhex(meta["sum_abs_charge"]),
+            sum_charge_squared=float.fromhex(meta["sum_charge_squared"]),
+            sum_charge_voltage=float.fromhex(meta["sum_charge_voltage"]),
+        )
+    except (KeyError, TypeError, ValueError) as exc:
+        if isinstance(exc, InputError):
+            raise
+        raise InputError(f"{p}: malformed result metadata ({exc!r})") from None

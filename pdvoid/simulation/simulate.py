@@ -1,0 +1,199 @@
+"""simulate(scenario, cycles, seed) → Result: drive the event kernel over whole AC cycles."""
+
+from __future__ import annotations
+
+from collections.abc import Callable
+
+import numpy as np
+
+from pdvoid._version import __version__
+from pdvoid.core.errors import InputError, check_int, check_range
+from pdvoid.inputs.parameters import check_seed
+from pdvoid.inputs.scenario import Scenario
+from pdvoid.inputs.waveform import evaluate
+from pdvoid.kernels import void_events as K
+from pdvoid.models import kernel_arguments
+from pdvoid.simulation.events import Events
+from pdvoid.simulation.results import Histogram, Result
+
+__all__ = ["simulate", "VoidRunner", "MAX_CYCLES"]
+
+MAX_CYCLES = 10**9
+_BUFFER_EVENTS = 1 << 18  # events per kernel call when events are stored (grows by calls, not by copying)
+_MAX_STORED_EVENTS = 50_000_000
+_MAX_EVENTS_PER_CYCLE = 1_000_000  # about 1.6 GB of event arrays: beyond this use histogram mode
+
+
+def _default_charge_edges(args) -> np.ndarray:
+    """Symmetric logarithmic charge edges for the histogram mode: 1e-3 to 10 times the lag-free charge."""
+    q0 = abs(args.charge_per_unit * (args.x_inc - args.x_res))
+    mags = np.geomspace(q0 * 1e-3, q0 * 10.0, 26)
+    return np.concatenate([-mags[::-1], mags])
+
+
+class VoidRunner:
+    """A void that keeps its state (deposited charge, emission memory, generator) between runs, so the applied
+    voltage can change from one run to the next, as in a stepped voltage test.
+
+    The generator is numba's (process-global per thread): run one VoidRunner at a time per thread, or the
+    streams interleave and runs are no longer reproducible.
+
+    Args:
+        scenario: the void and its supply; ``run(scale=...)`` multiplies the supply waveform.
+        seed: seed of the random generator [-].
+    """
+
+    def __init__(self, scenario: Scenario, seed: int = 0, *, _args=None) -> None:
+        if not isinstance(scenario, Scenario):
+            raise InputError(f"scenario must be a pdvoid.Scenario; got {type(scenario).__name__}")
+        self.scenario = scenario
+        self.seed = check_seed(seed)
+        self.args = kernel_arguments(scenario) if _args is None else _args
+        self.state = np.zeros(K.STATE_SIZE)
+        self.state[K.S_TLAST] = -np.inf
+        self.totals = np.zeros(K.TOTALS_SIZE)
+        self.cycle = 0
+        K.seed_generator(self.seed)
+        if not self.args.lag_free:
+            K.start_wait(self.state)
+
+    def run(self, cycles: int, *, scale: float = 1.0, store: bool = True, counts=None, charge_edges=None):
+        """Advance ``cycles`` whole cycles with the supply multiplied by ``scale`` [-].
+
+        Returns (time [s], charge [C], field_before [V/m], field_after [V/m], voltage [V]) of the new events
+        (empty arrays when ``store`` is False; the running sums in ``totals`` and ``counts`` still grow)."""
+        cycles = check_int("cycles", cycles, 1, MAX_CYCLES)
+        scale = check_range("scale", scale, 0.0, 1e3)
+        a = self.args
+        bound = a.max_events_per_cycle(scale)
+        if counts is None:
+            counts = np.zeros((0, 1), dtype=np.int64)
+            charge_edges = np.array([0.0, 1.0])
+        if bound > _MAX_EVENTS_PER_CYCLE:
+            raise InputError(
+                f"this scenario could produce up to {bound} discharges per cycle (residual field too close to the "
+                "inception field for the applied voltage); lower model.residual_ratio or the voltage"
+            )
+        cap = min(bound * cycles, max(4 * _BUFFER_EVENTS, bound)) if store else 0
+        pieces = []
+        stop = self.cycle + cycles
+        a_coef, b_coef = a.a_coef * scale, a.b_coef * scale
+        while self.cycle < stop:
+            bt, bq, bb, ba = (np.empty(cap) for _ in range(4))
+            n, nxt = K.run_cycles(
+                self.state, self.cycle, stop, a.frequency, a.orders, a_coef, b_coef, a.seg_fracs, a.pure_sine,
+                a.gain, a.x_inc, a.x_res, a.charge_per_unit, a.lag_free, a.n_vol_pos, a.n_vol_neg, a.n_same,
+                a.n_rev, a.tau_s, a.field_assisted, a.tau_q, store, bt, bq, bb, ba, bound, counts, charge_edges,
+                self.totals,
+            )
+            if n < 0 or nxt == self.cycle:
+                raise RuntimeError("internal error: the event bound per cycle was exceeded; please report this")
+            if store:
+                pieces.append((bt[:n].copy(), bq[:n].copy(), bb[:n].copy(), ba[:n].copy()))
+            self.cycle = nxt
+        if not pieces:
+            e = np.empty(0)
+            return e, e, e, e, e
+        t, q, xb, xa = (np.concatenate(p) for p in zip(*pieces, strict=True))
+        f = a.frequency
+        frac = t * f - np.floor(t * f)
+        v = evaluate(frac, a.orders, a_coef, b_coef) if t.size else np.empty(0)
+        return t, q, xb * a.x_to_field, xa * a.x_to_field, v
+
+
+def simulate(
+    scenario: Scenario,
+    cycles: int = 1000,
+    seed: int = 0,
+    *,
+    histogram: bool = False,
+    phase_bins: int = 72,
+    charge_edges: np.ndarray | None = None,
+    progress: Callable[[int, int], None] | None = None,
+    should_stop: Callable[[], bool] | None = None,
+    chunk_cycles: int | None = None,
+) -> Result:
+    """Simulate ``cycles`` AC cycles of ``scenario`` from an uncharged void at the positive-going zero crossing.
+
+    Args:
+        scenario: the insulation, void, supply and model.
+        cycles: number of whole AC cycles [-], 1 to 1e9.
+        seed: seed of the random generator [-]; the same seed gives bit-identical results.
+        histogram: True to keep only the phase-resolved counts and the IEC 60270 sums (memory independent of
+            the number of events); False to keep every event.
+        phase_bins: phase bins over 0..360 deg for the histogram mode [-].
+        charge_edges: signed apparent-charge bin edges for the histogram mode [C], increasing; events outside
+            are counted in ``Histogram.below`` / ``above``. Default: symmetric log bins around the lag-free charge.
+        progress: called as progress(cycles_done, cycles) after each chunk.
+        should_stop: polled after each chunk; True ends the run early (the result says how many cycles ran).
+        chunk_cycles: cycles per kernel call (default: chosen from the event bound).
+
+    Returns:
+        :class:`pdvoid.simulation.results.Result`.
+    """
+    if not isinstance(scenario, Scenario):
+        raise InputError(f"scenario must be a pdvoid.Scenario; got {type(scenario).__name__}")
+    cycles = check_int("cycles", cycles, 1, MAX_CYCLES)
+    seed = check_seed(seed)
+    if not isinstance(histogram, bool):
+        raise InputError(f"histogram must be True or False; got {histogram!r}")
+    args = kernel_arguments(scenario)
+    bound = args.max_events_per_cycle(1.0)
+    if histogram:
+        phase_bins = check_int("phase_bins", phase_bins, 1, 3600)
+        edges = _default_charge_edges(args) if charge_edges is None else np.asarray(charge_edges, dtype=float)
+        if edges.ndim != 1 or edges.size < 2 or edges.size > 10_001 or not np.all(np.isfinite(edges)) or np.any(
+            np.diff(edges) <= 0
+        ):
+            raise InputError("charge_edges must be 2 to 10001 finite, strictly increasing values [C]")
+        counts = np.zeros((phase_bins, edges.size - 1), dtype=np.int64)
+    else:
+        edges = np.array([0.0, 1.0])
+        counts = np.zeros((0, 1), dtype=np.int64)
+    if chunk_cycles is None:
+        chunk_cycles = max(1, min(cycles, _BUFFER_EVENTS // max(bound, 1), 100_000))
+    chunk_cycles = check_int("chunk_cycles", chunk_cycles, 1, MAX_CYCLES)
+
+    runner = VoidRunner(scenario, seed, _args=args)
+    pieces: list[tuple[np.ndarray, ...]] = []
+    stored = 0
+    while runner.cycle < cycles:
+        stop = min(cycles, runner.cycle + chunk_cycles)
+        piece = runner.run(stop - runner.cycle, store=not histogram, counts=counts, charge_edges=edges)
+        if not histogram:
+            pieces.append(piece)
+            stored += piece[0].size
+            if stored > _MAX_STORED_EVENTS:
+                raise InputError(
+                    f"more than {_MAX_STORED_EVENTS} events would be stored; use simulate(..., histogram=True)"
+                )
+        if progress is not None:
+            progress(runner.cycle, cycles)
+        if should_stop is not None and should_stop():
+            break
+    done = runner.cycle
+    totals = runner.totals
+
+    if pieces:
+        t, q, xb, xa, v = (np.concatenate(p) for p in zip(*pieces, strict=True))
+    else:
+        t = q = xb = xa = v = np.empty(0)
+    f = args.frequency
+    frac = t * f - np.floor(t * f)
+    phase = np.minimum(frac * 360.0, np.nextafter(360.0, 0.0))
+    events = Events(
+        phase_deg=phase, charge=q, frequency=f, cycles=float(done), time=t, cycle=np.floor(t * f),
+        voltage=v, field_before=xb, field_after=xa, label="simulated",
+    )
+    hist = None
+    if histogram:
+        hist = Histogram(
+            counts=counts, phase_edges_deg=np.linspace(0.0, 360.0, phase_bins + 1), charge_edges=edges,
+            below=int(totals[K.T_LOW]), above=int(totals[K.T_HIGH]),
+        )
+    return Result(
+        events=events, scenario=scenario, seed=seed, cycles=done, requested_cycles=cycles, version=__version__,
+        references=args.references, histogram=hist, event_count=int(totals[K.T_COUNT]),
+        sum_abs_charge=float(totals[K.T_ABS]), sum_charge_squared=float(totals[K.T_SQ]),
+        sum_charge_voltage=float(totals[K.T_QU]),
+    )
