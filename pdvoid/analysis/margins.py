@@ -146,7 +146,8 @@ def largest_pd_free_void(scenario: Scenario, test_voltage: float) -> LargestVoid
     aspect = scenario.void.height / scenario.void.diameter
     # the closed forms need a void small compared with the insulation: search up to half its thickness
     d_max = min(0.5 * scenario.insulation.thickness / aspect, 1.0)
-    d_min = max(1e-6, 1e-7 / min(aspect, 1.0))
+    # the smallest void Void accepts (diameter and height >= 0.1 µm), with a margin against rounding in d·aspect
+    d_min = max(1e-6, 1e-7 / min(aspect, 1.0)) * (1.0 + 1e-9)
 
     def u_inc(d: float) -> float:
         return compute_coefficients(_changed(scenario, "void.size", d)).inception_voltage

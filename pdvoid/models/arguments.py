@@ -50,6 +50,10 @@ class KernelArguments:
         if np.isfinite(self.tau_q):
             pieces *= 3
             swing += pieces * 2.0 * (vmax + self.x_inc)
+            # the deposited part x_q decays at |dx_q/dt| = |x_q|/tau_q with |x_q| <= x_res + max|g V|, so over one
+            # period it moves x by at most (x_res + max|g V|)·T/tau_q: with tau_q much shorter than the period
+            # (slow supplies) the void recharges many times per cycle
+            swing += 2.0 * (vmax + self.x_inc) / (self.frequency * self.tau_q)
         step = self.x_inc - self.x_res
         return int(np.ceil((swing + pieces * 2.0 * (vmax + self.x_inc)) / step)) + 4 * pieces + 4
 
