@@ -1,0 +1,254 @@
+"""Files that are never seen half-written: atomic replacement, folder locks and run manifests.
+
+Every file pdvoid writes goes to a temporary name in the target folder and is renamed into place only when it
+is complete (:func:`atomic_write`); a folder that receives a run's outputs is locked while the run writes
+(:class:`FolderLock`); a run's folder ends with a manifest (:func:`write_manifest`) listing each file with its
+size and SHA-256, written last, so that a reader can refuse an incomplete or mixed folder
+(:func:`verify_manifest`).
+"""
+
+from __future__ import annotations
+
+import contextlib
+import hashlib
+import json
+import os
+import tempfile
+from collections.abc import Iterator, Mapping, Sequence
+from pathlib import Path
+from typing import IO, Any
+
+from pdvoid.core.errors import InputError
+
+__all__ = ["atomic_write", "FolderLock", "write_manifest", "verify_manifest", "sha256_file", "MANIFEST_NAME",
+           "LOCK_NAME"]
+
+MANIFEST_NAME = "manifest.json"
+LOCK_NAME = ".pdvoid.lock"
+MANIFEST_FORMAT = "pdvoid-run-manifest"
+MANIFEST_VERSION = 1
+
+
+@contextlib.contextmanager
+def atomic_write(path: str | os.PathLike[str], mode: str = "wb", *, encoding: str | None = None,
+                 newline: str | None = None) -> Iterator[IO[Any]]:
+    """Open a temporary file beside ``path`` for writing; on success it replaces ``path`` in one rename.
+
+    On an exception (including a full disk or an interrupt) the temporary file is removed and ``path`` keeps
+    whatever it held before.
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+        The file to write.
+    mode : str
+        ``"wb"`` or ``"w"``.
+    encoding, newline : str, optional
+        For text mode, as for :func:`open`.
+
+    Yields
+    ------
+    file object
+        The open temporary file.
+
+    Raises
+    ------
+    pdvoid.InputError
+        When the folder does not exist or is not writable (checked before anything is written).
+    """
+    if mode not in ("wb", "w"):
+        raise InputError(f"mode must be 'wb' or 'w'; got {mode!r}")
+    target = Path(path)
+    folder = target.parent if str(target.parent) else Path(".")
+    if not folder.is_dir():
+        raise InputError(f"{target}: the folder {folder} does not exist")
+    if target.is_dir():
+        raise InputError(f"{target}: is a folder, not a file")
+    try:
+        fd, tmp = tempfile.mkstemp(prefix=f".{target.name}.", suffix=".part", dir=folder)
+    except OSError as exc:
+        raise InputError(f"{target}: cannot write in {folder} ({exc.strerror})") from None
+    ok = False
+    try:
+        with os.fdopen(fd, mode, encoding=encoding if mode == "w" else None,
+                       newline=newline if mode == "w" else None) as fh:
+            yield fh
+            fh.flush()
+            os.fsync(fh.fileno())
+        os.replace(tmp, target)
+        ok = True
+    finally:
+        if not ok:
+            with contextlib.suppress(OSError):
+                os.unlink(tmp)
+
+
+def sha256_file(path: str | os.PathLike[str]) -> str:
+    """The SHA-256 of a file's bytes, as 64 hexadecimal digits.
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+        The file.
+
+    Returns
+    -------
+    str
+        The digest.
+    """
+    h = hashlib.sha256()
+    with open(path, "rb") as fh:
+        for block in iter(lambda: fh.read(1 << 20), b""):
+            h.update(block)
+    return h.hexdigest()
+
+
+class FolderLock:
+    """An exclusive lock on an output folder while a run writes into it (a context manager).
+
+    The lock is a file created with ``O_EXCL`` that holds the process id; a second run aimed at the same folder
+    is refused with an :class:`pdvoid.InputError`. A lock left behind by a process that no longer exists is
+    taken over (its process id is checked on this machine).
+
+    Parameters
+    ----------
+    folder : str or os.PathLike
+        The folder (created if missing).
+    """
+
+    def __init__(self, folder: str | os.PathLike[str]) -> None:
+        self.folder = Path(folder)
+        self.path = self.folder / LOCK_NAME
+        self._held = False
+
+    def __enter__(self) -> FolderLock:
+        try:
+            self.folder.mkdir(parents=True, exist_ok=True)
+        except OSError as exc:
+            raise InputError(f"{self.folder}: cannot create the output folder ({exc.strerror})") from None
+        for _attempt in range(2):
+            try:
+                fd = os.open(self.path, os.O_CREAT | os.O_EXCL | os.O_WRONLY, 0o644)
+            except FileExistsError:
+                if self._stale():
+                    with contextlib.suppress(OSError):
+                        os.unlink(self.path)
+                    continue
+                raise InputError(
+                    f"{self.folder}: another pdvoid run is writing into this folder (lock file {self.path}); "
+                    "wait for it or choose another folder"
+                ) from None
+            except OSError as exc:
+                raise InputError(f"{self.folder}: cannot lock the output folder ({exc.strerror})") from None
+            with os.fdopen(fd, "w", encoding="utf-8") as fh:
+                fh.write(str(os.getpid()))
+            self._held = True
+            return self
+        raise InputError(f"{self.folder}: cannot take over the stale lock file {self.path}")
+
+    def _stale(self) -> bool:
+        try:
+            pid = int(self.path.read_text(encoding="utf-8").strip() or "0")
+        except (OSError, ValueError):
+            return False  # being written right now, or unreadable: treat as held
+        if pid <= 0:
+            return False
+        try:
+            os.kill(pid, 0)
+        except ProcessLookupError:
+            return True
+        except PermissionError:
+            return False
+        return False
+
+    def __exit__(self, *exc: object) -> None:
+        if self._held:
+            with contextlib.suppress(OSError):
+                os.unlink(self.path)
+            self._held = False
+
+
+def write_manifest(folder: str | os.PathLike[str], files: Sequence[str], info: Mapping[str, Any]) -> Path:
+    """Write the manifest of a run's folder, last, listing each file with its size and SHA-256.
+
+    Parameters
+    ----------
+    folder : str or os.PathLike
+        The run's folder.
+    files : sequence of str
+        Names of the files in ``folder`` that belong to the run.
+    info : mapping
+        What the run was (pdvoid version, scenario hash, seed, cycles, frequency, ...): JSON-serialisable.
+
+    Returns
+    -------
+    pathlib.Path
+        The manifest file.
+    """
+    root = Path(folder)
+    entries = []
+    for name in files:
+        p = root / name
+        if Path(name).name != name:
+            raise InputError(f"manifest entries are plain file names; got {name!r}")
+        entries.append({"name": name, "bytes": p.stat().st_size, "sha256": sha256_file(p)})
+    doc = {"format": MANIFEST_FORMAT, "format_version": MANIFEST_VERSION, **dict(info), "files": entries}
+    out = root / MANIFEST_NAME
+    with atomic_write(out, "w", encoding="utf-8", newline="\n") as fh:
+        json.dump(doc, fh, indent=2, allow_nan=False)
+        fh.write("\n")
+    return out
+
+
+def verify_manifest(folder: str | os.PathLike[str], *, required: Sequence[str] = ()) -> dict[str, Any]:
+    """Check a run's folder against its manifest: every listed file present with its size and SHA-256.
+
+    Parameters
+    ----------
+    folder : str or os.PathLike
+        The run's folder.
+    required : sequence of str
+        File names that must be listed.
+
+    Returns
+    -------
+    dict
+        The manifest.
+
+    Raises
+    ------
+    pdvoid.InputError
+        "incomplete or mixed output" with the reason: no manifest, an unreadable one, a missing file, or a
+        file whose size or digest differs from the manifest.
+    """
+    root = Path(folder)
+    path = root / MANIFEST_NAME
+    head = f"{root}: incomplete or mixed output"
+    try:
+        if path.stat().st_size > 1_000_000:
+            raise InputError(f"{head}: the manifest is larger than 1 MB")
+        doc = json.loads(path.read_text(encoding="utf-8"))
+    except FileNotFoundError:
+        raise InputError(f"{head}: no {MANIFEST_NAME} (the run did not finish, or the folder was not written by "
+                         "pdvoid)") from None
+    except (OSError, UnicodeDecodeError, json.JSONDecodeError) as exc:
+        raise InputError(f"{head}: unreadable {MANIFEST_NAME} ({exc})") from None
+    if not isinstance(doc, dict) or doc.get("format") != MANIFEST_FORMAT or not isinstance(doc.get("files"), list):
+        raise InputError(f"{head}: {MANIFEST_NAME} is not a pdvoid run manifest")
+    listed = set()
+    for entry in doc["files"]:
+        if not isinstance(entry, dict) or not isinstance(entry.get("name"), str):
+            raise InputError(f"{head}: malformed entry in {MANIFEST_NAME}: {entry!r}")
+        name = entry["name"]
+        if Path(name).name != name:
+            raise InputError(f"{head}: manifest entry {name!r} is not a plain file name")
+        listed.add(name)
+        p = root / name
+        if not p.is_file():
+            raise InputError(f"{head}: {name} is listed in the manifest but missing")
+        if p.stat().st_size != entry.get("bytes") or sha256_file(p) != entry.get("sha256"):
+            raise InputError(f"{head}: {name} differs from the file the run wrote (size or SHA-256)")
+    missing = [n for n in required if n not in listed]
+    if missing:
+        raise InputError(f"{head}: the manifest does not list {', '.join(missing)}")
+    return doc
