@@ -1,8 +1,8 @@
 """Quantity strings at the edges come back in SI: checked through the public ``parse_quantity`` only.
 
 Expected values follow from the definitions of the SI prefixes (k = 1e3, M = 1e6, m = 1e-3, c = 1e-2,
-p = 1e-12; SI Brochure, 9th ed., table 7) and the exact definitions of the atmosphere (101325 Pa) and the
-torr (101325/760 Pa), worked by hand here.
+p = 1e-12; the SI Brochure, 9th ed., its table of SI prefixes) and the exact definitions of the atmosphere
+(101325 Pa), the torr (101325/760 Pa) and the degree Celsius (0 degC = 273.15 K), worked by hand here.
 """
 
 from __future__ import annotations
