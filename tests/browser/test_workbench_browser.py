@@ -3,7 +3,8 @@ Debian chromium (driven by Playwright) runs the workbench notebook, changes the 
 controls and checks that the pictures and the summary numbers change. Marker ``browser``; writes
 test-artifacts/workbench.png.
 
-Skipped only when chromium (/usr/bin/chromium) or the Python package playwright is missing. No browser is ever
+Run only when selected (``pytest -m browser``; the default run deselects the marker). Once selected it fails,
+never skips, when chromium (/usr/bin/chromium) or the Python package playwright is missing. No browser is ever
 downloaded: Playwright drives the system chromium.
 """
 
@@ -94,12 +95,16 @@ def _wait_for_status(base: str, proc: subprocess.Popen, timeout: float = 90.0) -
 
 @pytest.fixture
 def playwright_api():
+    # selected with -m browser, this test must run: a missing browser or driver is a failure, never a skip
     if not CHROMIUM.exists():
-        pytest.skip(f"chromium is not installed ({CHROMIUM} missing; apt-get install -y chromium)")
+        pytest.fail(f"chromium is not installed ({CHROMIUM} missing; apt-get install -y chromium)", pytrace=False)
     try:
         from playwright.sync_api import sync_playwright
     except ImportError:
-        pytest.skip("the Python package playwright is not installed (pip install playwright)")
+        pytest.fail(
+            "the Python package playwright is not installed (it is in the test extra: pip install '.[test]')",
+            pytrace=False,
+        )
     return sync_playwright
 
 

@@ -1,9 +1,10 @@
 """Weibull fits of discharge magnitudes against samples drawn from scipy.stats.weibull_min (fixed seeds).
 
 Outside sources: scipy.stats.weibull_min (the sampled population), scipy.differentiate.hessian (numerical
-check of the analytic Hessian), and the asymptotic variance of the shape estimate Var(ln beta_hat) = 6/(pi^2
-n) of the 2-parameter Weibull maximum-likelihood estimate (standard result, from memory; e.g. Cohen 1965,
-Technometrics 7).
+check of the analytic Hessian), the likelihood equations of the 2-parameter Weibull distribution (derived by
+hand, solved with scipy.optimize.brentq), and the asymptotic variance of the shape estimate
+Var(ln beta_hat) = 6/(pi^2 n) of the 2-parameter Weibull maximum-likelihood estimate (standard result, from
+memory; e.g. Cohen 1965, Technometrics 7).
 """
 
 from __future__ import annotations
@@ -14,6 +15,7 @@ import numpy as np
 import pytest
 from scipy import stats
 from scipy.differentiate import hessian
+from scipy.optimize import brentq
 
 from pdvoid.analysis.magnitudes import (
     weibull_fit,
@@ -41,13 +43,42 @@ def test_two_parameter_recovery_n5000(shape, scale):
     assert fit.scale_ci[0] < scale < fit.scale_ci[1]
 
 
-def test_fit_equals_scipy_mle():
-    # the estimate is scipy's maximum-likelihood fit with floc=0 (scaling the data does not change it)
+def _profile_mle(x):
+    """The 2-parameter Weibull maximum-likelihood estimate by a second method: setting the derivatives of
+    ln L = n ln b - n b ln a + (b - 1) sum ln x - sum (x/a)^b to zero gives (hand derivation)
+    a^b = mean(x^b) and g(b) = sum x^b ln x / sum x^b - 1/b - mean(ln x) = 0, a single equation in the shape b,
+    increasing in b, solved here by bracketing and bisection (scipy.optimize.brentq)."""
+    lx = np.log(x)
+
+    def g(b):
+        w = np.exp(b * (lx - lx.max()))  # x^b up to a common factor (no overflow)
+        return np.sum(w * lx) / np.sum(w) - 1.0 / b - lx.mean()
+
+    b = brentq(g, 0.05, 50.0, xtol=1e-14, rtol=1e-14)
+    a = math.exp(lx.max() + math.log(np.mean(np.exp(b * (lx - lx.max())))) / b)
+    return b, a
+
+
+def test_fit_is_the_maximum_likelihood_estimate():
+    # the fit solves the likelihood equations of the 2-parameter Weibull distribution (see _profile_mle)
     x = _sample(2.2, 3e-12, 800, seed=5)
-    c, _, s = stats.weibull_min.fit(x / 1e-12, floc=0.0)
+    b, a = _profile_mle(x)
     fit = weibull_fit(x)
-    assert fit.shape == pytest.approx(c, rel=1e-4)
-    assert fit.scale == pytest.approx(s * 1e-12, rel=1e-4)
+    assert fit.shape == pytest.approx(b, rel=1e-4)
+    assert fit.scale == pytest.approx(a, rel=1e-4)
+    # and a small hand-made sample: 1, 2, 3, 5 and 8 pC
+    small = np.array([1.0, 2.0, 3.0, 5.0, 8.0]) * 1e-12
+    b5, a5 = _profile_mle(small)
+    fit5 = weibull_fit(small)
+    assert fit5.shape == pytest.approx(b5, rel=1e-4) and fit5.scale == pytest.approx(a5, rel=1e-4)
+
+
+def test_fitted_cdf_is_the_weibull_formula():
+    # F(q) = 1 - exp(-(q/alpha)^beta) (physics brief §10); at q = alpha it is 1 - 1/e = 0.632 (the 63.2 % quantile)
+    fit = weibull_fit(_sample(1.7, 2e-12, 400, seed=6))
+    q = np.array([0.1e-12, 1e-12, fit.scale, 5e-12])
+    np.testing.assert_allclose(fit.cdf(q), 1.0 - np.exp(-((q / fit.scale) ** fit.shape)), rtol=1e-12)
+    assert float(fit.cdf(np.array([fit.scale]))[0]) == pytest.approx(1.0 - math.exp(-1.0), rel=1e-12)
 
 
 def test_fisher_standard_error_matches_asymptotic_value():

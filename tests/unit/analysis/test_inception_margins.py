@@ -11,7 +11,7 @@ from scipy import stats
 
 import pdvoid
 from pdvoid.analysis.inception import probability_of_missing, ramp_test, time_above_inception_fraction
-from pdvoid.analysis.margins import SQRT3, design_margin, largest_pd_free_void, margin_table
+from pdvoid.analysis.margins import design_margin, largest_pd_free_void, margin_table
 from pdvoid.faces.cli.command import main
 
 
@@ -104,9 +104,14 @@ def test_margin_tables_and_limits(demo):
         margin_table(demo, "void.colour", [1.0])
     with pytest.raises(pdvoid.InputError, match="test_voltage"):
         largest_pd_free_void(demo, -1.0)
+    # default test level √3·U0 (common practice in routine PD tests of extruded cables, physics brief §9:
+    # 1.73 U0, the phase-to-phase voltage); √3 = 1.7320508075688772 written out here, not taken from the module
+    sqrt3 = 1.7320508075688772
+    assert sqrt3 == math.sqrt(3.0)
     dm = design_margin(demo, 10e3)
-    assert dm.test_voltage == pytest.approx(10e3 * SQRT3)  # √3·U0 (common practice, extruded cables)
-    assert dm.margin == pytest.approx(pdvoid.inception(demo).inception_voltage / (10e3 * SQRT3))
+    assert dm.test_factor == pytest.approx(sqrt3, rel=1e-15)
+    assert dm.test_voltage == pytest.approx(10e3 * sqrt3, rel=1e-15)  # 17.320508 kV
+    assert dm.margin == pytest.approx(pdvoid.inception(demo).inception_voltage / (10e3 * sqrt3), rel=1e-12)
 
 
 def test_cli_margin_inception_pattern(tmp_path, capsys):

@@ -84,3 +84,25 @@ def test_pattern_bad_input(demo_result):
     ev = Events(phase_deg=[], charge=[], frequency=50.0, cycles=1.0)
     with pytest.raises(InputError, match="charge_range"):
         phase_pattern(ev)  # no events and no range: the charge axis is unknown
+
+
+def test_drawn_mesh_has_phase_on_x_and_charge_on_y(render):
+    # Hand-built events (invented): 20 of +5.5 pC at 91 deg and 10 of -3.5 pC at 271 deg over 10 cycles. With
+    # 36 phase bins (10 deg each) and 10 charge bins of 1 pC per polarity over 0-10 pC, hand counting gives
+    # exactly two lit cells: [90, 100] deg x [5, 6] pC at 20/10 = 2 per cycle and [270, 280] deg x [-4, -3] pC
+    # at 10/10 = 1 per cycle. The phase must be on the x axis (0-360 deg), the charge on the y axis.
+    ev = Events(
+        phase_deg=[91.0] * 20 + [271.0] * 10, charge=[5.5e-12] * 20 + [-3.5e-12] * 10, frequency=50.0, cycles=10.0
+    )
+    ax = phase_pattern(ev, phase_bins=36, charge_bins=20, charge_range=(0.0, 10e-12), voltage=False, colorbar=False)
+    render(ax)
+    corners = ax.pdvoid_mesh.get_coordinates()  # (rows + 1, columns + 1, 2): x, y of the cell corners
+    values = np.ma.filled(ax.pdvoid_mesh.get_array(), 0.0)
+    lit = {}
+    for j, i in zip(*np.nonzero(values), strict=True):
+        (x0, y0), (x1, y1) = corners[j, i], corners[j + 1, i + 1]
+        lit[(round(float(x0), 6), round(float(x1), 6), round(float(y0), 6), round(float(y1), 6))] = values[j, i]
+    assert lit == {(90.0, 100.0, 5.0, 6.0): pytest.approx(2.0), (270.0, 280.0, -4.0, -3.0): pytest.approx(1.0)}
+    assert ax.get_xlim() == (0.0, 360.0)
+    assert ax.get_ylim() == (-10.0, 10.0)  # symmetric about zero, in pC
+    assert ax.get_xlabel() == "phase [deg]" and ax.get_ylabel() == "apparent charge [pC]"
