@@ -52,12 +52,19 @@ class MarginTable:
     errors: tuple[str, ...]
 
     def as_rows(self) -> list[dict[str, float]]:
-        """Rows with units in the keys (for printing, JSON or a DataFrame)."""
+        """The table as rows with SI units in the keys (for printing, JSON or a DataFrame).
+
+        Returns
+        -------
+        list of dict of str to float
+            One row per value: ``{"<parameter> [<unit>]", "inception voltage [V rms]",
+            "extinction voltage [V rms]"}`` and, with a test level, ``"margin to test level [-]"``.
+        """
         rows = []
         for i, v in enumerate(self.values):
             row = {f"{self.parameter} [{self.unit}]": float(v),
-                   "inception voltage [kV rms]": float(self.inception_voltage[i]) / 1e3,
-                   "extinction voltage [kV rms]": float(self.extinction_voltage[i]) / 1e3}
+                   "inception voltage [V rms]": float(self.inception_voltage[i]),
+                   "extinction voltage [V rms]": float(self.extinction_voltage[i])}
             if self.margin is not None:
                 row["margin to test level [-]"] = float(self.margin[i])
             rows.append(row)
