@@ -55,13 +55,15 @@ from __future__ import annotations
 import math
 from collections.abc import Mapping
 from dataclasses import dataclass
+from typing import TypeAlias
 
 import numpy as np
 from scipy.spatial.distance import jensenshannon
 
 from pdvoid.analysis.descriptors import FINGERPRINT_NAMES, fingerprint
-from pdvoid.analysis.patterns import HALVES, _stored_events
+from pdvoid.analysis.patterns import HALVES, EventSource, _stored_events
 from pdvoid.core.errors import InputError, check_int, check_nonnegative
+from pdvoid.io.matrix import PatternMatrix
 from pdvoid.simulation.events import Events
 
 __all__ = [
@@ -72,6 +74,7 @@ __all__ = [
     "Comparison",
     "summarise",
     "compare",
+    "PatternSource",
     "cdf_distances",
 ]
 
@@ -137,13 +140,17 @@ class PatternSummary:
         return self.kept / self.cycles
 
 
+#: what :func:`compare` and :func:`summarise` accept: events, a Result, a count matrix or a ready summary
+PatternSource: TypeAlias = EventSource | PatternMatrix | PatternSummary
+
+
 def summarise(
-    events: object, threshold: float = 0.0, phase_bins: int = 18, phase_windows: int = 18
+    events: PatternSource, threshold: float = 0.0, phase_bins: int = 18, phase_windows: int = 18
 ) -> PatternSummary:
     """Apply the threshold and prepare the distributions :func:`compare` uses (see module docs).
 
     Parameters:
-        events: events, a Result, or anything with ``to_events()`` (a count matrix) [-]
+        events: events, a Result, a count matrix (:class:`pdvoid.io.matrix.PatternMatrix`) or a summary [-]
         threshold: detection threshold [C], >= 0; events with |q| < threshold are removed
         phase_bins: equal phase bins per half cycle for the Jensen-Shannon part, 1 ... 100000 [-]
         phase_windows: windows per half cycle of the fingerprint, 2 ... 100000 [-]
@@ -156,7 +163,7 @@ def summarise(
     thr = check_nonnegative("threshold", threshold, "C")
     nb = check_int("phase_bins", phase_bins, 1, 100_000)
     nw = check_int("phase_windows", phase_windows, 2, 100_000)
-    if not isinstance(events, Events) and hasattr(events, "to_events"):
+    if isinstance(events, PatternMatrix):
         events = events.to_events()
     ev = _stored_events(events)  # refuses histogram-only results (their events were not kept)
     mag = np.abs(ev.charge)
@@ -289,8 +296,8 @@ def _fingerprint_distance(x: np.ndarray, y: np.ndarray) -> float:
 
 
 def compare(
-    simulated: object,
-    measured: object,
+    simulated: PatternSource,
+    measured: PatternSource,
     threshold: float = 0.0,
     weights: Mapping[str, float] | None = None,
     *,
@@ -300,7 +307,7 @@ def compare(
     """Combined distance between two patterns (definition in :mod:`pdvoid.analysis.compare`).
 
     Parameters:
-        simulated: events, a Result, a count matrix (anything with ``to_events()``) or a summary from
+        simulated: events, a Result, a count matrix (:class:`pdvoid.io.matrix.PatternMatrix`) or a summary from
             :func:`summarise` [-]
         measured: the same kinds [-]
         threshold: detection threshold [C], >= 0: events with |q| < threshold are removed from both sides

@@ -11,9 +11,17 @@ from __future__ import annotations
 import math
 
 import numpy as np
+from numpy.typing import ArrayLike
 from scipy.signal import find_peaks
 
-from pdvoid.analysis.patterns import DISTRIBUTION_NAMES, HALVES, _half_split, _stored_events, half_cycle_distributions
+from pdvoid.analysis.patterns import (
+    DISTRIBUTION_NAMES,
+    HALVES,
+    EventSource,
+    _half_split,
+    _stored_events,
+    half_cycle_distributions,
+)
 from pdvoid.core.errors import InputError, check_array, check_int
 
 __all__ = [
@@ -28,7 +36,7 @@ __all__ = [
     "FINGERPRINT_NAMES",
 ]
 
-def _distribution(x: object, y: object) -> tuple[np.ndarray, np.ndarray]:
+def _distribution(x: ArrayLike, y: ArrayLike) -> tuple[np.ndarray, np.ndarray]:
     xa = check_array("x", x, min_size=1)
     ya = check_array("y", y, min_size=1)
     if xa.shape != ya.shape:
@@ -50,7 +58,7 @@ def _moments(x: np.ndarray, y: np.ndarray) -> tuple[float, float, np.ndarray, fl
     return w, math.sqrt(var), d, mu
 
 
-def skewness(x: object, y: object) -> float:
+def skewness(x: ArrayLike, y: ArrayLike) -> float:
     """Skewness Sk of a distribution y(x), the values y_i taken as weights of the points x_i.
 
     Definition: mu = sum x_i y_i / sum y_i ; sigma^2 = sum (x_i - mu)^2 y_i / sum y_i ;
@@ -78,7 +86,7 @@ def skewness(x: object, y: object) -> float:
     return float(np.sum(d**3 * ya) / (sigma**3 * w))
 
 
-def kurtosis(x: object, y: object) -> float:
+def kurtosis(x: ArrayLike, y: ArrayLike) -> float:
     """Excess kurtosis Ku of a distribution y(x), the values y_i taken as weights of the points x_i.
 
     Definition: Ku = sum (x_i - mu)^4 y_i / (sigma^4 sum y_i) - 3, with mu and sigma as in :func:`skewness`;
@@ -105,7 +113,7 @@ def kurtosis(x: object, y: object) -> float:
     return float(np.sum(d**4 * ya) / (sigma**4 * w) - 3.0)
 
 
-def number_of_peaks(y: object) -> int:
+def number_of_peaks(y: ArrayLike) -> int:
     """Number of peaks Pe: the number of local maxima over the windows, where dy/dx changes sign from + to -.
 
     A flat top (equal neighbouring values) counts once when y rises before it and falls after it; a maximum in
@@ -129,12 +137,12 @@ def number_of_peaks(y: object) -> int:
     return int(find_peaks(ya)[0].size)
 
 
-def _half_means(events: object) -> dict[str, tuple[int, float]]:
+def _half_means(events: EventSource) -> dict[str, tuple[int, float]]:
     split = _half_split(_stored_events(events))
     return {h: (int(m.size), float(m.sum())) for h, (_, m) in split.items()}
 
 
-def discharge_asymmetry(events: object) -> float:
+def discharge_asymmetry(events: EventSource) -> float:
     """Discharge asymmetry Q = (Q_s- / N-) / (Q_s+ / N+), the ratio of mean magnitudes in the two half cycles.
 
     Q_s is the sum of magnitudes |q| and N the pulse count in the "-" (180-360 deg) and "+" (0-180 deg)
@@ -160,7 +168,7 @@ def discharge_asymmetry(events: object) -> float:
     return (s_m / n_m) / (s_p / n_p)
 
 
-def phase_asymmetry(events: object) -> float:
+def phase_asymmetry(events: EventSource) -> float:
     """Phase asymmetry Phi = phi_in- / phi_in+, the ratio of the inception phases of the first PD per half.
 
     phi_in+ is the smallest phase of a pulse in the "+" half (0-180 deg); phi_in- the smallest phase of a
@@ -190,7 +198,7 @@ def phase_asymmetry(events: object) -> float:
     return float(p_minus.min()) / first_plus
 
 
-def cross_correlation(y_plus: object, y_minus: object) -> float:
+def cross_correlation(y_plus: ArrayLike, y_minus: ArrayLike) -> float:
     """Cross-correlation factor cc between two distributions over the same n windows (Pearson correlation).
 
     Definition: cc = [sum x y - sum x sum y / n] / sqrt([sum x^2 - (sum x)^2 / n] [sum y^2 - (sum y)^2 / n]),
@@ -224,7 +232,7 @@ def cross_correlation(y_plus: object, y_minus: object) -> float:
     return float(np.clip(sxy / math.sqrt(sxx * syy), -1.0, 1.0))
 
 
-def modified_cross_correlation(events: object, phase_windows: int = 18) -> float:
+def modified_cross_correlation(events: EventSource, phase_windows: int = 18) -> float:
     """Modified cross-correlation mcc = Q * Phi * cc.
 
     Q is :func:`discharge_asymmetry`, Phi :func:`phase_asymmetry` and cc :func:`cross_correlation` of H_qn+
@@ -264,7 +272,7 @@ def _names() -> tuple[str, ...]:
 FINGERPRINT_NAMES: tuple[str, ...] = _names()
 
 
-def fingerprint(events: object, phase_windows: int = 18) -> dict[str, float]:
+def fingerprint(events: EventSource, phase_windows: int = 18) -> dict[str, float]:
     """Descriptor vector of a pattern: {descriptor name: value} in the fixed order :data:`FINGERPRINT_NAMES`.
 
     Entries: "skewness H_n+", "skewness H_n-", "kurtosis H_n+", "kurtosis H_n-", "peaks H_n+", "peaks H_n-",

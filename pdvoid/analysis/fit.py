@@ -24,13 +24,15 @@ from __future__ import annotations
 
 import math
 import time
+from collections.abc import Callable, Iterable, Sequence
 from dataclasses import dataclass, fields
-from typing import Any
+from typing import Any, TypeVar
 
 import numpy as np
+from numpy.typing import ArrayLike
 from scipy.optimize import differential_evolution, minimize
 
-from pdvoid.analysis.compare import compare, summarise
+from pdvoid.analysis.compare import PatternSource, compare, summarise
 from pdvoid.analysis.synthetic import measurement_effects
 from pdvoid.core.errors import InputError, check_int, check_nonnegative, check_positive
 from pdvoid.inputs.scenario import Scenario
@@ -67,8 +69,8 @@ class FitObjective:
 
     Picklable, so it runs on worker processes or a Dask cluster."""
 
-    def __init__(self, measured, scenario: Scenario, specs: tuple[_Spec, ...], *, threshold: float, cycles: int,
-                 seed: int, detector: dict | None) -> None:
+    def __init__(self, measured: PatternSource, scenario: Scenario, specs: tuple[_Spec, ...], *,
+                 threshold: float, cycles: int, seed: int, detector: dict | None) -> None:
         self.scenario = scenario
         self.specs = specs
         self.threshold = threshold
@@ -77,10 +79,10 @@ class FitObjective:
         self.detector = detector
         self.measured = summarise(measured, threshold)
 
-    def scenario_at(self, u) -> Scenario:
+    def scenario_at(self, u: Sequence[float] | np.ndarray) -> Scenario:
         return self.scenario.replace(**{s.name: s.to_value(x) for s, x in zip(self.specs, u, strict=True)})
 
-    def score(self, u, seed: int | None = None) -> float:
+    def score(self, u: Sequence[float] | np.ndarray, seed: int | None = None) -> float:
         seed = self.seed if seed is None else seed
         try:
             sc = self.scenario_at(u)
@@ -92,8 +94,11 @@ class FitObjective:
             ev = measurement_effects(res, seed, threshold=self.threshold, **self.detector)
         return float(compare(ev, self.measured, self.threshold).score)
 
-    def __call__(self, u) -> float:
+    def __call__(self, u: Sequence[float] | np.ndarray) -> float:
         return self.score(u)
+
+
+_Item = TypeVar("_Item")
 
 
 class _RecordingMap:
@@ -105,7 +110,7 @@ class _RecordingMap:
         self.points: list[np.ndarray] = []
         self.scores: list[float] = []
 
-    def run(self, func, items: list) -> list:
+    def run(self, func: Callable[[_Item], float], items: list[_Item]) -> list[float]:
         """Evaluate without recording."""
         if (self.workers == 1 and self.client is None) or len(items) == 1:
             return [func(x) for x in items]
@@ -113,7 +118,7 @@ class _RecordingMap:
 
         return parallel_map(func, items, workers=self.workers, client=self.client)
 
-    def __call__(self, func, iterable):
+    def __call__(self, func: Callable[[np.ndarray], float], iterable: Iterable[ArrayLike]) -> list[float]:
         items = [np.array(x, dtype=float) for x in iterable]
         out = self.run(func, items)
         self.points.extend(items)
@@ -191,7 +196,7 @@ def _specs(scenario: Scenario, vary: dict) -> tuple[_Spec, ...]:
 
 
 def fit(
-    measured,
+    measured: PatternSource,
     scenario: Scenario,
     vary: dict,
     *,
@@ -289,7 +294,7 @@ class _SeededScore:
         self.objective = objective
         self.u = np.array(u)
 
-    def __call__(self, seed) -> float:
+    def __call__(self, seed: int | np.integer) -> float:
         return self.objective.score(self.u, seed=int(seed))
 
 

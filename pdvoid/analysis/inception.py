@@ -11,7 +11,9 @@ sets its own from the product standard).
 from __future__ import annotations
 
 import math
+from collections.abc import Iterable
 from dataclasses import dataclass
+from typing import Any, Literal, overload
 
 import numpy as np
 
@@ -75,7 +77,15 @@ class RampTest:
     counts: np.ndarray
 
 
-def inception(scenario: Scenario, ramp: bool = False, **ramp_options):
+@overload
+def inception(scenario: Scenario, ramp: Literal[False] = False) -> InceptionEstimate: ...
+
+
+@overload
+def inception(scenario: Scenario, ramp: Literal[True], **ramp_options: Any) -> RampTest: ...
+
+
+def inception(scenario: Scenario, ramp: bool = False, **ramp_options: Any) -> InceptionEstimate | RampTest:
     """Inception and extinction voltages of ``scenario``.
 
     ``ramp=False`` (default) gives the analytic :class:`InceptionEstimate`; ``ramp=True`` runs
@@ -133,7 +143,7 @@ def ramp_test(
     dwell: float = 1.0,
     threshold: float = 0.0,
     repeat_count: int = 10,
-    seeds=(0,),
+    seeds: Iterable[int] = (0,),
     max_voltage: float | None = None,
 ) -> RampTest:
     """Simulate a stepped-voltage test as a test lab runs it, with the void's memory carried between steps.
@@ -169,18 +179,15 @@ def ramp_test(
         raise InputError(f"dwell must be at most 1e7 cycles; got {dwell_cycles}")
     threshold = check_nonnegative("threshold", threshold, "C")
     repeat_count = check_int("repeat_count", repeat_count, 1, 10**9)
-    seeds = list(seeds)
-    if not 1 <= len(seeds) <= 1000:
-        raise InputError(f"seeds must hold 1 to 1000 seeds; got {len(seeds)}")
-    incs, exts = [], []
-    first = None
-    for s in seeds:
-        ui, ue, lv, ct = _one_ramp(scenario, s, start, step, dwell_cycles, threshold, repeat_count, max_voltage)
-        incs.append(ui)
-        exts.append(ue)
-        if first is None:
-            first = (lv, ct)
-    incs_a, exts_a = np.array(incs), np.array(exts)
+    seed_list = list(seeds)
+    if not 1 <= len(seed_list) <= 1000:
+        raise InputError(f"seeds must hold 1 to 1000 seeds; got {len(seed_list)}")
+    runs = [
+        _one_ramp(scenario, s, start, step, dwell_cycles, threshold, repeat_count, max_voltage) for s in seed_list
+    ]
+    incs_a = np.array([ui for ui, _, _, _ in runs])
+    exts_a = np.array([ue for _, ue, _, _ in runs])
+    first = (runs[0][2], runs[0][3])  # the levels and counts of the first seed
 
     def stats(x):
         good = x[np.isfinite(x)]

@@ -12,9 +12,10 @@ import warnings
 from dataclasses import dataclass
 
 import numpy as np
+from numpy.typing import ArrayLike
 from scipy import stats
 
-from pdvoid.analysis.patterns import _stored_events
+from pdvoid.analysis.patterns import EventSource, _stored_events
 from pdvoid.core.errors import (
     InputError,
     check_array,
@@ -25,6 +26,7 @@ from pdvoid.core.errors import (
     check_real,
 )
 from pdvoid.simulation.events import Events
+from pdvoid.simulation.results import Result
 
 __all__ = [
     "WeibullFit",
@@ -36,10 +38,10 @@ __all__ = [
 _MIN_SAMPLES = {2: 5, 3: 10}
 
 
-def _magnitudes(data: object, polarity: str, name: str = "magnitudes") -> np.ndarray:
+def _magnitudes(data: EventSource | ArrayLike, polarity: str, name: str = "magnitudes") -> np.ndarray:
     """Positive magnitudes [C] from events (selected by charge sign) or from an array of magnitudes."""
     pol = check_choice("polarity", polarity, ("+", "-", "both"))
-    if isinstance(data, Events) or isinstance(getattr(data, "events", None), Events):
+    if isinstance(data, (Events, Result)):
         q = _stored_events(data).charge
         if pol == "+":
             return q[q > 0.0]
@@ -135,7 +137,7 @@ class WeibullFit:
     interval: str
     note: str = ""
 
-    def cdf(self, charge: object) -> np.ndarray:
+    def cdf(self, charge: ArrayLike) -> np.ndarray:
         """Fitted cumulative probability at magnitudes ``charge`` [C] (0 below the location) [-]."""
         q = check_array("charge", charge, ndim=np.ndim(charge))
         return stats.weibull_min.cdf(q, self.shape, loc=self.location, scale=self.scale)
@@ -178,7 +180,7 @@ def _fisher_intervals(
 
 
 def weibull_fit(
-    data: object,
+    data: EventSource | ArrayLike,
     polarity: str = "both",
     parameters: int = 2,
     confidence: float = 0.95,
@@ -287,7 +289,7 @@ def weibull_fit(
 
 
 def weibull_probability_points(
-    data: object, polarity: str = "both", *, linearized: bool = False
+    data: EventSource | ArrayLike, polarity: str = "both", *, linearized: bool = False
 ) -> tuple[np.ndarray, np.ndarray]:
     """Points for a Weibull probability plot: sorted magnitudes and their median-rank probabilities.
 

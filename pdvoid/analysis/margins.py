@@ -10,6 +10,7 @@ import math
 from dataclasses import dataclass, fields
 
 import numpy as np
+from numpy.typing import ArrayLike
 from scipy.optimize import brentq
 
 from pdvoid.coefficients import compute_coefficients
@@ -87,7 +88,7 @@ def _changed(scenario: Scenario, parameter: str, value: float) -> Scenario:
     return scenario.replace(**{parameter: value})
 
 
-def margin_table(scenario: Scenario, parameter: str = "void.size", values=None,
+def margin_table(scenario: Scenario, parameter: str = "void.size", values: ArrayLike | None = None,
                  test_voltage: float | None = None) -> MarginTable:
     """Inception and extinction voltage of ``scenario`` as ``parameter`` takes ``values``.
 

@@ -13,12 +13,14 @@ Conventions used throughout :mod:`pdvoid.analysis`:
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import TypeAlias
 
 import numpy as np
 
 from pdvoid.core.arrays import frozen_array as _frozen
 from pdvoid.core.errors import InputError, check_bool, check_choice, check_int, check_real
 from pdvoid.simulation.events import Events, as_events
+from pdvoid.simulation.results import Result
 
 __all__ = [
     "PhasePattern",
@@ -29,7 +31,11 @@ __all__ = [
     "magnitude_distribution",
     "DISTRIBUTION_NAMES",
     "HALVES",
+    "EventSource",
 ]
+
+#: what the event-based analysis functions accept: the events themselves or a simulation Result that kept them
+EventSource: TypeAlias = Events | Result
 
 #: names of the phase-resolved distributions of :class:`HalfCycleDistributions`
 DISTRIBUTION_NAMES: tuple[str, ...] = ("H_n", "H_qn", "H_qmax")
@@ -41,7 +47,7 @@ _MAX_BINS = 100_000
 
 
 
-def _stored_events(obj: object) -> Events:
+def _stored_events(obj: EventSource) -> Events:
     """:func:`pdvoid.simulation.events.as_events`, refusing results that did not store their events (histogram runs)."""
     ev = as_events(obj)
     recorded = getattr(obj, "event_count", None)
@@ -51,6 +57,14 @@ def _stored_events(obj: object) -> Events:
             "run); event-based analysis needs a run that keeps every event (simulate(..., histogram=False))"
         )
     return ev
+
+
+def _filled(values: np.ndarray | None) -> np.ndarray:
+    """An optional event array (time, cycle, voltage, fields), which :class:`Events` always fills (NaN where
+    unknown)."""
+    if values is None:
+        raise InputError("these events lack an event array that Events always fills (time, cycle or voltage)")
+    return values
 
 
 def _half_split(ev: Events) -> dict[str, tuple[np.ndarray, np.ndarray]]:
@@ -63,7 +77,8 @@ def _half_split(ev: Events) -> dict[str, tuple[np.ndarray, np.ndarray]]:
 
 
 def _magnitude_edges(
-    mag: np.ndarray, nbins: int, scale: str, charge_range: object, *, name: str = "charge_range"
+    mag: np.ndarray, nbins: int, scale: str, charge_range: tuple[float, float] | None, *,
+    name: str = "charge_range"
 ) -> np.ndarray:
     """``nbins + 1`` increasing magnitude edges [C], linear or log, from the data or ``charge_range``."""
     if charge_range is None:
@@ -199,7 +214,7 @@ class PhasePattern:
 
 
 def pattern(
-    events: object,
+    events: EventSource,
     phase_bins: int = 72,
     charge_bins: int = 50,
     charge_scale: str = "log",
@@ -299,7 +314,7 @@ class HalfCycleDistributions:
         return getattr(self, f"{field}_{'plus' if half == '+' else 'minus'}")
 
 
-def half_cycle_distributions(events: object, phase_windows: int = 18) -> HalfCycleDistributions:
+def half_cycle_distributions(events: EventSource, phase_windows: int = 18) -> HalfCycleDistributions:
     """H_n, H_qn and H_qmax versus phase for the "+" (0-180 deg) and "-" (180-360 deg) voltage half cycles.
 
     Definitions (physics brief section 10, after Gulski & Kreuger; from memory): per phase window, H_n is the
@@ -368,7 +383,7 @@ class MagnitudeDistribution:
 
 
 def magnitude_distribution(
-    events: object,
+    events: EventSource,
     bins: int = 50,
     scale: str = "log",
     charge_range: tuple[float, float] | None = None,

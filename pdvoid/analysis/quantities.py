@@ -8,7 +8,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from pdvoid.analysis.patterns import _stored_events
+from pdvoid.analysis.patterns import EventSource, _filled, _stored_events
 from pdvoid.core.errors import InputError, check_nonnegative, check_positive, check_real
 from pdvoid.physics.iec60270 import average_discharge_current, discharge_power, quadratic_rate, repetition_rate
 from pdvoid.simulation.events import Events
@@ -45,7 +45,7 @@ class IECQuantities:
     threshold: float
 
 
-def _select(ev: Events, window: object) -> tuple[np.ndarray, tuple[float, float]]:
+def _select(ev: Events, window: tuple[float, float] | None) -> tuple[np.ndarray, tuple[float, float]]:
     """Boolean mask of the events in ``window`` and the checked (start, stop) [s]."""
     duration = ev.duration
     if window is None:
@@ -60,14 +60,15 @@ def _select(ev: Events, window: object) -> tuple[np.ndarray, tuple[float, float]
             f"window must satisfy 0 <= start < stop <= {duration!r} s (the observation); "
             f"got ({start!r}, {stop!r})"
         )
-    if ev.count and not np.all(np.isfinite(ev.time)):
-        bad = int(np.argmax(~np.isfinite(ev.time)))
-        raise InputError(f"a window needs the time of every event; event {bad} has time={ev.time[bad]!r}")
-    return (ev.time >= start) & (ev.time < stop), (start, min(stop, duration))
+    time = _filled(ev.time)
+    if ev.count and not np.all(np.isfinite(time)):
+        bad = int(np.argmax(~np.isfinite(time)))
+        raise InputError(f"a window needs the time of every event; event {bad} has time={time[bad]!r}")
+    return (time >= start) & (time < stop), (start, min(stop, duration))
 
 
 def iec60270(
-    events: object, window: tuple[float, float] | None = None, threshold: float = 0.0
+    events: EventSource, window: tuple[float, float] | None = None, threshold: float = 0.0
 ) -> IECQuantities:
     """Average discharge current, quadratic rate, discharge power and repetition rate over a reference window.
 
@@ -98,7 +99,7 @@ def iec60270(
     mask, (start, stop) = _select(ev, window)
     t_ref = stop - start
     q = ev.charge[mask]
-    u = ev.voltage[mask]
+    u = _filled(ev.voltage)[mask]
     power = discharge_power(q, u, t_ref) if np.all(np.isfinite(u)) else math.nan
     return IECQuantities(
         average_current=average_discharge_current(q, t_ref),
@@ -113,7 +114,7 @@ def iec60270(
 
 
 def largest_repeated_magnitude(
-    events: object,
+    events: EventSource,
     repetition_rate: float = DEFAULT_REPETITION_RATE,
     window: tuple[float, float] | None = None,
 ) -> float:

@@ -7,7 +7,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from pdvoid.analysis.patterns import _stored_events
+from pdvoid.analysis.patterns import EventSource, _filled, _stored_events
 from pdvoid.core.arrays import frozen_array as _frozen
 from pdvoid.core.errors import InputError
 
@@ -68,7 +68,7 @@ class PulseSequence:
         return s[1:] == s[:-1]
 
 
-def pulse_sequence(events: object) -> PulseSequence:
+def pulse_sequence(events: EventSource) -> PulseSequence:
     """Pulse-sequence analysis: Delta u, Delta t and Delta phi between consecutive discharges.
 
     For consecutive pulses n-1 and n (events sorted by time, stable for equal times):
@@ -105,12 +105,13 @@ def pulse_sequence(events: object) -> PulseSequence:
                 f"pulse-sequence analysis needs the {name} of every event; "
                 f"event {bad} has {name}={arr[bad]!r}"
             )
-    order = np.argsort(ev.time, kind="stable")
-    t = ev.time[order]
-    u = ev.voltage[order]
+    time, voltage, cycle = _filled(ev.time), _filled(ev.voltage), _filled(ev.cycle)
+    order = np.argsort(time, kind="stable")
+    t = time[order]
+    u = voltage[order]
     q = ev.charge[order]
     phase = ev.phase_deg[order]
-    cyc = ev.cycle[order]
+    cyc = cycle[order]
     return PulseSequence(
         time=_frozen(t),
         charge=_frozen(q),

@@ -25,10 +25,12 @@ with::
 from __future__ import annotations
 
 import math
+from collections.abc import Mapping
 from pathlib import Path
 
 import numpy as np
 
+from pdvoid.analysis.patterns import EventSource, _filled
 from pdvoid.core.errors import InputError, check_int, check_nonnegative, check_range
 from pdvoid.inputs.demo import demo_measured_path, demo_scenario_path
 from pdvoid.inputs.parameters import check_seed
@@ -73,7 +75,7 @@ def synthetic_measurement(
     cycles: int = 1000,
     seed: int = 0,
     *,
-    hidden: dict[str, object] | None = None,
+    hidden: Mapping[str, float | str | bool] | None = None,
     threshold: float = 10e-12,
     noise: float = 2e-12,
     relative_noise: float = 0.0,
@@ -106,7 +108,7 @@ def synthetic_measurement(
         "phase_resolution_deg": phase_resolution_deg,
     }
     measurement_effects(
-        Events(phase_deg=[], charge=[], frequency=50.0, cycles=1.0), seed, **effects
+        Events(phase_deg=np.empty(0), charge=np.empty(0), frequency=50.0, cycles=1.0), seed, **effects
     )  # checks
     hidden = dict(hidden or {})
     sc = scenario.replace(**hidden) if hidden else scenario
@@ -133,7 +135,7 @@ def synthetic_measurement(
 
 
 def measurement_effects(
-    events: object,
+    events: EventSource,
     seed: int = 0,
     *,
     threshold: float = 10e-12,
@@ -174,7 +176,7 @@ def measurement_effects(
     sigma = np.sqrt(sigma0**2 + (rel * np.abs(q)) ** 2)
     q_meas = q + sigma * rng.standard_normal(q.size)
     keep = np.abs(q_meas) >= thr
-    cycle = ev.cycle[keep]
+    cycle = _filled(ev.cycle)[keep]
     phase = ev.phase_deg[keep]
     if nbins:
         phase = np.minimum((np.floor(phase / res) + 0.5) * res, np.nextafter(360.0, 0.0))
@@ -199,7 +201,7 @@ def measurement_effects(
     )
 
 
-def hidden_parameters(data: object) -> dict[str, float]:
+def hidden_parameters(data: Events) -> dict[str, float]:
     """The hidden parameters of synthetic events, or of a synthetic file read with ``read_events``.
 
     Parameters:

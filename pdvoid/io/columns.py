@@ -122,7 +122,7 @@ def checked_column(name: str, unit: str, where: str) -> Column:
     return Column(name, u)
 
 
-def parse_column(text: object, where: str) -> Column:
+def parse_column(text: str, where: str) -> Column:
     """Parse ``"charge [pC]"``, ``"charge (pC)"`` or ``"charge"`` into a :class:`Column`."""
     if not isinstance(text, str):
         raise InputError(f"{where}: a column must be text like 'charge [pC]'; got {text!r}")
@@ -140,7 +140,7 @@ def parse_column(text: object, where: str) -> Column:
     return Column(name, _unit(name, unit, where))
 
 
-def _as_list(columns: object, where: str) -> list[str]:
+def _as_list(columns: str | Sequence[str], where: str) -> list[str]:
     if isinstance(columns, str):
         parts = [c for c in re.split(r"[,;\t]", columns)]
     elif isinstance(columns, Sequence) and not isinstance(columns, (bytes, bytearray)):
@@ -158,8 +158,8 @@ def _as_list(columns: object, where: str) -> list[str]:
 def resolve_columns(
     header: list[str] | None,
     header_where: str,
-    columns: object,
-    units: object,
+    columns: str | Sequence[str] | None,
+    units: Mapping[str, str] | None,
 ) -> list[Column]:
     """The columns of an event file from its header line and/or the ``columns`` and ``units`` options.
 

@@ -48,7 +48,7 @@ def line_error(path: Path | str, lineno: int | None, reason: str) -> InputError:
     return InputError(f"{where}: {reason}")
 
 
-def checked_path(path: object) -> Path:
+def checked_path(path: str | os.PathLike[str]) -> Path:
     """``path`` as a :class:`Path` to a readable regular file of at most :data:`MAX_FILE_BYTES` bytes."""
     if isinstance(path, bool) or not isinstance(path, (str, os.PathLike)):
         raise InputError(f"path must be a file name (str or path-like); got {type(path).__name__}")

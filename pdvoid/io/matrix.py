@@ -192,7 +192,7 @@ def read_pattern_matrix(
     opt_cycles = quantity_option("cycles", cycles, "dimensionless")
     opt_frequency = quantity_option("frequency", frequency, "frequency")
     keys = CommentKeys(p)
-    edges: dict[str, tuple[np.ndarray, str, int]] = {}
+    edges: dict[str, tuple[np.ndarray, str | None, int]] = {}
     parser: L.RowParser | None = None
     counts_line = None
     nlines = comments = 0
@@ -261,13 +261,14 @@ def read_pattern_matrix(
         raise L.line_error(p, where, f"{counts.shape[0]} count rows for {n_phase} phase bins")
     bad = (counts < 0) | (counts != np.floor(counts))
     if bad.any():
-        row = int(np.argwhere(bad)[0][0])
-        raise L.line_error(p, int(linenos[row]), "counts must be whole numbers >= 0")
+        bad_row = int(np.argwhere(bad)[0][0])
+        raise L.line_error(p, int(linenos[bad_row]), "counts must be whole numbers >= 0")
     f, f_src = keys.quantity("frequency", opt_frequency)
     c, c_src = keys.quantity("cycles", opt_cycles)
-    for name, value in (("frequency", f), ("cycles", c)):
-        if value is None:
-            raise L.line_error(p, None, f"{name} unknown: give {name}= or a comment line '# {name} = ...'")
+    if f is None:
+        raise L.line_error(p, None, "frequency unknown: give frequency= or a comment line '# frequency = ...'")
+    if c is None:
+        raise L.line_error(p, None, "cycles unknown: give cycles= or a comment line '# cycles = ...'")
     summary = {
         "file": str(p),
         "lines": nlines,

@@ -35,7 +35,9 @@ RECOGNISED_KEYS: dict[str, str] = {
 _UNITS = {"frequency": "Hz", "cycles": "", "duration": "s", "threshold": "C"}
 
 
-def quantity_option(name: str, value: object, dimension: str, *, allow_zero: bool = False) -> float | None:
+def quantity_option(
+    name: str, value: float | str | None, dimension: str, *, allow_zero: bool = False
+) -> float | None:
     """An option given as a number (SI) or a quantity text like ``"50 Hz"``; None stays None."""
     if value is None:
         return None
@@ -98,7 +100,7 @@ class CommentKeys:
         return None, None
 
 
-def check_layout_options(delimiter: object, decimal: object) -> None:
+def check_layout_options(delimiter: str | None, decimal: str | None) -> None:
     """Validate the ``delimiter`` and ``decimal`` options of the text readers (None = detect)."""
     if delimiter is not None:
         check_choice("delimiter", delimiter, (",", ";", "\t"))

@@ -21,6 +21,7 @@ import os
 import tomllib
 from collections.abc import Callable, Sequence
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 import numpy as np
 
@@ -32,6 +33,9 @@ from pdvoid.inputs.scenario_files import scenario_to_dict
 from pdvoid.sweeps.metrics import DESCRIPTIONS, RESERVED, split_key
 from pdvoid.sweeps.names import parameter_unit
 from pdvoid.sweeps.plan import Plan
+
+if TYPE_CHECKING:
+    import xarray
 
 __all__ = ["assemble", "write_netcdf", "read_netcdf", "base_scenario"]
 
@@ -70,7 +74,7 @@ def assemble(
     scenario: Scenario,
     cycles: int,
     metrics: Callable | None = None,
-):
+) -> xarray.Dataset:
     """Build the sweep Dataset from the plan and one (metrics, error) outcome per point (flat, plan order)."""
     xr = require("xarray")
     n = plan.n_points
@@ -103,7 +107,7 @@ def assemble(
         np.array(errors, dtype=str).reshape(plan.shape),
         {"long_name": DESCRIPTIONS["error"]},
     )
-    attrs = {
+    ds_attrs: dict[str, str | int] = {
         "title": "pdvoid parameter sweep",
         "design": plan.design,
         "seed": int(plan.seed),
@@ -118,8 +122,8 @@ def assemble(
         "comment": COMMENT,
     }
     if plan.design != "grid":
-        attrs["samples"] = int(n)
-    return xr.Dataset(data, coords=coords, attrs=attrs)
+        ds_attrs["samples"] = int(n)
+    return xr.Dataset(data, coords=coords, attrs=ds_attrs)
 
 
 def _param_attrs(name: str, scenario: Scenario, plan: Plan) -> dict:
@@ -143,7 +147,7 @@ def _scenario_text(scenario: Scenario) -> str:
     return tomli_w.dumps(scenario_to_dict(scenario))
 
 
-def base_scenario(ds) -> Scenario:
+def base_scenario(ds: xarray.Dataset) -> Scenario:
     """The scenario a sweep Dataset started from (its points are ``base_scenario(ds).replace(...)``)."""
     text = getattr(ds, "attrs", {}).get("scenario_toml")
     if not isinstance(text, str):
@@ -151,7 +155,7 @@ def base_scenario(ds) -> Scenario:
     return scenario_from_dict(tomllib.loads(text), source="sweep dataset attribute scenario_toml")
 
 
-def write_netcdf(ds, path: str | os.PathLike, *, engine: str = "scipy") -> Path:
+def write_netcdf(ds: xarray.Dataset, path: str | os.PathLike, *, engine: str = "scipy") -> Path:
     """Write the sweep Dataset to a NetCDF file.
 
     Args:
@@ -171,7 +175,7 @@ def write_netcdf(ds, path: str | os.PathLike, *, engine: str = "scipy") -> Path:
     return p
 
 
-def read_netcdf(path: str | os.PathLike, *, engine: str | None = None):
+def read_netcdf(path: str | os.PathLike, *, engine: str | None = None) -> xarray.Dataset:
     """Read a sweep NetCDF file fully into memory (the file is closed on return)."""
     xr = require("xarray")
     p = Path(path)

@@ -131,9 +131,10 @@ def _bounds(name: str, spec: Any, scenario: Scenario, p: Path) -> tuple:
         )
     low = parse_parameter_value(name, spec["low"], scenario, f"{where}.low")
     high = parse_parameter_value(name, spec["high"], scenario, f"{where}.high")
-    for label, v in (("low", low), ("high", high)):
-        if isinstance(v, (str, bool)):
-            raise InputError(f"{where}.{label}: only numeric parameters can be sampled; got {v!r}")
+    if isinstance(low, (str, bool)):
+        raise InputError(f"{where}.low: only numeric parameters can be sampled; got {low!r}")
+    if isinstance(high, (str, bool)):
+        raise InputError(f"{where}.high: only numeric parameters can be sampled; got {high!r}")
     scale = spec.get("scale", "linear")
     if scale not in ("linear", "log"):
         raise InputError(f'{where}.scale must be "linear" or "log"; got {scale!r}')
@@ -180,7 +181,7 @@ def read_sweep_file(path: str | os.PathLike) -> SweepSpec:
     except InputError as exc:
         raise InputError(f"{p}: parameters: {exc}") from None
     if design == "grid":
-        parsed = {name: _grid_values(name, spec, scenario, p) for name, spec in flat.items()}
+        parsed: dict[str, list | tuple] = {name: _grid_values(name, spec, scenario, p) for name, spec in flat.items()}
     else:
         parsed = {name: _bounds(name, spec, scenario, p) for name, spec in flat.items()}
     return SweepSpec(

@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from collections.abc import Iterable
 from dataclasses import fields
 
 from pdvoid.core.errors import InputError
@@ -16,7 +17,7 @@ def _schema_entry(name: str, scenario: Scenario) -> tuple[str | None, str] | Non
     return field_schema(part, getattr(scenario, part)).get(field)
 
 
-def check_parameter_names(scenario: Scenario, names) -> None:
+def check_parameter_names(scenario: Scenario, names: Iterable[str]) -> None:
     """Raise InputError unless every dotted name is a field of ``scenario`` (checked before any run)."""
     for name in names:
         if not isinstance(name, str) or name.count(".") != 1:
@@ -46,7 +47,9 @@ def parameter_unit(name: str, scenario: Scenario) -> str | None:
     return entry[1] or "1"
 
 
-def parse_parameter_value(name: str, value: object, scenario: Scenario, where: str) -> object:
+def parse_parameter_value(
+    name: str, value: float | str | bool, scenario: Scenario, where: str
+) -> float | str | bool:
     """A parameter value from a sweep file: a quantity ("1.5 mm", "1 atm", bare numbers are SI) → SI float;
     text or True/False for the parameters that are not quantities. ``where`` prefixes error messages."""
     dim = parameter_dimension(name, scenario)

@@ -164,10 +164,11 @@ def grid_plan(parameters: Mapping[str, Sequence], seed: int = 0) -> Plan:
 
 
 def _bounds(name: str, spec: object) -> tuple[float, float, bool]:
-    ok = isinstance(spec, (tuple, list)) and len(spec) in (2, 3)
-    if ok and len(spec) == 3 and spec[2] not in ("log", "linear"):
-        ok = False
-    if not ok:
+    if (
+        not isinstance(spec, (tuple, list))
+        or len(spec) not in (2, 3)
+        or (len(spec) == 3 and spec[2] not in ("log", "linear"))
+    ):
         raise InputError(f"{name}: bounds must be (low, high) or (low, high, 'log'); got {spec!r}")
     low = check_real(f"{name} low bound", spec[0])
     high = check_real(f"{name} high bound", spec[1])

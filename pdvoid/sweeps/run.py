@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from collections.abc import Callable, Mapping
 from functools import partial
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from pdvoid.core.errors import InputError, check_int
 from pdvoid.core.optional import require
@@ -15,6 +15,9 @@ from pdvoid.sweeps.dataset import assemble
 from pdvoid.sweeps.metrics import run_point
 from pdvoid.sweeps.names import check_parameter_names
 from pdvoid.sweeps.plan import make_plan
+
+if TYPE_CHECKING:
+    import xarray
 
 __all__ = ["sweep"]
 
@@ -31,7 +34,7 @@ def sweep(
     workers: int | None = None,
     metrics: Callable | None = None,
     progress: bool = True,
-):
+) -> xarray.Dataset:
     """Simulate ``scenario`` at every point of a parameter design and collect the metrics in a Dataset.
 
     Args:
