@@ -110,17 +110,28 @@ EMPTY_DISTANCE: dict[str, float] = {
 class PatternSummary:
     """What :func:`compare` needs of one pattern, computed once by :func:`summarise`.
 
-    Attributes:
-        threshold: detection threshold applied [C].
-        phase_bins: phase bins per half cycle [-].
-        phase_windows: windows per half cycle of the fingerprint [-].
-        cycles: AC cycles observed [-].
-        kept: events kept (|q| >= threshold and q != 0) [-].
-        removed: events removed by the threshold or for zero charge [-].
-        phases: per half ("+", "-"): phases of the kept events, 0-180 deg [deg].
-        log_magnitudes: per half: log10 of |q| / (1 C) [-].
-        histograms: per half: counts per phase bin [-].
-        descriptors: the fingerprint, in the order of FINGERPRINT_NAMES [-].
+    Attributes
+    ----------
+    threshold : float
+        detection threshold applied [C].
+    phase_bins : int
+        phase bins per half cycle [-].
+    phase_windows : int
+        windows per half cycle of the fingerprint [-].
+    cycles : float
+        AC cycles observed [-].
+    kept : int
+        events kept (|q| >= threshold and q != 0) [-].
+    removed : int
+        events removed by the threshold or for zero charge [-].
+    phases : dict
+        per half ("+", "-"): phases of the kept events, 0-180 deg [deg].
+    log_magnitudes : dict
+        per half: log10 of |q| / (1 C) [-].
+    histograms : dict
+        per half: counts per phase bin [-].
+    descriptors : numpy.ndarray
+        the fingerprint, in the order of FINGERPRINT_NAMES [-].
     """
 
     threshold: float
@@ -149,13 +160,20 @@ def summarise(
 ) -> PatternSummary:
     """Apply the threshold and prepare the distributions :func:`compare` uses (see module docs).
 
-    Parameters:
-        events: events, a Result, a count matrix (:class:`pdvoid.io.matrix.PatternMatrix`) or a summary [-]
-        threshold: detection threshold [C], >= 0; events with |q| < threshold are removed
-        phase_bins: equal phase bins per half cycle for the Jensen-Shannon part, 1 ... 100000 [-]
-        phase_windows: windows per half cycle of the fingerprint, 2 ... 100000 [-]
+    Parameters
+    ----------
+    events : PatternSource
+        events, a Result, a count matrix (:class:`pdvoid.io.matrix.PatternMatrix`) or a summary [-]
+    threshold : float
+        detection threshold [C], >= 0; events with |q| < threshold are removed
+    phase_bins : int
+        equal phase bins per half cycle for the Jensen-Shannon part, 1 ... 100000 [-]
+    phase_windows : int
+        windows per half cycle of the fingerprint, 2 ... 100000 [-]
 
-    Returns:
+    Returns
+    -------
+    PatternSummary
         :class:`PatternSummary`.
     """
     if isinstance(events, PatternSummary):
@@ -195,14 +213,22 @@ def summarise(
 class Comparison:
     """The outcome of :func:`compare`.
 
-    Attributes:
-        score: the combined score (0 for identical patterns) [-].
-        parts: {part name: value} for every part in PART_NAMES (NaN where undefined) [-].
-        weights: the weights used [-].
-        threshold: detection threshold applied to both sides [C].
-        kept: events kept per side, {"simulated": n, "measured": n} [-].
-        removed: events removed per side by the threshold (or for zero charge) [-].
-        rates: kept discharges per cycle per side [-].
+    Attributes
+    ----------
+    score : float
+        the combined score (0 for identical patterns) [-].
+    parts : dict
+        {part name: value} for every part in PART_NAMES (NaN where undefined) [-].
+    weights : dict
+        the weights used [-].
+    threshold : float
+        detection threshold applied to both sides [C].
+    kept : dict
+        events kept per side, {"simulated": n, "measured": n} [-].
+    removed : dict
+        events removed per side by the threshold (or for zero charge) [-].
+    rates : dict
+        kept discharges per cycle per side [-].
     """
 
     score: float
@@ -247,11 +273,16 @@ def cdf_distances(a: np.ndarray, b: np.ndarray) -> tuple[float, float]:
     ``scipy.stats.ks_2samp(a, b).statistic`` (checked in the tests), computed in one pass from samples
     sorted once in :func:`summarise`.
 
-    Parameters:
-        a: sorted sample (same unit as b) [-]
-        b: sorted sample [-]
+    Parameters
+    ----------
+    a : numpy.ndarray
+        sorted sample (same unit as b) [-]
+    b : numpy.ndarray
+        sorted sample [-]
 
-    Returns:
+    Returns
+    -------
+    tuple[float, float]
         (W1 in the unit of the samples, D in [0, 1]).
     """
     merged = np.concatenate([a, b])
@@ -306,20 +337,31 @@ def compare(
 ) -> Comparison:
     """Combined distance between two patterns (definition in :mod:`pdvoid.analysis.compare`).
 
-    Parameters:
-        simulated: events, a Result, a count matrix (:class:`pdvoid.io.matrix.PatternMatrix`) or a summary from
-            :func:`summarise` [-]
-        measured: the same kinds [-]
-        threshold: detection threshold [C], >= 0: events with |q| < threshold are removed from both sides
-        weights: {part name: weight >= 0} replacing entries of DEFAULT_WEIGHTS [-]
-        phase_bins: equal phase bins per half cycle for the Jensen-Shannon part [-]
-        phase_windows: windows per half cycle of the fingerprint [-]
+    Parameters
+    ----------
+    simulated : PatternSource
+        events, a Result, a count matrix (:class:`pdvoid.io.matrix.PatternMatrix`) or a summary from
+        :func:`summarise` [-]
+    measured : PatternSource
+        the same kinds [-]
+    threshold : float
+        detection threshold [C], >= 0: events with |q| < threshold are removed from both sides
+    weights : Mapping[str, float] or None
+        {part name: weight >= 0} replacing entries of DEFAULT_WEIGHTS [-]
+    phase_bins : int
+        equal phase bins per half cycle for the Jensen-Shannon part [-]
+    phase_windows : int
+        windows per half cycle of the fingerprint [-]
 
-    Returns:
+    Returns
+    -------
+    Comparison
         :class:`Comparison` (score 0 for identical inputs; symmetric in its two inputs).
 
-    Raises:
-        InputError: for bad arguments, or a PatternSummary made with another threshold or binning.
+    Raises
+    ------
+    InputError
+        for bad arguments, or a PatternSummary made with another threshold or binning.
     """
     thr = check_nonnegative("threshold", threshold, "C")
     w = _weights(weights)

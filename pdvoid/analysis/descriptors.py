@@ -65,19 +65,25 @@ def skewness(x: ArrayLike, y: ArrayLike) -> float:
     Sk = sum (x_i - mu)^3 y_i / (sigma^3 sum y_i). Sk = 0 for a symmetric shape, > 0 for a tail to larger x.
     NaN if sum y_i = 0 or sigma = 0.
 
-    Parameters:
-        x: window centres x_i (phase [deg], or any abscissa) [deg]
-        y: distribution values y_i >= 0 (counts or magnitudes) [-]
+    Parameters
+    ----------
+    x : array_like
+        window centres x_i (phase [deg], or any abscissa) [deg]
+    y : array_like
+        distribution values y_i >= 0 (counts or magnitudes) [-]
 
-    Returns:
+    Returns
+    -------
+    float
         Sk [-].
 
-    References:
-        gulski1992: E. Gulski, F. H. Kreuger, 'Computer-aided recognition of discharge sources', IEEE Trans.
-        Electr. Insul. 27(1) (1992) 82-92; gulski1993: E. Gulski, 'Computer-aided measurement of partial
-        discharges in HV equipment', IEEE Trans. Electr. Insul. 28(6) (1993) 969-983.
-        Definition as quoted in the physics brief section 10 (from memory).
-        Valid for any distribution with sum y_i > 0; no physical assumption.
+    References
+    ----------
+    gulski1992: E. Gulski, F. H. Kreuger, 'Computer-aided recognition of discharge sources', IEEE Trans.
+    Electr. Insul. 27(1) (1992) 82-92; gulski1993: E. Gulski, 'Computer-aided measurement of partial
+    discharges in HV equipment', IEEE Trans. Electr. Insul. 28(6) (1993) 969-983.
+    Definition as quoted in the physics brief section 10 (from memory).
+    Valid for any distribution with sum y_i > 0; no physical assumption.
     """
     xa, ya = _distribution(x, y)
     w, sigma, d, _ = _moments(xa, ya)
@@ -92,19 +98,25 @@ def kurtosis(x: ArrayLike, y: ArrayLike) -> float:
     Definition: Ku = sum (x_i - mu)^4 y_i / (sigma^4 sum y_i) - 3, with mu and sigma as in :func:`skewness`;
     Ku = 0 for a normal shape, > 0 for a sharper one. NaN if sum y_i = 0 or sigma = 0.
 
-    Parameters:
-        x: window centres x_i [deg]
-        y: distribution values y_i >= 0 [-]
+    Parameters
+    ----------
+    x : array_like
+        window centres x_i [deg]
+    y : array_like
+        distribution values y_i >= 0 [-]
 
-    Returns:
+    Returns
+    -------
+    float
         Ku [-].
 
-    References:
-        gulski1992: E. Gulski, F. H. Kreuger, 'Computer-aided recognition of discharge sources', IEEE Trans.
-        Electr. Insul. 27(1) (1992) 82-92; gulski1993: E. Gulski, 'Computer-aided measurement of partial
-        discharges in HV equipment', IEEE Trans. Electr. Insul. 28(6) (1993) 969-983.
-        Definition as quoted in the physics brief section 10 (from memory).
-        Valid for any distribution with sum y_i > 0; no physical assumption.
+    References
+    ----------
+    gulski1992: E. Gulski, F. H. Kreuger, 'Computer-aided recognition of discharge sources', IEEE Trans.
+    Electr. Insul. 27(1) (1992) 82-92; gulski1993: E. Gulski, 'Computer-aided measurement of partial
+    discharges in HV equipment', IEEE Trans. Electr. Insul. 28(6) (1993) 969-983.
+    Definition as quoted in the physics brief section 10 (from memory).
+    Valid for any distribution with sum y_i > 0; no physical assumption.
     """
     xa, ya = _distribution(x, y)
     w, sigma, d, _ = _moments(xa, ya)
@@ -120,18 +132,23 @@ def number_of_peaks(y: ArrayLike) -> int:
     the first or last window does not count (dy/dx does not change sign there). Computed with
     ``scipy.signal.find_peaks``.
 
-    Parameters:
-        y: distribution values over consecutive windows [-]
+    Parameters
+    ----------
+    y : array_like
+        distribution values over consecutive windows [-]
 
-    Returns:
+    Returns
+    -------
+    int
         Pe [-].
 
-    References:
-        gulski1992: E. Gulski, F. H. Kreuger, 'Computer-aided recognition of discharge sources', IEEE Trans.
-        Electr. Insul. 27(1) (1992) 82-92; gulski1993: E. Gulski, 'Computer-aided measurement of partial
-        discharges in HV equipment', IEEE Trans. Electr. Insul. 28(6) (1993) 969-983.
-        Definition as quoted in the physics brief section 10 (from memory).
-        Valid for any sequence; no physical assumption.
+    References
+    ----------
+    gulski1992: E. Gulski, F. H. Kreuger, 'Computer-aided recognition of discharge sources', IEEE Trans.
+    Electr. Insul. 27(1) (1992) 82-92; gulski1993: E. Gulski, 'Computer-aided measurement of partial
+    discharges in HV equipment', IEEE Trans. Electr. Insul. 28(6) (1993) 969-983.
+    Definition as quoted in the physics brief section 10 (from memory).
+    Valid for any sequence; no physical assumption.
     """
     ya = check_array("y", y, min_size=1)
     return int(find_peaks(ya)[0].size)
@@ -148,18 +165,23 @@ def discharge_asymmetry(events: EventSource) -> float:
     Q_s is the sum of magnitudes |q| and N the pulse count in the "-" (180-360 deg) and "+" (0-180 deg)
     voltage half cycles. NaN if either half holds no pulse. Zero-charge events are left out.
 
-    Parameters:
-        events: discharge events or a result holding them [-]
+    Parameters
+    ----------
+    events : Events or Result
+        discharge events or a result holding them [-]
 
-    Returns:
+    Returns
+    -------
+    float
         Q [-].
 
-    References:
-        gulski1992: E. Gulski, F. H. Kreuger, 'Computer-aided recognition of discharge sources', IEEE Trans.
-        Electr. Insul. 27(1) (1992) 82-92; gulski1993: E. Gulski, 'Computer-aided measurement of partial
-        discharges in HV equipment', IEEE Trans. Electr. Insul. 28(6) (1993) 969-983.
-        Definition as quoted in the physics brief section 10 (from memory).
-        Valid for any event set; no physical assumption.
+    References
+    ----------
+    gulski1992: E. Gulski, F. H. Kreuger, 'Computer-aided recognition of discharge sources', IEEE Trans.
+    Electr. Insul. 27(1) (1992) 82-92; gulski1993: E. Gulski, 'Computer-aided measurement of partial
+    discharges in HV equipment', IEEE Trans. Electr. Insul. 28(6) (1993) 969-983.
+    Definition as quoted in the physics brief section 10 (from memory).
+    Valid for any event set; no physical assumption.
     """
     h = _half_means(events)
     (n_p, s_p), (n_m, s_m) = h["+"], h["-"]
@@ -175,18 +197,23 @@ def phase_asymmetry(events: EventSource) -> float:
     pulse in the "-" half, measured from 180 deg. "First" is taken as earliest in the half cycle (smallest
     phase over all cycles). NaN if either half holds no pulse or phi_in+ = 0. Zero-charge events are left out.
 
-    Parameters:
-        events: discharge events or a result holding them [-]
+    Parameters
+    ----------
+    events : Events or Result
+        discharge events or a result holding them [-]
 
-    Returns:
+    Returns
+    -------
+    float
         Phi [-].
 
-    References:
-        gulski1992: E. Gulski, F. H. Kreuger, 'Computer-aided recognition of discharge sources', IEEE Trans.
-        Electr. Insul. 27(1) (1992) 82-92; gulski1993: E. Gulski, 'Computer-aided measurement of partial
-        discharges in HV equipment', IEEE Trans. Electr. Insul. 28(6) (1993) 969-983.
-        Definition as quoted in the physics brief section 10 (from memory).
-        Valid for any event set; no physical assumption.
+    References
+    ----------
+    gulski1992: E. Gulski, F. H. Kreuger, 'Computer-aided recognition of discharge sources', IEEE Trans.
+    Electr. Insul. 27(1) (1992) 82-92; gulski1993: E. Gulski, 'Computer-aided measurement of partial
+    discharges in HV equipment', IEEE Trans. Electr. Insul. 28(6) (1993) 969-983.
+    Definition as quoted in the physics brief section 10 (from memory).
+    Valid for any event set; no physical assumption.
     """
     split = _half_split(_stored_events(events))
     p_plus, p_minus = split["+"][0], split["-"][0]
@@ -205,19 +232,25 @@ def cross_correlation(y_plus: ArrayLike, y_minus: ArrayLike) -> float:
     with x = H_qn+ and y = H_qn- in window i (any pair of distributions may be given). cc = 1 for identical
     shapes. NaN if either distribution is constant.
 
-    Parameters:
-        y_plus: distribution over the "+" half, one value per window [-]
-        y_minus: distribution over the "-" half, same windows [-]
+    Parameters
+    ----------
+    y_plus : array_like
+        distribution over the "+" half, one value per window [-]
+    y_minus : array_like
+        distribution over the "-" half, same windows [-]
 
-    Returns:
+    Returns
+    -------
+    float
         cc in [-1, 1] [-].
 
-    References:
-        gulski1992: E. Gulski, F. H. Kreuger, 'Computer-aided recognition of discharge sources', IEEE Trans.
-        Electr. Insul. 27(1) (1992) 82-92; gulski1993: E. Gulski, 'Computer-aided measurement of partial
-        discharges in HV equipment', IEEE Trans. Electr. Insul. 28(6) (1993) 969-983.
-        Definition as quoted in the physics brief section 10 (from memory).
-        Valid for any pair of distributions; no physical assumption.
+    References
+    ----------
+    gulski1992: E. Gulski, F. H. Kreuger, 'Computer-aided recognition of discharge sources', IEEE Trans.
+    Electr. Insul. 27(1) (1992) 82-92; gulski1993: E. Gulski, 'Computer-aided measurement of partial
+    discharges in HV equipment', IEEE Trans. Electr. Insul. 28(6) (1993) 969-983.
+    Definition as quoted in the physics brief section 10 (from memory).
+    Valid for any pair of distributions; no physical assumption.
     """
     x = check_array("y_plus", y_plus, min_size=2)
     y = check_array("y_minus", y_minus, min_size=2)
@@ -238,19 +271,25 @@ def modified_cross_correlation(events: EventSource, phase_windows: int = 18) -> 
     Q is :func:`discharge_asymmetry`, Phi :func:`phase_asymmetry` and cc :func:`cross_correlation` of H_qn+
     and H_qn- over ``phase_windows`` windows per half cycle. NaN if any factor is undefined.
 
-    Parameters:
-        events: discharge events or a result holding them [-]
-        phase_windows: number of equal windows per half cycle [-]
+    Parameters
+    ----------
+    events : Events or Result
+        discharge events or a result holding them [-]
+    phase_windows : int
+        number of equal windows per half cycle [-]
 
-    Returns:
+    Returns
+    -------
+    float
         mcc [-].
 
-    References:
-        gulski1992: E. Gulski, F. H. Kreuger, 'Computer-aided recognition of discharge sources', IEEE Trans.
-        Electr. Insul. 27(1) (1992) 82-92; gulski1993: E. Gulski, 'Computer-aided measurement of partial
-        discharges in HV equipment', IEEE Trans. Electr. Insul. 28(6) (1993) 969-983.
-        Definition as quoted in the physics brief section 10 (from memory).
-        Valid for any event set; no physical assumption.
+    References
+    ----------
+    gulski1992: E. Gulski, F. H. Kreuger, 'Computer-aided recognition of discharge sources', IEEE Trans.
+    Electr. Insul. 27(1) (1992) 82-92; gulski1993: E. Gulski, 'Computer-aided measurement of partial
+    discharges in HV equipment', IEEE Trans. Electr. Insul. 28(6) (1993) 969-983.
+    Definition as quoted in the physics brief section 10 (from memory).
+    Valid for any event set; no physical assumption.
     """
     d = half_cycle_distributions(events, phase_windows)
     cc = cross_correlation(d.qn_plus, d.qn_minus)
@@ -281,19 +320,25 @@ def fingerprint(events: EventSource, phase_windows: int = 18) -> dict[str, float
     use the window centres x_i (deg, 0-180) as abscissa. Undefined entries (for instance no pulses in a half)
     are NaN. All values are floats (peak counts too), dimensionless.
 
-    Parameters:
-        events: discharge events or a result holding them [-]
-        phase_windows: number of equal windows per half cycle, >= 2 (18 gives 10 deg windows) [-]
+    Parameters
+    ----------
+    events : Events or Result
+        discharge events or a result holding them [-]
+    phase_windows : int
+        number of equal windows per half cycle, >= 2 (18 gives 10 deg windows) [-]
 
-    Returns:
+    Returns
+    -------
+    dict[str, float]
         dict of 22 floats.
 
-    References:
-        gulski1992: E. Gulski, F. H. Kreuger, 'Computer-aided recognition of discharge sources', IEEE Trans.
-        Electr. Insul. 27(1) (1992) 82-92; gulski1993: E. Gulski, 'Computer-aided measurement of partial
-        discharges in HV equipment', IEEE Trans. Electr. Insul. 28(6) (1993) 969-983.
-        Definition as quoted in the physics brief section 10 (from memory).
-        Valid for any event set; no physical assumption.
+    References
+    ----------
+    gulski1992: E. Gulski, F. H. Kreuger, 'Computer-aided recognition of discharge sources', IEEE Trans.
+    Electr. Insul. 27(1) (1992) 82-92; gulski1993: E. Gulski, 'Computer-aided measurement of partial
+    discharges in HV equipment', IEEE Trans. Electr. Insul. 28(6) (1993) 969-983.
+    Definition as quoted in the physics brief section 10 (from memory).
+    Valid for any event set; no physical assumption.
     """
     ev = _stored_events(events)
     nw = check_int("phase_windows", phase_windows, 2, 100_000)

@@ -130,17 +130,28 @@ class _RecordingMap:
 class FitResult:
     """Outcome of :func:`fit` (values in SI).
 
-    Attributes:
-        best: {parameter: best value}.
-        ranges: {parameter: (low, high)} of the accepted region.
-        identified: {parameter: False when the data cannot pin it down (accepted span > half its bounds)}.
-        score: comparison score at the best values (common random numbers) [-].
-        noise: standard deviation of the score over other seeds at the best values [-].
-        start: {parameter: value in the starting scenario}; start_score: its score [-].
-        bounds: {parameter: (low, high)} searched.
-        runs: simulations spent [-]; elapsed: wall time [s].
-        scenario: the starting scenario with the best values.
-        points, scores: every evaluated parameter set (SI, one row each) and its score.
+    Attributes
+    ----------
+    best : dict[str, float]
+        {parameter: best value}.
+    ranges : dict[str, tuple[float, float]]
+        {parameter: (low, high)} of the accepted region.
+    identified : dict[str, bool]
+        {parameter: False when the data cannot pin it down (accepted span > half its bounds)}.
+    score : float
+        comparison score at the best values (common random numbers) [-].
+    noise : float
+        standard deviation of the score over other seeds at the best values [-].
+    start : dict[str, float]
+        {parameter: value in the starting scenario}; start_score: its score [-].
+    bounds : dict[str, tuple[float, float]]
+        {parameter: (low, high)} searched.
+    runs : int
+        simulations spent [-]; elapsed: wall time [s].
+    scenario : Scenario
+        the starting scenario with the best values.
+    points, scores : numpy.ndarray
+        every evaluated parameter set (SI, one row each) and its score.
     """
 
     best: dict[str, float]
@@ -215,23 +226,37 @@ def fit(
 ) -> FitResult:
     """Find the values of ``vary`` whose simulated pattern best matches ``measured``.
 
-    Args:
-        measured: measured events (:func:`pdvoid.read_events`), a Result, or a count matrix.
-        scenario: the starting scenario (its other parameters stay fixed).
-        vary: {dotted parameter: (low, high)} in SI.
-        threshold: the measurement's detection limit [C]; applied to both sides.
-        cycles: simulated cycles per evaluation [-].
-        seed: the common seed of every evaluation [-].
-        detector: keyword arguments of :func:`pdvoid.analysis.synthetic.measurement_effects` (noise [C],
-            relative_noise [-], phase_resolution_deg [deg]) to pass simulations through the same measurement
-            effects as the data; None for none.
-        popsize, maxiter: differential evolution's population multiplier and generations [-].
-        polish: refine the best point with bounded Nelder-Mead.
-        noise_seeds: extra seeds to measure the score's noise at the best point [-].
-        acceptance: accepted points score at most mean + ``acceptance`` × σ of the best point's scores over
-            other seeds [-]; ``tolerance`` [-] is the smallest margin above the best score.
-        workers: processes for the population (1 = in this process; None = all local cores).
-        client: a dask.distributed Client or scheduler address (then ``workers`` is ignored).
+    Parameters
+    ----------
+    measured : PatternSource
+        measured events (:func:`pdvoid.read_events`), a Result, or a count matrix.
+    scenario : Scenario
+        the starting scenario (its other parameters stay fixed).
+    vary : dict
+        {dotted parameter: (low, high)} in SI.
+    threshold : float
+        the measurement's detection limit [C]; applied to both sides.
+    cycles : int
+        simulated cycles per evaluation [-].
+    seed : int
+        the common seed of every evaluation [-].
+    detector : dict or None
+        keyword arguments of :func:`pdvoid.analysis.synthetic.measurement_effects` (noise [C],
+        relative_noise [-], phase_resolution_deg [deg]) to pass simulations through the same measurement
+        effects as the data; None for none.
+    popsize, maxiter : int
+        differential evolution's population multiplier and generations [-].
+    polish : bool
+        refine the best point with bounded Nelder-Mead.
+    noise_seeds : int
+        extra seeds to measure the score's noise at the best point [-].
+    acceptance : float
+        accepted points score at most mean + ``acceptance`` × σ of the best point's scores over
+        other seeds [-]; ``tolerance`` [-] is the smallest margin above the best score.
+    workers : int or None
+        processes for the population (1 = in this process; None = all local cores).
+    client : Any
+        a dask.distributed Client or scheduler address (then ``workers`` is ignored).
     """
     if not isinstance(scenario, Scenario):
         raise InputError(f"scenario must be a pdvoid.Scenario; got {type(scenario).__name__}")

@@ -30,15 +30,22 @@ __all__ = ["InceptionEstimate", "RampTest", "inception", "ramp_test", "probabili
 class InceptionEstimate:
     """Analytic inception and extinction of a scenario (applied voltages in V rms).
 
-    Attributes:
-        inception_voltage: where the void field first reaches E_inc, by the model's criterion [V].
-        inception_voltage_streamer, inception_voltage_integral: by each criterion [V] (NaN if unavailable).
-        extinction_voltage: lowest voltage that sustains lag-free discharges once started, where the peak void
-            field reaches (E_inc + E_res)/2 [V]. From an uncharged start the model stops at the inception voltage,
-            so the extinction voltage of a gradual decrease lies between the two (physics brief §1.4, derived).
-        inception_field, residual_field: in the void [V/m].
-        field_enhancement: [-].
-        peak_factor: peak/rms of the supply [-].
+    Attributes
+    ----------
+    inception_voltage : float
+        where the void field first reaches E_inc, by the model's criterion [V].
+    inception_voltage_streamer, inception_voltage_integral : float
+        by each criterion [V] (NaN if unavailable).
+    extinction_voltage : float
+        lowest voltage that sustains lag-free discharges once started, where the peak void
+        field reaches (E_inc + E_res)/2 [V]. From an uncharged start the model stops at the inception voltage,
+        so the extinction voltage of a gradual decrease lies between the two (physics brief §1.4, derived).
+    inception_field, residual_field : float
+        in the void [V/m].
+    field_enhancement : float
+        [-].
+    peak_factor : float
+        peak/rms of the supply [-].
     """
 
     inception_voltage: float
@@ -55,12 +62,18 @@ class InceptionEstimate:
 class RampTest:
     """Outcome of simulated stepped-voltage tests, one per seed (voltages in V rms).
 
-    Attributes:
-        inception_voltages, extinction_voltages: per seed [V]; NaN when not reached within the limits.
-        inception_voltage, extinction_voltage: means over the seeds [V]; *_std: sample standard deviations [V].
-        step, dwell, threshold, repeat_count: the test's settings [V], [s], [C], [-].
-        levels: the voltage levels visited by the first seed, in order [V].
-        counts: pulses ≥ threshold at each visited level of the first seed [-].
+    Attributes
+    ----------
+    inception_voltages, extinction_voltages : numpy.ndarray
+        per seed [V]; NaN when not reached within the limits.
+    inception_voltage, extinction_voltage : float
+        means over the seeds [V]; *_std: sample standard deviations [V].
+    step, dwell, threshold, repeat_count
+        the test's settings [V], [s], [C], [-].
+    levels : numpy.ndarray
+        the voltage levels visited by the first seed, in order [V].
+    counts : numpy.ndarray
+        pulses ≥ threshold at each visited level of the first seed [-].
     """
 
     inception_voltages: np.ndarray
@@ -153,15 +166,24 @@ def ramp_test(
     ``step`` per dwell until a dwell has fewer (extinction voltage = that level). In lag-free mode the simulated
     inception voltage lies within one step above the analytic one.
 
-    Args:
-        scenario: the void; its supply's waveform and frequency are used, its rms is replaced by the test levels.
-        start: first level [V rms]; default half the analytic inception voltage, rounded down to a whole step.
-        step: voltage step [V rms]; default 2 % of the analytic inception voltage.
-        dwell: time at each level [s], rounded to whole cycles (at least one).
-        threshold: detection threshold of the measuring system [C].
-        repeat_count: pulses per dwell that count as repetitive [-].
-        seeds: seeds of the repeated tests [-] (spread over seeds = statistical scatter of the test).
-        max_voltage: highest level tried [V rms]; default 3 × the analytic inception voltage.
+    Parameters
+    ----------
+    scenario : Scenario
+        the void; its supply's waveform and frequency are used, its rms is replaced by the test levels.
+    start : float or None
+        first level [V rms]; default half the analytic inception voltage, rounded down to a whole step.
+    step : float or None
+        voltage step [V rms]; default 2 % of the analytic inception voltage.
+    dwell : float
+        time at each level [s], rounded to whole cycles (at least one).
+    threshold : float
+        detection threshold of the measuring system [C].
+    repeat_count : int
+        pulses per dwell that count as repetitive [-].
+    seeds : Iterable[int]
+        seeds of the repeated tests [-] (spread over seeds = statistical scatter of the test).
+    max_voltage : float or None
+        highest level tried [V rms]; default 3 × the analytic inception voltage.
     """
     est = inception(scenario)
     u_ref = est.inception_voltage

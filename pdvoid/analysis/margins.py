@@ -33,14 +33,22 @@ _UNITS = {
 class MarginTable:
     """Inception and extinction voltage along one swept input.
 
-    Attributes:
-        parameter: dotted name ("void.size" = diameter at the scenario's aspect ratio).
-        unit: SI unit of ``values``.
-        values: swept values [unit].
-        inception_voltage, extinction_voltage: applied rms voltages [V]; NaN where the combination is impossible.
-        test_voltage: the test level [V rms] or None.
-        margin: inception_voltage / test_voltage [-] (None without a test level).
-        errors: the InputError message per value ("" where fine).
+    Attributes
+    ----------
+    parameter : str
+        dotted name ("void.size" = diameter at the scenario's aspect ratio).
+    unit : str
+        SI unit of ``values``.
+    values : numpy.ndarray
+        swept values [unit].
+    inception_voltage, extinction_voltage : numpy.ndarray
+        applied rms voltages [V]; NaN where the combination is impossible.
+    test_voltage : float or None
+        the test level [V rms] or None.
+    margin : numpy.ndarray or None
+        inception_voltage / test_voltage [-] (None without a test level).
+    errors : tuple[str, ...]
+        the InputError message per value ("" where fine).
     """
 
     parameter: str
@@ -92,12 +100,17 @@ def margin_table(scenario: Scenario, parameter: str = "void.size", values: Array
                  test_voltage: float | None = None) -> MarginTable:
     """Inception and extinction voltage of ``scenario`` as ``parameter`` takes ``values``.
 
-    Args:
-        scenario: the base scenario.
-        parameter: a dotted scenario field ("void.pressure", "insulation.permittivity", ...) or "void.size"
-            (the diameter, with the height following at the scenario's aspect ratio).
-        values: the values [SI]; default 25 sizes from 0.1 to 5 mm (log-spaced) for "void.size".
-        test_voltage: the test level [V rms] for the margin column.
+    Parameters
+    ----------
+    scenario : Scenario
+        the base scenario.
+    parameter : str
+        a dotted scenario field ("void.pressure", "insulation.permittivity", ...) or "void.size"
+        (the diameter, with the height following at the scenario's aspect ratio).
+    values : array_like or None
+        the values [SI]; default 25 sizes from 0.1 to 5 mm (log-spaced) for "void.size".
+    test_voltage : float or None
+        the test level [V rms] for the margin column.
     """
     if not isinstance(scenario, Scenario):
         raise InputError(f"scenario must be a pdvoid.Scenario; got {type(scenario).__name__}")
@@ -129,12 +142,16 @@ def margin_table(scenario: Scenario, parameter: str = "void.size", values: Array
 class LargestVoid:
     """The largest discharge-free void at a test level, at the scenario's aspect ratio.
 
-    Attributes:
-        diameter, height: of that void [m].
-        inception_voltage: its inception voltage [V rms] (= the test voltage unless limited).
-        limited_by: "" when the inception voltage equals the test voltage; "insulation" when even a void half as
-            tall as the insulation stays discharge-free (the closed forms are not valid beyond); "smallest" when
-            even a 1 µm void would discharge.
+    Attributes
+    ----------
+    diameter, height : float
+        of that void [m].
+    inception_voltage : float
+        its inception voltage [V rms] (= the test voltage unless limited).
+    limited_by : str
+        "" when the inception voltage equals the test voltage; "insulation" when even a void half as
+        tall as the insulation stays discharge-free (the closed forms are not valid beyond); "smallest" when
+        even a 1 µm void would discharge.
     """
 
     diameter: float
@@ -174,13 +191,19 @@ def largest_pd_free_void(scenario: Scenario, test_voltage: float) -> LargestVoid
 class DesignMargin:
     """Margin of a design against a test level given as a multiple of the nominal voltage.
 
-    Attributes:
-        nominal_voltage, test_voltage, inception_voltage, extinction_voltage: [V rms].
-        test_factor: test_voltage / nominal_voltage [-].
-        margin: inception_voltage / test_voltage [-] (> 1: discharge-free at the test level).
-        extinction_margin: extinction_voltage / nominal_voltage [-] (> 1: discharges started by a transient die
-            out at the nominal voltage).
-        largest_void_diameter: the largest discharge-free void at the test level, at the scenario's shape [m].
+    Attributes
+    ----------
+    nominal_voltage, test_voltage, inception_voltage, extinction_voltage : float
+        [V rms].
+    test_factor : float
+        test_voltage / nominal_voltage [-].
+    margin : float
+        inception_voltage / test_voltage [-] (> 1: discharge-free at the test level).
+    extinction_margin : float
+        extinction_voltage / nominal_voltage [-] (> 1: discharges started by a transient die
+        out at the nominal voltage).
+    largest_void_diameter : float
+        the largest discharge-free void at the test level, at the scenario's shape [m].
     """
 
     nominal_voltage: float

@@ -119,21 +119,31 @@ def _magnitude_edges(
 class PhasePattern:
     """Counts of discharges over phase x apparent charge (both polarities), accumulated over the observation.
 
-    Attributes:
-        counts: number of events per (phase bin, charge bin), shape (phase_bins, charge_bins) [-]. The first
-            ``charge_bins // 2`` columns hold negative charges, from the most negative bin up; the others hold
-            positive charges, from the smallest magnitude up.
-        phase_edges_deg: phase bin edges, 0 ... 360 [deg].
-        magnitude_edges: the ``charge_bins // 2 + 1`` increasing magnitude edges of both polarities [C].
-        charge_edges: ``-magnitude_edges[::-1]`` followed by ``magnitude_edges``, length ``charge_bins + 2``,
-            increasing [C]. The interval between the two middle entries, (-magnitude_edges[0],
-            magnitude_edges[0]), is not a bin (for a linear axis from 0 it has zero width). Use
-            :attr:`bin_lower` / :attr:`bin_upper` for the limits of each column.
-        charge_scale: "log" or "linear".
-        cycles: number of AC cycles observed [-].
-        per_cycle: whether :attr:`values` is the mean count per cycle (True) or the accumulated count (False).
-        zero_count: events with zero charge, counted in no bin [-].
-        outside_count: events with nonzero charge whose magnitude lies outside ``charge_range`` [-].
+    Attributes
+    ----------
+    counts : numpy.ndarray
+        number of events per (phase bin, charge bin), shape (phase_bins, charge_bins) [-]. The first
+        ``charge_bins // 2`` columns hold negative charges, from the most negative bin up; the others hold
+        positive charges, from the smallest magnitude up.
+    phase_edges_deg : numpy.ndarray
+        phase bin edges, 0 ... 360 [deg].
+    magnitude_edges : numpy.ndarray
+        the ``charge_bins // 2 + 1`` increasing magnitude edges of both polarities [C].
+    charge_edges : numpy.ndarray
+        ``-magnitude_edges[::-1]`` followed by ``magnitude_edges``, length ``charge_bins + 2``,
+        increasing [C]. The interval between the two middle entries, (-magnitude_edges[0],
+        magnitude_edges[0]), is not a bin (for a linear axis from 0 it has zero width). Use
+        :attr:`bin_lower` / :attr:`bin_upper` for the limits of each column.
+    charge_scale : str
+        "log" or "linear".
+    cycles : float
+        number of AC cycles observed [-].
+    per_cycle : bool
+        whether :attr:`values` is the mean count per cycle (True) or the accumulated count (False).
+    zero_count : int
+        events with zero charge, counted in no bin [-].
+    outside_count : int
+        events with nonzero charge whose magnitude lies outside ``charge_range`` [-].
     """
 
     counts: np.ndarray
@@ -234,20 +244,31 @@ def pattern(
     for "log" (widened to half a decade either side when all magnitudes are equal) and [0, max |q|] for
     "linear".
 
-    Parameters:
-        events: discharge events or a result holding them (see :func:`pdvoid.simulation.events.as_events`) [-]
-        phase_bins: number of equal phase bins over 0-360 deg, 1 ... 100000 [-]
-        charge_bins: total number of charge bins, even (half per polarity), 2 ... 100000 [-]
-        charge_scale: "log" or "linear" [-]
-        charge_range: (low, high) magnitude range [C], 0 <= low < high (low > 0 for "log"); None: from the
-            data
-        per_cycle: if True, :attr:`PhasePattern.values` gives counts per cycle [-]
+    Parameters
+    ----------
+    events : Events or Result
+        discharge events or a result holding them (see :func:`pdvoid.simulation.events.as_events`) [-]
+    phase_bins : int
+        number of equal phase bins over 0-360 deg, 1 ... 100000 [-]
+    charge_bins : int
+        total number of charge bins, even (half per polarity), 2 ... 100000 [-]
+    charge_scale : str
+        "log" or "linear" [-]
+    charge_range : tuple[float, float] or None
+        (low, high) magnitude range [C], 0 <= low < high (low > 0 for "log"); None: from the
+        data
+    per_cycle : bool
+        if True, :attr:`PhasePattern.values` gives counts per cycle [-]
 
-    Returns:
+    Returns
+    -------
+    PhasePattern
         :class:`PhasePattern`.
 
-    Raises:
-        InputError: for bad bins or range, or when the range must come from the data and there is no event
+    Raises
+    ------
+    InputError
+        for bad bins or range, or when the range must come from the data and there is no event
         with nonzero charge.
     """
     ev = _stored_events(events)
@@ -287,13 +308,20 @@ def pattern(
 class HalfCycleDistributions:
     """Phase-resolved distributions per voltage half cycle over equal phase windows (gulski1992).
 
-    Attributes (arrays have one entry per window):
-        window_edges_deg: window edges, 0 ... 180 [deg] (the "-" half is re-referenced to 0-180 deg).
-        window_centres_deg: window centres x_i [deg].
-        n_plus, n_minus: H_n, number of pulses per window [-].
-        qn_plus, qn_minus: H_qn, mean magnitude |q| per window [C]; 0 where the window holds no pulse.
-        qmax_plus, qmax_minus: H_qmax, largest magnitude per window [C]; 0 where the window holds no pulse.
-        cycles: number of AC cycles observed [-].
+    Attributes
+    ----------
+    window_edges_deg : numpy.ndarray
+        window edges, 0 ... 180 [deg] (the "-" half is re-referenced to 0-180 deg).
+    window_centres_deg : numpy.ndarray
+        window centres x_i [deg].
+    n_plus, n_minus : numpy.ndarray
+        H_n, number of pulses per window [-].
+    qn_plus, qn_minus : numpy.ndarray
+        H_qn, mean magnitude |q| per window [C]; 0 where the window holds no pulse.
+    qmax_plus, qmax_minus : numpy.ndarray
+        H_qmax, largest magnitude per window [C]; 0 where the window holds no pulse.
+    cycles : float
+        number of AC cycles observed [-].
     """
 
     window_edges_deg: np.ndarray
@@ -322,16 +350,22 @@ def half_cycle_distributions(events: EventSource, phase_windows: int = 18) -> Ha
     re-referenced to 0-180 deg. Windows are half-open [a, b). Zero-charge events are left out. In a window
     without pulses H_qn and H_qmax are 0 (our convention, so that the distributions can serve as weights).
 
-    Parameters:
-        events: discharge events or a result holding them [-]
-        phase_windows: number of equal windows per half cycle, 1 ... 100000 (18 gives 10 deg windows) [-]
+    Parameters
+    ----------
+    events : Events or Result
+        discharge events or a result holding them [-]
+    phase_windows : int
+        number of equal windows per half cycle, 1 ... 100000 (18 gives 10 deg windows) [-]
 
-    Returns:
+    Returns
+    -------
+    HalfCycleDistributions
         :class:`HalfCycleDistributions`.
 
-    References:
-        gulski1992: E. Gulski, F. H. Kreuger, 'Computer-aided recognition of discharge sources', IEEE Trans.
-        Electr. Insul. 27(1) (1992) 82-92 (from memory). Valid for any event set; no physical assumption.
+    References
+    ----------
+    gulski1992: E. Gulski, F. H. Kreuger, 'Computer-aided recognition of discharge sources', IEEE Trans.
+    Electr. Insul. 27(1) (1992) 82-92 (from memory). Valid for any event set; no physical assumption.
     """
     ev = _stored_events(events)
     nw = check_int("phase_windows", phase_windows, 1, _MAX_BINS)
@@ -360,12 +394,18 @@ def half_cycle_distributions(events: EventSource, phase_windows: int = 18) -> Ha
 class MagnitudeDistribution:
     """H(q): number of pulses per magnitude bin, per voltage half cycle.
 
-    Attributes:
-        edges: increasing magnitude edges [C].
-        count_plus, count_minus: pulses per bin in the "+" (0-180 deg) and "-" (180-360 deg) halves [-].
-        scale: "log" or "linear".
-        cycles: number of AC cycles observed [-].
-        outside_count: nonzero events outside an explicit range [-].
+    Attributes
+    ----------
+    edges : numpy.ndarray
+        increasing magnitude edges [C].
+    count_plus, count_minus : numpy.ndarray
+        pulses per bin in the "+" (0-180 deg) and "-" (180-360 deg) halves [-].
+    scale : str
+        "log" or "linear".
+    cycles : float
+        number of AC cycles observed [-].
+    outside_count : int
+        nonzero events outside an explicit range [-].
     """
 
     edges: np.ndarray
@@ -393,17 +433,25 @@ def magnitude_distribution(
     Both halves share the same edges. The range rules are those of :func:`pattern`; zero-charge events are
     left out; bins are [a, b) except the top one, which includes its upper edge.
 
-    Parameters:
-        events: discharge events or a result holding them [-]
-        bins: number of magnitude bins, 1 ... 100000 [-]
-        scale: "log" or "linear" [-]
-        charge_range: (low, high) magnitude range [C]; None: from the data
+    Parameters
+    ----------
+    events : Events or Result
+        discharge events or a result holding them [-]
+    bins : int
+        number of magnitude bins, 1 ... 100000 [-]
+    scale : str
+        "log" or "linear" [-]
+    charge_range : tuple[float, float] or None
+        (low, high) magnitude range [C]; None: from the data
 
-    Returns:
+    Returns
+    -------
+    MagnitudeDistribution
         :class:`MagnitudeDistribution`.
 
-    References:
-        gulski1992 (from memory). Valid for any event set.
+    References
+    ----------
+    gulski1992 (from memory). Valid for any event set.
     """
     ev = _stored_events(events)
     nb = check_int("bins", bins, 1, _MAX_BINS)

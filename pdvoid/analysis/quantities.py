@@ -24,15 +24,24 @@ DEFAULT_REPETITION_RATE = 100.0
 class IECQuantities:
     """IEC 60270 quantities over a reference window.
 
-    Attributes:
-        average_current: I = sum |q_i| / T_ref [A].
-        quadratic_rate: D = sum q_i^2 / T_ref [C^2/s].
-        power: P = sum q_i u_i / T_ref [W]; NaN when an event in the window lacks its applied voltage.
-        repetition_rate: n = (pulses with |q| >= threshold) / T_ref [1/s].
-        reference_time: T_ref = stop - start [s].
-        count: number of events in the window (all, whatever their magnitude) [-].
-        window: (start, stop) [s] of the window measured from the start of the observation.
-        threshold: smallest magnitude counted in the repetition rate [C].
+    Attributes
+    ----------
+    average_current : float
+        I = sum |q_i| / T_ref [A].
+    quadratic_rate : float
+        D = sum q_i^2 / T_ref [C^2/s].
+    power : float
+        P = sum q_i u_i / T_ref [W]; NaN when an event in the window lacks its applied voltage.
+    repetition_rate : float
+        n = (pulses with |q| >= threshold) / T_ref [1/s].
+    reference_time : float
+        T_ref = stop - start [s].
+    count : int
+        number of events in the window (all, whatever their magnitude) [-].
+    window : tuple[float, float]
+        (start, stop) [s] of the window measured from the start of the observation.
+    threshold : float
+        smallest magnitude counted in the repetition rate [C].
     """
 
     average_current: float
@@ -78,21 +87,30 @@ def iec60270(
     n = (number of pulses with |q| >= threshold) / T_ref, with T_ref = stop - start. Without ``window`` the
     whole observation (0 ... cycles / frequency) is the reference time.
 
-    Parameters:
-        events: discharge events or a result holding them [-]
-        window: (start, stop) from the start of the observation, 0 <= start < stop <= duration [s]; None: all
-        threshold: smallest magnitude counted in the repetition rate, >= 0 [C]
+    Parameters
+    ----------
+    events : Events or Result
+        discharge events or a result holding them [-]
+    window : tuple[float, float] or None
+        (start, stop) from the start of the observation, 0 <= start < stop <= duration [s]; None: all
+    threshold : float
+        smallest magnitude counted in the repetition rate, >= 0 [C]
 
-    Returns:
+    Returns
+    -------
+    IECQuantities
         :class:`IECQuantities`.
 
-    Raises:
-        InputError: window outside the observation or not increasing; a window on events without times.
+    Raises
+    ------
+    InputError
+        window outside the observation or not increasing; a window on events without times.
 
-    References:
-        iec60270: IEC 60270:2000+A1:2015, High-voltage test techniques - Partial discharge measurements,
-        clause 3 (definitions; wording from memory). Valid for apparent charges recorded over the whole
-        window.
+    References
+    ----------
+    iec60270: IEC 60270:2000+A1:2015, High-voltage test techniques - Partial discharge measurements,
+    clause 3 (definitions; wording from memory). Valid for apparent charges recorded over the whole
+    window.
     """
     ev = _stored_events(events)
     thr = check_nonnegative("threshold", threshold, "C")
@@ -130,17 +148,24 @@ def largest_repeated_magnitude(
     with the standard's specified pulse-train response (from memory); this function does not model an
     instrument.
 
-    Parameters:
-        events: discharge events or a result holding them [-]
-        repetition_rate: required rate of pulses at or above the magnitude, > 0 [1/s]
-        window: (start, stop) as in :func:`iec60270` [s]; None: the whole observation
+    Parameters
+    ----------
+    events : Events or Result
+        discharge events or a result holding them [-]
+    repetition_rate : float
+        required rate of pulses at or above the magnitude, > 0 [1/s]
+    window : tuple[float, float] or None
+        (start, stop) as in :func:`iec60270` [s]; None: the whole observation
 
-    Returns:
+    Returns
+    -------
+    float
         magnitude [C] (>= 0).
 
-    References:
-        iec60270 (clause 3, largest repeatedly occurring PD magnitude; wording from memory) for the notion;
-        the counting rule is ours. Valid for any event set.
+    References
+    ----------
+    iec60270 (clause 3, largest repeatedly occurring PD magnitude; wording from memory) for the notion;
+    the counting rule is ours. Valid for any event set.
     """
     ev = _stored_events(events)
     rate = check_positive("repetition_rate", repetition_rate, "1/s")

@@ -170,23 +170,36 @@ def read_events(
     :func:`describe_read`); ``# key = value`` comments in ``events.extra["metadata"]``; a declared detection
     threshold in ``events.extra["threshold"]`` [C].
 
-    Parameters:
-        path: the file [-]
-        cycles: number of AC cycles observed [-]; needed without a time column (or ``duration``)
-        duration: observation time [s] (number or text like ``"60 s"``); alternative to ``cycles``
-        frequency: supply frequency [Hz] (number or text like ``"50 Hz"``); needed unless the file has
-            ``# frequency = ...``
-        columns: column names with units for files without header (e.g. ``["phase [deg]", "charge [pC]"]`` or
-            ``"phase [deg],charge [pC]"``); with a header the names must agree [-]
-        units: {column: unit} for columns whose unit is not given otherwise, e.g. ``{"charge": "nC"}`` [-]
-        delimiter: ",", ";" or "\\t"; None to detect [-]
-        decimal: "." or ","; None to detect (a decimal comma only with ";") [-]
+    Parameters
+    ----------
+    path : str or os.PathLike
+        the file [-]
+    cycles : float or None
+        number of AC cycles observed [-]; needed without a time column (or ``duration``)
+    duration : float or str or None
+        observation time [s] (number or text like ``"60 s"``); alternative to ``cycles``
+    frequency : float or str or None
+        supply frequency [Hz] (number or text like ``"50 Hz"``); needed unless the file has
+        ``# frequency = ...``
+    columns : Sequence[str] or str or None
+        column names with units for files without header (e.g. ``["phase [deg]", "charge [pC]"]`` or
+        ``"phase [deg],charge [pC]"``); with a header the names must agree [-]
+    units : Mapping[str, str] or None
+        {column: unit} for columns whose unit is not given otherwise, e.g. ``{"charge": "nC"}`` [-]
+    delimiter : str or None
+        ",", ";" or "\\t"; None to detect [-]
+    decimal : str or None
+        "." or ","; None to detect (a decimal comma only with ";") [-]
 
-    Returns:
+    Returns
+    -------
+    Events
         :class:`pdvoid.simulation.events.Events` in SI units.
 
-    Raises:
-        InputError: naming the file (and the line) for every malformed input; see the module docs.
+    Raises
+    ------
+    InputError
+        naming the file (and the line) for every malformed input; see the module docs.
     """
     p = L.checked_path(path)
     check_layout_options(delimiter, decimal)
@@ -337,9 +350,11 @@ def read_events(
 def describe_read(data: Events | PatternMatrix) -> str:
     """A few lines of text saying what a pdvoid reader read (events or a count matrix).
 
-    Parameters:
-        data: what :func:`read_events`, :func:`pdvoid.io.read_pattern_matrix` or
-            :func:`pdvoid.io.read_exchange` returned [-]
+    Parameters
+    ----------
+    data : Events or PatternMatrix
+        what :func:`read_events`, :func:`pdvoid.io.read_pattern_matrix` or
+        :func:`pdvoid.io.read_exchange` returned [-]
     """
     extra = getattr(data, "extra", None)
     summary = extra.get("summary") if isinstance(extra, dict) else None

@@ -97,14 +97,21 @@ def write_exchange(
 ) -> Path:
     """Write events (or a Result) or a :class:`PatternMatrix` in the "pdvoid-pattern" format.
 
-    Parameters:
-        data: :class:`pdvoid.simulation.events.Events`, a Result, or a :class:`PatternMatrix` [-]
-        path: the file to write [-]
-        provenance: JSON-able description of where the data came from; merged over the provenance a Result
-            supplies (source, seed, cycles, version, scenario) [-]
-        threshold: detection threshold of the data [C], >= 0; default: ``extra["threshold"]`` if present [-]
+    Parameters
+    ----------
+    data : Events or Result or PatternMatrix
+        :class:`pdvoid.simulation.events.Events`, a Result, or a :class:`PatternMatrix` [-]
+    path : str or os.PathLike
+        the file to write [-]
+    provenance : dict or None
+        JSON-able description of where the data came from; merged over the provenance a Result
+        supplies (source, seed, cycles, version, scenario) [-]
+    threshold : float or None
+        detection threshold of the data [C], >= 0; default: ``extra["threshold"]`` if present [-]
 
-    Returns:
+    Returns
+    -------
+    Path
         the path written.
     """
     from pdvoid._version import __version__
@@ -204,8 +211,10 @@ def read_exchange(path: str | os.PathLike) -> Events | PatternMatrix:
     The header's ``provenance`` goes to ``extra["provenance"]``, its threshold to ``extra["threshold"]``,
     and a summary of what was read to ``extra["summary"]``.
 
-    Raises:
-        InputError: naming the file and the line for anything that does not follow the format.
+    Raises
+    ------
+    InputError
+        naming the file and the line for anything that does not follow the format.
     """
     p = L.checked_path(path)
     lines = L.iter_lines(p)

@@ -165,13 +165,20 @@ class RowParser:
     infinite value) is raised as :class:`InputError` naming the file and the line. The row count is limited by
     :data:`MAX_ROWS`.
 
-    Parameters:
-        path: the file (for messages) [-]
-        ncols: number of fields per line [-]
-        delimiter: field delimiter [-]
-        decimal: "." or "," [-]
-        nan_columns: indices of columns where NaN is allowed (never infinity) [-]
-        field_offset: fields before the numbers on each line (a label), for the field numbers in messages [-]
+    Parameters
+    ----------
+    path : Path
+        the file (for messages) [-]
+    ncols : int
+        number of fields per line [-]
+    delimiter : str
+        field delimiter [-]
+    decimal : str
+        "." or "," [-]
+    nan_columns : tuple[int, ...]
+        indices of columns where NaN is allowed (never infinity) [-]
+    field_offset : int
+        fields before the numbers on each line (a label), for the field numbers in messages [-]
     """
 
     def __init__(

@@ -29,6 +29,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 
 import numpy as np
+from numpy.typing import ArrayLike
 
 from pdvoid.core.arrays import frozen_array as _frozen
 from pdvoid.core.errors import InputError, check_array, check_choice, check_positive
@@ -36,6 +37,7 @@ from pdvoid.io import lines as L
 from pdvoid.io.columns import checked_column
 from pdvoid.io.options import CommentKeys, check_layout_options, quantity_option
 from pdvoid.simulation.events import Events, as_events
+from pdvoid.simulation.results import Result
 
 __all__ = ["PatternMatrix", "matrix_from_events", "read_pattern_matrix", "write_pattern_matrix"]
 
@@ -48,14 +50,22 @@ _EDGES = re.compile(r"^(phase|charge)\s+edges\s*(?:[\[(]\s*([^\[\]()]*?)\s*[\])]
 class PatternMatrix:
     """Counts of discharges per (phase bin, charge bin) over an observation of ``cycles`` AC cycles.
 
-    Attributes:
-        counts: whole numbers >= 0, shape (n_phase, n_charge) [-].
-        phase_edges_deg: n_phase + 1 strictly increasing edges inside [0, 360] [deg].
-        charge_edges: n_charge + 1 strictly increasing signed edges [C].
-        cycles: number of AC cycles observed [-].
-        frequency: supply frequency [Hz].
-        label: free text.
-        extra: free dictionary (the readers put their summary and metadata here).
+    Attributes
+    ----------
+    counts : numpy.ndarray
+        whole numbers >= 0, shape (n_phase, n_charge) [-].
+    phase_edges_deg : numpy.ndarray
+        n_phase + 1 strictly increasing edges inside [0, 360] [deg].
+    charge_edges : numpy.ndarray
+        n_charge + 1 strictly increasing signed edges [C].
+    cycles : float
+        number of AC cycles observed [-].
+    frequency : float
+        supply frequency [Hz].
+    label : str
+        free text.
+    extra : dict
+        free dictionary (the readers put their summary and metadata here).
     """
 
     counts: np.ndarray
@@ -118,8 +128,10 @@ class PatternMatrix:
         their bin. Events at a charge centre of 0 (a bin symmetric about 0) have zero charge and count as no
         pulse in :mod:`pdvoid.analysis`.
 
-        Parameters:
-            centre: "arithmetic" or "geometric" charge centre of each bin [-]
+        Parameters
+        ----------
+        centre : str
+            "arithmetic" or "geometric" charge centre of each bin [-]
         """
         total = self.total
         if total > L.MAX_ROWS:
@@ -141,16 +153,24 @@ class PatternMatrix:
         )
 
 
-def matrix_from_events(events: object, phase_edges_deg: object, charge_edges: object) -> PatternMatrix:
+def matrix_from_events(
+    events: Events | Result, phase_edges_deg: ArrayLike, charge_edges: ArrayLike
+) -> PatternMatrix:
     """Count events into a :class:`PatternMatrix` (bins [a, b), the last one [a, b]).
 
-    Parameters:
-        events: discharge events or a result holding them [-]
-        phase_edges_deg: phase edges inside [0, 360] [deg]
-        charge_edges: signed charge edges [C]
+    Parameters
+    ----------
+    events : Events or Result
+        discharge events or a result holding them [-]
+    phase_edges_deg : array_like
+        phase edges inside [0, 360] [deg]
+    charge_edges : array_like
+        signed charge edges [C]
 
-    Raises:
-        InputError: if any event lies outside the edges (nothing is dropped).
+    Raises
+    ------
+    InputError
+        if any event lies outside the edges (nothing is dropped).
     """
     ev = as_events(events)
     pe = check_array("phase_edges_deg", phase_edges_deg, min_size=2)
@@ -177,14 +197,22 @@ def read_pattern_matrix(
 ) -> PatternMatrix:
     """Read a phase-resolved count matrix with its bin edges (layout: :mod:`pdvoid.io.matrix`).
 
-    Parameters:
-        path: the file [-]
-        cycles: number of AC cycles observed [-], unless the file has ``# cycles = ...``
-        frequency: supply frequency [Hz], unless the file has ``# frequency = ...``
-        delimiter: ",", ";" or "\\t"; None to detect [-]
-        decimal: "." or ","; None to detect (a decimal comma only with ";") [-]
+    Parameters
+    ----------
+    path : str or os.PathLike
+        the file [-]
+    cycles : float or None
+        number of AC cycles observed [-], unless the file has ``# cycles = ...``
+    frequency : float or str or None
+        supply frequency [Hz], unless the file has ``# frequency = ...``
+    delimiter : str or None
+        ",", ";" or "\\t"; None to detect [-]
+    decimal : str or None
+        "." or ","; None to detect (a decimal comma only with ";") [-]
 
-    Returns:
+    Returns
+    -------
+    PatternMatrix
         :class:`PatternMatrix` with ``extra["summary"]`` and ``extra["metadata"]``.
     """
     p = L.checked_path(path)
@@ -307,14 +335,22 @@ def write_pattern_matrix(
 ) -> Path:
     """Write a :class:`PatternMatrix` in the layout :func:`read_pattern_matrix` reads (17 significant digits).
 
-    Parameters:
-        matrix: the matrix [-]
-        path: the file to write [-]
-        charge_unit: unit of the charge edges: C, nC, pC, fC [-]
-        phase_unit: unit of the phase edges: deg or rad [-]
-        metadata: extra ``# key = value`` lines [-]
-        comments: free comment lines written first [-]
-        delimiter: ",", ";" or "\\t" [-]
+    Parameters
+    ----------
+    matrix : PatternMatrix
+        the matrix [-]
+    path : str or os.PathLike
+        the file to write [-]
+    charge_unit : str
+        unit of the charge edges: C, nC, pC, fC [-]
+    phase_unit : str
+        unit of the phase edges: deg or rad [-]
+    metadata : Mapping[str, object] or None
+        extra ``# key = value`` lines [-]
+    comments : Sequence[str]
+        free comment lines written first [-]
+    delimiter : str
+        ",", ";" or "\\t" [-]
     """
     if not isinstance(matrix, PatternMatrix):
         raise InputError(f"matrix must be a PatternMatrix; got {type(matrix).__name__}")

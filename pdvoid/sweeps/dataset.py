@@ -158,11 +158,15 @@ def base_scenario(ds: xarray.Dataset) -> Scenario:
 def write_netcdf(ds: xarray.Dataset, path: str | os.PathLike, *, engine: str = "scipy") -> Path:
     """Write the sweep Dataset to a NetCDF file.
 
-    Args:
-        ds: a Dataset from :func:`pdvoid.sweeps.sweep`.
-        path: file to write.
-        engine: xarray backend; "scipy" (default, no extra package) writes NetCDF-3 classic, readable by every
-            NetCDF tool; "netcdf4" or "h5netcdf" write NetCDF-4 if those packages are installed.
+    Parameters
+    ----------
+    ds : xarray.Dataset
+        a Dataset from :func:`pdvoid.sweeps.sweep`.
+    path : str or os.PathLike
+        file to write.
+    engine : str
+        xarray backend; "scipy" (default, no extra package) writes NetCDF-3 classic, readable by every
+        NetCDF tool; "netcdf4" or "h5netcdf" write NetCDF-4 if those packages are installed.
     """
     xr = require("xarray")
     if not isinstance(ds, xr.Dataset):

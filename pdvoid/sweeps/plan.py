@@ -48,16 +48,26 @@ MAX_POINTS = 10_000_000
 class Plan:
     """The points of a sweep.
 
-    Attributes:
-        design: "grid", "random" or "lhs".
-        names: swept parameters as dotted scenario paths, e.g. ("void.diameter", "void.pressure").
-        shape: grid: the number of values of each parameter; random/lhs: (samples,).
-        values: per parameter, its value at every point (flat, length n_points, grid in C order) [SI].
-        axes: grid only: the listed values of each parameter [SI].
-        bounds: random/lhs only: (low, high) of each parameter [SI].
-        log_scale: names sampled uniformly in the logarithm.
-        seed: the master seed [-].
-        seeds: the simulation seed of every point (flat, int32) [-].
+    Attributes
+    ----------
+    design : str
+        "grid", "random" or "lhs".
+    names : tuple[str, ...]
+        swept parameters as dotted scenario paths, e.g. ("void.diameter", "void.pressure").
+    shape : tuple[int, ...]
+        grid: the number of values of each parameter; random/lhs: (samples,).
+    values : dict[str, numpy.ndarray]
+        per parameter, its value at every point (flat, length n_points, grid in C order) [SI].
+    axes : dict[str, numpy.ndarray]
+        grid only: the listed values of each parameter [SI].
+    bounds : dict[str, tuple[float, float]]
+        random/lhs only: (low, high) of each parameter [SI].
+    log_scale : tuple[str, ...]
+        names sampled uniformly in the logarithm.
+    seed : int
+        the master seed [-].
+    seeds : numpy.ndarray
+        the simulation seed of every point (flat, int32) [-].
     """
 
     design: str
@@ -82,11 +92,16 @@ class Plan:
 def point_seeds(seed: int, n: int) -> np.ndarray:
     """The simulation seeds of points 0..n-1: ``SeedSequence(seed).spawn(n)[i].generate_state(1)[0] >> 1``.
 
-    Args:
-        seed: master seed [-], 0 to 2**32 - 1.
-        n: number of points [-].
+    Parameters
+    ----------
+    seed : int
+        master seed [-], 0 to 2**32 - 1.
+    n : int
+        number of points [-].
 
-    Returns:
+    Returns
+    -------
+    numpy.ndarray
         int32 array of seeds in [0, 2**31 - 1] [-].
     """
     seed = check_seed(seed)
@@ -135,12 +150,17 @@ def _axis(name: str, values: object) -> np.ndarray:
 def grid_plan(parameters: Mapping[str, Sequence], seed: int = 0) -> Plan:
     """Every combination of the listed values.
 
-    Args:
-        parameters: {dotted name: list of values} [SI], e.g. {"void.diameter": [0.5e-3, 1e-3]}; numbers, text
-            (e.g. "void.gas") or True/False.
-        seed: master seed [-].
+    Parameters
+    ----------
+    parameters : Mapping[str, Sequence]
+        {dotted name: list of values} [SI], e.g. {"void.diameter": [0.5e-3, 1e-3]}; numbers, text
+        (e.g. "void.gas") or True/False.
+    seed : int
+        master seed [-].
 
-    Returns:
+    Returns
+    -------
+    Plan
         :class:`Plan` with one dimension per parameter; the first parameter varies slowest.
     """
     names = _check_names(parameters)
@@ -213,10 +233,14 @@ def _sampled_plan(design: str, bounds: Mapping, samples: int, seed: int) -> Plan
 def random_plan(bounds: Mapping[str, tuple], samples: int, seed: int = 0) -> Plan:
     """``samples`` points drawn independently and uniformly inside the bounds.
 
-    Args:
-        bounds: {dotted name: (low, high)} or (low, high, "log") [SI].
-        samples: number of points [-].
-        seed: master seed [-].
+    Parameters
+    ----------
+    bounds : Mapping[str, tuple]
+        {dotted name: (low, high)} or (low, high, "log") [SI].
+    samples : int
+        number of points [-].
+    seed : int
+        master seed [-].
     """
     return _sampled_plan("random", bounds, samples, seed)
 
@@ -224,17 +248,22 @@ def random_plan(bounds: Mapping[str, tuple], samples: int, seed: int = 0) -> Pla
 def lhs_plan(bounds: Mapping[str, tuple], samples: int, seed: int = 0) -> Plan:
     """A Latin hypercube: each parameter's range in ``samples`` equal strata, each stratum hit exactly once.
 
-    Args:
-        bounds: {dotted name: (low, high)} or (low, high, "log") [SI]; strata are equal in the logarithm for
-            "log".
-        samples: number of points [-].
-        seed: master seed [-].
+    Parameters
+    ----------
+    bounds : Mapping[str, tuple]
+        {dotted name: (low, high)} or (low, high, "log") [SI]; strata are equal in the logarithm for
+        "log".
+    samples : int
+        number of points [-].
+    seed : int
+        master seed [-].
 
-    References:
-        [mckay1979] McKay, Beckman and Conover (1979), "A comparison of three methods for selecting values of input
-        variables in the analysis of output from a computer code", Technometrics 21(2), 239-245 (the design);
-        implemented by :class:`scipy.stats.qmc.LatinHypercube` (scrambled: a random position inside each
-        stratum).
+    References
+    ----------
+    [mckay1979] McKay, Beckman and Conover (1979), "A comparison of three methods for selecting values of input
+    variables in the analysis of output from a computer code", Technometrics 21(2), 239-245 (the design);
+    implemented by :class:`scipy.stats.qmc.LatinHypercube` (scrambled: a random position inside each
+    stratum).
     """
     return _sampled_plan("lhs", bounds, samples, seed)
 
