@@ -162,7 +162,7 @@ def summarise(
 
     Parameters
     ----------
-    events : PatternSource
+    events : Events, Result, PatternMatrix or PatternSummary
         events, a Result, a count matrix (:class:`pdvoid.io.matrix.PatternMatrix`) or a summary [-]
     threshold : float
         detection threshold [C], >= 0; events with |q| < threshold are removed
@@ -240,7 +240,13 @@ class Comparison:
     rates: dict
 
     def table(self) -> str:
-        """The parts, weights and score as a small text table."""
+        """The parts, weights and score as a small text table.
+
+        Returns
+        -------
+        str
+            One line per part, then the score, the threshold and the kept and removed counts.
+        """
         rows = [f"{'part':<24s}{'value':>12s}{'weight':>9s}"]
         for k in PART_NAMES:
             rows.append(f"{k:<24s}{self.parts[k]:>12.4g}{self.weights[k]:>9.3g}")
@@ -339,10 +345,10 @@ def compare(
 
     Parameters
     ----------
-    simulated : PatternSource
+    simulated : Events, Result, PatternMatrix or PatternSummary
         events, a Result, a count matrix (:class:`pdvoid.io.matrix.PatternMatrix`) or a summary from
         :func:`summarise` [-]
-    measured : PatternSource
+    measured : Events, Result, PatternMatrix or PatternSummary
         the same kinds [-]
     threshold : float
         detection threshold [C], >= 0: events with |q| < threshold are removed from both sides

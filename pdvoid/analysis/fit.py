@@ -67,7 +67,25 @@ class _Spec:
 class FitObjective:
     """Score of a parameter vector (normalised coordinates in [0, 1]) against the measured pattern.
 
-    Picklable, so it runs on worker processes or a Dask cluster."""
+    Picklable, so it runs on worker processes or a Dask cluster.
+
+    Parameters
+    ----------
+    measured : Events, Result, PatternMatrix or PatternSummary
+        The measured pattern; summarised once with ``threshold`` [-].
+    scenario : Scenario
+        The starting scenario; the varied parameters replace its values [-].
+    specs : tuple of _Spec
+        The varied parameters with their ranges (normalised coordinate 0 = low, 1 = high) [-].
+    threshold : float
+        Detection threshold applied to both sides [C].
+    cycles : int
+        Simulated cycles per evaluation [-].
+    seed : int
+        Seed of every evaluation (common random numbers) [-].
+    detector : dict or None
+        Keyword arguments of :func:`pdvoid.analysis.synthetic.measurement_effects`, or None [-].
+    """
 
     def __init__(self, measured: PatternSource, scenario: Scenario, specs: tuple[_Spec, ...], *,
                  threshold: float, cycles: int, seed: int, detector: dict | None) -> None:
@@ -80,9 +98,40 @@ class FitObjective:
         self.measured = summarise(measured, threshold)
 
     def scenario_at(self, u: Sequence[float] | np.ndarray) -> Scenario:
+        """The scenario at normalised coordinates ``u``.
+
+        Parameters
+        ----------
+        u : sequence of float or numpy.ndarray
+            One coordinate in [0, 1] per varied parameter [-].
+
+        Returns
+        -------
+        Scenario
+            The starting scenario with the varied parameters set.
+
+        Raises
+        ------
+        InputError
+            When the parameter values make an impossible scenario.
+        """
         return self.scenario.replace(**{s.name: s.to_value(x) for s, x in zip(self.specs, u, strict=True)})
 
     def score(self, u: Sequence[float] | np.ndarray, seed: int | None = None) -> float:
+        """The comparison score of the simulation at ``u`` (:func:`pdvoid.analysis.compare.compare`).
+
+        Parameters
+        ----------
+        u : sequence of float or numpy.ndarray
+            One coordinate in [0, 1] per varied parameter [-].
+        seed : int or None
+            Seed of the simulation; None for the objective's seed [-].
+
+        Returns
+        -------
+        float
+            The score (0 for identical patterns) [-]; :data:`PENALTY` when the scenario is impossible.
+        """
         seed = self.seed if seed is None else seed
         try:
             sc = self.scenario_at(u)
@@ -169,7 +218,18 @@ class FitResult:
     scores: np.ndarray
 
     def table(self, truth: dict[str, float] | None = None) -> str:
-        """A plain-text table: parameter, (true,) start, fitted, range, identified."""
+        """A plain-text table: parameter, (true,) start, fitted, range, identified.
+
+        Parameters
+        ----------
+        truth : dict of str to float or None
+            {parameter: true value} [SI] to show in a "true" column (synthetic data), or None.
+
+        Returns
+        -------
+        str
+            The table, one line per parameter.
+        """
         head = ["parameter"] + (["true"] if truth else []) + ["start", "fitted", "range", "identified"]
         rows = [head]
         for k, v in self.best.items():
@@ -228,7 +288,7 @@ def fit(
 
     Parameters
     ----------
-    measured : PatternSource
+    measured : Events, Result, PatternMatrix or PatternSummary
         measured events (:func:`pdvoid.read_events`), a Result, or a count matrix.
     scenario : Scenario
         the starting scenario (its other parameters stay fixed).
@@ -252,11 +312,23 @@ def fit(
         extra seeds to measure the score's noise at the best point [-].
     acceptance : float
         accepted points score at most mean + ``acceptance`` × σ of the best point's scores over
-        other seeds [-]; ``tolerance`` [-] is the smallest margin above the best score.
+        other seeds [-].
+    tolerance : float
+        the smallest margin of the accepted scores above the best score [-].
     workers : int or None
         processes for the population (1 = in this process; None = all local cores).
     client : Any
         a dask.distributed Client or scheduler address (then ``workers`` is ignored).
+
+    Returns
+    -------
+    FitResult
+        The best values, their accepted ranges and whether each is identified, the scores and the runs.
+
+    Raises
+    ------
+    InputError
+        For a bad scenario, ``vary``, threshold, detector or run settings (checked before any simulation).
     """
     if not isinstance(scenario, Scenario):
         raise InputError(f"scenario must be a pdvoid.Scenario; got {type(scenario).__name__}")

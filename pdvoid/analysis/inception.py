@@ -103,6 +103,25 @@ def inception(scenario: Scenario, ramp: bool = False, **ramp_options: Any) -> In
 
     ``ramp=False`` (default) gives the analytic :class:`InceptionEstimate`; ``ramp=True`` runs
     :func:`ramp_test` with ``ramp_options`` and returns a :class:`RampTest`.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The void in its insulation [-].
+    ramp : bool
+        False for the analytic estimate, True for a simulated stepped-voltage test [-].
+    **ramp_options
+        Keyword arguments of :func:`ramp_test` (only with ``ramp=True``).
+
+    Returns
+    -------
+    InceptionEstimate or RampTest
+        The analytic estimate, or the simulated test.
+
+    Raises
+    ------
+    InputError
+        For a bad scenario, ramp options without ``ramp=True``, or bad ramp options.
     """
     if not isinstance(scenario, Scenario):
         raise InputError(f"scenario must be a pdvoid.Scenario; got {type(scenario).__name__}")
@@ -184,6 +203,17 @@ def ramp_test(
         seeds of the repeated tests [-] (spread over seeds = statistical scatter of the test).
     max_voltage : float or None
         highest level tried [V rms]; default 3 × the analytic inception voltage.
+
+    Returns
+    -------
+    RampTest
+        Inception and extinction voltage per seed, their means and standard deviations, and the levels and
+        counts of the first seed.
+
+    Raises
+    ------
+    InputError
+        For a bad scenario, levels, dwell, threshold, repeat count or seeds.
     """
     est = inception(scenario)
     u_ref = est.inception_voltage
@@ -227,10 +257,27 @@ def ramp_test(
 
 
 def time_above_inception_fraction(scenario: Scenario, voltage: float) -> float:
-    """Fraction of each period during which the field of an uncharged void exceeds E_inc at ``voltage`` [V rms].
+    """Fraction of each period during which the field of an uncharged void exceeds E_inc at ``voltage``.
 
     Derived for a pure sine: |sin ωt| ≥ s0 with s0 = U_inc/U, a fraction 1 − (2/π)·asin(s0). Other waveforms are
     evaluated numerically on 20001 points per period.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The void; its supply's waveform is used, scaled to ``voltage`` [-].
+    voltage : float
+        Applied voltage [V rms], > 0.
+
+    Returns
+    -------
+    float
+        The fraction of the period, 0 ... 1 [-]; 0 at or below the inception voltage.
+
+    Raises
+    ------
+    InputError
+        For a voltage <= 0.
     """
     voltage = check_positive("voltage", voltage, "V")
     u_inc = compute_coefficients(scenario).inception_voltage
@@ -248,10 +295,31 @@ def time_above_inception_fraction(scenario: Scenario, voltage: float) -> float:
 
 
 def probability_of_missing(scenario: Scenario, voltage: float, duration: float) -> float:
-    """Probability that an uncharged void produces no discharge at all during a test of ``duration`` [s] at
-    ``voltage`` [V rms]: exp(−N_vol·t_above), with t_above the time its field spends above E_inc (Poisson
-    start electrons from volume ionisation; surface emission needs an earlier discharge; physics brief §3.3).
-    Lag-free models never miss above inception (returns 0); below inception the probability is 1.
+    """Probability that an uncharged void produces no discharge at all during a test of ``duration`` at
+    ``voltage``.
+
+    exp(−N_vol·t_above), with t_above the time its field spends above E_inc (Poisson start electrons from volume
+    ionisation; surface emission needs an earlier discharge; physics brief §3.3). Lag-free models never miss
+    above inception (returns 0); below inception the probability is 1.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The void and its model [-].
+    voltage : float
+        Applied voltage [V rms], > 0.
+    duration : float
+        Duration of the test [s], > 0.
+
+    Returns
+    -------
+    float
+        The probability, 0 ... 1 [-].
+
+    Raises
+    ------
+    InputError
+        For a voltage or duration <= 0.
     """
     duration = check_positive("duration", duration, "s")
     frac = time_above_inception_fraction(scenario, voltage)

@@ -157,7 +157,18 @@ class WeibullFit:
     note: str = ""
 
     def cdf(self, charge: ArrayLike) -> np.ndarray:
-        """Fitted cumulative probability at magnitudes ``charge`` [C] (0 below the location) [-]."""
+        """Fitted cumulative probability at magnitudes ``charge`` (0 below the location).
+
+        Parameters
+        ----------
+        charge : array_like
+            Magnitudes |q| [C].
+
+        Returns
+        -------
+        numpy.ndarray
+            F(q) of the same shape [-].
+        """
         q = check_array("charge", charge, ndim=np.ndim(charge))
         return stats.weibull_min.cdf(q, self.shape, loc=self.location, scale=self.scale)
 

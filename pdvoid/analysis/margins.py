@@ -111,6 +111,17 @@ def margin_table(scenario: Scenario, parameter: str = "void.size", values: Array
         the values [SI]; default 25 sizes from 0.1 to 5 mm (log-spaced) for "void.size".
     test_voltage : float or None
         the test level [V rms] for the margin column.
+
+    Returns
+    -------
+    MarginTable
+        Inception and extinction voltage per value [V rms] (NaN where the combination is impossible, with the
+        reason in ``errors``), and the margin when ``test_voltage`` is given.
+
+    Raises
+    ------
+    InputError
+        For a bad scenario, an unknown parameter, missing or bad values, or a test voltage <= 0.
     """
     if not isinstance(scenario, Scenario):
         raise InputError(f"scenario must be a pdvoid.Scenario; got {type(scenario).__name__}")
@@ -162,10 +173,27 @@ class LargestVoid:
 
 def largest_pd_free_void(scenario: Scenario, test_voltage: float) -> LargestVoid:
     """The void diameter (at the scenario's aspect ratio) whose analytic inception voltage equals
-    ``test_voltage`` [V rms]: every smaller void of that shape stays discharge-free at the test level.
+    ``test_voltage``: every smaller void of that shape stays discharge-free at the test level.
 
     The inception voltage falls monotonically with size at fixed shape (the streamer term B/(p·l)^n shrinks,
     the field enhancement stays), so the root is unique; Brent's method on log(size).
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The design; its void's aspect ratio is kept [-].
+    test_voltage : float
+        The test level [V rms], > 0.
+
+    Returns
+    -------
+    LargestVoid
+        Diameter and height of that void [m], its inception voltage [V rms] and what limited the search.
+
+    Raises
+    ------
+    InputError
+        For a test voltage <= 0.
     """
     test_voltage = check_positive("test_voltage", test_voltage, "V")
     aspect = scenario.void.height / scenario.void.diameter
@@ -217,8 +245,30 @@ class DesignMargin:
 
 
 def design_margin(scenario: Scenario, nominal_voltage: float, test_factor: float = SQRT3) -> DesignMargin:
-    """Margin of ``scenario`` against a test at ``test_factor`` × ``nominal_voltage`` [V rms]; the default √3 ≈
-    1.73 × U0 is common practice in routine PD tests of extruded cables (the applicable standard rules)."""
+    """Margin of ``scenario`` against a test at ``test_factor`` × ``nominal_voltage``.
+
+    The default √3 ≈ 1.73 × U0 is common practice in routine PD tests of extruded cables (the applicable
+    standard rules).
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The design [-].
+    nominal_voltage : float
+        Nominal (service) voltage U0 [V rms], > 0.
+    test_factor : float
+        Test level / nominal voltage [-], > 0.
+
+    Returns
+    -------
+    DesignMargin
+        Voltages [V rms], margins [-] and the largest discharge-free void at the test level [m].
+
+    Raises
+    ------
+    InputError
+        For a nominal voltage or test factor <= 0.
+    """
     nominal_voltage = check_positive("nominal_voltage", nominal_voltage, "V")
     test_factor = check_positive("test_factor", test_factor)
     c = compute_coefficients(scenario)

@@ -211,6 +211,11 @@ class PhasePattern:
         ``z`` has shape (charge_bins + 1, phase_bins): :attr:`values` transposed, with one row inserted for the
         interval between the polarities, which is always 0 (events there are in ``zero_count`` or
         ``outside_count``). This is the layout ``matplotlib.pyplot.pcolormesh(x_edges, y_edges, z)`` expects.
+
+        Returns
+        -------
+        tuple of (numpy.ndarray, numpy.ndarray, numpy.ndarray)
+            Phase edges [deg], signed charge edges [C] and ``z`` [-, or 1/cycle with ``per_cycle``].
         """
         v = np.asarray(self.values, dtype=float)
         m = v.shape[1] // 2
@@ -335,7 +340,25 @@ class HalfCycleDistributions:
     cycles: float
 
     def get(self, name: str, half: str) -> np.ndarray:
-        """The distribution ``name`` ("H_n", "H_qn" or "H_qmax") of half ``half`` ("+" or "-")."""
+        """One of the distributions by name and half.
+
+        Parameters
+        ----------
+        name : str
+            "H_n", "H_qn" or "H_qmax" [-].
+        half : str
+            "+" or "-" [-].
+
+        Returns
+        -------
+        numpy.ndarray
+            The distribution over the phase windows of that half.
+
+        Raises
+        ------
+        InputError
+            For another name or half.
+        """
         check_choice("name", name, DISTRIBUTION_NAMES)
         check_choice("half", half, HALVES)
         field = {"H_n": "n", "H_qn": "qn", "H_qmax": "qmax"}[name]

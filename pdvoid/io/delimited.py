@@ -355,6 +355,16 @@ def describe_read(data: Events | PatternMatrix) -> str:
     data : Events or PatternMatrix
         what :func:`read_events`, :func:`pdvoid.io.read_pattern_matrix` or
         :func:`pdvoid.io.read_exchange` returned [-]
+
+    Returns
+    -------
+    str
+        One ``key: value`` line per entry of the reader's summary.
+
+    Raises
+    ------
+    InputError
+        When ``data`` holds no reader summary.
     """
     extra = getattr(data, "extra", None)
     summary = extra.get("summary") if isinstance(extra, dict) else None

@@ -211,6 +211,16 @@ def read_exchange(path: str | os.PathLike) -> Events | PatternMatrix:
     The header's ``provenance`` goes to ``extra["provenance"]``, its threshold to ``extra["threshold"]``,
     and a summary of what was read to ``extra["summary"]``.
 
+    Parameters
+    ----------
+    path : str or os.PathLike
+        The file [-].
+
+    Returns
+    -------
+    Events or PatternMatrix
+        Events for ``kind = "events"``, a count matrix for ``kind = "matrix"``.
+
     Raises
     ------
     InputError

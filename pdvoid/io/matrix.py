@@ -108,11 +108,28 @@ class PatternMatrix:
 
     @property
     def phase_centres_deg(self) -> np.ndarray:
+        """Centres of the phase bins [deg]."""
         e = self.phase_edges_deg
         return 0.5 * (e[:-1] + e[1:])
 
     def charge_centres(self, centre: str = "arithmetic") -> np.ndarray:
-        """Bin centres [C]: "arithmetic" mean of the edges, or signed "geometric" mean (bins off 0)."""
+        """Bin centres of the charge axis [C].
+
+        Parameters
+        ----------
+        centre : str
+            "arithmetic" mean of the edges, or signed "geometric" mean (bins off 0) [-].
+
+        Returns
+        -------
+        numpy.ndarray
+            One centre per charge bin [C].
+
+        Raises
+        ------
+        InputError
+            For geometric centres when a bin contains or touches 0 C.
+        """
         check_choice("centre", centre, ("arithmetic", "geometric"))
         lo, hi = self.charge_edges[:-1], self.charge_edges[1:]
         if centre == "arithmetic":
@@ -132,6 +149,17 @@ class PatternMatrix:
         ----------
         centre : str
             "arithmetic" or "geometric" charge centre of each bin [-]
+
+        Returns
+        -------
+        Events
+            ``total`` events, label of the matrix, ``extra["from matrix"] = True``.
+
+        Raises
+        ------
+        InputError
+            When the matrix counts more than :data:`pdvoid.io.lines.MAX_ROWS` discharges, or for geometric centres
+            of a bin that touches 0 C.
         """
         total = self.total
         if total > L.MAX_ROWS:
@@ -166,6 +194,11 @@ def matrix_from_events(
         phase edges inside [0, 360] [deg]
     charge_edges : array_like
         signed charge edges [C]
+
+    Returns
+    -------
+    PatternMatrix
+        The counts, the edges, and the events' cycles and frequency.
 
     Raises
     ------
@@ -351,6 +384,11 @@ def write_pattern_matrix(
         free comment lines written first [-]
     delimiter : str
         ",", ";" or "\\t" [-]
+
+    Returns
+    -------
+    Path
+        The path written.
     """
     if not isinstance(matrix, PatternMatrix):
         raise InputError(f"matrix must be a PatternMatrix; got {type(matrix).__name__}")

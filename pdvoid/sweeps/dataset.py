@@ -75,7 +75,34 @@ def assemble(
     cycles: int,
     metrics: Callable | None = None,
 ) -> xarray.Dataset:
-    """Build the sweep Dataset from the plan and one (metrics, error) outcome per point (flat, plan order)."""
+    """Build the sweep Dataset from the plan and one (metrics, error) outcome per point (flat, plan order).
+
+    Parameters
+    ----------
+    plan : Plan
+        The points and their seeds [-].
+    outcomes : sequence of (dict of str to float, str)
+        Per point, ({"name [unit]": value}, "") or ({}, error message) [-].
+    scenario : Scenario
+        The base scenario (stored as the ``scenario_toml`` attribute) [-].
+    cycles : int
+        AC cycles per point [-].
+    metrics : callable or None
+        The metric function used; None for the default metrics [-].
+
+    Returns
+    -------
+    xarray.Dataset
+        One variable per metric (``units`` and ``long_name`` attributes), ``seed`` and ``error``, on the grid's
+        dimensions or on ``point``; the settings as attributes.
+
+    Raises
+    ------
+    InputError
+        When the number of outcomes differs from the plan's points, or metric names clash.
+    MissingDependencyError
+        When xarray is missing.
+    """
     xr = require("xarray")
     n = plan.n_points
     if len(outcomes) != n:
@@ -148,7 +175,23 @@ def _scenario_text(scenario: Scenario) -> str:
 
 
 def base_scenario(ds: xarray.Dataset) -> Scenario:
-    """The scenario a sweep Dataset started from (its points are ``base_scenario(ds).replace(...)``)."""
+    """The scenario a sweep Dataset started from (its points are ``base_scenario(ds).replace(...)``).
+
+    Parameters
+    ----------
+    ds : xarray.Dataset
+        A Dataset from :func:`pdvoid.sweeps.sweep` or :func:`read_netcdf` [-].
+
+    Returns
+    -------
+    Scenario
+        The base scenario, read from the ``scenario_toml`` attribute.
+
+    Raises
+    ------
+    InputError
+        When the Dataset has no such attribute, or it does not hold a valid scenario.
+    """
     text = getattr(ds, "attrs", {}).get("scenario_toml")
     if not isinstance(text, str):
         raise InputError("this Dataset has no 'scenario_toml' attribute: it was not made by pdvoid.sweeps")
@@ -167,6 +210,16 @@ def write_netcdf(ds: xarray.Dataset, path: str | os.PathLike, *, engine: str = "
     engine : str
         xarray backend; "scipy" (default, no extra package) writes NetCDF-3 classic, readable by every
         NetCDF tool; "netcdf4" or "h5netcdf" write NetCDF-4 if those packages are installed.
+
+    Returns
+    -------
+    Path
+        The path written.
+
+    Raises
+    ------
+    InputError
+        When ``ds`` is not a Dataset or the file cannot be written.
     """
     xr = require("xarray")
     if not isinstance(ds, xr.Dataset):
@@ -180,7 +233,25 @@ def write_netcdf(ds: xarray.Dataset, path: str | os.PathLike, *, engine: str = "
 
 
 def read_netcdf(path: str | os.PathLike, *, engine: str | None = None) -> xarray.Dataset:
-    """Read a sweep NetCDF file fully into memory (the file is closed on return)."""
+    """Read a sweep NetCDF file fully into memory (the file is closed on return).
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+        The file [-].
+    engine : str or None
+        xarray backend; None to let xarray choose [-].
+
+    Returns
+    -------
+    xarray.Dataset
+        The sweep Dataset (the ``error`` variable as text).
+
+    Raises
+    ------
+    InputError
+        When the file does not exist.
+    """
     xr = require("xarray")
     p = Path(path)
     if not p.is_file():

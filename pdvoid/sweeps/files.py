@@ -45,7 +45,25 @@ _BOUND_KEYS = {"low", "high", "scale"}
 
 @dataclass(frozen=True)
 class SweepSpec:
-    """A sweep file's content: pass it on as ``sweep(spec.scenario, spec.parameters, **spec.options())``."""
+    """A sweep file's content: pass it on as ``sweep(spec.scenario, spec.parameters, **spec.options())``.
+
+    Attributes
+    ----------
+    scenario : Scenario
+        The base scenario.
+    parameters : dict of str to Any
+        Grid: {dotted name: list of values} [SI]; random/lhs: {dotted name: (low, high, scale)} [SI].
+    design : str
+        "grid", "random" or "lhs".
+    cycles : int
+        AC cycles per point [-].
+    seed : int
+        Master seed [-].
+    samples : int or None
+        Number of points for random/lhs [-]; None for grid.
+    source : str
+        The file it was read from.
+    """
 
     scenario: Scenario
     parameters: dict[str, Any]
@@ -56,6 +74,13 @@ class SweepSpec:
     source: str = ""
 
     def options(self) -> dict[str, Any]:
+        """The keyword arguments of :func:`pdvoid.sweeps.sweep` that the file sets.
+
+        Returns
+        -------
+        dict of str to Any
+            ``{"design", "cycles", "seed", "samples"}``.
+        """
         return {"design": self.design, "cycles": self.cycles, "seed": self.seed, "samples": self.samples}
 
 
@@ -142,7 +167,24 @@ def _bounds(name: str, spec: Any, scenario: Scenario, p: Path) -> tuple:
 
 
 def read_sweep_file(path: str | os.PathLike) -> SweepSpec:
-    """Read a sweep file (see the module docstring); errors name the file and the key."""
+    """Read a sweep file (see the module docstring).
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+        The TOML file [-].
+
+    Returns
+    -------
+    SweepSpec
+        The base scenario, the parameters in SI and the sweep settings.
+
+    Raises
+    ------
+    InputError
+        Naming the file and the key, for an unreadable file, unknown keys, a bad scenario, parameter names or
+        values, or bad settings.
+    """
     p = Path(path)
     data = _load(p)
     unknown = set(data) - _TOP

@@ -49,7 +49,23 @@ _KEY = re.compile(r"^\s*(.*?)\s*\[([^\[\]]*)\]\s*$")
 
 
 def split_key(key: str) -> tuple[str, str | None]:
-    """``"mean charge [pC]"`` → ``("mean_charge", "pC")``; no brackets: no unit (None); "-" → "1"."""
+    """Split a metric key into a variable name and a unit: ``"mean charge [pC]"`` → ``("mean_charge", "pC")``.
+
+    Parameters
+    ----------
+    key : str
+        ``"name [unit]"`` or ``"name"`` [-].
+
+    Returns
+    -------
+    tuple of (str, str or None)
+        The variable name (snake_case) and the unit; None without brackets, "1" for "-" or "".
+
+    Raises
+    ------
+    InputError
+        When ``key`` is not text or gives no usable variable name (it must start with a letter).
+    """
     if not isinstance(key, str):
         raise InputError(f"metric names must be text like 'name [unit]'; got {key!r}")
     m = _KEY.match(key)
@@ -110,10 +126,24 @@ def _numbers(values: object) -> dict[str, float]:
 def run_point(
     item: tuple[dict, int], *, scenario: Scenario, cycles: int, metrics: Callable | None = None
 ) -> tuple[dict[str, float], str]:
-    """Run one sweep point: ``item = (changes, seed)``.
+    """Run one sweep point.
 
-    Returns (metrics, "") on success and ({}, message) when the point is impossible (any InputError from the
-    changed scenario, the simulation or the metric function). Other exceptions propagate: they are bugs.
+    Parameters
+    ----------
+    item : tuple of (dict, int)
+        ``(changes, seed)``: the dotted-path changes of the base scenario [SI] and the point's seed [-].
+    scenario : Scenario
+        The base scenario [-].
+    cycles : int
+        AC cycles to simulate [-].
+    metrics : callable or None
+        ``f(result) -> {"name [unit]": number}``; None for :func:`default_metrics` [-].
+
+    Returns
+    -------
+    tuple of (dict of str to float, str)
+        (metrics, "") on success and ({}, message) when the point is impossible (any InputError from the
+        changed scenario, the simulation or the metric function). Other exceptions propagate: they are bugs.
     """
     changes, seed = item
     try:

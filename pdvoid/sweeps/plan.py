@@ -82,10 +82,22 @@ class Plan:
 
     @property
     def n_points(self) -> int:
+        """Number of points [-]."""
         return int(self.seeds.size)
 
     def changes(self, index: int) -> dict[str, object]:
-        """The dotted-path changes of point ``index`` as plain Python values (for ``Scenario.replace``)."""
+        """The dotted-path changes of one point as plain Python values (for ``Scenario.replace``).
+
+        Parameters
+        ----------
+        index : int
+            Flat index of the point, 0 ... n_points − 1 [-].
+
+        Returns
+        -------
+        dict of str to object
+            {dotted name: value} [SI].
+        """
         return {name: self.values[name][index].item() for name in self.names}
 
 
@@ -241,6 +253,11 @@ def random_plan(bounds: Mapping[str, tuple], samples: int, seed: int = 0) -> Pla
         number of points [-].
     seed : int
         master seed [-].
+
+    Returns
+    -------
+    Plan
+        The points (flat, length ``samples``) and their seeds.
     """
     return _sampled_plan("random", bounds, samples, seed)
 
@@ -258,6 +275,11 @@ def lhs_plan(bounds: Mapping[str, tuple], samples: int, seed: int = 0) -> Plan:
     seed : int
         master seed [-].
 
+    Returns
+    -------
+    Plan
+        The points (flat, length ``samples``) and their seeds.
+
     References
     ----------
     [mckay1979] McKay, Beckman and Conover (1979), "A comparison of three methods for selecting values of input
@@ -271,7 +293,30 @@ def lhs_plan(bounds: Mapping[str, tuple], samples: int, seed: int = 0) -> Plan:
 def make_plan(
     parameters: Mapping, *, design: str = "grid", samples: int | None = None, seed: int = 0
 ) -> Plan:
-    """The plan for ``design``: grid takes value lists (no ``samples``); random/lhs: bounds and samples."""
+    """The plan for ``design``: grid takes value lists (no ``samples``); random/lhs: bounds and samples.
+
+    Parameters
+    ----------
+    parameters : Mapping
+        Grid: {dotted name: list of values} [SI]; random/lhs: {dotted name: (low, high)} or
+        (low, high, "log") [SI].
+    design : str
+        "grid", "random" or "lhs" [-].
+    samples : int or None
+        Number of points for random/lhs; None for grid [-].
+    seed : int
+        Master seed [-].
+
+    Returns
+    -------
+    Plan
+        The points and their seeds.
+
+    Raises
+    ------
+    InputError
+        For an unknown design, ``samples`` with a grid or without random/lhs, or bad parameters.
+    """
     if design not in DESIGNS:
         raise InputError(f"design must be one of {', '.join(map(repr, DESIGNS))}; got {design!r}")
     if design == "grid":

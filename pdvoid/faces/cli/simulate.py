@@ -6,13 +6,17 @@ import argparse
 import json
 import math
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 from pdvoid.coefficients import compute_coefficients
 from pdvoid.faces.cli.output import SAFETY, json_safe
 from pdvoid.inputs.demo import DEMO_SERVICE_RMS, DEMO_TEST_RMS, demo_scenario
 
+if TYPE_CHECKING:
+    from pdvoid.simulation.results import Result
 
-def _run_summary(result) -> dict:
+
+def _run_summary(result: Result) -> dict[str, float]:
     """The run's summary as ``{"label [display unit]": value}`` (NaN where a number does not exist)."""
     from pdvoid.analysis.summary import run_summary
     from pdvoid.faces.summary_table import summary_dict
