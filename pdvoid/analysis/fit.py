@@ -192,11 +192,15 @@ class FitResult:
     noise : float
         standard deviation of the score over other seeds at the best values [-].
     start : dict[str, float]
-        {parameter: value in the starting scenario}; start_score: its score [-].
+        {parameter: value in the starting scenario}.
+    start_score : float
+        the score of the starting values [-].
     bounds : dict[str, tuple[float, float]]
         {parameter: (low, high)} searched.
     runs : int
-        simulations spent [-]; elapsed: wall time [s].
+        simulations spent [-].
+    elapsed : float
+        wall time of the fit [s].
     scenario : Scenario
         the starting scenario with the best values.
     points, scores : numpy.ndarray

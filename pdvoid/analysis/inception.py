@@ -67,9 +67,17 @@ class RampTest:
     inception_voltages, extinction_voltages : numpy.ndarray
         per seed [V]; NaN when not reached within the limits.
     inception_voltage, extinction_voltage : float
-        means over the seeds [V]; *_std: sample standard deviations [V].
-    step, dwell, threshold, repeat_count
-        the test's settings [V], [s], [C], [-].
+        means over the seeds [V].
+    inception_voltage_std, extinction_voltage_std : float
+        sample standard deviations over the seeds [V] (NaN for fewer than two values).
+    step : float
+        the voltage step [V].
+    dwell : float
+        the time at each level [s] (whole cycles).
+    threshold : float
+        the detection threshold [C].
+    repeat_count : int
+        pulses per dwell that count as repetitive [-].
     levels : numpy.ndarray
         the voltage levels visited by the first seed, in order [V].
     counts : numpy.ndarray
