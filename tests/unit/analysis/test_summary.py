@@ -97,3 +97,9 @@ def test_record_is_frozen_and_every_attribute_has_a_unit(test_level_run):
 def test_not_a_result_is_an_input_error(test_level_run):
     with pytest.raises(pdvoid.InputError, match="Result"):
         run_summary(test_level_run.events)
+
+
+def test_a_run_of_no_cycle_is_an_input_error(test_level_run):
+    stopped = dataclasses.replace(test_level_run, cycles=0)  # a run stopped before its first cycle
+    with pytest.raises(pdvoid.InputError, match="cycles=0"):
+        run_summary(stopped)
