@@ -55,13 +55,15 @@ from __future__ import annotations
 import math
 from collections.abc import Mapping
 from dataclasses import dataclass
+from typing import TypeAlias
 
 import numpy as np
 from scipy.spatial.distance import jensenshannon
 
 from pdvoid.analysis.descriptors import FINGERPRINT_NAMES, fingerprint
-from pdvoid.analysis.patterns import HALVES, _stored_events
+from pdvoid.analysis.patterns import HALVES, EventSource, _stored_events
 from pdvoid.core.errors import InputError, check_int, check_nonnegative
+from pdvoid.io.matrix import PatternMatrix
 from pdvoid.simulation.events import Events
 
 __all__ = [
@@ -72,6 +74,7 @@ __all__ = [
     "Comparison",
     "summarise",
     "compare",
+    "PatternSource",
     "cdf_distances",
 ]
 
@@ -107,17 +110,28 @@ EMPTY_DISTANCE: dict[str, float] = {
 class PatternSummary:
     """What :func:`compare` needs of one pattern, computed once by :func:`summarise`.
 
-    Attributes:
-        threshold: detection threshold applied [C].
-        phase_bins: phase bins per half cycle [-].
-        phase_windows: windows per half cycle of the fingerprint [-].
-        cycles: AC cycles observed [-].
-        kept: events kept (|q| >= threshold and q != 0) [-].
-        removed: events removed by the threshold or for zero charge [-].
-        phases: per half ("+", "-"): phases of the kept events, 0-180 deg [deg].
-        log_magnitudes: per half: log10 of |q| / (1 C) [-].
-        histograms: per half: counts per phase bin [-].
-        descriptors: the fingerprint, in the order of FINGERPRINT_NAMES [-].
+    Attributes
+    ----------
+    threshold : float
+        detection threshold applied [C].
+    phase_bins : int
+        phase bins per half cycle [-].
+    phase_windows : int
+        windows per half cycle of the fingerprint [-].
+    cycles : float
+        AC cycles observed [-].
+    kept : int
+        events kept (|q| >= threshold and q != 0) [-].
+    removed : int
+        events removed by the threshold or for zero charge [-].
+    phases : dict
+        per half ("+", "-"): phases of the kept events, 0-180 deg [deg].
+    log_magnitudes : dict
+        per half: log10 of |q| / (1 C) [-].
+    histograms : dict
+        per half: counts per phase bin [-].
+    descriptors : numpy.ndarray
+        the fingerprint, in the order of FINGERPRINT_NAMES [-].
     """
 
     threshold: float
@@ -137,18 +151,29 @@ class PatternSummary:
         return self.kept / self.cycles
 
 
+#: what :func:`compare` and :func:`summarise` accept: events, a Result, a count matrix or a ready summary
+PatternSource: TypeAlias = EventSource | PatternMatrix | PatternSummary
+
+
 def summarise(
-    events: object, threshold: float = 0.0, phase_bins: int = 18, phase_windows: int = 18
+    events: PatternSource, threshold: float = 0.0, phase_bins: int = 18, phase_windows: int = 18
 ) -> PatternSummary:
     """Apply the threshold and prepare the distributions :func:`compare` uses (see module docs).
 
-    Parameters:
-        events: events, a Result, or anything with ``to_events()`` (a count matrix) [-]
-        threshold: detection threshold [C], >= 0; events with |q| < threshold are removed
-        phase_bins: equal phase bins per half cycle for the Jensen-Shannon part, 1 ... 100000 [-]
-        phase_windows: windows per half cycle of the fingerprint, 2 ... 100000 [-]
+    Parameters
+    ----------
+    events : Events, Result, PatternMatrix or PatternSummary
+        events, a Result, a count matrix (:class:`pdvoid.io.matrix.PatternMatrix`) or a summary [-]
+    threshold : float
+        detection threshold [C], >= 0; events with |q| < threshold are removed
+    phase_bins : int
+        equal phase bins per half cycle for the Jensen-Shannon part, 1 ... 100000 [-]
+    phase_windows : int
+        windows per half cycle of the fingerprint, 2 ... 100000 [-]
 
-    Returns:
+    Returns
+    -------
+    PatternSummary
         :class:`PatternSummary`.
     """
     if isinstance(events, PatternSummary):
@@ -156,7 +181,7 @@ def summarise(
     thr = check_nonnegative("threshold", threshold, "C")
     nb = check_int("phase_bins", phase_bins, 1, 100_000)
     nw = check_int("phase_windows", phase_windows, 2, 100_000)
-    if not isinstance(events, Events) and hasattr(events, "to_events"):
+    if isinstance(events, PatternMatrix):
         events = events.to_events()
     ev = _stored_events(events)  # refuses histogram-only results (their events were not kept)
     mag = np.abs(ev.charge)
@@ -188,14 +213,22 @@ def summarise(
 class Comparison:
     """The outcome of :func:`compare`.
 
-    Attributes:
-        score: the combined score (0 for identical patterns) [-].
-        parts: {part name: value} for every part in PART_NAMES (NaN where undefined) [-].
-        weights: the weights used [-].
-        threshold: detection threshold applied to both sides [C].
-        kept: events kept per side, {"simulated": n, "measured": n} [-].
-        removed: events removed per side by the threshold (or for zero charge) [-].
-        rates: kept discharges per cycle per side [-].
+    Attributes
+    ----------
+    score : float
+        the combined score (0 for identical patterns) [-].
+    parts : dict
+        {part name: value} for every part in PART_NAMES (NaN where undefined) [-].
+    weights : dict
+        the weights used [-].
+    threshold : float
+        detection threshold applied to both sides [C].
+    kept : dict
+        events kept per side, {"simulated": n, "measured": n} [-].
+    removed : dict
+        events removed per side by the threshold (or for zero charge) [-].
+    rates : dict
+        kept discharges per cycle per side [-].
     """
 
     score: float
@@ -207,7 +240,13 @@ class Comparison:
     rates: dict
 
     def table(self) -> str:
-        """The parts, weights and score as a small text table."""
+        """The parts, weights and score as a small text table.
+
+        Returns
+        -------
+        str
+            One line per part, then the score, the threshold and the kept and removed counts.
+        """
         rows = [f"{'part':<24s}{'value':>12s}{'weight':>9s}"]
         for k in PART_NAMES:
             rows.append(f"{k:<24s}{self.parts[k]:>12.4g}{self.weights[k]:>9.3g}")
@@ -240,11 +279,16 @@ def cdf_distances(a: np.ndarray, b: np.ndarray) -> tuple[float, float]:
     ``scipy.stats.ks_2samp(a, b).statistic`` (checked in the tests), computed in one pass from samples
     sorted once in :func:`summarise`.
 
-    Parameters:
-        a: sorted sample (same unit as b) [-]
-        b: sorted sample [-]
+    Parameters
+    ----------
+    a : numpy.ndarray
+        sorted sample (same unit as b) [-]
+    b : numpy.ndarray
+        sorted sample [-]
 
-    Returns:
+    Returns
+    -------
+    tuple[float, float]
         (W1 in the unit of the samples, D in [0, 1]).
     """
     merged = np.concatenate([a, b])
@@ -289,8 +333,8 @@ def _fingerprint_distance(x: np.ndarray, y: np.ndarray) -> float:
 
 
 def compare(
-    simulated: object,
-    measured: object,
+    simulated: PatternSource,
+    measured: PatternSource,
     threshold: float = 0.0,
     weights: Mapping[str, float] | None = None,
     *,
@@ -299,20 +343,31 @@ def compare(
 ) -> Comparison:
     """Combined distance between two patterns (definition in :mod:`pdvoid.analysis.compare`).
 
-    Parameters:
-        simulated: events, a Result, a count matrix (anything with ``to_events()``) or a summary from
-            :func:`summarise` [-]
-        measured: the same kinds [-]
-        threshold: detection threshold [C], >= 0: events with |q| < threshold are removed from both sides
-        weights: {part name: weight >= 0} replacing entries of DEFAULT_WEIGHTS [-]
-        phase_bins: equal phase bins per half cycle for the Jensen-Shannon part [-]
-        phase_windows: windows per half cycle of the fingerprint [-]
+    Parameters
+    ----------
+    simulated : Events, Result, PatternMatrix or PatternSummary
+        events, a Result, a count matrix (:class:`pdvoid.io.matrix.PatternMatrix`) or a summary from
+        :func:`summarise` [-]
+    measured : Events, Result, PatternMatrix or PatternSummary
+        the same kinds [-]
+    threshold : float
+        detection threshold [C], >= 0: events with |q| < threshold are removed from both sides
+    weights : Mapping[str, float] or None
+        {part name: weight >= 0} replacing entries of DEFAULT_WEIGHTS [-]
+    phase_bins : int
+        equal phase bins per half cycle for the Jensen-Shannon part [-]
+    phase_windows : int
+        windows per half cycle of the fingerprint [-]
 
-    Returns:
+    Returns
+    -------
+    Comparison
         :class:`Comparison` (score 0 for identical inputs; symmetric in its two inputs).
 
-    Raises:
-        InputError: for bad arguments, or a PatternSummary made with another threshold or binning.
+    Raises
+    ------
+    InputError
+        for bad arguments, or a PatternSummary made with another threshold or binning.
     """
     thr = check_nonnegative("threshold", threshold, "C")
     w = _weights(weights)

@@ -24,13 +24,15 @@ from __future__ import annotations
 
 import math
 import time
+from collections.abc import Callable, Iterable, Sequence
 from dataclasses import dataclass, fields
-from typing import Any
+from typing import Any, TypeVar
 
 import numpy as np
+from numpy.typing import ArrayLike
 from scipy.optimize import differential_evolution, minimize
 
-from pdvoid.analysis.compare import compare, summarise
+from pdvoid.analysis.compare import PatternSource, compare, summarise
 from pdvoid.analysis.synthetic import measurement_effects
 from pdvoid.core.errors import InputError, check_int, check_nonnegative, check_positive
 from pdvoid.inputs.scenario import Scenario
@@ -65,10 +67,28 @@ class _Spec:
 class FitObjective:
     """Score of a parameter vector (normalised coordinates in [0, 1]) against the measured pattern.
 
-    Picklable, so it runs on worker processes or a Dask cluster."""
+    Picklable, so it runs on worker processes or a Dask cluster.
 
-    def __init__(self, measured, scenario: Scenario, specs: tuple[_Spec, ...], *, threshold: float, cycles: int,
-                 seed: int, detector: dict | None) -> None:
+    Parameters
+    ----------
+    measured : Events, Result, PatternMatrix or PatternSummary
+        The measured pattern; summarised once with ``threshold`` [-].
+    scenario : Scenario
+        The starting scenario; the varied parameters replace its values [-].
+    specs : tuple of _Spec
+        The varied parameters with their ranges (normalised coordinate 0 = low, 1 = high) [-].
+    threshold : float
+        Detection threshold applied to both sides [C].
+    cycles : int
+        Simulated cycles per evaluation [-].
+    seed : int
+        Seed of every evaluation (common random numbers) [-].
+    detector : dict or None
+        Keyword arguments of :func:`pdvoid.analysis.synthetic.measurement_effects`, or None [-].
+    """
+
+    def __init__(self, measured: PatternSource, scenario: Scenario, specs: tuple[_Spec, ...], *,
+                 threshold: float, cycles: int, seed: int, detector: dict | None) -> None:
         self.scenario = scenario
         self.specs = specs
         self.threshold = threshold
@@ -77,10 +97,41 @@ class FitObjective:
         self.detector = detector
         self.measured = summarise(measured, threshold)
 
-    def scenario_at(self, u) -> Scenario:
+    def scenario_at(self, u: Sequence[float] | np.ndarray) -> Scenario:
+        """The scenario at normalised coordinates ``u``.
+
+        Parameters
+        ----------
+        u : sequence of float or numpy.ndarray
+            One coordinate in [0, 1] per varied parameter [-].
+
+        Returns
+        -------
+        Scenario
+            The starting scenario with the varied parameters set.
+
+        Raises
+        ------
+        InputError
+            When the parameter values make an impossible scenario.
+        """
         return self.scenario.replace(**{s.name: s.to_value(x) for s, x in zip(self.specs, u, strict=True)})
 
-    def score(self, u, seed: int | None = None) -> float:
+    def score(self, u: Sequence[float] | np.ndarray, seed: int | None = None) -> float:
+        """The comparison score of the simulation at ``u`` (:func:`pdvoid.analysis.compare.compare`).
+
+        Parameters
+        ----------
+        u : sequence of float or numpy.ndarray
+            One coordinate in [0, 1] per varied parameter [-].
+        seed : int or None
+            Seed of the simulation; None for the objective's seed [-].
+
+        Returns
+        -------
+        float
+            The score (0 for identical patterns) [-]; :data:`PENALTY` when the scenario is impossible.
+        """
         seed = self.seed if seed is None else seed
         try:
             sc = self.scenario_at(u)
@@ -92,8 +143,11 @@ class FitObjective:
             ev = measurement_effects(res, seed, threshold=self.threshold, **self.detector)
         return float(compare(ev, self.measured, self.threshold).score)
 
-    def __call__(self, u) -> float:
+    def __call__(self, u: Sequence[float] | np.ndarray) -> float:
         return self.score(u)
+
+
+_Item = TypeVar("_Item")
 
 
 class _RecordingMap:
@@ -105,7 +159,7 @@ class _RecordingMap:
         self.points: list[np.ndarray] = []
         self.scores: list[float] = []
 
-    def run(self, func, items: list) -> list:
+    def run(self, func: Callable[[_Item], float], items: list[_Item]) -> list[float]:
         """Evaluate without recording."""
         if (self.workers == 1 and self.client is None) or len(items) == 1:
             return [func(x) for x in items]
@@ -113,7 +167,7 @@ class _RecordingMap:
 
         return parallel_map(func, items, workers=self.workers, client=self.client)
 
-    def __call__(self, func, iterable):
+    def __call__(self, func: Callable[[np.ndarray], float], iterable: Iterable[ArrayLike]) -> list[float]:
         items = [np.array(x, dtype=float) for x in iterable]
         out = self.run(func, items)
         self.points.extend(items)
@@ -125,17 +179,32 @@ class _RecordingMap:
 class FitResult:
     """Outcome of :func:`fit` (values in SI).
 
-    Attributes:
-        best: {parameter: best value}.
-        ranges: {parameter: (low, high)} of the accepted region.
-        identified: {parameter: False when the data cannot pin it down (accepted span > half its bounds)}.
-        score: comparison score at the best values (common random numbers) [-].
-        noise: standard deviation of the score over other seeds at the best values [-].
-        start: {parameter: value in the starting scenario}; start_score: its score [-].
-        bounds: {parameter: (low, high)} searched.
-        runs: simulations spent [-]; elapsed: wall time [s].
-        scenario: the starting scenario with the best values.
-        points, scores: every evaluated parameter set (SI, one row each) and its score.
+    Attributes
+    ----------
+    best : dict[str, float]
+        {parameter: best value}.
+    ranges : dict[str, tuple[float, float]]
+        {parameter: (low, high)} of the accepted region.
+    identified : dict[str, bool]
+        {parameter: False when the data cannot pin it down (accepted span > half its bounds)}.
+    score : float
+        comparison score at the best values (common random numbers) [-].
+    noise : float
+        standard deviation of the score over other seeds at the best values [-].
+    start : dict[str, float]
+        {parameter: value in the starting scenario}.
+    start_score : float
+        the score of the starting values [-].
+    bounds : dict[str, tuple[float, float]]
+        {parameter: (low, high)} searched.
+    runs : int
+        simulations spent [-].
+    elapsed : float
+        wall time of the fit [s].
+    scenario : Scenario
+        the starting scenario with the best values.
+    points, scores : numpy.ndarray
+        every evaluated parameter set (SI, one row each) and its score.
     """
 
     best: dict[str, float]
@@ -153,7 +222,18 @@ class FitResult:
     scores: np.ndarray
 
     def table(self, truth: dict[str, float] | None = None) -> str:
-        """A plain-text table: parameter, (true,) start, fitted, range, identified."""
+        """A plain-text table: parameter, (true,) start, fitted, range, identified.
+
+        Parameters
+        ----------
+        truth : dict of str to float or None
+            {parameter: true value} [SI] to show in a "true" column (synthetic data), or None.
+
+        Returns
+        -------
+        str
+            The table, one line per parameter.
+        """
         head = ["parameter"] + (["true"] if truth else []) + ["start", "fitted", "range", "identified"]
         rows = [head]
         for k, v in self.best.items():
@@ -191,7 +271,7 @@ def _specs(scenario: Scenario, vary: dict) -> tuple[_Spec, ...]:
 
 
 def fit(
-    measured,
+    measured: PatternSource,
     scenario: Scenario,
     vary: dict,
     *,
@@ -210,23 +290,49 @@ def fit(
 ) -> FitResult:
     """Find the values of ``vary`` whose simulated pattern best matches ``measured``.
 
-    Args:
-        measured: measured events (:func:`pdvoid.read_events`), a Result, or a count matrix.
-        scenario: the starting scenario (its other parameters stay fixed).
-        vary: {dotted parameter: (low, high)} in SI.
-        threshold: the measurement's detection limit [C]; applied to both sides.
-        cycles: simulated cycles per evaluation [-].
-        seed: the common seed of every evaluation [-].
-        detector: keyword arguments of :func:`pdvoid.analysis.synthetic.measurement_effects` (noise [C],
-            relative_noise [-], phase_resolution_deg [deg]) to pass simulations through the same measurement
-            effects as the data; None for none.
-        popsize, maxiter: differential evolution's population multiplier and generations [-].
-        polish: refine the best point with bounded Nelder-Mead.
-        noise_seeds: extra seeds to measure the score's noise at the best point [-].
-        acceptance: accepted points score at most mean + ``acceptance`` × σ of the best point's scores over
-            other seeds [-]; ``tolerance`` [-] is the smallest margin above the best score.
-        workers: processes for the population (1 = in this process; None = all local cores).
-        client: a dask.distributed Client or scheduler address (then ``workers`` is ignored).
+    Parameters
+    ----------
+    measured : Events, Result, PatternMatrix or PatternSummary
+        measured events (:func:`pdvoid.read_events`), a Result, or a count matrix.
+    scenario : Scenario
+        the starting scenario (its other parameters stay fixed).
+    vary : dict
+        {dotted parameter: (low, high)} in SI.
+    threshold : float
+        the measurement's detection limit [C]; applied to both sides.
+    cycles : int
+        simulated cycles per evaluation [-].
+    seed : int
+        the common seed of every evaluation [-].
+    detector : dict or None
+        keyword arguments of :func:`pdvoid.analysis.synthetic.measurement_effects` (noise [C],
+        relative_noise [-], phase_resolution_deg [deg]) to pass simulations through the same measurement
+        effects as the data; None for none.
+    popsize, maxiter : int
+        differential evolution's population multiplier and generations [-].
+    polish : bool
+        refine the best point with bounded Nelder-Mead.
+    noise_seeds : int
+        extra seeds to measure the score's noise at the best point [-].
+    acceptance : float
+        accepted points score at most mean + ``acceptance`` × σ of the best point's scores over
+        other seeds [-].
+    tolerance : float
+        the smallest margin of the accepted scores above the best score [-].
+    workers : int or None
+        processes for the population (1 = in this process; None = all local cores).
+    client : Any
+        a dask.distributed Client or scheduler address (then ``workers`` is ignored).
+
+    Returns
+    -------
+    FitResult
+        The best values, their accepted ranges and whether each is identified, the scores and the runs.
+
+    Raises
+    ------
+    InputError
+        For a bad scenario, ``vary``, threshold, detector or run settings (checked before any simulation).
     """
     if not isinstance(scenario, Scenario):
         raise InputError(f"scenario must be a pdvoid.Scenario; got {type(scenario).__name__}")
@@ -289,7 +395,7 @@ class _SeededScore:
         self.objective = objective
         self.u = np.array(u)
 
-    def __call__(self, seed) -> float:
+    def __call__(self, seed: int | np.integer) -> float:
         return self.objective.score(self.u, seed=int(seed))
 
 

@@ -11,7 +11,9 @@ sets its own from the product standard).
 from __future__ import annotations
 
 import math
+from collections.abc import Iterable
 from dataclasses import dataclass
+from typing import Any, Literal, overload
 
 import numpy as np
 
@@ -28,15 +30,22 @@ __all__ = ["InceptionEstimate", "RampTest", "inception", "ramp_test", "probabili
 class InceptionEstimate:
     """Analytic inception and extinction of a scenario (applied voltages in V rms).
 
-    Attributes:
-        inception_voltage: where the void field first reaches E_inc, by the model's criterion [V].
-        inception_voltage_streamer, inception_voltage_integral: by each criterion [V] (NaN if unavailable).
-        extinction_voltage: lowest voltage that sustains lag-free discharges once started, where the peak void
-            field reaches (E_inc + E_res)/2 [V]. From an uncharged start the model stops at the inception voltage,
-            so the extinction voltage of a gradual decrease lies between the two (physics brief §1.4, derived).
-        inception_field, residual_field: in the void [V/m].
-        field_enhancement: [-].
-        peak_factor: peak/rms of the supply [-].
+    Attributes
+    ----------
+    inception_voltage : float
+        where the void field first reaches E_inc, by the model's criterion [V].
+    inception_voltage_streamer, inception_voltage_integral : float
+        by each criterion [V] (NaN if unavailable).
+    extinction_voltage : float
+        lowest voltage that sustains lag-free discharges once started, where the peak void
+        field reaches (E_inc + E_res)/2 [V]. From an uncharged start the model stops at the inception voltage,
+        so the extinction voltage of a gradual decrease lies between the two (physics brief §1.4, derived).
+    inception_field, residual_field : float
+        in the void [V/m].
+    field_enhancement : float
+        [-].
+    peak_factor : float
+        peak/rms of the supply [-].
     """
 
     inception_voltage: float
@@ -53,12 +62,26 @@ class InceptionEstimate:
 class RampTest:
     """Outcome of simulated stepped-voltage tests, one per seed (voltages in V rms).
 
-    Attributes:
-        inception_voltages, extinction_voltages: per seed [V]; NaN when not reached within the limits.
-        inception_voltage, extinction_voltage: means over the seeds [V]; *_std: sample standard deviations [V].
-        step, dwell, threshold, repeat_count: the test's settings [V], [s], [C], [-].
-        levels: the voltage levels visited by the first seed, in order [V].
-        counts: pulses ≥ threshold at each visited level of the first seed [-].
+    Attributes
+    ----------
+    inception_voltages, extinction_voltages : numpy.ndarray
+        per seed [V]; NaN when not reached within the limits.
+    inception_voltage, extinction_voltage : float
+        means over the seeds [V].
+    inception_voltage_std, extinction_voltage_std : float
+        sample standard deviations over the seeds [V] (NaN for fewer than two values).
+    step : float
+        the voltage step [V].
+    dwell : float
+        the time at each level [s] (whole cycles).
+    threshold : float
+        the detection threshold [C].
+    repeat_count : int
+        pulses per dwell that count as repetitive [-].
+    levels : numpy.ndarray
+        the voltage levels visited by the first seed, in order [V].
+    counts : numpy.ndarray
+        pulses ≥ threshold at each visited level of the first seed [-].
     """
 
     inception_voltages: np.ndarray
@@ -75,11 +98,38 @@ class RampTest:
     counts: np.ndarray
 
 
-def inception(scenario: Scenario, ramp: bool = False, **ramp_options):
+@overload
+def inception(scenario: Scenario, ramp: Literal[False] = False) -> InceptionEstimate: ...
+
+
+@overload
+def inception(scenario: Scenario, ramp: Literal[True], **ramp_options: Any) -> RampTest: ...
+
+
+def inception(scenario: Scenario, ramp: bool = False, **ramp_options: Any) -> InceptionEstimate | RampTest:
     """Inception and extinction voltages of ``scenario``.
 
     ``ramp=False`` (default) gives the analytic :class:`InceptionEstimate`; ``ramp=True`` runs
     :func:`ramp_test` with ``ramp_options`` and returns a :class:`RampTest`.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The void in its insulation [-].
+    ramp : bool
+        False for the analytic estimate, True for a simulated stepped-voltage test [-].
+    **ramp_options
+        Keyword arguments of :func:`ramp_test` (only with ``ramp=True``).
+
+    Returns
+    -------
+    InceptionEstimate or RampTest
+        The analytic estimate, or the simulated test.
+
+    Raises
+    ------
+    InputError
+        For a bad scenario, ramp options without ``ramp=True``, or bad ramp options.
     """
     if not isinstance(scenario, Scenario):
         raise InputError(f"scenario must be a pdvoid.Scenario; got {type(scenario).__name__}")
@@ -133,7 +183,7 @@ def ramp_test(
     dwell: float = 1.0,
     threshold: float = 0.0,
     repeat_count: int = 10,
-    seeds=(0,),
+    seeds: Iterable[int] = (0,),
     max_voltage: float | None = None,
 ) -> RampTest:
     """Simulate a stepped-voltage test as a test lab runs it, with the void's memory carried between steps.
@@ -143,15 +193,35 @@ def ramp_test(
     ``step`` per dwell until a dwell has fewer (extinction voltage = that level). In lag-free mode the simulated
     inception voltage lies within one step above the analytic one.
 
-    Args:
-        scenario: the void; its supply's waveform and frequency are used, its rms is replaced by the test levels.
-        start: first level [V rms]; default half the analytic inception voltage, rounded down to a whole step.
-        step: voltage step [V rms]; default 2 % of the analytic inception voltage.
-        dwell: time at each level [s], rounded to whole cycles (at least one).
-        threshold: detection threshold of the measuring system [C].
-        repeat_count: pulses per dwell that count as repetitive [-].
-        seeds: seeds of the repeated tests [-] (spread over seeds = statistical scatter of the test).
-        max_voltage: highest level tried [V rms]; default 3 × the analytic inception voltage.
+    Parameters
+    ----------
+    scenario : Scenario
+        the void; its supply's waveform and frequency are used, its rms is replaced by the test levels.
+    start : float or None
+        first level [V rms]; default half the analytic inception voltage, rounded down to a whole step.
+    step : float or None
+        voltage step [V rms]; default 2 % of the analytic inception voltage.
+    dwell : float
+        time at each level [s], rounded to whole cycles (at least one).
+    threshold : float
+        detection threshold of the measuring system [C].
+    repeat_count : int
+        pulses per dwell that count as repetitive [-].
+    seeds : Iterable[int]
+        seeds of the repeated tests [-] (spread over seeds = statistical scatter of the test).
+    max_voltage : float or None
+        highest level tried [V rms]; default 3 × the analytic inception voltage.
+
+    Returns
+    -------
+    RampTest
+        Inception and extinction voltage per seed, their means and standard deviations, and the levels and
+        counts of the first seed.
+
+    Raises
+    ------
+    InputError
+        For a bad scenario, levels, dwell, threshold, repeat count or seeds.
     """
     est = inception(scenario)
     u_ref = est.inception_voltage
@@ -169,18 +239,15 @@ def ramp_test(
         raise InputError(f"dwell must be at most 1e7 cycles; got {dwell_cycles}")
     threshold = check_nonnegative("threshold", threshold, "C")
     repeat_count = check_int("repeat_count", repeat_count, 1, 10**9)
-    seeds = list(seeds)
-    if not 1 <= len(seeds) <= 1000:
-        raise InputError(f"seeds must hold 1 to 1000 seeds; got {len(seeds)}")
-    incs, exts = [], []
-    first = None
-    for s in seeds:
-        ui, ue, lv, ct = _one_ramp(scenario, s, start, step, dwell_cycles, threshold, repeat_count, max_voltage)
-        incs.append(ui)
-        exts.append(ue)
-        if first is None:
-            first = (lv, ct)
-    incs_a, exts_a = np.array(incs), np.array(exts)
+    seed_list = list(seeds)
+    if not 1 <= len(seed_list) <= 1000:
+        raise InputError(f"seeds must hold 1 to 1000 seeds; got {len(seed_list)}")
+    runs = [
+        _one_ramp(scenario, s, start, step, dwell_cycles, threshold, repeat_count, max_voltage) for s in seed_list
+    ]
+    incs_a = np.array([ui for ui, _, _, _ in runs])
+    exts_a = np.array([ue for _, ue, _, _ in runs])
+    first = (runs[0][2], runs[0][3])  # the levels and counts of the first seed
 
     def stats(x):
         good = x[np.isfinite(x)]
@@ -198,10 +265,27 @@ def ramp_test(
 
 
 def time_above_inception_fraction(scenario: Scenario, voltage: float) -> float:
-    """Fraction of each period during which the field of an uncharged void exceeds E_inc at ``voltage`` [V rms].
+    """Fraction of each period during which the field of an uncharged void exceeds E_inc at ``voltage``.
 
     Derived for a pure sine: |sin ωt| ≥ s0 with s0 = U_inc/U, a fraction 1 − (2/π)·asin(s0). Other waveforms are
     evaluated numerically on 20001 points per period.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The void; its supply's waveform is used, scaled to ``voltage`` [-].
+    voltage : float
+        Applied voltage [V rms], > 0.
+
+    Returns
+    -------
+    float
+        The fraction of the period, 0 ... 1 [-]; 0 at or below the inception voltage.
+
+    Raises
+    ------
+    InputError
+        For a voltage <= 0.
     """
     voltage = check_positive("voltage", voltage, "V")
     u_inc = compute_coefficients(scenario).inception_voltage
@@ -219,10 +303,31 @@ def time_above_inception_fraction(scenario: Scenario, voltage: float) -> float:
 
 
 def probability_of_missing(scenario: Scenario, voltage: float, duration: float) -> float:
-    """Probability that an uncharged void produces no discharge at all during a test of ``duration`` [s] at
-    ``voltage`` [V rms]: exp(−N_vol·t_above), with t_above the time its field spends above E_inc (Poisson
-    start electrons from volume ionisation; surface emission needs an earlier discharge; physics brief §3.3).
-    Lag-free models never miss above inception (returns 0); below inception the probability is 1.
+    """Probability that an uncharged void produces no discharge at all during a test of ``duration`` at
+    ``voltage``.
+
+    exp(−N_vol·t_above), with t_above the time its field spends above E_inc (Poisson start electrons from volume
+    ionisation; surface emission needs an earlier discharge; physics brief §3.3). Lag-free models never miss
+    above inception (returns 0); below inception the probability is 1.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The void and its model [-].
+    voltage : float
+        Applied voltage [V rms], > 0.
+    duration : float
+        Duration of the test [s], > 0.
+
+    Returns
+    -------
+    float
+        The probability, 0 ... 1 [-].
+
+    Raises
+    ------
+    InputError
+        For a voltage or duration <= 0.
     """
     duration = check_positive("duration", duration, "s")
     frac = time_above_inception_fraction(scenario, voltage)

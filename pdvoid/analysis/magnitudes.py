@@ -12,9 +12,10 @@ import warnings
 from dataclasses import dataclass
 
 import numpy as np
+from numpy.typing import ArrayLike
 from scipy import stats
 
-from pdvoid.analysis.patterns import _stored_events
+from pdvoid.analysis.patterns import EventSource, _stored_events
 from pdvoid.core.errors import (
     InputError,
     check_array,
@@ -25,6 +26,7 @@ from pdvoid.core.errors import (
     check_real,
 )
 from pdvoid.simulation.events import Events
+from pdvoid.simulation.results import Result
 
 __all__ = [
     "WeibullFit",
@@ -36,10 +38,10 @@ __all__ = [
 _MIN_SAMPLES = {2: 5, 3: 10}
 
 
-def _magnitudes(data: object, polarity: str, name: str = "magnitudes") -> np.ndarray:
+def _magnitudes(data: EventSource | ArrayLike, polarity: str, name: str = "magnitudes") -> np.ndarray:
     """Positive magnitudes [C] from events (selected by charge sign) or from an array of magnitudes."""
     pol = check_choice("polarity", polarity, ("+", "-", "both"))
-    if isinstance(data, Events) or isinstance(getattr(data, "events", None), Events):
+    if isinstance(data, (Events, Result)):
         q = _stored_events(data).charge
         if pol == "+":
             return q[q > 0.0]
@@ -70,18 +72,26 @@ def weibull_log_likelihood_hessian(
     l = sum [ln shape - ln scale + (shape - 1) L_i - w_i]; the second derivatives follow by differentiation
     (derived here, checked against ``scipy.differentiate.hessian`` in the tests).
 
-    Parameters:
-        magnitudes: sample values x_i > location [C]
-        shape: Weibull shape beta > 0 [-]
-        scale: Weibull scale eta > 0 [C]
-        location: Weibull location gamma < min x_i [C]
+    Parameters
+    ----------
+    magnitudes : numpy.ndarray
+        sample values x_i > location [C]
+    shape : float
+        Weibull shape beta > 0 [-]
+    scale : float
+        Weibull scale eta > 0 [C]
+    location : float
+        Weibull location gamma < min x_i [C]
 
-    Returns:
+    Returns
+    -------
+    numpy.ndarray
         3 x 3 array, order (shape, scale, location), units of l per product of parameter units.
 
-    References:
-        weibull1951: W. Weibull, 'A statistical distribution function of wide applicability', J. Appl. Mech.
-        18 (1951) 293-297 (from memory); the density is scipy.stats.weibull_min's. Valid for x_i > location.
+    References
+    ----------
+    weibull1951: W. Weibull, 'A statistical distribution function of wide applicability', J. Appl. Mech.
+    18 (1951) 293-297 (from memory); the density is scipy.stats.weibull_min's. Valid for x_i > location.
     """
     x = check_array("magnitudes", magnitudes, min_size=1)
     b = check_positive("shape", shape)
@@ -108,18 +118,29 @@ def weibull_log_likelihood_hessian(
 class WeibullFit:
     """A Weibull fit F(q) = 1 - exp(-((q - location) / scale)^shape) of discharge magnitudes.
 
-    Attributes:
-        shape: beta [-].
-        scale: alpha, the 63.2 % quantile above the location [C].
-        location: q0 [C]; 0 for a 2-parameter fit.
-        shape_ci, scale_ci, location_ci: (low, high) confidence intervals; location_ci is (0, 0) for a
-            2-parameter fit (fixed); NaN where no valid interval exists (see ``note``).
-        n: number of magnitudes fitted [-].
-        parameters: 2 or 3.
-        polarity: "+", "-" or "both".
-        confidence: confidence level of the intervals [-].
-        interval: "fisher" or "bootstrap".
-        note: empty, or why an interval is NaN.
+    Attributes
+    ----------
+    shape : float
+        beta [-].
+    scale : float
+        alpha, the 63.2 % quantile above the location [C].
+    location : float
+        q0 [C]; 0 for a 2-parameter fit.
+    shape_ci, scale_ci, location_ci : tuple[float, float]
+        (low, high) confidence intervals; location_ci is (0, 0) for a
+        2-parameter fit (fixed); NaN where no valid interval exists (see ``note``).
+    n : int
+        number of magnitudes fitted [-].
+    parameters : int
+        2 or 3.
+    polarity : str
+        "+", "-" or "both".
+    confidence : float
+        confidence level of the intervals [-].
+    interval : str
+        "fisher" or "bootstrap".
+    note : str
+        empty, or why an interval is NaN.
     """
 
     shape: float
@@ -135,8 +156,19 @@ class WeibullFit:
     interval: str
     note: str = ""
 
-    def cdf(self, charge: object) -> np.ndarray:
-        """Fitted cumulative probability at magnitudes ``charge`` [C] (0 below the location) [-]."""
+    def cdf(self, charge: ArrayLike) -> np.ndarray:
+        """Fitted cumulative probability at magnitudes ``charge`` (0 below the location).
+
+        Parameters
+        ----------
+        charge : array_like
+            Magnitudes |q| [C].
+
+        Returns
+        -------
+        numpy.ndarray
+            F(q) of the same shape [-].
+        """
         q = check_array("charge", charge, ndim=np.ndim(charge))
         return stats.weibull_min.cdf(q, self.shape, loc=self.location, scale=self.scale)
 
@@ -178,7 +210,7 @@ def _fisher_intervals(
 
 
 def weibull_fit(
-    data: object,
+    data: EventSource | ArrayLike,
     polarity: str = "both",
     parameters: int = 2,
     confidence: float = 0.95,
@@ -203,31 +235,44 @@ def weibull_fit(
       - ``interval="bootstrap"``: percentile bootstrap intervals from ``scipy.stats.bootstrap`` with
         ``n_resamples`` refits and a fixed ``seed`` (efron1993, from memory). Costs n_resamples fits.
 
-    Parameters:
-        data: discharge events (a result, Events) or an array of magnitudes > 0 [C]
-        polarity: "+" (charge > 0), "-" (charge < 0) or "both" (all nonzero); arrays take "both" [-]
-        parameters: 2 or 3 [-]
-        confidence: confidence level of the intervals, in (0, 1) [-]
-        interval: "fisher" or "bootstrap" [-]
-        n_resamples: bootstrap resamples, 10 ... 100000 [-]
-        seed: bootstrap random seed, >= 0 [-]
+    Parameters
+    ----------
+    data : Events or Result or array_like
+        discharge events (a result, Events) or an array of magnitudes > 0 [C]
+    polarity : str
+        "+" (charge > 0), "-" (charge < 0) or "both" (all nonzero); arrays take "both" [-]
+    parameters : int
+        2 or 3 [-]
+    confidence : float
+        confidence level of the intervals, in (0, 1) [-]
+    interval : str
+        "fisher" or "bootstrap" [-]
+    n_resamples : int
+        bootstrap resamples, 10 ... 100000 [-]
+    seed : int
+        bootstrap random seed, >= 0 [-]
 
-    Returns:
+    Returns
+    -------
+    WeibullFit
         :class:`WeibullFit` (scale, location and their intervals in C).
 
-    Raises:
-        InputError: fewer than 5 (2-parameter) or 10 (3-parameter) magnitudes, all magnitudes equal,
+    Raises
+    ------
+    InputError
+        fewer than 5 (2-parameter) or 10 (3-parameter) magnitudes, all magnitudes equal,
         non-finite or non-positive magnitudes, bad options, or a fit that fails.
 
-    References:
-        weibull1951: W. Weibull, 'A statistical distribution function of wide applicability', J. Appl. Mech.
-        18 (1951) 293-297 (from memory). cacciari1995 for its use on PD magnitudes (from memory).
-        meeker1998: W. Q. Meeker, L. A. Escobar, Statistical Methods for Reliability Data, Wiley 1998 (normal-
-        approximation intervals on the log scale; from memory). smith1985: R. L. Smith, 'Maximum likelihood
-        estimation in a class of nonregular cases', Biometrika 72(1) (1985) 67-90 (from memory).
-        efron1993: B. Efron, R. J. Tibshirani, An Introduction to the Bootstrap, Chapman & Hall 1993
-        (percentile interval; from memory). Valid for independent magnitudes from one Weibull population; for
-        mixed sources fit each source separately.
+    References
+    ----------
+    weibull1951: W. Weibull, 'A statistical distribution function of wide applicability', J. Appl. Mech.
+    18 (1951) 293-297 (from memory). cacciari1995 for its use on PD magnitudes (from memory).
+    meeker1998: W. Q. Meeker, L. A. Escobar, Statistical Methods for Reliability Data, Wiley 1998 (normal-
+    approximation intervals on the log scale; from memory). smith1985: R. L. Smith, 'Maximum likelihood
+    estimation in a class of nonregular cases', Biometrika 72(1) (1985) 67-90 (from memory).
+    efron1993: B. Efron, R. J. Tibshirani, An Introduction to the Bootstrap, Chapman & Hall 1993
+    (percentile interval; from memory). Valid for independent magnitudes from one Weibull population; for
+    mixed sources fit each source separately.
     """
     npar = check_int("parameters", parameters, 2, 3)
     conf = check_range("confidence", confidence, 0.0, 1.0, low_open=True, high_open=True)
@@ -287,7 +332,7 @@ def weibull_fit(
 
 
 def weibull_probability_points(
-    data: object, polarity: str = "both", *, linearized: bool = False
+    data: EventSource | ArrayLike, polarity: str = "both", *, linearized: bool = False
 ) -> tuple[np.ndarray, np.ndarray]:
     """Points for a Weibull probability plot: sorted magnitudes and their median-rank probabilities.
 
@@ -295,21 +340,30 @@ def weibull_probability_points(
     (Benard's approximation, often called Bernard's; common practice in Weibull analysis). On Weibull paper,
     ln(-ln(1 - F)) against ln q is a straight line of slope beta for a 2-parameter Weibull sample.
 
-    Parameters:
-        data: discharge events or an array of magnitudes > 0 [C]
-        polarity: "+", "-" or "both" (arrays: "both") [-]
-        linearized: if True return (ln(q / 1 C), ln(-ln(1 - F))) instead of (q, F) [-]
+    Parameters
+    ----------
+    data : Events or Result or array_like
+        discharge events or an array of magnitudes > 0 [C]
+    polarity : str
+        "+", "-" or "both" (arrays: "both") [-]
+    linearized : bool
+        if True return (ln(q / 1 C), ln(-ln(1 - F))) instead of (q, F) [-]
 
-    Returns:
+    Returns
+    -------
+    tuple[numpy.ndarray, numpy.ndarray]
         (x, y): magnitudes q [C] and probabilities F [-], or their linearized forms [-].
 
-    Raises:
-        InputError: no magnitudes, or bad magnitudes or options.
+    Raises
+    ------
+    InputError
+        no magnitudes, or bad magnitudes or options.
 
-    References:
-        benard1953: A. Benard, E. C. Bos-Levenbach, 'Het uitzetten van waarnemingen op waarschijnlijkheids-
-        papier', Statistica Neerlandica 7 (1953) 163-173 (median-rank approximation; from memory; common
-        practice). Valid for a complete (uncensored) sample.
+    References
+    ----------
+    benard1953: A. Benard, E. C. Bos-Levenbach, 'Het uitzetten van waarnemingen op waarschijnlijkheids-
+    papier', Statistica Neerlandica 7 (1953) 163-173 (median-rank approximation; from memory; common
+    practice). Valid for a complete (uncensored) sample.
     """
     x = np.sort(_magnitudes(data, polarity, "data"))
     n = x.size

@@ -10,6 +10,7 @@ import math
 from dataclasses import dataclass, fields
 
 import numpy as np
+from numpy.typing import ArrayLike
 from scipy.optimize import brentq
 
 from pdvoid.coefficients import compute_coefficients
@@ -32,14 +33,22 @@ _UNITS = {
 class MarginTable:
     """Inception and extinction voltage along one swept input.
 
-    Attributes:
-        parameter: dotted name ("void.size" = diameter at the scenario's aspect ratio).
-        unit: SI unit of ``values``.
-        values: swept values [unit].
-        inception_voltage, extinction_voltage: applied rms voltages [V]; NaN where the combination is impossible.
-        test_voltage: the test level [V rms] or None.
-        margin: inception_voltage / test_voltage [-] (None without a test level).
-        errors: the InputError message per value ("" where fine).
+    Attributes
+    ----------
+    parameter : str
+        dotted name ("void.size" = diameter at the scenario's aspect ratio).
+    unit : str
+        SI unit of ``values``.
+    values : numpy.ndarray
+        swept values [unit].
+    inception_voltage, extinction_voltage : numpy.ndarray
+        applied rms voltages [V]; NaN where the combination is impossible.
+    test_voltage : float or None
+        the test level [V rms] or None.
+    margin : numpy.ndarray or None
+        inception_voltage / test_voltage [-] (None without a test level).
+    errors : tuple[str, ...]
+        the InputError message per value ("" where fine).
     """
 
     parameter: str
@@ -52,12 +61,19 @@ class MarginTable:
     errors: tuple[str, ...]
 
     def as_rows(self) -> list[dict[str, float]]:
-        """Rows with units in the keys (for printing, JSON or a DataFrame)."""
+        """The table as rows with SI units in the keys (for printing, JSON or a DataFrame).
+
+        Returns
+        -------
+        list of dict of str to float
+            One row per value: ``{"<parameter> [<unit>]", "inception voltage [V rms]",
+            "extinction voltage [V rms]"}`` and, with a test level, ``"margin to test level [-]"``.
+        """
         rows = []
         for i, v in enumerate(self.values):
             row = {f"{self.parameter} [{self.unit}]": float(v),
-                   "inception voltage [kV rms]": float(self.inception_voltage[i]) / 1e3,
-                   "extinction voltage [kV rms]": float(self.extinction_voltage[i]) / 1e3}
+                   "inception voltage [V rms]": float(self.inception_voltage[i]),
+                   "extinction voltage [V rms]": float(self.extinction_voltage[i])}
             if self.margin is not None:
                 row["margin to test level [-]"] = float(self.margin[i])
             rows.append(row)
@@ -80,16 +96,32 @@ def _changed(scenario: Scenario, parameter: str, value: float) -> Scenario:
     return scenario.replace(**{parameter: value})
 
 
-def margin_table(scenario: Scenario, parameter: str = "void.size", values=None,
+def margin_table(scenario: Scenario, parameter: str = "void.size", values: ArrayLike | None = None,
                  test_voltage: float | None = None) -> MarginTable:
     """Inception and extinction voltage of ``scenario`` as ``parameter`` takes ``values``.
 
-    Args:
-        scenario: the base scenario.
-        parameter: a dotted scenario field ("void.pressure", "insulation.permittivity", ...) or "void.size"
-            (the diameter, with the height following at the scenario's aspect ratio).
-        values: the values [SI]; default 25 sizes from 0.1 to 5 mm (log-spaced) for "void.size".
-        test_voltage: the test level [V rms] for the margin column.
+    Parameters
+    ----------
+    scenario : Scenario
+        the base scenario.
+    parameter : str
+        a dotted scenario field ("void.pressure", "insulation.permittivity", ...) or "void.size"
+        (the diameter, with the height following at the scenario's aspect ratio).
+    values : array_like or None
+        the values [SI]; default 25 sizes from 0.1 to 5 mm (log-spaced) for "void.size".
+    test_voltage : float or None
+        the test level [V rms] for the margin column.
+
+    Returns
+    -------
+    MarginTable
+        Inception and extinction voltage per value [V rms] (NaN where the combination is impossible, with the
+        reason in ``errors``), and the margin when ``test_voltage`` is given.
+
+    Raises
+    ------
+    InputError
+        For a bad scenario, an unknown parameter, missing or bad values, or a test voltage <= 0.
     """
     if not isinstance(scenario, Scenario):
         raise InputError(f"scenario must be a pdvoid.Scenario; got {type(scenario).__name__}")
@@ -121,12 +153,16 @@ def margin_table(scenario: Scenario, parameter: str = "void.size", values=None,
 class LargestVoid:
     """The largest discharge-free void at a test level, at the scenario's aspect ratio.
 
-    Attributes:
-        diameter, height: of that void [m].
-        inception_voltage: its inception voltage [V rms] (= the test voltage unless limited).
-        limited_by: "" when the inception voltage equals the test voltage; "insulation" when even a void half as
-            tall as the insulation stays discharge-free (the closed forms are not valid beyond); "smallest" when
-            even a 1 µm void would discharge.
+    Attributes
+    ----------
+    diameter, height : float
+        of that void [m].
+    inception_voltage : float
+        its inception voltage [V rms] (= the test voltage unless limited).
+    limited_by : str
+        "" when the inception voltage equals the test voltage; "insulation" when even a void half as
+        tall as the insulation stays discharge-free (the closed forms are not valid beyond); "smallest" when
+        even a 1 µm void would discharge.
     """
 
     diameter: float
@@ -137,10 +173,27 @@ class LargestVoid:
 
 def largest_pd_free_void(scenario: Scenario, test_voltage: float) -> LargestVoid:
     """The void diameter (at the scenario's aspect ratio) whose analytic inception voltage equals
-    ``test_voltage`` [V rms]: every smaller void of that shape stays discharge-free at the test level.
+    ``test_voltage``: every smaller void of that shape stays discharge-free at the test level.
 
     The inception voltage falls monotonically with size at fixed shape (the streamer term B/(p·l)^n shrinks,
     the field enhancement stays), so the root is unique; Brent's method on log(size).
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The design; its void's aspect ratio is kept [-].
+    test_voltage : float
+        The test level [V rms], > 0.
+
+    Returns
+    -------
+    LargestVoid
+        Diameter and height of that void [m], its inception voltage [V rms] and what limited the search.
+
+    Raises
+    ------
+    InputError
+        For a test voltage <= 0.
     """
     test_voltage = check_positive("test_voltage", test_voltage, "V")
     aspect = scenario.void.height / scenario.void.diameter
@@ -167,13 +220,19 @@ def largest_pd_free_void(scenario: Scenario, test_voltage: float) -> LargestVoid
 class DesignMargin:
     """Margin of a design against a test level given as a multiple of the nominal voltage.
 
-    Attributes:
-        nominal_voltage, test_voltage, inception_voltage, extinction_voltage: [V rms].
-        test_factor: test_voltage / nominal_voltage [-].
-        margin: inception_voltage / test_voltage [-] (> 1: discharge-free at the test level).
-        extinction_margin: extinction_voltage / nominal_voltage [-] (> 1: discharges started by a transient die
-            out at the nominal voltage).
-        largest_void_diameter: the largest discharge-free void at the test level, at the scenario's shape [m].
+    Attributes
+    ----------
+    nominal_voltage, test_voltage, inception_voltage, extinction_voltage : float
+        [V rms].
+    test_factor : float
+        test_voltage / nominal_voltage [-].
+    margin : float
+        inception_voltage / test_voltage [-] (> 1: discharge-free at the test level).
+    extinction_margin : float
+        extinction_voltage / nominal_voltage [-] (> 1: discharges started by a transient die
+        out at the nominal voltage).
+    largest_void_diameter : float
+        the largest discharge-free void at the test level, at the scenario's shape [m].
     """
 
     nominal_voltage: float
@@ -187,8 +246,30 @@ class DesignMargin:
 
 
 def design_margin(scenario: Scenario, nominal_voltage: float, test_factor: float = SQRT3) -> DesignMargin:
-    """Margin of ``scenario`` against a test at ``test_factor`` × ``nominal_voltage`` [V rms]; the default √3 ≈
-    1.73 × U0 is common practice in routine PD tests of extruded cables (the applicable standard rules)."""
+    """Margin of ``scenario`` against a test at ``test_factor`` × ``nominal_voltage``.
+
+    The default √3 ≈ 1.73 × U0 is common practice in routine PD tests of extruded cables (the applicable
+    standard rules).
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The design [-].
+    nominal_voltage : float
+        Nominal (service) voltage U0 [V rms], > 0.
+    test_factor : float
+        Test level / nominal voltage [-], > 0.
+
+    Returns
+    -------
+    DesignMargin
+        Voltages [V rms], margins [-] and the largest discharge-free void at the test level [m].
+
+    Raises
+    ------
+    InputError
+        For a nominal voltage or test factor <= 0.
+    """
     nominal_voltage = check_positive("nominal_voltage", nominal_voltage, "V")
     test_factor = check_positive("test_factor", test_factor)
     c = compute_coefficients(scenario)

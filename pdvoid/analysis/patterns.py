@@ -13,12 +13,14 @@ Conventions used throughout :mod:`pdvoid.analysis`:
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import TypeAlias
 
 import numpy as np
 
 from pdvoid.core.arrays import frozen_array as _frozen
 from pdvoid.core.errors import InputError, check_bool, check_choice, check_int, check_real
 from pdvoid.simulation.events import Events, as_events
+from pdvoid.simulation.results import Result
 
 __all__ = [
     "PhasePattern",
@@ -29,7 +31,11 @@ __all__ = [
     "magnitude_distribution",
     "DISTRIBUTION_NAMES",
     "HALVES",
+    "EventSource",
 ]
+
+#: what the event-based analysis functions accept: the events themselves or a simulation Result that kept them
+EventSource: TypeAlias = Events | Result
 
 #: names of the phase-resolved distributions of :class:`HalfCycleDistributions`
 DISTRIBUTION_NAMES: tuple[str, ...] = ("H_n", "H_qn", "H_qmax")
@@ -41,7 +47,7 @@ _MAX_BINS = 100_000
 
 
 
-def _stored_events(obj: object) -> Events:
+def _stored_events(obj: EventSource) -> Events:
     """:func:`pdvoid.simulation.events.as_events`, refusing results that did not store their events (histogram runs)."""
     ev = as_events(obj)
     recorded = getattr(obj, "event_count", None)
@@ -51,6 +57,14 @@ def _stored_events(obj: object) -> Events:
             "run); event-based analysis needs a run that keeps every event (simulate(..., histogram=False))"
         )
     return ev
+
+
+def _filled(values: np.ndarray | None) -> np.ndarray:
+    """An optional event array (time, cycle, voltage, fields), which :class:`Events` always fills (NaN where
+    unknown)."""
+    if values is None:
+        raise InputError("these events lack an event array that Events always fills (time, cycle or voltage)")
+    return values
 
 
 def _half_split(ev: Events) -> dict[str, tuple[np.ndarray, np.ndarray]]:
@@ -63,7 +77,8 @@ def _half_split(ev: Events) -> dict[str, tuple[np.ndarray, np.ndarray]]:
 
 
 def _magnitude_edges(
-    mag: np.ndarray, nbins: int, scale: str, charge_range: object, *, name: str = "charge_range"
+    mag: np.ndarray, nbins: int, scale: str, charge_range: tuple[float, float] | None, *,
+    name: str = "charge_range"
 ) -> np.ndarray:
     """``nbins + 1`` increasing magnitude edges [C], linear or log, from the data or ``charge_range``."""
     if charge_range is None:
@@ -104,21 +119,31 @@ def _magnitude_edges(
 class PhasePattern:
     """Counts of discharges over phase x apparent charge (both polarities), accumulated over the observation.
 
-    Attributes:
-        counts: number of events per (phase bin, charge bin), shape (phase_bins, charge_bins) [-]. The first
-            ``charge_bins // 2`` columns hold negative charges, from the most negative bin up; the others hold
-            positive charges, from the smallest magnitude up.
-        phase_edges_deg: phase bin edges, 0 ... 360 [deg].
-        magnitude_edges: the ``charge_bins // 2 + 1`` increasing magnitude edges of both polarities [C].
-        charge_edges: ``-magnitude_edges[::-1]`` followed by ``magnitude_edges``, length ``charge_bins + 2``,
-            increasing [C]. The interval between the two middle entries, (-magnitude_edges[0],
-            magnitude_edges[0]), is not a bin (for a linear axis from 0 it has zero width). Use
-            :attr:`bin_lower` / :attr:`bin_upper` for the limits of each column.
-        charge_scale: "log" or "linear".
-        cycles: number of AC cycles observed [-].
-        per_cycle: whether :attr:`values` is the mean count per cycle (True) or the accumulated count (False).
-        zero_count: events with zero charge, counted in no bin [-].
-        outside_count: events with nonzero charge whose magnitude lies outside ``charge_range`` [-].
+    Attributes
+    ----------
+    counts : numpy.ndarray
+        number of events per (phase bin, charge bin), shape (phase_bins, charge_bins) [-]. The first
+        ``charge_bins // 2`` columns hold negative charges, from the most negative bin up; the others hold
+        positive charges, from the smallest magnitude up.
+    phase_edges_deg : numpy.ndarray
+        phase bin edges, 0 ... 360 [deg].
+    magnitude_edges : numpy.ndarray
+        the ``charge_bins // 2 + 1`` increasing magnitude edges of both polarities [C].
+    charge_edges : numpy.ndarray
+        ``-magnitude_edges[::-1]`` followed by ``magnitude_edges``, length ``charge_bins + 2``,
+        increasing [C]. The interval between the two middle entries, (-magnitude_edges[0],
+        magnitude_edges[0]), is not a bin (for a linear axis from 0 it has zero width). Use
+        :attr:`bin_lower` / :attr:`bin_upper` for the limits of each column.
+    charge_scale : str
+        "log" or "linear".
+    cycles : float
+        number of AC cycles observed [-].
+    per_cycle : bool
+        whether :attr:`values` is the mean count per cycle (True) or the accumulated count (False).
+    zero_count : int
+        events with zero charge, counted in no bin [-].
+    outside_count : int
+        events with nonzero charge whose magnitude lies outside ``charge_range`` [-].
     """
 
     counts: np.ndarray
@@ -186,6 +211,11 @@ class PhasePattern:
         ``z`` has shape (charge_bins + 1, phase_bins): :attr:`values` transposed, with one row inserted for the
         interval between the polarities, which is always 0 (events there are in ``zero_count`` or
         ``outside_count``). This is the layout ``matplotlib.pyplot.pcolormesh(x_edges, y_edges, z)`` expects.
+
+        Returns
+        -------
+        tuple of (numpy.ndarray, numpy.ndarray, numpy.ndarray)
+            Phase edges [deg], signed charge edges [C] and ``z`` [-, or 1/cycle with ``per_cycle``].
         """
         v = np.asarray(self.values, dtype=float)
         m = v.shape[1] // 2
@@ -199,7 +229,7 @@ class PhasePattern:
 
 
 def pattern(
-    events: object,
+    events: EventSource,
     phase_bins: int = 72,
     charge_bins: int = 50,
     charge_scale: str = "log",
@@ -219,20 +249,31 @@ def pattern(
     for "log" (widened to half a decade either side when all magnitudes are equal) and [0, max |q|] for
     "linear".
 
-    Parameters:
-        events: discharge events or a result holding them (see :func:`pdvoid.simulation.events.as_events`) [-]
-        phase_bins: number of equal phase bins over 0-360 deg, 1 ... 100000 [-]
-        charge_bins: total number of charge bins, even (half per polarity), 2 ... 100000 [-]
-        charge_scale: "log" or "linear" [-]
-        charge_range: (low, high) magnitude range [C], 0 <= low < high (low > 0 for "log"); None: from the
-            data
-        per_cycle: if True, :attr:`PhasePattern.values` gives counts per cycle [-]
+    Parameters
+    ----------
+    events : Events or Result
+        discharge events or a result holding them (see :func:`pdvoid.simulation.events.as_events`) [-]
+    phase_bins : int
+        number of equal phase bins over 0-360 deg, 1 ... 100000 [-]
+    charge_bins : int
+        total number of charge bins, even (half per polarity), 2 ... 100000 [-]
+    charge_scale : str
+        "log" or "linear" [-]
+    charge_range : tuple[float, float] or None
+        (low, high) magnitude range [C], 0 <= low < high (low > 0 for "log"); None: from the
+        data
+    per_cycle : bool
+        if True, :attr:`PhasePattern.values` gives counts per cycle [-]
 
-    Returns:
+    Returns
+    -------
+    PhasePattern
         :class:`PhasePattern`.
 
-    Raises:
-        InputError: for bad bins or range, or when the range must come from the data and there is no event
+    Raises
+    ------
+    InputError
+        for bad bins or range, or when the range must come from the data and there is no event
         with nonzero charge.
     """
     ev = _stored_events(events)
@@ -272,13 +313,20 @@ def pattern(
 class HalfCycleDistributions:
     """Phase-resolved distributions per voltage half cycle over equal phase windows (gulski1992).
 
-    Attributes (arrays have one entry per window):
-        window_edges_deg: window edges, 0 ... 180 [deg] (the "-" half is re-referenced to 0-180 deg).
-        window_centres_deg: window centres x_i [deg].
-        n_plus, n_minus: H_n, number of pulses per window [-].
-        qn_plus, qn_minus: H_qn, mean magnitude |q| per window [C]; 0 where the window holds no pulse.
-        qmax_plus, qmax_minus: H_qmax, largest magnitude per window [C]; 0 where the window holds no pulse.
-        cycles: number of AC cycles observed [-].
+    Attributes
+    ----------
+    window_edges_deg : numpy.ndarray
+        window edges, 0 ... 180 [deg] (the "-" half is re-referenced to 0-180 deg).
+    window_centres_deg : numpy.ndarray
+        window centres x_i [deg].
+    n_plus, n_minus : numpy.ndarray
+        H_n, number of pulses per window [-].
+    qn_plus, qn_minus : numpy.ndarray
+        H_qn, mean magnitude |q| per window [C]; 0 where the window holds no pulse.
+    qmax_plus, qmax_minus : numpy.ndarray
+        H_qmax, largest magnitude per window [C]; 0 where the window holds no pulse.
+    cycles : float
+        number of AC cycles observed [-].
     """
 
     window_edges_deg: np.ndarray
@@ -292,14 +340,32 @@ class HalfCycleDistributions:
     cycles: float
 
     def get(self, name: str, half: str) -> np.ndarray:
-        """The distribution ``name`` ("H_n", "H_qn" or "H_qmax") of half ``half`` ("+" or "-")."""
+        """One of the distributions by name and half.
+
+        Parameters
+        ----------
+        name : str
+            "H_n", "H_qn" or "H_qmax" [-].
+        half : str
+            "+" or "-" [-].
+
+        Returns
+        -------
+        numpy.ndarray
+            The distribution over the phase windows of that half.
+
+        Raises
+        ------
+        InputError
+            For another name or half.
+        """
         check_choice("name", name, DISTRIBUTION_NAMES)
         check_choice("half", half, HALVES)
         field = {"H_n": "n", "H_qn": "qn", "H_qmax": "qmax"}[name]
         return getattr(self, f"{field}_{'plus' if half == '+' else 'minus'}")
 
 
-def half_cycle_distributions(events: object, phase_windows: int = 18) -> HalfCycleDistributions:
+def half_cycle_distributions(events: EventSource, phase_windows: int = 18) -> HalfCycleDistributions:
     """H_n, H_qn and H_qmax versus phase for the "+" (0-180 deg) and "-" (180-360 deg) voltage half cycles.
 
     Definitions (physics brief section 10, after Gulski & Kreuger; from memory): per phase window, H_n is the
@@ -307,16 +373,22 @@ def half_cycle_distributions(events: object, phase_windows: int = 18) -> HalfCyc
     re-referenced to 0-180 deg. Windows are half-open [a, b). Zero-charge events are left out. In a window
     without pulses H_qn and H_qmax are 0 (our convention, so that the distributions can serve as weights).
 
-    Parameters:
-        events: discharge events or a result holding them [-]
-        phase_windows: number of equal windows per half cycle, 1 ... 100000 (18 gives 10 deg windows) [-]
+    Parameters
+    ----------
+    events : Events or Result
+        discharge events or a result holding them [-]
+    phase_windows : int
+        number of equal windows per half cycle, 1 ... 100000 (18 gives 10 deg windows) [-]
 
-    Returns:
+    Returns
+    -------
+    HalfCycleDistributions
         :class:`HalfCycleDistributions`.
 
-    References:
-        gulski1992: E. Gulski, F. H. Kreuger, 'Computer-aided recognition of discharge sources', IEEE Trans.
-        Electr. Insul. 27(1) (1992) 82-92 (from memory). Valid for any event set; no physical assumption.
+    References
+    ----------
+    gulski1992: E. Gulski, F. H. Kreuger, 'Computer-aided recognition of discharge sources', IEEE Trans.
+    Electr. Insul. 27(1) (1992) 82-92 (from memory). Valid for any event set; no physical assumption.
     """
     ev = _stored_events(events)
     nw = check_int("phase_windows", phase_windows, 1, _MAX_BINS)
@@ -345,12 +417,18 @@ def half_cycle_distributions(events: object, phase_windows: int = 18) -> HalfCyc
 class MagnitudeDistribution:
     """H(q): number of pulses per magnitude bin, per voltage half cycle.
 
-    Attributes:
-        edges: increasing magnitude edges [C].
-        count_plus, count_minus: pulses per bin in the "+" (0-180 deg) and "-" (180-360 deg) halves [-].
-        scale: "log" or "linear".
-        cycles: number of AC cycles observed [-].
-        outside_count: nonzero events outside an explicit range [-].
+    Attributes
+    ----------
+    edges : numpy.ndarray
+        increasing magnitude edges [C].
+    count_plus, count_minus : numpy.ndarray
+        pulses per bin in the "+" (0-180 deg) and "-" (180-360 deg) halves [-].
+    scale : str
+        "log" or "linear".
+    cycles : float
+        number of AC cycles observed [-].
+    outside_count : int
+        nonzero events outside an explicit range [-].
     """
 
     edges: np.ndarray
@@ -368,7 +446,7 @@ class MagnitudeDistribution:
 
 
 def magnitude_distribution(
-    events: object,
+    events: EventSource,
     bins: int = 50,
     scale: str = "log",
     charge_range: tuple[float, float] | None = None,
@@ -378,17 +456,25 @@ def magnitude_distribution(
     Both halves share the same edges. The range rules are those of :func:`pattern`; zero-charge events are
     left out; bins are [a, b) except the top one, which includes its upper edge.
 
-    Parameters:
-        events: discharge events or a result holding them [-]
-        bins: number of magnitude bins, 1 ... 100000 [-]
-        scale: "log" or "linear" [-]
-        charge_range: (low, high) magnitude range [C]; None: from the data
+    Parameters
+    ----------
+    events : Events or Result
+        discharge events or a result holding them [-]
+    bins : int
+        number of magnitude bins, 1 ... 100000 [-]
+    scale : str
+        "log" or "linear" [-]
+    charge_range : tuple[float, float] or None
+        (low, high) magnitude range [C]; None: from the data
 
-    Returns:
+    Returns
+    -------
+    MagnitudeDistribution
         :class:`MagnitudeDistribution`.
 
-    References:
-        gulski1992 (from memory). Valid for any event set.
+    References
+    ----------
+    gulski1992 (from memory). Valid for any event set.
     """
     ev = _stored_events(events)
     nb = check_int("bins", bins, 1, _MAX_BINS)

@@ -8,7 +8,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from pdvoid.analysis.patterns import _stored_events
+from pdvoid.analysis.patterns import EventSource, _filled, _stored_events
 from pdvoid.core.errors import InputError, check_nonnegative, check_positive, check_real
 from pdvoid.physics.iec60270 import average_discharge_current, discharge_power, quadratic_rate, repetition_rate
 from pdvoid.simulation.events import Events
@@ -24,15 +24,24 @@ DEFAULT_REPETITION_RATE = 100.0
 class IECQuantities:
     """IEC 60270 quantities over a reference window.
 
-    Attributes:
-        average_current: I = sum |q_i| / T_ref [A].
-        quadratic_rate: D = sum q_i^2 / T_ref [C^2/s].
-        power: P = sum q_i u_i / T_ref [W]; NaN when an event in the window lacks its applied voltage.
-        repetition_rate: n = (pulses with |q| >= threshold) / T_ref [1/s].
-        reference_time: T_ref = stop - start [s].
-        count: number of events in the window (all, whatever their magnitude) [-].
-        window: (start, stop) [s] of the window measured from the start of the observation.
-        threshold: smallest magnitude counted in the repetition rate [C].
+    Attributes
+    ----------
+    average_current : float
+        I = sum |q_i| / T_ref [A].
+    quadratic_rate : float
+        D = sum q_i^2 / T_ref [C^2/s].
+    power : float
+        P = sum q_i u_i / T_ref [W]; NaN when an event in the window lacks its applied voltage.
+    repetition_rate : float
+        n = (pulses with |q| >= threshold) / T_ref [1/s].
+    reference_time : float
+        T_ref = stop - start [s].
+    count : int
+        number of events in the window (all, whatever their magnitude) [-].
+    window : tuple[float, float]
+        (start, stop) [s] of the window measured from the start of the observation.
+    threshold : float
+        smallest magnitude counted in the repetition rate [C].
     """
 
     average_current: float
@@ -45,7 +54,7 @@ class IECQuantities:
     threshold: float
 
 
-def _select(ev: Events, window: object) -> tuple[np.ndarray, tuple[float, float]]:
+def _select(ev: Events, window: tuple[float, float] | None) -> tuple[np.ndarray, tuple[float, float]]:
     """Boolean mask of the events in ``window`` and the checked (start, stop) [s]."""
     duration = ev.duration
     if window is None:
@@ -60,14 +69,15 @@ def _select(ev: Events, window: object) -> tuple[np.ndarray, tuple[float, float]
             f"window must satisfy 0 <= start < stop <= {duration!r} s (the observation); "
             f"got ({start!r}, {stop!r})"
         )
-    if ev.count and not np.all(np.isfinite(ev.time)):
-        bad = int(np.argmax(~np.isfinite(ev.time)))
-        raise InputError(f"a window needs the time of every event; event {bad} has time={ev.time[bad]!r}")
-    return (ev.time >= start) & (ev.time < stop), (start, min(stop, duration))
+    time = _filled(ev.time)
+    if ev.count and not np.all(np.isfinite(time)):
+        bad = int(np.argmax(~np.isfinite(time)))
+        raise InputError(f"a window needs the time of every event; event {bad} has time={time[bad]!r}")
+    return (time >= start) & (time < stop), (start, min(stop, duration))
 
 
 def iec60270(
-    events: object, window: tuple[float, float] | None = None, threshold: float = 0.0
+    events: EventSource, window: tuple[float, float] | None = None, threshold: float = 0.0
 ) -> IECQuantities:
     """Average discharge current, quadratic rate, discharge power and repetition rate over a reference window.
 
@@ -77,28 +87,37 @@ def iec60270(
     n = (number of pulses with |q| >= threshold) / T_ref, with T_ref = stop - start. Without ``window`` the
     whole observation (0 ... cycles / frequency) is the reference time.
 
-    Parameters:
-        events: discharge events or a result holding them [-]
-        window: (start, stop) from the start of the observation, 0 <= start < stop <= duration [s]; None: all
-        threshold: smallest magnitude counted in the repetition rate, >= 0 [C]
+    Parameters
+    ----------
+    events : Events or Result
+        discharge events or a result holding them [-]
+    window : tuple[float, float] or None
+        (start, stop) from the start of the observation, 0 <= start < stop <= duration [s]; None: all
+    threshold : float
+        smallest magnitude counted in the repetition rate, >= 0 [C]
 
-    Returns:
+    Returns
+    -------
+    IECQuantities
         :class:`IECQuantities`.
 
-    Raises:
-        InputError: window outside the observation or not increasing; a window on events without times.
+    Raises
+    ------
+    InputError
+        window outside the observation or not increasing; a window on events without times.
 
-    References:
-        iec60270: IEC 60270:2000+A1:2015, High-voltage test techniques - Partial discharge measurements,
-        clause 3 (definitions; wording from memory). Valid for apparent charges recorded over the whole
-        window.
+    References
+    ----------
+    iec60270: IEC 60270:2000+A1:2015, High-voltage test techniques - Partial discharge measurements,
+    clause 3 (definitions; wording from memory). Valid for apparent charges recorded over the whole
+    window.
     """
     ev = _stored_events(events)
     thr = check_nonnegative("threshold", threshold, "C")
     mask, (start, stop) = _select(ev, window)
     t_ref = stop - start
     q = ev.charge[mask]
-    u = ev.voltage[mask]
+    u = _filled(ev.voltage)[mask]
     power = discharge_power(q, u, t_ref) if np.all(np.isfinite(u)) else math.nan
     return IECQuantities(
         average_current=average_discharge_current(q, t_ref),
@@ -113,7 +132,7 @@ def iec60270(
 
 
 def largest_repeated_magnitude(
-    events: object,
+    events: EventSource,
     repetition_rate: float = DEFAULT_REPETITION_RATE,
     window: tuple[float, float] | None = None,
 ) -> float:
@@ -129,17 +148,24 @@ def largest_repeated_magnitude(
     with the standard's specified pulse-train response (from memory); this function does not model an
     instrument.
 
-    Parameters:
-        events: discharge events or a result holding them [-]
-        repetition_rate: required rate of pulses at or above the magnitude, > 0 [1/s]
-        window: (start, stop) as in :func:`iec60270` [s]; None: the whole observation
+    Parameters
+    ----------
+    events : Events or Result
+        discharge events or a result holding them [-]
+    repetition_rate : float
+        required rate of pulses at or above the magnitude, > 0 [1/s]
+    window : tuple[float, float] or None
+        (start, stop) as in :func:`iec60270` [s]; None: the whole observation
 
-    Returns:
+    Returns
+    -------
+    float
         magnitude [C] (>= 0).
 
-    References:
-        iec60270 (clause 3, largest repeatedly occurring PD magnitude; wording from memory) for the notion;
-        the counting rule is ours. Valid for any event set.
+    References
+    ----------
+    iec60270 (clause 3, largest repeatedly occurring PD magnitude; wording from memory) for the notion;
+    the counting rule is ours. Valid for any event set.
     """
     ev = _stored_events(events)
     rate = check_positive("repetition_rate", repetition_rate, "1/s")

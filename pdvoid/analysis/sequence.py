@@ -7,7 +7,7 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from pdvoid.analysis.patterns import _stored_events
+from pdvoid.analysis.patterns import EventSource, _filled, _stored_events
 from pdvoid.core.arrays import frozen_array as _frozen
 from pdvoid.core.errors import InputError
 
@@ -20,13 +20,20 @@ __all__ = ["PulseSequence", "pulse_sequence"]
 class PulseSequence:
     """Differences between consecutive discharges n-1 and n (n = 1 ... N-1, events in time order).
 
-    Attributes:
-        time: event times in time order, N values [s].
-        charge: signed apparent charges in time order, N values [C].
-        voltage: applied voltage at each event in time order, N values [V].
-        delta_u: Delta u_n = u(t_n) - u(t_{n-1}), N-1 values [V].
-        delta_t: Delta t_n = t_n - t_{n-1}, N-1 values [s].
-        delta_phase_deg: Delta phi_n, the phase elapsed from pulse n-1 to pulse n, N-1 values [deg].
+    Attributes
+    ----------
+    time : numpy.ndarray
+        event times in time order, N values [s].
+    charge : numpy.ndarray
+        signed apparent charges in time order, N values [C].
+    voltage : numpy.ndarray
+        applied voltage at each event in time order, N values [V].
+    delta_u : numpy.ndarray
+        Delta u_n = u(t_n) - u(t_{n-1}), N-1 values [V].
+    delta_t : numpy.ndarray
+        Delta t_n = t_n - t_{n-1}, N-1 values [s].
+    delta_phase_deg : numpy.ndarray
+        Delta phi_n, the phase elapsed from pulse n-1 to pulse n, N-1 values [deg].
     """
 
     time: np.ndarray
@@ -68,7 +75,7 @@ class PulseSequence:
         return s[1:] == s[:-1]
 
 
-def pulse_sequence(events: object) -> PulseSequence:
+def pulse_sequence(events: EventSource) -> PulseSequence:
     """Pulse-sequence analysis: Delta u, Delta t and Delta phi between consecutive discharges.
 
     For consecutive pulses n-1 and n (events sorted by time, stable for equal times):
@@ -81,20 +88,27 @@ def pulse_sequence(events: object) -> PulseSequence:
     :attr:`~PulseSequence.delta_u`. Zero-charge events are kept (they are recorded events). Fewer than two
     events give empty differences.
 
-    Parameters:
-        events: discharge events (or a result holding them) with finite time, voltage and cycle for every
-            event [-]
+    Parameters
+    ----------
+    events : Events or Result
+        discharge events (or a result holding them) with finite time, voltage and cycle for every
+        event [-]
 
-    Returns:
+    Returns
+    -------
+    PulseSequence
         :class:`PulseSequence`.
 
-    Raises:
-        InputError: when an event lacks its time, applied voltage or cycle index.
+    Raises
+    ------
+    InputError
+        when an event lacks its time, applied voltage or cycle index.
 
-    References:
-        hoof1995: M. Hoof, R. Patsch, 'Pulse-sequence analysis: a new method for investigating the physics of
-        PD-induced ageing', IEE Proc.-Sci. Meas. Technol. 142(1) (1995) 95-101 (definitions as quoted in the
-        physics brief section 10, from memory). Valid for any event sequence recorded without gaps.
+    References
+    ----------
+    hoof1995: M. Hoof, R. Patsch, 'Pulse-sequence analysis: a new method for investigating the physics of
+    PD-induced ageing', IEE Proc.-Sci. Meas. Technol. 142(1) (1995) 95-101 (definitions as quoted in the
+    physics brief section 10, from memory). Valid for any event sequence recorded without gaps.
     """
     ev = _stored_events(events)
     for name in ("time", "voltage", "cycle"):
@@ -105,12 +119,13 @@ def pulse_sequence(events: object) -> PulseSequence:
                 f"pulse-sequence analysis needs the {name} of every event; "
                 f"event {bad} has {name}={arr[bad]!r}"
             )
-    order = np.argsort(ev.time, kind="stable")
-    t = ev.time[order]
-    u = ev.voltage[order]
+    time, voltage, cycle = _filled(ev.time), _filled(ev.voltage), _filled(ev.cycle)
+    order = np.argsort(time, kind="stable")
+    t = time[order]
+    u = voltage[order]
     q = ev.charge[order]
     phase = ev.phase_deg[order]
-    cyc = ev.cycle[order]
+    cyc = cycle[order]
     return PulseSequence(
         time=_frozen(t),
         charge=_frozen(q),

@@ -1,35 +1,117 @@
-"""The few numbers that summarise a simulated run (discharges per cycle, magnitudes, IEC 60270 quantities)."""
+"""The few numbers that summarise a simulated run (discharges per cycle, magnitudes, IEC 60270 quantities), in SI.
+
+Display units (pC, nA, mW) are applied only by the faces (:mod:`pdvoid.faces.summary_table`).
+"""
 
 from __future__ import annotations
+
+import math
+from collections.abc import Mapping
+from dataclasses import dataclass
+from types import MappingProxyType
+from typing import ClassVar
 
 import numpy as np
 
 from pdvoid.core.errors import InputError
+from pdvoid.simulation.results import Result
 
-__all__ = ["run_summary"]
+__all__ = ["RunSummary", "run_summary"]
 
 
-def run_summary(result) -> dict[str, float]:
-    """Summary of a :class:`pdvoid.simulation.results.Result` with units in the keys.
+@dataclass(frozen=True)
+class RunSummary:
+    """The summary numbers of one simulated run, in SI.
 
-    The IEC 60270 quantities use the whole simulated time as reference time and come from the kernel's running
-    sums, so they hold for histogram-only runs too (IEC 60270 clause 3 definitions, from memory):
-    I = Σ|q|/T, D = Σq²/T, P = Σq·u/T, n = count/T.
+    The IEC 60270 quantities use the whole simulated time T = cycles / frequency as reference time and come
+    from the kernel's running sums, so they hold for histogram-only runs too (IEC 60270 clause 3 definitions,
+    from memory): I = Σ|q|/T, D = Σq²/T, P = Σq·u/T, n = count/T.
+
+    Attributes
+    ----------
+    cycles : int
+        AC cycles simulated [-].
+    duration : float
+        Simulated time T, the reference time of the IEC 60270 quantities [s].
+    discharge_count : int
+        Discharges in the run [-].
+    discharges_per_cycle : float
+        Discharges per AC cycle, ``discharge_count / cycles`` [1/cycle].
+    mean_apparent_charge : float
+        Mean magnitude of the apparent charge per discharge, Σ|q| / count [C]; 0 when no discharge occurred.
+    largest_apparent_charge : float
+        Largest magnitude of the apparent charge [C]; NaN when the run kept no event arrays (no discharge, or a
+        histogram-only run).
+    average_discharge_current : float
+        Average discharge current I = Σ|q| / T [A].
+    quadratic_rate : float
+        Quadratic rate D = Σq² / T [C²/s].
+    discharge_power : float
+        Discharge power P = Σq·u / T, u the applied voltage at each discharge [W].
+    pulse_repetition_rate : float
+        Pulse repetition rate n = count / T [1/s].
     """
-    if not hasattr(result, "sum_abs_charge"):
+
+    #: SI unit of each attribute ("1" for a pure number)
+    UNITS: ClassVar[Mapping[str, str]] = MappingProxyType({
+        "cycles": "1",
+        "duration": "s",
+        "discharge_count": "1",
+        "discharges_per_cycle": "1",
+        "mean_apparent_charge": "C",
+        "largest_apparent_charge": "C",
+        "average_discharge_current": "A",
+        "quadratic_rate": "C^2/s",
+        "discharge_power": "W",
+        "pulse_repetition_rate": "1/s",
+    })
+
+    cycles: int
+    duration: float
+    discharge_count: int
+    discharges_per_cycle: float
+    mean_apparent_charge: float
+    largest_apparent_charge: float
+    average_discharge_current: float
+    quadratic_rate: float
+    discharge_power: float
+    pulse_repetition_rate: float
+
+
+def run_summary(result: Result) -> RunSummary:
+    """Summarise a simulated run.
+
+    Parameters
+    ----------
+    result : pdvoid.simulation.results.Result
+        The simulation [-]; histogram-only runs are summarised from the kernel's running sums.
+
+    Returns
+    -------
+    RunSummary
+        The numbers in SI.
+
+    Raises
+    ------
+    InputError
+        When ``result`` is not a simulation Result, or it ran no cycle.
+    """
+    if not isinstance(result, Result):
         raise InputError(f"run_summary needs a simulation Result; got {type(result).__name__}")
+    if result.cycles < 1:
+        raise InputError(f"run_summary needs a run of at least one cycle; got cycles={result.cycles!r}")
     t_ref = result.duration
-    n = result.event_count
+    n = int(result.event_count)
     q = np.abs(result.charge)
-    out = {
-        "discharges per cycle [-]": n / result.cycles,
-        "mean apparent charge [pC]": (result.sum_abs_charge / n * 1e12) if n else 0.0,
-        "largest apparent charge [pC]": float(q.max() * 1e12) if q.size else float("nan"),
-        "average discharge current I [nA]": result.sum_abs_charge / t_ref * 1e9,
-        "quadratic rate D [pC²/s]": result.sum_charge_squared / t_ref * 1e24,
-        "discharge power P [mW]": result.sum_charge_voltage / t_ref * 1e3,
-        "pulse repetition rate n [1/s]": n / t_ref,
-    }
-    if result.histogram is not None and not q.size:
-        out.pop("largest apparent charge [pC]")
-    return out
+    return RunSummary(
+        cycles=int(result.cycles),
+        duration=float(t_ref),
+        discharge_count=n,
+        discharges_per_cycle=n / result.cycles,
+        mean_apparent_charge=float(result.sum_abs_charge / n) if n else 0.0,
+        largest_apparent_charge=float(q.max()) if q.size else math.nan,
+        average_discharge_current=float(result.sum_abs_charge / t_ref),
+        quadratic_rate=float(result.sum_charge_squared / t_ref),
+        discharge_power=float(result.sum_charge_voltage / t_ref),
+        pulse_repetition_rate=n / t_ref,
+    )

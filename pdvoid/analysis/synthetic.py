@@ -25,10 +25,12 @@ with::
 from __future__ import annotations
 
 import math
+from collections.abc import Mapping
 from pathlib import Path
 
 import numpy as np
 
+from pdvoid.analysis.patterns import EventSource, _filled
 from pdvoid.core.errors import InputError, check_int, check_nonnegative, check_range
 from pdvoid.inputs.demo import demo_measured_path, demo_scenario_path
 from pdvoid.inputs.parameters import check_seed
@@ -73,7 +75,7 @@ def synthetic_measurement(
     cycles: int = 1000,
     seed: int = 0,
     *,
-    hidden: dict[str, object] | None = None,
+    hidden: Mapping[str, float | str | bool] | None = None,
     threshold: float = 10e-12,
     noise: float = 2e-12,
     relative_noise: float = 0.0,
@@ -81,17 +83,28 @@ def synthetic_measurement(
 ) -> Events:
     """Simulated events with hidden parameters and measurement effects, labelled as synthetic.
 
-    Parameters:
-        scenario: the scenario before the hidden changes [-]
-        cycles: AC cycles to simulate, 1 ... 1e9 [-]
-        seed: seed of the simulation and of the noise, 0 ... 2**32 - 1 [-]
-        hidden: dotted-path changes applied to ``scenario``, e.g. ``{"void.diameter": 1.8e-3}`` (SI) [-]
-        threshold: detection threshold [C], >= 0; events with |q_meas| < threshold are dropped
-        noise: standard deviation of the additive charge noise (noise floor) [C], >= 0
-        relative_noise: proportional part of the noise, a fraction of |q|, 0 ... 1 [-]
-        phase_resolution_deg: width of the phase bins [deg]; 360 / width must be whole; 0 for none
+    Parameters
+    ----------
+    scenario : Scenario
+        the scenario before the hidden changes [-]
+    cycles : int
+        AC cycles to simulate, 1 ... 1e9 [-]
+    seed : int
+        seed of the simulation and of the noise, 0 ... 2**32 - 1 [-]
+    hidden : Mapping[str, float or str or bool] or None
+        dotted-path changes applied to ``scenario``, e.g. ``{"void.diameter": 1.8e-3}`` (SI) [-]
+    threshold : float
+        detection threshold [C], >= 0; events with |q_meas| < threshold are dropped
+    noise : float
+        standard deviation of the additive charge noise (noise floor) [C], >= 0
+    relative_noise : float
+        proportional part of the noise, a fraction of |q|, 0 ... 1 [-]
+    phase_resolution_deg : float
+        width of the phase bins [deg]; 360 / width must be whole; 0 for none
 
-    Returns:
+    Returns
+    -------
+    Events
         :class:`pdvoid.simulation.events.Events` labelled :data:`SYNTHETIC_LABEL`, with ``extra["synthetic"]`` recording
         the hidden parameters, seed, cycles and effects, and ``extra["threshold"]`` the threshold [C].
     """
@@ -106,7 +119,7 @@ def synthetic_measurement(
         "phase_resolution_deg": phase_resolution_deg,
     }
     measurement_effects(
-        Events(phase_deg=[], charge=[], frequency=50.0, cycles=1.0), seed, **effects
+        Events(phase_deg=np.empty(0), charge=np.empty(0), frequency=50.0, cycles=1.0), seed, **effects
     )  # checks
     hidden = dict(hidden or {})
     sc = scenario.replace(**hidden) if hidden else scenario
@@ -133,7 +146,7 @@ def synthetic_measurement(
 
 
 def measurement_effects(
-    events: object,
+    events: EventSource,
     seed: int = 0,
     *,
     threshold: float = 10e-12,
@@ -146,15 +159,24 @@ def measurement_effects(
     Useful on its own as the forward model of a measurement: a fit can pass simulated events through the same
     effects before comparing them with measured ones.
 
-    Parameters:
-        events: discharge events or a Result holding them [-]
-        seed: seed of the noise generator, ``numpy.random.default_rng([seed, 1])``, 0 ... 2**32 - 1 [-]
-        threshold: detection threshold [C], >= 0; events with |q_meas| < threshold are dropped
-        noise: standard deviation of the additive charge noise (noise floor) [C], >= 0
-        relative_noise: proportional part of the noise, a fraction of |q|, 0 ... 1 [-]
-        phase_resolution_deg: width of the phase bins [deg], 0 ... 360; 360 / width must be whole; 0 for none
+    Parameters
+    ----------
+    events : Events or Result
+        discharge events or a Result holding them [-]
+    seed : int
+        seed of the noise generator, ``numpy.random.default_rng([seed, 1])``, 0 ... 2**32 - 1 [-]
+    threshold : float
+        detection threshold [C], >= 0; events with |q_meas| < threshold are dropped
+    noise : float
+        standard deviation of the additive charge noise (noise floor) [C], >= 0
+    relative_noise : float
+        proportional part of the noise, a fraction of |q|, 0 ... 1 [-]
+    phase_resolution_deg : float
+        width of the phase bins [deg], 0 ... 360; 360 / width must be whole; 0 for none
 
-    Returns:
+    Returns
+    -------
+    Events
         :class:`pdvoid.Events` with phase, charge, cycle and time (no voltage or void fields), label of
         the input, and ``extra["measurement effects"]`` recording the settings and the number dropped.
     """
@@ -174,7 +196,7 @@ def measurement_effects(
     sigma = np.sqrt(sigma0**2 + (rel * np.abs(q)) ** 2)
     q_meas = q + sigma * rng.standard_normal(q.size)
     keep = np.abs(q_meas) >= thr
-    cycle = ev.cycle[keep]
+    cycle = _filled(ev.cycle)[keep]
     phase = ev.phase_deg[keep]
     if nbins:
         phase = np.minimum((np.floor(phase / res) + 0.5) * res, np.nextafter(360.0, 0.0))
@@ -199,14 +221,18 @@ def measurement_effects(
     )
 
 
-def hidden_parameters(data: object) -> dict[str, float]:
+def hidden_parameters(data: Events) -> dict[str, float]:
     """The hidden parameters of synthetic events, or of a synthetic file read with ``read_events``.
 
-    Parameters:
-        data: events from :func:`synthetic_measurement`, or events read from a file with
-            ``# hidden.<name> = <value>`` lines [-]
+    Parameters
+    ----------
+    data : Events
+        events from :func:`synthetic_measurement`, or events read from a file with
+        ``# hidden.<name> = <value>`` lines [-]
 
-    Returns:
+    Returns
+    -------
+    dict[str, float]
         {dotted parameter name: value in SI units}.
     """
     extra = getattr(data, "extra", None)
@@ -231,10 +257,14 @@ def write_demo_measured(path: str | Path | None = None) -> Path:
     """Write the synthetic demo pattern (default: :func:`demo_measured_path`) from :data:`DEMO_HIDDEN` and
     :data:`DEMO_SETTINGS`, with comment lines that say it is synthetic and list the hidden parameters.
 
-    Parameters:
-        path: file to write; None for the packaged ``pdvoid/inputs/examples/demo_measured.csv`` [-]
+    Parameters
+    ----------
+    path : str or Path or None
+        file to write; None for the packaged ``pdvoid/inputs/examples/demo_measured.csv`` [-]
 
-    Returns:
+    Returns
+    -------
+    Path
         the path written.
     """
     from pdvoid.io import write_events  # imported here: a plain analysis never loads the file writers

@@ -22,6 +22,7 @@ from pdvoid.analysis.summary import run_summary
 from pdvoid.coefficients import compute_coefficients
 from pdvoid.core.errors import InputError, check_int, check_positive
 from pdvoid.core.references import cite
+from pdvoid.faces.summary_table import summary_dict
 from pdvoid.inputs.materials import get_gas, get_material
 from pdvoid.inputs.parameters import Periodic, check_seed
 from pdvoid.inputs.scenario import Scenario
@@ -223,7 +224,7 @@ def design_review(
         test_voltage=test_voltage,
         service_voltage=service_voltage,
         sensitivity=rows,
-        summary=run_summary(result),
+        summary=summary_dict(run_summary(result)),
         largest=largest_pd_free_void(scenario, test_voltage),
         largest_service=(
             largest_pd_free_void(scenario, service_voltage) if service_voltage is not None else None

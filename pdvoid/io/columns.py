@@ -77,20 +77,42 @@ _FIELD = re.compile(r"^\s*([A-Za-z][A-Za-z0-9_ ]*?)\s*(?:[\[(]\s*([^\[\]()]*?)\s
 
 @dataclass(frozen=True)
 class Column:
-    """One column: canonical ``name``, ``unit`` (None if not given), ``factor`` to SI (None if unknown)."""
+    """One column of an event file.
+
+    Attributes
+    ----------
+    name : str
+        Canonical column name (time, cycle, phase, charge, voltage, field_before, field_after or skip).
+    unit : str or None
+        The unit as written in the file or the options; None if not given.
+    """
 
     name: str
     unit: str | None
 
     @property
     def factor(self) -> float:
+        """Factor from the column's unit to SI [-]; 1 for cycle and skip, NaN while the unit is unknown."""
         if self.name == "cycle" or self.name == "skip":
             return 1.0
         return UNITS[self.unit][1] if self.unit is not None else float("nan")
 
 
 def column_label(name: str, unit: str | None = None) -> str:
-    """``"charge [pC]"``: the header text of a column."""
+    """``"charge [pC]"``: the header text of a column.
+
+    Parameters
+    ----------
+    name : str
+        Canonical column name [-].
+    unit : str or None
+        Unit to show; None for the column's SI unit [-].
+
+    Returns
+    -------
+    str
+        ``"name [unit]"``.
+    """
     return f"{name} [{unit if unit is not None else SI_UNITS[name]}]"
 
 
@@ -113,7 +135,27 @@ def _unit(name: str, unit: str | None, where: str) -> str | None:
 
 
 def checked_column(name: str, unit: str, where: str) -> Column:
-    """A :class:`Column` for a canonical ``name`` with a ``unit`` that column accepts."""
+    """A :class:`Column` for a canonical ``name`` with a ``unit`` that column accepts.
+
+    Parameters
+    ----------
+    name : str
+        Canonical column name [-].
+    unit : str
+        Its unit (one of :data:`COLUMN_UNITS` for the name) [-].
+    where : str
+        Prefix of error messages (file and line) [-].
+
+    Returns
+    -------
+    Column
+        The checked column.
+
+    Raises
+    ------
+    InputError
+        For an unknown name, or a missing or unaccepted unit.
+    """
     if name not in COLUMN_UNITS:
         raise InputError(f"{where}: unknown column {name!r}; known: {', '.join(COLUMN_UNITS)}")
     u = _unit(name, unit, where)
@@ -122,8 +164,26 @@ def checked_column(name: str, unit: str, where: str) -> Column:
     return Column(name, u)
 
 
-def parse_column(text: object, where: str) -> Column:
-    """Parse ``"charge [pC]"``, ``"charge (pC)"`` or ``"charge"`` into a :class:`Column`."""
+def parse_column(text: str, where: str) -> Column:
+    """Parse ``"charge [pC]"``, ``"charge (pC)"`` or ``"charge"`` into a :class:`Column`.
+
+    Parameters
+    ----------
+    text : str
+        One column name of a header line or of the ``columns`` option [-].
+    where : str
+        Prefix of error messages (file and line, or the option) [-].
+
+    Returns
+    -------
+    Column
+        Canonical name and unit (None when the text gives none).
+
+    Raises
+    ------
+    InputError
+        When ``text`` is not text, not a column name, names an unknown column or gives an unaccepted unit.
+    """
     if not isinstance(text, str):
         raise InputError(f"{where}: a column must be text like 'charge [pC]'; got {text!r}")
     m = _FIELD.match(text)
@@ -140,7 +200,7 @@ def parse_column(text: object, where: str) -> Column:
     return Column(name, _unit(name, unit, where))
 
 
-def _as_list(columns: object, where: str) -> list[str]:
+def _as_list(columns: str | Sequence[str], where: str) -> list[str]:
     if isinstance(columns, str):
         parts = [c for c in re.split(r"[,;\t]", columns)]
     elif isinstance(columns, Sequence) and not isinstance(columns, (bytes, bytearray)):
@@ -158,8 +218,8 @@ def _as_list(columns: object, where: str) -> list[str]:
 def resolve_columns(
     header: list[str] | None,
     header_where: str,
-    columns: object,
-    units: object,
+    columns: str | Sequence[str] | None,
+    units: Mapping[str, str] | None,
 ) -> list[Column]:
     """The columns of an event file from its header line and/or the ``columns`` and ``units`` options.
 
@@ -168,6 +228,28 @@ def resolve_columns(
     they must agree). ``units`` ({name: unit}) supplies units missing from both;
     it may not contradict a unit already given. Every column except cycle and skip needs a unit in the end.
     Names may not repeat (except skip); charge and one of phase or time are required.
+
+    Parameters
+    ----------
+    header : list of str or None
+        The fields of the header line; None for a file without header [-].
+    header_where : str
+        Prefix of error messages about the header (file and line) [-].
+    columns : str or Sequence[str] or None
+        The ``columns`` option: names with units as a list or as one text like ``"phase [deg],charge [pC]"`` [-].
+    units : Mapping[str, str] or None
+        The ``units`` option: {column name: unit} for columns whose unit is given nowhere else [-].
+
+    Returns
+    -------
+    list of Column
+        One column per field, each with its unit (every column but cycle and skip has one).
+
+    Raises
+    ------
+    InputError
+        When the header and the options disagree, a unit is missing or contradicted, a name repeats, or the
+        charge column or both phase and time are missing.
     """
     if columns is None:
         cols = [parse_column(t, f"{header_where}, column {i}") for i, t in enumerate(header or [], 1)]

@@ -38,6 +38,7 @@ from __future__ import annotations
 import os
 from collections.abc import Mapping, Sequence
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 import numpy as np
 
@@ -46,6 +47,9 @@ from pdvoid.io import lines as L
 from pdvoid.io.columns import Column, column_label, resolve_columns
 from pdvoid.io.options import CommentKeys, check_layout_options, quantity_option
 from pdvoid.simulation.events import Events
+
+if TYPE_CHECKING:
+    from pdvoid.io.matrix import PatternMatrix
 
 __all__ = ["read_events", "describe_read", "PHASE_TOLERANCE_DEG", "CYCLE_TOLERANCE"]
 
@@ -96,12 +100,12 @@ class _Scan:
 
 
 def _table(
-    scan: _Scan, columns: object, units: object
+    scan: _Scan, columns: str | Sequence[str] | None, units: Mapping[str, str] | None
 ) -> tuple[list[Column], np.ndarray, np.ndarray, int | None]:
     """Read the whole file: (columns, values (rows, ncols) in file units, line numbers, header line)."""
     parser: L.RowParser | None = None
     cols: list[Column] | None = None
-    header_line = None
+    header_line: int | None = None
     for lineno, s in scan.lines_of():
         if parser is None:
             if scan.delimiter is None:
@@ -127,7 +131,7 @@ def _table(
         if scan.decimal is None:
             parser.decimal = scan.decide_decimal(s) or "."
         parser.add(lineno, s)
-    if parser is None:
+    if parser is None or cols is None:  # cols is set together with parser
         if columns is None:
             raise L.line_error(
                 scan.path, None, "no header line and no data (the file holds only comments or blank lines)"
@@ -166,23 +170,36 @@ def read_events(
     :func:`describe_read`); ``# key = value`` comments in ``events.extra["metadata"]``; a declared detection
     threshold in ``events.extra["threshold"]`` [C].
 
-    Parameters:
-        path: the file [-]
-        cycles: number of AC cycles observed [-]; needed without a time column (or ``duration``)
-        duration: observation time [s] (number or text like ``"60 s"``); alternative to ``cycles``
-        frequency: supply frequency [Hz] (number or text like ``"50 Hz"``); needed unless the file has
-            ``# frequency = ...``
-        columns: column names with units for files without header (e.g. ``["phase [deg]", "charge [pC]"]`` or
-            ``"phase [deg],charge [pC]"``); with a header the names must agree [-]
-        units: {column: unit} for columns whose unit is not given otherwise, e.g. ``{"charge": "nC"}`` [-]
-        delimiter: ",", ";" or "\\t"; None to detect [-]
-        decimal: "." or ","; None to detect (a decimal comma only with ";") [-]
+    Parameters
+    ----------
+    path : str or os.PathLike
+        the file [-]
+    cycles : float or None
+        number of AC cycles observed [-]; needed without a time column (or ``duration``)
+    duration : float or str or None
+        observation time [s] (number or text like ``"60 s"``); alternative to ``cycles``
+    frequency : float or str or None
+        supply frequency [Hz] (number or text like ``"50 Hz"``); needed unless the file has
+        ``# frequency = ...``
+    columns : Sequence[str] or str or None
+        column names with units for files without header (e.g. ``["phase [deg]", "charge [pC]"]`` or
+        ``"phase [deg],charge [pC]"``); with a header the names must agree [-]
+    units : Mapping[str, str] or None
+        {column: unit} for columns whose unit is not given otherwise, e.g. ``{"charge": "nC"}`` [-]
+    delimiter : str or None
+        ",", ";" or "\\t"; None to detect [-]
+    decimal : str or None
+        "." or ","; None to detect (a decimal comma only with ";") [-]
 
-    Returns:
+    Returns
+    -------
+    Events
         :class:`pdvoid.simulation.events.Events` in SI units.
 
-    Raises:
-        InputError: naming the file (and the line) for every malformed input; see the module docs.
+    Raises
+    ------
+    InputError
+        naming the file (and the line) for every malformed input; see the module docs.
     """
     p = L.checked_path(path)
     check_layout_options(delimiter, decimal)
@@ -312,7 +329,7 @@ def read_events(
         "zero-charge events": int(np.count_nonzero(data["charge"] == 0.0)),
         "threshold [C]": threshold,
     }
-    extra = {"summary": summary, "metadata": scan.keys.metadata}
+    extra: dict[str, object] = {"summary": summary, "metadata": scan.keys.metadata}
     if threshold is not None:
         extra["threshold"] = threshold
     return Events(
@@ -330,12 +347,24 @@ def read_events(
     )
 
 
-def describe_read(data: object) -> str:
+def describe_read(data: Events | PatternMatrix) -> str:
     """A few lines of text saying what a pdvoid reader read (events or a count matrix).
 
-    Parameters:
-        data: what :func:`read_events`, :func:`pdvoid.io.read_pattern_matrix` or
-            :func:`pdvoid.io.read_exchange` returned [-]
+    Parameters
+    ----------
+    data : Events or PatternMatrix
+        what :func:`read_events`, :func:`pdvoid.io.read_pattern_matrix` or
+        :func:`pdvoid.io.read_exchange` returned [-]
+
+    Returns
+    -------
+    str
+        One ``key: value`` line per entry of the reader's summary.
+
+    Raises
+    ------
+    InputError
+        When ``data`` holds no reader summary.
     """
     extra = getattr(data, "extra", None)
     summary = extra.get("summary") if isinstance(extra, dict) else None

@@ -37,18 +37,29 @@ def write_events(
     are written with 17 significant digits unless ``formats`` says otherwise, so SI units round-trip exactly;
     other units round-trip to within rounding of the unit factor.
 
-    Parameters:
-        events: the events [-]
-        path: the file to write [-]
-        columns: names to write, from time, cycle, phase, charge, voltage, field_before, field_after; default:
-            every one whose values are all finite [-]
-        units: {name: unit} for the header, default SI (phase in deg) [-]
-        formats: {name: printf format}, e.g. ``{"charge": "%.2f"}`` [-]
-        metadata: extra ``# key = value`` lines (keys: letters, digits, _ . -) [-]
-        comments: free comment lines written first [-]
-        delimiter: "," or ";" or "\\t" [-]
+    Parameters
+    ----------
+    events : Events
+        the events [-]
+    path : str or os.PathLike
+        the file to write [-]
+    columns : Sequence[str] or None
+        names to write, from time, cycle, phase, charge, voltage, field_before, field_after; default:
+        every one whose values are all finite [-]
+    units : Mapping[str, str] or None
+        {name: unit} for the header, default SI (phase in deg) [-]
+    formats : Mapping[str, str] or None
+        {name: printf format}, e.g. ``{"charge": "%.2f"}`` [-]
+    metadata : Mapping[str, object] or None
+        extra ``# key = value`` lines (keys: letters, digits, _ . -) [-]
+    comments : Sequence[str]
+        free comment lines written first [-]
+    delimiter : str
+        "," or ";" or "\\t" [-]
 
-    Returns:
+    Returns
+    -------
+    Path
         the path written.
     """
     if not isinstance(events, Events):

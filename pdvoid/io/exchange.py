@@ -43,6 +43,7 @@ import json
 import math
 import os
 from pathlib import Path
+from typing import Literal, overload
 
 import numpy as np
 
@@ -51,6 +52,7 @@ from pdvoid.io import lines as L
 from pdvoid.io.columns import SI_UNITS, column_label, parse_column
 from pdvoid.io.matrix import PatternMatrix
 from pdvoid.simulation.events import Events, as_events
+from pdvoid.simulation.results import Result
 
 __all__ = ["EXCHANGE_FORMAT", "EXCHANGE_VERSION", "MAX_HEADER_CHARS", "write_exchange", "read_exchange"]
 
@@ -62,10 +64,9 @@ _OPTIONAL = ("time", "cycle", "voltage", "field_before", "field_after")
 _ATTR = {"phase": "phase_deg"}
 
 
-def _provenance_of(obj: object) -> dict:
+def _provenance_of(obj: Events | Result | PatternMatrix) -> dict:
     """Provenance of a simulation Result: source, seed, cycles, version and scenario; {} for other objects."""
-    scenario = getattr(obj, "scenario", None)
-    if scenario is None or not hasattr(obj, "seed"):
+    if not isinstance(obj, Result):
         return {}
     from pdvoid.inputs.scenario_files import scenario_to_dict
 
@@ -74,7 +75,7 @@ def _provenance_of(obj: object) -> dict:
         "seed": obj.seed,
         "cycles": obj.cycles,
         "pdvoid version": obj.version,
-        "scenario": scenario_to_dict(scenario),
+        "scenario": scenario_to_dict(obj.scenario),
     }
 
 
@@ -88,7 +89,7 @@ def _json(header: dict) -> str:
 
 
 def write_exchange(
-    data: object,
+    data: Events | Result | PatternMatrix,
     path: str | os.PathLike,
     *,
     provenance: dict | None = None,
@@ -96,14 +97,21 @@ def write_exchange(
 ) -> Path:
     """Write events (or a Result) or a :class:`PatternMatrix` in the "pdvoid-pattern" format.
 
-    Parameters:
-        data: :class:`pdvoid.simulation.events.Events`, a Result, or a :class:`PatternMatrix` [-]
-        path: the file to write [-]
-        provenance: JSON-able description of where the data came from; merged over the provenance a Result
-            supplies (source, seed, cycles, version, scenario) [-]
-        threshold: detection threshold of the data [C], >= 0; default: ``extra["threshold"]`` if present [-]
+    Parameters
+    ----------
+    data : Events or Result or PatternMatrix
+        :class:`pdvoid.simulation.events.Events`, a Result, or a :class:`PatternMatrix` [-]
+    path : str or os.PathLike
+        the file to write [-]
+    provenance : dict or None
+        JSON-able description of where the data came from; merged over the provenance a Result
+        supplies (source, seed, cycles, version, scenario) [-]
+    threshold : float or None
+        detection threshold of the data [C], >= 0; default: ``extra["threshold"]`` if present [-]
 
-    Returns:
+    Returns
+    -------
+    Path
         the path written.
     """
     from pdvoid._version import __version__
@@ -111,6 +119,7 @@ def write_exchange(
     if provenance is not None and not isinstance(provenance, dict):
         raise InputError(f"provenance must be a dict; got {type(provenance).__name__}")
     prov = {**_provenance_of(data), **(provenance or {})}
+    obj: Events | PatternMatrix
     if isinstance(data, PatternMatrix):
         obj = data
     else:
@@ -121,6 +130,7 @@ def write_exchange(
         not isinstance(threshold, (int, float)) or not math.isfinite(threshold) or threshold < 0
     ):
         raise InputError(f"threshold must be a finite number >= 0 C; got {threshold!r}")
+    table: np.ndarray | None
     header: dict = {
         "kind": "matrix" if isinstance(obj, PatternMatrix) else "events",
         "label": obj.label,
@@ -160,6 +170,16 @@ def _reject_constant(name: str) -> float:
     raise ValueError(f"{name} is not a JSON number")
 
 
+@overload
+def _number(header: dict, key: str, p: Path, *, required: Literal[True] = True, allow_zero: bool = False) -> float: ...
+
+
+@overload
+def _number(
+    header: dict, key: str, p: Path, *, required: Literal[False], allow_zero: bool = False
+) -> float | None: ...
+
+
 def _number(
     header: dict, key: str, p: Path, *, required: bool = True, allow_zero: bool = False
 ) -> float | None:
@@ -191,8 +211,20 @@ def read_exchange(path: str | os.PathLike) -> Events | PatternMatrix:
     The header's ``provenance`` goes to ``extra["provenance"]``, its threshold to ``extra["threshold"]``,
     and a summary of what was read to ``extra["summary"]``.
 
-    Raises:
-        InputError: naming the file and the line for anything that does not follow the format.
+    Parameters
+    ----------
+    path : str or os.PathLike
+        The file [-].
+
+    Returns
+    -------
+    Events or PatternMatrix
+        Events for ``kind = "events"``, a count matrix for ``kind = "matrix"``.
+
+    Raises
+    ------
+    InputError
+        naming the file and the line for anything that does not follow the format.
     """
     p = L.checked_path(path)
     lines = L.iter_lines(p)
@@ -233,7 +265,7 @@ def read_exchange(path: str | os.PathLike) -> Events | PatternMatrix:
     prov = header.get("provenance", {})
     if not isinstance(label, str) or not isinstance(prov, dict):
         raise L.line_error(p, 2, "header 'label' must be text and 'provenance' an object")
-    extra = {"provenance": prov, "metadata": {}}
+    extra: dict[str, object] = {"provenance": prov, "metadata": {}}
     if threshold is not None:
         extra["threshold"] = threshold
     summary = {

@@ -43,13 +43,44 @@ _DELIMITER_NAMES = {",": "comma", ";": "semicolon", "\t": "tab"}
 
 
 def line_error(path: Path | str, lineno: int | None, reason: str) -> InputError:
-    """An :class:`InputError` whose message starts with ``"<file>, line <n>: "`` (or ``"<file>: "``)."""
+    """An :class:`InputError` whose message starts with ``"<file>, line <n>: "`` (or ``"<file>: "``).
+
+    Parameters
+    ----------
+    path : Path or str
+        The file the message is about [-].
+    lineno : int or None
+        Line number from 1; None when the problem is not on one line [-].
+    reason : str
+        What is wrong [-].
+
+    Returns
+    -------
+    InputError
+        The error, to be raised by the caller.
+    """
     where = f"{path}, line {lineno}" if lineno is not None else f"{path}"
     return InputError(f"{where}: {reason}")
 
 
-def checked_path(path: object) -> Path:
-    """``path`` as a :class:`Path` to a readable regular file of at most :data:`MAX_FILE_BYTES` bytes."""
+def checked_path(path: str | os.PathLike[str]) -> Path:
+    """``path`` as a :class:`Path` to a readable regular file of at most :data:`MAX_FILE_BYTES` bytes.
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+        The file name [-].
+
+    Returns
+    -------
+    Path
+        The checked path.
+
+    Raises
+    ------
+    InputError
+        When ``path`` is not a file name, cannot be read, is not a regular file or is too large.
+    """
     if isinstance(path, bool) or not isinstance(path, (str, os.PathLike)):
         raise InputError(f"path must be a file name (str or path-like); got {type(path).__name__}")
     p = Path(path)
@@ -69,9 +100,24 @@ def checked_path(path: object) -> Path:
 def iter_lines(path: Path) -> Iterator[tuple[int, str]]:
     """Yield (line number from 1, text without the line end) for every line of a UTF-8 file.
 
-    A byte-order mark at the start is ignored; ``\\r\\n`` and ``\\n`` end lines. Lines longer than
-    :data:`MAX_LINE_CHARS`, text that is not UTF-8 and NUL characters raise :class:`InputError` naming
-    the line. Memory is bounded by the line limit; the number of lines by the file-size limit.
+    A byte-order mark at the start is ignored; ``\\r\\n`` and ``\\n`` end lines. Memory is bounded by the line
+    limit; the number of lines by the file-size limit.
+
+    Parameters
+    ----------
+    path : Path
+        The file [-].
+
+    Yields
+    ------
+    tuple of (int, str)
+        The line number and the text of each line.
+
+    Raises
+    ------
+    InputError
+        Naming the line, for lines longer than :data:`MAX_LINE_CHARS`, text that is not UTF-8, NUL characters,
+        or a file that grows past :data:`MAX_FILE_BYTES` while it is read.
     """
     limit = MAX_LINE_CHARS
     byte_limit = 4 * limit + 3  # a UTF-8 character takes at most 4 bytes; + "\r\n" + 1 to detect overflow
@@ -110,6 +156,16 @@ def parse_comment_key(text: str) -> tuple[str, str] | None:
 
     Keys start with a letter and hold letters, digits, ``_``, ``.``, ``-`` and spaces; they are returned
     in lower case with surrounding spaces removed.
+
+    Parameters
+    ----------
+    text : str
+        One line of the file [-].
+
+    Returns
+    -------
+    tuple of (str, str) or None
+        (key, value text), or None when the line is not a ``# key = value`` comment.
     """
     m = _KEY.match(text.strip())
     if not m:
@@ -118,7 +174,18 @@ def parse_comment_key(text: str) -> tuple[str, str] | None:
 
 
 def sniff_delimiter(text: str) -> str:
-    """The field delimiter of a header or first data line: ``;`` if present, else tab, else ``,``."""
+    """The field delimiter of a header or first data line: ``;`` if present, else tab, else ``,``.
+
+    Parameters
+    ----------
+    text : str
+        The line [-].
+
+    Returns
+    -------
+    str
+        ``";"``, ``"\\t"`` or ``","``.
+    """
     for d in (";", "\t", ","):
         if d in text:
             return d
@@ -126,11 +193,36 @@ def sniff_delimiter(text: str) -> str:
 
 
 def delimiter_name(d: str) -> str:
+    """The name of a delimiter for messages and summaries ("comma", "semicolon", "tab").
+
+    Parameters
+    ----------
+    d : str
+        The delimiter [-].
+
+    Returns
+    -------
+    str
+        Its name, or its ``repr`` for another character.
+    """
     return _DELIMITER_NAMES.get(d, repr(d))
 
 
 def split_fields(text: str, delimiter: str) -> list[str]:
-    """Fields of a line, surrounding white space removed."""
+    """Fields of a line, surrounding white space removed.
+
+    Parameters
+    ----------
+    text : str
+        The line [-].
+    delimiter : str
+        The field delimiter [-].
+
+    Returns
+    -------
+    list of str
+        The fields.
+    """
     return [f.strip() for f in text.split(delimiter)]
 
 
@@ -165,13 +257,20 @@ class RowParser:
     infinite value) is raised as :class:`InputError` naming the file and the line. The row count is limited by
     :data:`MAX_ROWS`.
 
-    Parameters:
-        path: the file (for messages) [-]
-        ncols: number of fields per line [-]
-        delimiter: field delimiter [-]
-        decimal: "." or "," [-]
-        nan_columns: indices of columns where NaN is allowed (never infinity) [-]
-        field_offset: fields before the numbers on each line (a label), for the field numbers in messages [-]
+    Parameters
+    ----------
+    path : Path
+        the file (for messages) [-]
+    ncols : int
+        number of fields per line [-]
+    delimiter : str
+        field delimiter [-]
+    decimal : str
+        "." or "," [-]
+    nan_columns : tuple[int, ...]
+        indices of columns where NaN is allowed (never infinity) [-]
+    field_offset : int
+        fields before the numbers on each line (a label), for the field numbers in messages [-]
     """
 
     def __init__(
@@ -196,6 +295,21 @@ class RowParser:
         self.rows = 0
 
     def add(self, lineno: int, text: str) -> None:
+        """Add one data line (parsed in chunks; a bad line raises when its chunk is parsed, at the latest in
+        :meth:`result`).
+
+        Parameters
+        ----------
+        lineno : int
+            Line number of ``text`` in the file, from 1 [-].
+        text : str
+            The data line [-].
+
+        Raises
+        ------
+        InputError
+            When the file holds more than :data:`MAX_ROWS` data rows, or a line of the chunk does not parse.
+        """
         self.rows += 1
         if self.rows > MAX_ROWS:
             raise line_error(self.path, lineno, f"more than {MAX_ROWS} data rows (the limit)")
@@ -261,7 +375,18 @@ class RowParser:
         self._linenos = []
 
     def result(self) -> tuple[np.ndarray, np.ndarray]:
-        """(values of shape (rows, ncols), line number of each row)."""
+        """All rows added so far, parsed.
+
+        Returns
+        -------
+        tuple of (numpy.ndarray, numpy.ndarray)
+            Values of shape (rows, ncols) and the line number of each row.
+
+        Raises
+        ------
+        InputError
+            Naming the first line that is not ``ncols`` numbers (or holds NaN or infinity where not allowed).
+        """
         self._flush()
         if not self._blocks:
             return np.empty((0, self.ncols)), np.empty(0, dtype=np.int64)

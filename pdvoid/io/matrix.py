@@ -29,6 +29,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 
 import numpy as np
+from numpy.typing import ArrayLike
 
 from pdvoid.core.arrays import frozen_array as _frozen
 from pdvoid.core.errors import InputError, check_array, check_choice, check_positive
@@ -36,6 +37,7 @@ from pdvoid.io import lines as L
 from pdvoid.io.columns import checked_column
 from pdvoid.io.options import CommentKeys, check_layout_options, quantity_option
 from pdvoid.simulation.events import Events, as_events
+from pdvoid.simulation.results import Result
 
 __all__ = ["PatternMatrix", "matrix_from_events", "read_pattern_matrix", "write_pattern_matrix"]
 
@@ -48,14 +50,22 @@ _EDGES = re.compile(r"^(phase|charge)\s+edges\s*(?:[\[(]\s*([^\[\]()]*?)\s*[\])]
 class PatternMatrix:
     """Counts of discharges per (phase bin, charge bin) over an observation of ``cycles`` AC cycles.
 
-    Attributes:
-        counts: whole numbers >= 0, shape (n_phase, n_charge) [-].
-        phase_edges_deg: n_phase + 1 strictly increasing edges inside [0, 360] [deg].
-        charge_edges: n_charge + 1 strictly increasing signed edges [C].
-        cycles: number of AC cycles observed [-].
-        frequency: supply frequency [Hz].
-        label: free text.
-        extra: free dictionary (the readers put their summary and metadata here).
+    Attributes
+    ----------
+    counts : numpy.ndarray
+        whole numbers >= 0, shape (n_phase, n_charge) [-].
+    phase_edges_deg : numpy.ndarray
+        n_phase + 1 strictly increasing edges inside [0, 360] [deg].
+    charge_edges : numpy.ndarray
+        n_charge + 1 strictly increasing signed edges [C].
+    cycles : float
+        number of AC cycles observed [-].
+    frequency : float
+        supply frequency [Hz].
+    label : str
+        free text.
+    extra : dict
+        free dictionary (the readers put their summary and metadata here).
     """
 
     counts: np.ndarray
@@ -98,11 +108,28 @@ class PatternMatrix:
 
     @property
     def phase_centres_deg(self) -> np.ndarray:
+        """Centres of the phase bins [deg]."""
         e = self.phase_edges_deg
         return 0.5 * (e[:-1] + e[1:])
 
     def charge_centres(self, centre: str = "arithmetic") -> np.ndarray:
-        """Bin centres [C]: "arithmetic" mean of the edges, or signed "geometric" mean (bins off 0)."""
+        """Bin centres of the charge axis [C].
+
+        Parameters
+        ----------
+        centre : str
+            "arithmetic" mean of the edges, or signed "geometric" mean (bins off 0) [-].
+
+        Returns
+        -------
+        numpy.ndarray
+            One centre per charge bin [C].
+
+        Raises
+        ------
+        InputError
+            For geometric centres when a bin contains or touches 0 C.
+        """
         check_choice("centre", centre, ("arithmetic", "geometric"))
         lo, hi = self.charge_edges[:-1], self.charge_edges[1:]
         if centre == "arithmetic":
@@ -118,8 +145,21 @@ class PatternMatrix:
         their bin. Events at a charge centre of 0 (a bin symmetric about 0) have zero charge and count as no
         pulse in :mod:`pdvoid.analysis`.
 
-        Parameters:
-            centre: "arithmetic" or "geometric" charge centre of each bin [-]
+        Parameters
+        ----------
+        centre : str
+            "arithmetic" or "geometric" charge centre of each bin [-]
+
+        Returns
+        -------
+        Events
+            ``total`` events, label of the matrix, ``extra["from matrix"] = True``.
+
+        Raises
+        ------
+        InputError
+            When the matrix counts more than :data:`pdvoid.io.lines.MAX_ROWS` discharges, or for geometric centres
+            of a bin that touches 0 C.
         """
         total = self.total
         if total > L.MAX_ROWS:
@@ -141,16 +181,29 @@ class PatternMatrix:
         )
 
 
-def matrix_from_events(events: object, phase_edges_deg: object, charge_edges: object) -> PatternMatrix:
+def matrix_from_events(
+    events: Events | Result, phase_edges_deg: ArrayLike, charge_edges: ArrayLike
+) -> PatternMatrix:
     """Count events into a :class:`PatternMatrix` (bins [a, b), the last one [a, b]).
 
-    Parameters:
-        events: discharge events or a result holding them [-]
-        phase_edges_deg: phase edges inside [0, 360] [deg]
-        charge_edges: signed charge edges [C]
+    Parameters
+    ----------
+    events : Events or Result
+        discharge events or a result holding them [-]
+    phase_edges_deg : array_like
+        phase edges inside [0, 360] [deg]
+    charge_edges : array_like
+        signed charge edges [C]
 
-    Raises:
-        InputError: if any event lies outside the edges (nothing is dropped).
+    Returns
+    -------
+    PatternMatrix
+        The counts, the edges, and the events' cycles and frequency.
+
+    Raises
+    ------
+    InputError
+        if any event lies outside the edges (nothing is dropped).
     """
     ev = as_events(events)
     pe = check_array("phase_edges_deg", phase_edges_deg, min_size=2)
@@ -177,14 +230,22 @@ def read_pattern_matrix(
 ) -> PatternMatrix:
     """Read a phase-resolved count matrix with its bin edges (layout: :mod:`pdvoid.io.matrix`).
 
-    Parameters:
-        path: the file [-]
-        cycles: number of AC cycles observed [-], unless the file has ``# cycles = ...``
-        frequency: supply frequency [Hz], unless the file has ``# frequency = ...``
-        delimiter: ",", ";" or "\\t"; None to detect [-]
-        decimal: "." or ","; None to detect (a decimal comma only with ";") [-]
+    Parameters
+    ----------
+    path : str or os.PathLike
+        the file [-]
+    cycles : float or None
+        number of AC cycles observed [-], unless the file has ``# cycles = ...``
+    frequency : float or str or None
+        supply frequency [Hz], unless the file has ``# frequency = ...``
+    delimiter : str or None
+        ",", ";" or "\\t"; None to detect [-]
+    decimal : str or None
+        "." or ","; None to detect (a decimal comma only with ";") [-]
 
-    Returns:
+    Returns
+    -------
+    PatternMatrix
         :class:`PatternMatrix` with ``extra["summary"]`` and ``extra["metadata"]``.
     """
     p = L.checked_path(path)
@@ -192,7 +253,7 @@ def read_pattern_matrix(
     opt_cycles = quantity_option("cycles", cycles, "dimensionless")
     opt_frequency = quantity_option("frequency", frequency, "frequency")
     keys = CommentKeys(p)
-    edges: dict[str, tuple[np.ndarray, str, int]] = {}
+    edges: dict[str, tuple[np.ndarray, str | None, int]] = {}
     parser: L.RowParser | None = None
     counts_line = None
     nlines = comments = 0
@@ -261,13 +322,14 @@ def read_pattern_matrix(
         raise L.line_error(p, where, f"{counts.shape[0]} count rows for {n_phase} phase bins")
     bad = (counts < 0) | (counts != np.floor(counts))
     if bad.any():
-        row = int(np.argwhere(bad)[0][0])
-        raise L.line_error(p, int(linenos[row]), "counts must be whole numbers >= 0")
+        bad_row = int(np.argwhere(bad)[0][0])
+        raise L.line_error(p, int(linenos[bad_row]), "counts must be whole numbers >= 0")
     f, f_src = keys.quantity("frequency", opt_frequency)
     c, c_src = keys.quantity("cycles", opt_cycles)
-    for name, value in (("frequency", f), ("cycles", c)):
-        if value is None:
-            raise L.line_error(p, None, f"{name} unknown: give {name}= or a comment line '# {name} = ...'")
+    if f is None:
+        raise L.line_error(p, None, "frequency unknown: give frequency= or a comment line '# frequency = ...'")
+    if c is None:
+        raise L.line_error(p, None, "cycles unknown: give cycles= or a comment line '# cycles = ...'")
     summary = {
         "file": str(p),
         "lines": nlines,
@@ -306,14 +368,27 @@ def write_pattern_matrix(
 ) -> Path:
     """Write a :class:`PatternMatrix` in the layout :func:`read_pattern_matrix` reads (17 significant digits).
 
-    Parameters:
-        matrix: the matrix [-]
-        path: the file to write [-]
-        charge_unit: unit of the charge edges: C, nC, pC, fC [-]
-        phase_unit: unit of the phase edges: deg or rad [-]
-        metadata: extra ``# key = value`` lines [-]
-        comments: free comment lines written first [-]
-        delimiter: ",", ";" or "\\t" [-]
+    Parameters
+    ----------
+    matrix : PatternMatrix
+        the matrix [-]
+    path : str or os.PathLike
+        the file to write [-]
+    charge_unit : str
+        unit of the charge edges: C, nC, pC, fC [-]
+    phase_unit : str
+        unit of the phase edges: deg or rad [-]
+    metadata : Mapping[str, object] or None
+        extra ``# key = value`` lines [-]
+    comments : Sequence[str]
+        free comment lines written first [-]
+    delimiter : str
+        ",", ";" or "\\t" [-]
+
+    Returns
+    -------
+    Path
+        The path written.
     """
     if not isinstance(matrix, PatternMatrix):
         raise InputError(f"matrix must be a PatternMatrix; got {type(matrix).__name__}")

@@ -35,8 +35,32 @@ RECOGNISED_KEYS: dict[str, str] = {
 _UNITS = {"frequency": "Hz", "cycles": "", "duration": "s", "threshold": "C"}
 
 
-def quantity_option(name: str, value: object, dimension: str, *, allow_zero: bool = False) -> float | None:
-    """An option given as a number (SI) or a quantity text like ``"50 Hz"``; None stays None."""
+def quantity_option(
+    name: str, value: float | str | None, dimension: str, *, allow_zero: bool = False
+) -> float | None:
+    """An option given as a number (SI) or a quantity text like ``"50 Hz"``; None stays None.
+
+    Parameters
+    ----------
+    name : str
+        The option: "frequency", "cycles", "duration" or "threshold" [-].
+    value : float or str or None
+        A number in SI, or text with a unit of ``dimension`` [-].
+    dimension : str
+        The dimension the unit must have (e.g. "frequency") [-].
+    allow_zero : bool
+        True to accept 0 (the threshold) [-].
+
+    Returns
+    -------
+    float or None
+        The value in SI, > 0 (or 0 when allowed); None when ``value`` is None.
+
+    Raises
+    ------
+    InputError
+        For text that is not a quantity of ``dimension``, or a value <= 0 (< 0 with ``allow_zero``).
+    """
     if value is None:
         return None
     x = parse_quantity(value, dimension, name=name) if isinstance(value, str) else value
@@ -46,13 +70,42 @@ def quantity_option(name: str, value: object, dimension: str, *, allow_zero: boo
 
 
 class CommentKeys:
-    """Collects ``# key = value`` lines of one file; resolves them against the options."""
+    """Collects ``# key = value`` lines of one file; resolves them against the options.
+
+    Parameters
+    ----------
+    path : Path
+        The file (for messages) [-].
+
+    Attributes
+    ----------
+    path : Path
+        The file.
+    values : dict of str to (str, int)
+        {key: (value text, line number)} of every ``# key = value`` line seen.
+    """
 
     def __init__(self, path: Path) -> None:
         self.path = path
         self.values: dict[str, tuple[str, int]] = {}
 
     def add(self, key: str, value: str, lineno: int) -> None:
+        """Record one ``# key = value`` line.
+
+        Parameters
+        ----------
+        key : str
+            The key, lower case [-].
+        value : str
+            The value text [-].
+        lineno : int
+            Its line number [-].
+
+        Raises
+        ------
+        InputError
+            When the key was given before with another value.
+        """
         if key in self.values and self.values[key][0] != value:
             first = self.values[key][1]
             raise line_error(
@@ -69,10 +122,41 @@ class CommentKeys:
         return {k: v for k, (v, _) in self.values.items()}
 
     def text(self, key: str) -> str | None:
+        """The text of a key, or None when the file does not give it.
+
+        Parameters
+        ----------
+        key : str
+            The key, lower case [-].
+
+        Returns
+        -------
+        str or None
+            The value text.
+        """
         return self.values[key][0] if key in self.values else None
 
     def quantity(self, key: str, option: float | None) -> tuple[float | None, str | None]:
-        """(value, source) for a recognised numeric key from the option and/or its comment line."""
+        """(value, source) for a recognised numeric key from the option and/or its comment line.
+
+        Parameters
+        ----------
+        key : str
+            One of the numeric :data:`RECOGNISED_KEYS` [-].
+        option : float or None
+            The option's value in SI, None when not given [SI].
+
+        Returns
+        -------
+        tuple of (float or None, str or None)
+            The value in SI and where it came from ("option", "option (agrees with the file)" or
+            "comment line <n>"); (None, None) when neither gives it.
+
+        Raises
+        ------
+        InputError
+            Naming the line, for a comment value that is not a valid quantity or that disagrees with the option.
+        """
         dim = RECOGNISED_KEYS[key]
         from_comment = None
         if key in self.values:
@@ -98,8 +182,21 @@ class CommentKeys:
         return None, None
 
 
-def check_layout_options(delimiter: object, decimal: object) -> None:
-    """Validate the ``delimiter`` and ``decimal`` options of the text readers (None = detect)."""
+def check_layout_options(delimiter: str | None, decimal: str | None) -> None:
+    """Validate the ``delimiter`` and ``decimal`` options of the text readers (None = detect).
+
+    Parameters
+    ----------
+    delimiter : str or None
+        ",", ";" or "\\t" [-].
+    decimal : str or None
+        "." or "," [-].
+
+    Raises
+    ------
+    InputError
+        For another value, or a decimal comma with a comma delimiter.
+    """
     if delimiter is not None:
         check_choice("delimiter", delimiter, (",", ";", "\t"))
     if decimal is not None:

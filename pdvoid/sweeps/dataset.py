@@ -21,6 +21,7 @@ import os
 import tomllib
 from collections.abc import Callable, Sequence
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 import numpy as np
 
@@ -32,6 +33,9 @@ from pdvoid.inputs.scenario_files import scenario_to_dict
 from pdvoid.sweeps.metrics import DESCRIPTIONS, RESERVED, split_key
 from pdvoid.sweeps.names import parameter_unit
 from pdvoid.sweeps.plan import Plan
+
+if TYPE_CHECKING:
+    import xarray
 
 __all__ = ["assemble", "write_netcdf", "read_netcdf", "base_scenario"]
 
@@ -70,8 +74,35 @@ def assemble(
     scenario: Scenario,
     cycles: int,
     metrics: Callable | None = None,
-):
-    """Build the sweep Dataset from the plan and one (metrics, error) outcome per point (flat, plan order)."""
+) -> xarray.Dataset:
+    """Build the sweep Dataset from the plan and one (metrics, error) outcome per point (flat, plan order).
+
+    Parameters
+    ----------
+    plan : Plan
+        The points and their seeds [-].
+    outcomes : sequence of (dict of str to float, str)
+        Per point, ({"name [unit]": value}, "") or ({}, error message) [-].
+    scenario : Scenario
+        The base scenario (stored as the ``scenario_toml`` attribute) [-].
+    cycles : int
+        AC cycles per point [-].
+    metrics : callable or None
+        The metric function used; None for the default metrics [-].
+
+    Returns
+    -------
+    xarray.Dataset
+        One variable per metric (``units`` and ``long_name`` attributes), ``seed`` and ``error``, on the grid's
+        dimensions or on ``point``; the settings as attributes.
+
+    Raises
+    ------
+    InputError
+        When the number of outcomes differs from the plan's points, or metric names clash.
+    MissingDependencyError
+        When xarray is missing.
+    """
     xr = require("xarray")
     n = plan.n_points
     if len(outcomes) != n:
@@ -103,7 +134,7 @@ def assemble(
         np.array(errors, dtype=str).reshape(plan.shape),
         {"long_name": DESCRIPTIONS["error"]},
     )
-    attrs = {
+    ds_attrs: dict[str, str | int] = {
         "title": "pdvoid parameter sweep",
         "design": plan.design,
         "seed": int(plan.seed),
@@ -118,8 +149,8 @@ def assemble(
         "comment": COMMENT,
     }
     if plan.design != "grid":
-        attrs["samples"] = int(n)
-    return xr.Dataset(data, coords=coords, attrs=attrs)
+        ds_attrs["samples"] = int(n)
+    return xr.Dataset(data, coords=coords, attrs=ds_attrs)
 
 
 def _param_attrs(name: str, scenario: Scenario, plan: Plan) -> dict:
@@ -143,22 +174,52 @@ def _scenario_text(scenario: Scenario) -> str:
     return tomli_w.dumps(scenario_to_dict(scenario))
 
 
-def base_scenario(ds) -> Scenario:
-    """The scenario a sweep Dataset started from (its points are ``base_scenario(ds).replace(...)``)."""
+def base_scenario(ds: xarray.Dataset) -> Scenario:
+    """The scenario a sweep Dataset started from (its points are ``base_scenario(ds).replace(...)``).
+
+    Parameters
+    ----------
+    ds : xarray.Dataset
+        A Dataset from :func:`pdvoid.sweeps.sweep` or :func:`read_netcdf` [-].
+
+    Returns
+    -------
+    Scenario
+        The base scenario, read from the ``scenario_toml`` attribute.
+
+    Raises
+    ------
+    InputError
+        When the Dataset has no such attribute, or it does not hold a valid scenario.
+    """
     text = getattr(ds, "attrs", {}).get("scenario_toml")
     if not isinstance(text, str):
         raise InputError("this Dataset has no 'scenario_toml' attribute: it was not made by pdvoid.sweeps")
     return scenario_from_dict(tomllib.loads(text), source="sweep dataset attribute scenario_toml")
 
 
-def write_netcdf(ds, path: str | os.PathLike, *, engine: str = "scipy") -> Path:
+def write_netcdf(ds: xarray.Dataset, path: str | os.PathLike, *, engine: str = "scipy") -> Path:
     """Write the sweep Dataset to a NetCDF file.
 
-    Args:
-        ds: a Dataset from :func:`pdvoid.sweeps.sweep`.
-        path: file to write.
-        engine: xarray backend; "scipy" (default, no extra package) writes NetCDF-3 classic, readable by every
-            NetCDF tool; "netcdf4" or "h5netcdf" write NetCDF-4 if those packages are installed.
+    Parameters
+    ----------
+    ds : xarray.Dataset
+        a Dataset from :func:`pdvoid.sweeps.sweep`.
+    path : str or os.PathLike
+        file to write.
+    engine : str
+        xarray backend; "scipy" (default, no extra package) writes NetCDF-3 classic, readable by every
+        NetCDF tool; "netcdf4" or "h5netcdf" write NetCDF-4 if those packages are installed.
+
+    Returns
+    -------
+    Path
+        The path written.
+
+    Raises
+    ------
+    InputError
+        When ``ds`` is not a Dataset or the file cannot be written.
     """
     xr = require("xarray")
     if not isinstance(ds, xr.Dataset):
@@ -171,8 +232,26 @@ def write_netcdf(ds, path: str | os.PathLike, *, engine: str = "scipy") -> Path:
     return p
 
 
-def read_netcdf(path: str | os.PathLike, *, engine: str | None = None):
-    """Read a sweep NetCDF file fully into memory (the file is closed on return)."""
+def read_netcdf(path: str | os.PathLike, *, engine: str | None = None) -> xarray.Dataset:
+    """Read a sweep NetCDF file fully into memory (the file is closed on return).
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+        The file [-].
+    engine : str or None
+        xarray backend; None to let xarray choose [-].
+
+    Returns
+    -------
+    xarray.Dataset
+        The sweep Dataset (the ``error`` variable as text).
+
+    Raises
+    ------
+    InputError
+        When the file does not exist.
+    """
     xr = require("xarray")
     p = Path(path)
     if not p.is_file():

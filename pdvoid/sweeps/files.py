@@ -45,7 +45,25 @@ _BOUND_KEYS = {"low", "high", "scale"}
 
 @dataclass(frozen=True)
 class SweepSpec:
-    """A sweep file's content: pass it on as ``sweep(spec.scenario, spec.parameters, **spec.options())``."""
+    """A sweep file's content: pass it on as ``sweep(spec.scenario, spec.parameters, **spec.options())``.
+
+    Attributes
+    ----------
+    scenario : Scenario
+        The base scenario.
+    parameters : dict of str to Any
+        Grid: {dotted name: list of values} [SI]; random/lhs: {dotted name: (low, high, scale)} [SI].
+    design : str
+        "grid", "random" or "lhs".
+    cycles : int
+        AC cycles per point [-].
+    seed : int
+        Master seed [-].
+    samples : int or None
+        Number of points for random/lhs [-]; None for grid.
+    source : str
+        The file it was read from.
+    """
 
     scenario: Scenario
     parameters: dict[str, Any]
@@ -56,6 +74,13 @@ class SweepSpec:
     source: str = ""
 
     def options(self) -> dict[str, Any]:
+        """The keyword arguments of :func:`pdvoid.sweeps.sweep` that the file sets.
+
+        Returns
+        -------
+        dict of str to Any
+            ``{"design", "cycles", "seed", "samples"}``.
+        """
         return {"design": self.design, "cycles": self.cycles, "seed": self.seed, "samples": self.samples}
 
 
@@ -131,9 +156,10 @@ def _bounds(name: str, spec: Any, scenario: Scenario, p: Path) -> tuple:
         )
     low = parse_parameter_value(name, spec["low"], scenario, f"{where}.low")
     high = parse_parameter_value(name, spec["high"], scenario, f"{where}.high")
-    for label, v in (("low", low), ("high", high)):
-        if isinstance(v, (str, bool)):
-            raise InputError(f"{where}.{label}: only numeric parameters can be sampled; got {v!r}")
+    if isinstance(low, (str, bool)):
+        raise InputError(f"{where}.low: only numeric parameters can be sampled; got {low!r}")
+    if isinstance(high, (str, bool)):
+        raise InputError(f"{where}.high: only numeric parameters can be sampled; got {high!r}")
     scale = spec.get("scale", "linear")
     if scale not in ("linear", "log"):
         raise InputError(f'{where}.scale must be "linear" or "log"; got {scale!r}')
@@ -141,7 +167,24 @@ def _bounds(name: str, spec: Any, scenario: Scenario, p: Path) -> tuple:
 
 
 def read_sweep_file(path: str | os.PathLike) -> SweepSpec:
-    """Read a sweep file (see the module docstring); errors name the file and the key."""
+    """Read a sweep file (see the module docstring).
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+        The TOML file [-].
+
+    Returns
+    -------
+    SweepSpec
+        The base scenario, the parameters in SI and the sweep settings.
+
+    Raises
+    ------
+    InputError
+        Naming the file and the key, for an unreadable file, unknown keys, a bad scenario, parameter names or
+        values, or bad settings.
+    """
     p = Path(path)
     data = _load(p)
     unknown = set(data) - _TOP
@@ -180,7 +223,7 @@ def read_sweep_file(path: str | os.PathLike) -> SweepSpec:
     except InputError as exc:
         raise InputError(f"{p}: parameters: {exc}") from None
     if design == "grid":
-        parsed = {name: _grid_values(name, spec, scenario, p) for name, spec in flat.items()}
+        parsed: dict[str, list | tuple] = {name: _grid_values(name, spec, scenario, p) for name, spec in flat.items()}
     else:
         parsed = {name: _bounds(name, spec, scenario, p) for name, spec in flat.items()}
     return SweepSpec(

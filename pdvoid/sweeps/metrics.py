@@ -7,33 +7,28 @@ module level) to run on worker processes or Dask.
 
 from __future__ import annotations
 
-import math
 import re
 from collections.abc import Callable, Mapping
 
 import numpy as np
 
-from pdvoid.analysis.summary import run_summary
+from pdvoid.analysis.summary import RunSummary, run_summary
 from pdvoid.coefficients import compute_coefficients
 from pdvoid.core.errors import InputError
 from pdvoid.inputs.scenario import Scenario
+from pdvoid.simulation.results import Result
 from pdvoid.simulation.simulate import simulate
 
-__all__ = ["default_metrics", "split_key", "run_point", "DESCRIPTIONS", "RESERVED"]
+__all__ = ["default_metrics", "split_key", "run_point", "DESCRIPTIONS", "RESERVED", "SUMMARY_VARIABLES"]
 
 #: variable names the sweep itself uses
 RESERVED = ("seed", "error", "point")
 
-# run_summary key -> (variable, factor to SI, SI unit)
-_SUMMARY: dict[str, tuple[str, float, str]] = {
-    "discharges per cycle [-]": ("discharges_per_cycle", 1.0, "1"),
-    "mean apparent charge [pC]": ("mean_apparent_charge", 1e-12, "C"),
-    "largest apparent charge [pC]": ("largest_apparent_charge", 1e-12, "C"),
-    "average discharge current I [nA]": ("average_discharge_current", 1e-9, "A"),
-    "quadratic rate D [pC²/s]": ("quadratic_rate", 1e-24, "C^2/s"),
-    "discharge power P [mW]": ("discharge_power", 1e-3, "W"),
-    "pulse repetition rate n [1/s]": ("pulse_repetition_rate", 1.0, "1/s"),
-}
+#: RunSummary attributes a sweep records (variable name = attribute name, unit = RunSummary.UNITS)
+SUMMARY_VARIABLES = (
+    "discharges_per_cycle", "mean_apparent_charge", "largest_apparent_charge", "average_discharge_current",
+    "quadratic_rate", "discharge_power", "pulse_repetition_rate",
+)
 
 #: long_name attributes of the default variables
 DESCRIPTIONS: dict[str, str] = {
@@ -54,7 +49,23 @@ _KEY = re.compile(r"^\s*(.*?)\s*\[([^\[\]]*)\]\s*$")
 
 
 def split_key(key: str) -> tuple[str, str | None]:
-    """``"mean charge [pC]"`` → ``("mean_charge", "pC")``; no brackets: no unit (None); "-" → "1"."""
+    """Split a metric key into a variable name and a unit: ``"mean charge [pC]"`` → ``("mean_charge", "pC")``.
+
+    Parameters
+    ----------
+    key : str
+        ``"name [unit]"`` or ``"name"`` [-].
+
+    Returns
+    -------
+    tuple of (str, str or None)
+        The variable name (snake_case) and the unit; None without brackets, "1" for "-" or "".
+
+    Raises
+    ------
+    InputError
+        When ``key`` is not text or gives no usable variable name (it must start with a letter).
+    """
     if not isinstance(key, str):
         raise InputError(f"metric names must be text like 'name [unit]'; got {key!r}")
     m = _KEY.match(key)
@@ -67,25 +78,27 @@ def split_key(key: str) -> tuple[str, str | None]:
     return var, unit
 
 
-def default_metrics(result) -> dict[str, float]:
-    """run_summary's numbers in SI plus the analytic inception and extinction voltage.
+def default_metrics(result: Result) -> dict[str, float]:
+    """The sweep's default numbers of one run, in SI.
 
-    Returns ``{"discharges_per_cycle [1]", "mean_apparent_charge [C]", "largest_apparent_charge [C]",
-    "average_discharge_current [A]", "quadratic_rate [C^2/s]", "discharge_power [W]",
-    "pulse_repetition_rate [1/s]", "inception_voltage [V]", "extinction_voltage [V]"}`` (rms voltages).
-    A key run_summary adds later is kept with its own unit, unconverted.
+    The numbers of :func:`pdvoid.analysis.summary.run_summary` named in :data:`SUMMARY_VARIABLES` plus the
+    analytic inception and extinction voltage of the run's scenario.
+
+    Parameters
+    ----------
+    result : pdvoid.simulation.results.Result
+        The simulated point [-].
+
+    Returns
+    -------
+    dict of str to float
+        ``{"discharges_per_cycle [1]", "mean_apparent_charge [C]", "largest_apparent_charge [C]",
+        "average_discharge_current [A]", "quadratic_rate [C^2/s]", "discharge_power [W]",
+        "pulse_repetition_rate [1/s]", "inception_voltage [V]", "extinction_voltage [V]"}`` (rms voltages);
+        ``largest_apparent_charge`` is NaN for a run without event arrays.
     """
-    out: dict[str, float] = {}
     summary = run_summary(result)
-    for var, _, unit in _SUMMARY.values():
-        out[f"{var} [{unit}]"] = math.nan  # present even when run_summary leaves it out
-    for key, value in summary.items():
-        if key in _SUMMARY:
-            var, factor, unit = _SUMMARY[key]
-            out[f"{var} [{unit}]"] = float(value) * factor
-        else:
-            var, unit = split_key(key)
-            out[f"{var} [{unit}]" if unit else var] = float(value)
+    out = {f"{name} [{RunSummary.UNITS[name]}]": float(getattr(summary, name)) for name in SUMMARY_VARIABLES}
     c = compute_coefficients(result.scenario)
     out["inception_voltage [V]"] = float(c.inception_voltage)
     out["extinction_voltage [V]"] = float(c.extinction_voltage)
@@ -113,10 +126,24 @@ def _numbers(values: object) -> dict[str, float]:
 def run_point(
     item: tuple[dict, int], *, scenario: Scenario, cycles: int, metrics: Callable | None = None
 ) -> tuple[dict[str, float], str]:
-    """Run one sweep point: ``item = (changes, seed)``.
+    """Run one sweep point.
 
-    Returns (metrics, "") on success and ({}, message) when the point is impossible (any InputError from the
-    changed scenario, the simulation or the metric function). Other exceptions propagate: they are bugs.
+    Parameters
+    ----------
+    item : tuple of (dict, int)
+        ``(changes, seed)``: the dotted-path changes of the base scenario [SI] and the point's seed [-].
+    scenario : Scenario
+        The base scenario [-].
+    cycles : int
+        AC cycles to simulate [-].
+    metrics : callable or None
+        ``f(result) -> {"name [unit]": number}``; None for :func:`default_metrics` [-].
+
+    Returns
+    -------
+    tuple of (dict of str to float, str)
+        (metrics, "") on success and ({}, message) when the point is impossible (any InputError from the
+        changed scenario, the simulation or the metric function). Other exceptions propagate: they are bugs.
     """
     changes, seed = item
     try:

@@ -48,16 +48,26 @@ MAX_POINTS = 10_000_000
 class Plan:
     """The points of a sweep.
 
-    Attributes:
-        design: "grid", "random" or "lhs".
-        names: swept parameters as dotted scenario paths, e.g. ("void.diameter", "void.pressure").
-        shape: grid: the number of values of each parameter; random/lhs: (samples,).
-        values: per parameter, its value at every point (flat, length n_points, grid in C order) [SI].
-        axes: grid only: the listed values of each parameter [SI].
-        bounds: random/lhs only: (low, high) of each parameter [SI].
-        log_scale: names sampled uniformly in the logarithm.
-        seed: the master seed [-].
-        seeds: the simulation seed of every point (flat, int32) [-].
+    Attributes
+    ----------
+    design : str
+        "grid", "random" or "lhs".
+    names : tuple[str, ...]
+        swept parameters as dotted scenario paths, e.g. ("void.diameter", "void.pressure").
+    shape : tuple[int, ...]
+        grid: the number of values of each parameter; random/lhs: (samples,).
+    values : dict[str, numpy.ndarray]
+        per parameter, its value at every point (flat, length n_points, grid in C order) [SI].
+    axes : dict[str, numpy.ndarray]
+        grid only: the listed values of each parameter [SI].
+    bounds : dict[str, tuple[float, float]]
+        random/lhs only: (low, high) of each parameter [SI].
+    log_scale : tuple[str, ...]
+        names sampled uniformly in the logarithm.
+    seed : int
+        the master seed [-].
+    seeds : numpy.ndarray
+        the simulation seed of every point (flat, int32) [-].
     """
 
     design: str
@@ -72,21 +82,38 @@ class Plan:
 
     @property
     def n_points(self) -> int:
+        """Number of points [-]."""
         return int(self.seeds.size)
 
     def changes(self, index: int) -> dict[str, object]:
-        """The dotted-path changes of point ``index`` as plain Python values (for ``Scenario.replace``)."""
+        """The dotted-path changes of one point as plain Python values (for ``Scenario.replace``).
+
+        Parameters
+        ----------
+        index : int
+            Flat index of the point, 0 ... n_points − 1 [-].
+
+        Returns
+        -------
+        dict of str to object
+            {dotted name: value} [SI].
+        """
         return {name: self.values[name][index].item() for name in self.names}
 
 
 def point_seeds(seed: int, n: int) -> np.ndarray:
     """The simulation seeds of points 0..n-1: ``SeedSequence(seed).spawn(n)[i].generate_state(1)[0] >> 1``.
 
-    Args:
-        seed: master seed [-], 0 to 2**32 - 1.
-        n: number of points [-].
+    Parameters
+    ----------
+    seed : int
+        master seed [-], 0 to 2**32 - 1.
+    n : int
+        number of points [-].
 
-    Returns:
+    Returns
+    -------
+    numpy.ndarray
         int32 array of seeds in [0, 2**31 - 1] [-].
     """
     seed = check_seed(seed)
@@ -135,12 +162,17 @@ def _axis(name: str, values: object) -> np.ndarray:
 def grid_plan(parameters: Mapping[str, Sequence], seed: int = 0) -> Plan:
     """Every combination of the listed values.
 
-    Args:
-        parameters: {dotted name: list of values} [SI], e.g. {"void.diameter": [0.5e-3, 1e-3]}; numbers, text
-            (e.g. "void.gas") or True/False.
-        seed: master seed [-].
+    Parameters
+    ----------
+    parameters : Mapping[str, Sequence]
+        {dotted name: list of values} [SI], e.g. {"void.diameter": [0.5e-3, 1e-3]}; numbers, text
+        (e.g. "void.gas") or True/False.
+    seed : int
+        master seed [-].
 
-    Returns:
+    Returns
+    -------
+    Plan
         :class:`Plan` with one dimension per parameter; the first parameter varies slowest.
     """
     names = _check_names(parameters)
@@ -164,10 +196,11 @@ def grid_plan(parameters: Mapping[str, Sequence], seed: int = 0) -> Plan:
 
 
 def _bounds(name: str, spec: object) -> tuple[float, float, bool]:
-    ok = isinstance(spec, (tuple, list)) and len(spec) in (2, 3)
-    if ok and len(spec) == 3 and spec[2] not in ("log", "linear"):
-        ok = False
-    if not ok:
+    if (
+        not isinstance(spec, (tuple, list))
+        or len(spec) not in (2, 3)
+        or (len(spec) == 3 and spec[2] not in ("log", "linear"))
+    ):
         raise InputError(f"{name}: bounds must be (low, high) or (low, high, 'log'); got {spec!r}")
     low = check_real(f"{name} low bound", spec[0])
     high = check_real(f"{name} high bound", spec[1])
@@ -212,10 +245,19 @@ def _sampled_plan(design: str, bounds: Mapping, samples: int, seed: int) -> Plan
 def random_plan(bounds: Mapping[str, tuple], samples: int, seed: int = 0) -> Plan:
     """``samples`` points drawn independently and uniformly inside the bounds.
 
-    Args:
-        bounds: {dotted name: (low, high)} or (low, high, "log") [SI].
-        samples: number of points [-].
-        seed: master seed [-].
+    Parameters
+    ----------
+    bounds : Mapping[str, tuple]
+        {dotted name: (low, high)} or (low, high, "log") [SI].
+    samples : int
+        number of points [-].
+    seed : int
+        master seed [-].
+
+    Returns
+    -------
+    Plan
+        The points (flat, length ``samples``) and their seeds.
     """
     return _sampled_plan("random", bounds, samples, seed)
 
@@ -223,17 +265,27 @@ def random_plan(bounds: Mapping[str, tuple], samples: int, seed: int = 0) -> Pla
 def lhs_plan(bounds: Mapping[str, tuple], samples: int, seed: int = 0) -> Plan:
     """A Latin hypercube: each parameter's range in ``samples`` equal strata, each stratum hit exactly once.
 
-    Args:
-        bounds: {dotted name: (low, high)} or (low, high, "log") [SI]; strata are equal in the logarithm for
-            "log".
-        samples: number of points [-].
-        seed: master seed [-].
+    Parameters
+    ----------
+    bounds : Mapping[str, tuple]
+        {dotted name: (low, high)} or (low, high, "log") [SI]; strata are equal in the logarithm for
+        "log".
+    samples : int
+        number of points [-].
+    seed : int
+        master seed [-].
 
-    References:
-        [mckay1979] McKay, Beckman and Conover (1979), "A comparison of three methods for selecting values of input
-        variables in the analysis of output from a computer code", Technometrics 21(2), 239-245 (the design);
-        implemented by :class:`scipy.stats.qmc.LatinHypercube` (scrambled: a random position inside each
-        stratum).
+    Returns
+    -------
+    Plan
+        The points (flat, length ``samples``) and their seeds.
+
+    References
+    ----------
+    [mckay1979] McKay, Beckman and Conover (1979), "A comparison of three methods for selecting values of input
+    variables in the analysis of output from a computer code", Technometrics 21(2), 239-245 (the design);
+    implemented by :class:`scipy.stats.qmc.LatinHypercube` (scrambled: a random position inside each
+    stratum).
     """
     return _sampled_plan("lhs", bounds, samples, seed)
 
@@ -241,7 +293,30 @@ def lhs_plan(bounds: Mapping[str, tuple], samples: int, seed: int = 0) -> Plan:
 def make_plan(
     parameters: Mapping, *, design: str = "grid", samples: int | None = None, seed: int = 0
 ) -> Plan:
-    """The plan for ``design``: grid takes value lists (no ``samples``); random/lhs: bounds and samples."""
+    """The plan for ``design``: grid takes value lists (no ``samples``); random/lhs: bounds and samples.
+
+    Parameters
+    ----------
+    parameters : Mapping
+        Grid: {dotted name: list of values} [SI]; random/lhs: {dotted name: (low, high)} or
+        (low, high, "log") [SI].
+    design : str
+        "grid", "random" or "lhs" [-].
+    samples : int or None
+        Number of points for random/lhs; None for grid [-].
+    seed : int
+        Master seed [-].
+
+    Returns
+    -------
+    Plan
+        The points and their seeds.
+
+    Raises
+    ------
+    InputError
+        For an unknown design, ``samples`` with a grid or without random/lhs, or bad parameters.
+    """
     if design not in DESIGNS:
         raise InputError(f"design must be one of {', '.join(map(repr, DESIGNS))}; got {design!r}")
     if design == "grid":

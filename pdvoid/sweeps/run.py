@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from collections.abc import Callable, Mapping
 from functools import partial
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from pdvoid.core.errors import InputError, check_int
 from pdvoid.core.optional import require
@@ -15,6 +15,9 @@ from pdvoid.sweeps.dataset import assemble
 from pdvoid.sweeps.metrics import run_point
 from pdvoid.sweeps.names import check_parameter_names
 from pdvoid.sweeps.plan import make_plan
+
+if TYPE_CHECKING:
+    import xarray
 
 __all__ = ["sweep"]
 
@@ -31,34 +34,50 @@ def sweep(
     workers: int | None = None,
     metrics: Callable | None = None,
     progress: bool = True,
-):
+) -> xarray.Dataset:
     """Simulate ``scenario`` at every point of a parameter design and collect the metrics in a Dataset.
 
-    Args:
-        scenario: the base scenario; each point is ``scenario.replace(**changes)``.
-        parameters: grid: {dotted name: list of values} [SI], e.g. {"void.diameter": [0.5e-3, 1e-3]}
-            (text or True/False lists too); random/lhs: {dotted name: (low, high)} or (low, high, "log") [SI].
-        cycles: AC cycles per point [-].
-        seed: master seed [-]; point i runs with ``SeedSequence(seed).spawn(n)[i].generate_state(1)[0] >> 1``,
-            so the Dataset is the same whoever runs it and in whatever order.
-        design: "grid", "random" or "lhs" (Latin hypercube).
-        samples: number of points for random/lhs [-]; must be None for grid.
-        client: None to run locally; a ``dask.distributed.Client`` or a scheduler address string to run on
-            Dask.
-        workers: local worker processes [-]: None = every core, 1 = serially in this process.
-        metrics: None for :func:`pdvoid.sweeps.metrics.default_metrics`; or a picklable function
-            ``f(result) -> {"name [unit]": number}``.
-        progress: show a progress bar (tqdm; notebook-aware).
+    Parameters
+    ----------
+    scenario : Scenario
+        the base scenario; each point is ``scenario.replace(**changes)``.
+    parameters : Mapping[str, Any]
+        grid: {dotted name: list of values} [SI], e.g. {"void.diameter": [0.5e-3, 1e-3]}
+        (text or True/False lists too); random/lhs: {dotted name: (low, high)} or (low, high, "log") [SI].
+    cycles : int
+        AC cycles per point [-].
+    seed : int
+        master seed [-]; point i runs with ``SeedSequence(seed).spawn(n)[i].generate_state(1)[0] >> 1``,
+        so the Dataset is the same whoever runs it and in whatever order.
+    design : str
+        "grid", "random" or "lhs" (Latin hypercube).
+    samples : int or None
+        number of points for random/lhs [-]; must be None for grid.
+    client : Any
+        None to run locally; a ``dask.distributed.Client`` or a scheduler address string to run on
+        Dask.
+    workers : int or None
+        local worker processes [-]: None = every core, 1 = serially in this process.
+    metrics : Callable or None
+        None for :func:`pdvoid.sweeps.metrics.default_metrics`; or a picklable function
+        ``f(result) -> {"name [unit]": number}``.
+    progress : bool
+        show a progress bar (tqdm; notebook-aware).
 
-    Returns:
+    Returns
+    -------
+    xarray.Dataset
         ``xarray.Dataset`` (see :mod:`pdvoid.sweeps.dataset` for the layout). A point whose parameters are
         impossible (any InputError, e.g. a void taller than the insulation) has NaN metrics and its message in
         the "error" variable; the sweep goes on.
 
-    Raises:
-        InputError: bad arguments or parameter names (checked before anything runs).
-        MissingDependencyError: (an ImportError) xarray, tqdm, joblib or Dask is missing:
-            ``pip install "pdvoid[sweep]"``.
+    Raises
+    ------
+    InputError
+        bad arguments or parameter names (checked before anything runs).
+    MissingDependencyError
+        (an ImportError) xarray, tqdm, joblib or Dask is missing:
+        ``pip install "pdvoid[sweep]"``.
     """
     require("xarray")
     if not isinstance(scenario, Scenario):

@@ -4,14 +4,17 @@ from __future__ import annotations
 
 import json
 
+import numpy as np
 import pytest
 
+import pdvoid
 from pdvoid.faces.cli.command import main
+from pdvoid.inputs.demo import DEMO_TEST_RMS, demo_scenario
 
 
 def test_demo_json(capsys):
     assert main(["demo", "--cycles", "300", "--seed", "1", "--json"]) == 0
-    out = json.loads(capsys.readouterr().out)
+    out = json.loads(capsys.readouterr().out, parse_constant=_refuse)  # strict JSON: no NaN or Infinity
     rows = out["demo"]
     # streamer and ionisation-integral estimates agree within 10 % for a mm void in air (physics brief §3.1)
     a = rows["inception voltage, streamer criterion [kV rms]"]
@@ -20,13 +23,24 @@ def test_demo_json(capsys):
     service, test = out["simulations"].values()
     assert service["discharges per cycle [-]"] == 0.0  # service voltage below inception in the demo
     assert test["discharges per cycle [-]"] > 0.5
+    assert service["largest apparent charge [pC]"] is None  # no discharge: no largest charge (JSON null)
+    # the demo's test run at seed 1 over 300 cycles is the run of tests/unit/analysis/test_summary.py; its mean
+    # charge in pC is the SI mean × 1e12 (SI prefix pico, common practice), checked against the event arrays
+    res = pdvoid.simulate(demo_scenario().replace(**{"supply.rms": DEMO_TEST_RMS}), 300, 1)
+    assert test["mean apparent charge [pC]"] == pytest.approx(np.mean(np.abs(res.charge)) * 1e12, rel=1e-12)
+    assert test["discharges per cycle [-]"] == pytest.approx(res.charge.size / 300, rel=1e-15)
     assert "high voltage can kill" in out["safety"]
+
+
+def _refuse(name):
+    raise ValueError(f"not strict JSON: {name}")
 
 
 def test_demo_text(capsys):
     assert main(["demo", "--cycles", "100"]) == 0
     text = capsys.readouterr().out
     assert "inception voltage, streamer criterion [kV rms]" in text and "SAFETY" in text
+    assert "mean apparent charge [pC]" in text and "nan" not in text  # a missing number prints as n/a
 
 
 def test_simulate_writes_files(tmp_path, capsys):
@@ -35,7 +49,8 @@ def test_simulate_writes_files(tmp_path, capsys):
     out = tmp_path / "run"
     assert main(["simulate", str(demo_scenario_path()), "--cycles", "100", "--seed", "3", "--out", str(out),
                  "--json"]) == 0
-    doc = json.loads(capsys.readouterr().out)
+    doc = json.loads(capsys.readouterr().out, parse_constant=_refuse)
+    assert json.loads((out / "summary.json").read_text(encoding="utf-8"), parse_constant=_refuse) == doc
     assert (out / "result.npz").exists() and (out / "events.csv").exists() and (out / "summary.json").exists()
     assert doc["summary"]["discharges per cycle [-]"] > 0
 

@@ -102,6 +102,13 @@ def test_summary_numbers_come_from_the_analysis(demo_pack):
         assert f"{v / 1e3:.3g}" in page
     assert demo_pack.margin == pytest.approx(est.inception_voltage / 18e3)
     assert f"{demo_pack.margin:.2f}: inception" in page
+    # the simulated row: discharges per cycle and the mean / largest |q| per discharge in pC, computed here from
+    # the run's event arrays (hand calculation; pC = 1e-12 C, SI prefix, common practice)
+    res = demo_pack.result
+    q = np.abs(res.charge)
+    assert q.size > res.cycles  # more than one discharge per cycle: per discharge and per cycle differ
+    assert f"{q.size / res.cycles:.3g}" in page
+    assert f"{np.mean(q) * 1e12:.3g} / {np.max(q) * 1e12:.3g}" in page
     # material and gas data appear with their status (pdvoid.inputs.materials)
     assert "epoxy_silica_filled" in page and "from memory" in page and "air: critical reduced field" in page
     # the references page lists what the run used (pdvoid.cite)

@@ -4,17 +4,28 @@ from __future__ import annotations
 
 import argparse
 import json
+import math
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 from pdvoid.coefficients import compute_coefficients
-from pdvoid.faces.cli.output import SAFETY
+from pdvoid.faces.cli.output import SAFETY, json_safe
 from pdvoid.inputs.demo import DEMO_SERVICE_RMS, DEMO_TEST_RMS, demo_scenario
 
+if TYPE_CHECKING:
+    from pdvoid.simulation.results import Result
 
-def _run_summary(result) -> dict:
+
+def _run_summary(result: Result) -> dict[str, float]:
+    """The run's summary as ``{"label [display unit]": value}`` (NaN where a number does not exist)."""
     from pdvoid.analysis.summary import run_summary
+    from pdvoid.faces.summary_table import summary_dict
 
-    return run_summary(result)
+    return summary_dict(run_summary(result))
+
+
+def _value(v: float) -> str:
+    return f"{v:10.4g}" if math.isfinite(v) else f"{'n/a':>10s}"
 
 
 def _cmd_demo(ns: argparse.Namespace) -> int:
@@ -40,7 +51,7 @@ def _cmd_demo(ns: argparse.Namespace) -> int:
         runs[f"{label} voltage {rms / 1e3:g} kV rms"] = _run_summary(res)
     out = {"demo": rows, "simulations": runs, "cycles": ns.cycles, "seed": ns.seed, "safety": SAFETY}
     if ns.json:
-        print(json.dumps(out, indent=2, default=float))
+        print(json.dumps(json_safe(out), indent=2, allow_nan=False))
         return 0
     print(f"pdvoid demo — {sc.name}")
     print(f"  insulation: {sc.insulation.thickness * 1e3:g} mm, εr = {sc.insulation.permittivity:g}; void: "
@@ -52,7 +63,7 @@ def _cmd_demo(ns: argparse.Namespace) -> int:
     for label, summ in runs.items():
         print(f"\n  simulation at {label}, {ns.cycles} cycles, seed {ns.seed}:")
         for k, v in summ.items():
-            print(f"    {k:<53s} {v:10.4g}")
+            print(f"    {k:<53s} {_value(v)}")
     print("\n" + SAFETY)
     return 0
 
@@ -71,12 +82,13 @@ def _cmd_simulate(ns: argparse.Namespace) -> int:
     doc = {"scenario": str(ns.scenario), "cycles": ns.cycles, "seed": ns.seed, "summary": summ,
            "files": [str(out / "result.npz"), str(out / "events.csv"), str(out / "summary.json")],
            "references": list(res.references), "safety": SAFETY}
-    (out / "summary.json").write_text(json.dumps(doc, indent=2, default=float), encoding="utf-8")
+    text = json.dumps(json_safe(doc), indent=2, allow_nan=False)
+    (out / "summary.json").write_text(text, encoding="utf-8")
     if ns.json:
-        print(json.dumps(doc, indent=2, default=float))
+        print(text)
     else:
         for k, v in summ.items():
-            print(f"{k:<53s} {v:10.4g}")
+            print(f"{k:<53s} {_value(v)}")
         print(f"wrote {', '.join(doc['files'])}")
         print(SAFETY)
     return 0

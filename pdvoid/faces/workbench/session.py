@@ -14,6 +14,7 @@ from pathlib import Path
 from pdvoid.analysis.inception import inception
 from pdvoid.analysis.summary import run_summary
 from pdvoid.core.errors import InputError
+from pdvoid.faces.summary_table import summary_dict
 from pdvoid.faces.workbench.controls import CUSTOM_MATERIAL, Controls
 from pdvoid.inputs.scenario import Scenario
 from pdvoid.simulation.events import Events
@@ -56,7 +57,8 @@ class Outcome:
 
 def summary_numbers(scenario: Scenario, result: Result, test_voltage: float) -> dict[str, float]:
     """The summary table: analytic inception and extinction, the margin to ``test_voltage`` [V rms] and the
-    numbers of the simulated run (:func:`pdvoid.analysis.run_summary`), with units in the keys."""
+    numbers of the simulated run (:func:`pdvoid.analysis.run_summary` in the display units of
+    :mod:`pdvoid.faces.summary_table`), with units in the keys."""
     est = inception(scenario)
     out = {
         "inception voltage [kV rms]": est.inception_voltage / 1e3,
@@ -68,7 +70,7 @@ def summary_numbers(scenario: Scenario, result: Result, test_voltage: float) -> 
         "field enhancement [-]": est.field_enhancement,
         "cycles run [-]": float(result.cycles),
     }
-    out.update(run_summary(result))
+    out.update(summary_dict(run_summary(result)))
     return out
 
 

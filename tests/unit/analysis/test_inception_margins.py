@@ -93,6 +93,18 @@ def test_largest_pd_free_void_reproduces_the_inception_voltage(demo):
     assert np.all(np.diff(table.inception_voltage[ok]) < 0)  # monotone in size (streamer term, fixed shape)
 
 
+def test_margin_rows_are_in_si(demo):
+    t = margin_table(demo, "void.pressure", [50e3, 101325.0], test_voltage=15e3)
+    rows = t.as_rows()
+    assert list(rows[0]) == ["void.pressure [Pa]", "inception voltage [V rms]", "extinction voltage [V rms]",
+                             "margin to test level [-]"]
+    # each row holds the table's own SI arrays, with no display factor (kV would be 1000 times smaller)
+    u_inc = pdvoid.compute_coefficients(demo.replace(**{"void.pressure": 50e3})).inception_voltage
+    assert rows[0]["inception voltage [V rms]"] == u_inc
+    assert rows[1]["extinction voltage [V rms]"] == float(t.extinction_voltage[1])
+    assert rows[1]["margin to test level [-]"] == pytest.approx(float(t.inception_voltage[1]) / 15e3, rel=1e-15)
+
+
 def test_margin_tables_and_limits(demo):
     t = margin_table(demo, "void.pressure", [50e3, 101325.0, 200e3])
     assert np.all(np.diff(t.inception_voltage) > 0)  # higher pressure → higher E_inc (streamer formula)
