@@ -45,7 +45,6 @@ _DIMS: dict[str, dict[str, tuple[str | None, str]]] = {
     "sine": {"rms": ("voltage", "V"), "frequency": ("frequency", "Hz"), "harmonics": (None, "")},
     "periodic": {"samples": (None, ""), "frequency": ("frequency", "Hz"), "max_harmonic": (None, "")},
 }
-_SI_ONLY = {"area": "m2", "capacitance": "F", "charge per field": "C/(V/m)"}
 
 
 def field_schema(part: str, obj: Any) -> dict[str, tuple[str | None, str]]:
@@ -89,17 +88,6 @@ def quantity_value(value: Any, dim: str, where: str) -> float:
     float
         The value in SI units.
     """
-    if dim in _SI_ONLY:
-        if isinstance(value, str):
-            text = value.strip()
-            unit = _SI_ONLY[dim]
-            if text.endswith(unit):
-                text = text[: -len(unit)]
-            try:
-                return float(text)
-            except ValueError:
-                raise InputError(f"{where}: expected a number in {unit}; got {value!r}") from None
-        return parse_quantity(value, "dimensionless", name=where)
     return parse_quantity(value, dim, name=where)
 
 
@@ -239,7 +227,7 @@ def scenario_to_dict(s: Scenario) -> dict[str, Any]:
             if v is None:
                 continue
             dim, unit = schema[f.name]
-            out[part][f.name] = _q(v, unit) if dim is not None and unit and dim not in _SI_ONLY else v
+            out[part][f.name] = _q(v, unit) if dim is not None and unit else v
     if isinstance(s.supply, Sine):
         out["supply"] = {"kind": "sine", "rms": _q(s.supply.rms, "V"), "frequency": _q(s.supply.frequency, "Hz")}
         if s.supply.harmonics:
