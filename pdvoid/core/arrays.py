@@ -3,12 +3,13 @@
 from __future__ import annotations
 
 import numpy as np
+import numpy.typing as npt
 
 __all__ = ["frozen_array"]
 
 
-def frozen_array(a, dtype: type = float) -> np.ndarray:
+def frozen_array(a: npt.ArrayLike, dtype: type = float) -> np.ndarray:
     """A contiguous copy-if-needed of ``a`` as ``dtype`` with the write flag cleared."""
-    a = np.ascontiguousarray(a, dtype=dtype)
-    a.setflags(write=False)
-    return a
+    out: np.ndarray = np.ascontiguousarray(a, dtype=dtype)
+    out.setflags(write=False)
+    return out

@@ -10,10 +10,11 @@ from __future__ import annotations
 
 from collections.abc import Iterable
 from dataclasses import dataclass
+from typing import Protocol, runtime_checkable
 
 from pdvoid.core.errors import InputError
 
-__all__ = ["Reference", "REFERENCES", "cite", "get_reference"]
+__all__ = ["Reference", "REFERENCES", "HasReferences", "cite", "get_reference"]
 
 
 @dataclass(frozen=True)
@@ -145,15 +146,23 @@ def get_reference(key: str) -> Reference:
         raise InputError(f"unknown reference key {key!r}; known keys: {sorted(REFERENCES)}") from None
 
 
-def cite(source: object) -> str:
+@runtime_checkable
+class HasReferences(Protocol):
+    """Anything that records the reference keys it relied on (a Result, Coefficients)."""
+
+    @property
+    def references(self) -> Iterable[str]: ...
+
+
+def cite(source: str | Iterable[str] | HasReferences) -> str:
     """Full citations for a result, a scenario's coefficients, or an iterable of keys, one per line."""
     keys: Iterable[str]
     if isinstance(source, str):
         keys = [source]
-    elif hasattr(source, "references"):
-        keys = source.references  # type: ignore[assignment]
+    elif isinstance(source, HasReferences):
+        keys = source.references
     else:
-        keys = source  # type: ignore[assignment]
+        keys = source
     try:
         ordered = list(dict.fromkeys(keys))
     except TypeError:

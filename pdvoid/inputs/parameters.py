@@ -217,10 +217,15 @@ class Periodic:
             raise InputError(
                 f"supply.samples must have zero mean (an AC supply); the mean is {c[0].real:.6g} V"
             )
-        m = np.arange(1, int(self.max_harmonic) + 1)
+        m = np.arange(1, self._harmonics() + 1)
         a = -2.0 * c[m].imag
         b = 2.0 * c[m].real
         return m.astype(float), a, b
+
+    def _harmonics(self) -> int:
+        if self.max_harmonic is None:  # __post_init__ sets it; never None after construction
+            raise InputError("supply.max_harmonic is not set")
+        return int(self.max_harmonic)
 
     @property
     def rms(self) -> float:

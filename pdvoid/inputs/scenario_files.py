@@ -234,7 +234,9 @@ def scenario_to_dict(s: Scenario) -> dict[str, Any]:
             out["supply"]["harmonics"] = [list(h) for h in s.supply.harmonics]
     else:
         out["supply"] = {"kind": "periodic", "samples": [float(x) for x in s.supply.samples],
-                         "frequency": _q(s.supply.frequency, "Hz"), "max_harmonic": int(s.supply.max_harmonic)}
+                         "frequency": _q(s.supply.frequency, "Hz")}
+        if s.supply.max_harmonic is not None:  # always set once the supply is constructed
+            out["supply"]["max_harmonic"] = int(s.supply.max_harmonic)
     m = s.model
     out["model"] = {"kind": m.kind}
     for f in fields(m):

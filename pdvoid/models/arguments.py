@@ -3,10 +3,15 @@
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import TYPE_CHECKING
 
 import numpy as np
 
 from pdvoid.inputs.waveform import monotone_breakpoints
+
+if TYPE_CHECKING:
+    from pdvoid.inputs.parameters import Periodic, Sine
+    from pdvoid.inputs.scenario import Scenario
 
 __all__ = ["KernelArguments", "supply_arrays", "cathode_rate"]
 
@@ -54,7 +59,7 @@ class KernelArguments:
         return int(np.ceil((swing + pieces * 2.0 * (vmax + self.x_inc)) / step)) + 4 * pieces + 4
 
 
-def supply_arrays(supply) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray, bool]:
+def supply_arrays(supply: Sine | Periodic) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray, bool]:
     """(orders, a, b, breakpoints, pure_sine) for the kernel."""
     orders, a, b = supply.fourier()
     pure = bool(supply.is_pure)
@@ -66,7 +71,7 @@ def supply_arrays(supply) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarra
     return orders, a, b, seg, pure
 
 
-def cathode_rate(scenario, polarity: float) -> float:
+def cathode_rate(scenario: Scenario, polarity: float) -> float:
     """Extra start electrons [1/s] for discharges of ``polarity`` (+1: void field along the field of the positive
     half cycle) in a void bounded by an electrode: model.cathode_emission_rate when the metal wall is the
     cathode of that discharge, else 0.

@@ -5,6 +5,7 @@ from __future__ import annotations
 import math
 
 import numpy as np
+import numpy.typing as npt
 
 from pdvoid.core.errors import InputError, check_array, check_nonnegative, check_positive, check_range
 
@@ -12,7 +13,7 @@ __all__ = ["values", "shape_out", "broadcast", "checked", "positive", "broadcast
            "less_than"]
 
 
-def values(name: str, value: object, *, low: float = 0.0, low_open: bool = True, high: float = math.inf,
+def values(name: str, value: npt.ArrayLike, *, low: float = 0.0, low_open: bool = True, high: float = math.inf,
             unit: str = "") -> tuple[np.ndarray, bool]:
     """``value`` (number or array) as a float array checked against (low, high]; and whether it was scalar."""
     def check(label: str, x: object) -> float:
@@ -46,7 +47,7 @@ def broadcast(**arrays: np.ndarray) -> list[np.ndarray]:
 
 def checked(
     name: str,
-    value: object,
+    value: npt.ArrayLike,
     low: float,
     high: float = math.inf,
     *,
@@ -74,27 +75,27 @@ def checked(
     return arr
 
 
-def positive(name: str, value: object, unit: str = "") -> float | np.ndarray:
+def positive(name: str, value: npt.ArrayLike, unit: str = "") -> float | np.ndarray:
     return checked(name, value, 0.0, low_open=True, unit=unit)
 
 
-def broadcast_named(**named: float | np.ndarray) -> list[np.ndarray]:
+def broadcast_named(**named: npt.ArrayLike) -> list[np.ndarray]:
     """Broadcast checked inputs together; InputError naming them if their shapes do not fit."""
     try:
-        return np.broadcast_arrays(*(np.asarray(v, dtype=float) for v in named.values()))
+        return list(np.broadcast_arrays(*(np.asarray(v, dtype=float) for v in named.values())))
     except ValueError:
         shapes = ", ".join(f"{k} {np.shape(v)}" for k, v in named.items())
         raise InputError(f"array shapes do not broadcast together: {shapes}") from None
 
 
-def scalar_or_array(x: np.ndarray, *inputs: object) -> float | np.ndarray:
+def scalar_or_array(x: np.ndarray, *inputs: npt.ArrayLike) -> float | np.ndarray:
     """A float when every input was a scalar, else the array."""
     if all(np.ndim(v) == 0 for v in inputs):
         return float(np.asarray(x).reshape(()))
     return x
 
 
-def less_than(name_small: str, small: object, name_large: str, large: object, unit: str = "m") -> None:
+def less_than(name_small: str, small: npt.ArrayLike, name_large: str, large: npt.ArrayLike, unit: str = "m") -> None:
     """InputError unless small < large everywhere."""
     s, g = broadcast_named(**{name_small: small, name_large: large})
     bad = ~(s < g)

@@ -10,6 +10,7 @@ from __future__ import annotations
 import math
 
 import numpy as np
+import numpy.typing as npt
 
 from pdvoid.core.errors import check_range
 from pdvoid.core.units import ATM, T_ROOM
@@ -29,7 +30,7 @@ __all__ = [
 REFERENCE_IONIZATION_RATE = 1.0e7
 
 
-def volume_electron_rate(volume: object, pressure: object, temperature: object = T_ROOM, *,
+def volume_electron_rate(volume: npt.ArrayLike, pressure: npt.ArrayLike, temperature: npt.ArrayLike = T_ROOM, *,
                          ionization_rate: float = REFERENCE_IONIZATION_RATE,
                          electron_yield: float = 1.0) -> float | np.ndarray:
     """Start electrons per second from volume ionisation of the void gas: N_vol = G·(n/n0)·Ω·η.
@@ -68,7 +69,7 @@ def volume_electron_rate(volume: object, pressure: object, temperature: object =
     return _shape_out(g * density_ratio * v * eta, s1 and s2 and s3)
 
 
-def statistical_time_lag_mean(rate: object) -> float | np.ndarray:
+def statistical_time_lag_mean(rate: npt.ArrayLike) -> float | np.ndarray:
     """Mean statistical time lag 1/N of a Poisson supply of start electrons of rate N.
 
     Args:
@@ -84,7 +85,7 @@ def statistical_time_lag_mean(rate: object) -> float | np.ndarray:
     return _shape_out(1.0 / n, s)
 
 
-def probability_of_no_discharge(rate: object, duration: object) -> float | np.ndarray:
+def probability_of_no_discharge(rate: npt.ArrayLike, duration: npt.ArrayLike) -> float | np.ndarray:
     """Probability that no start electron appears within a time t: exp(−N·t) (Poisson process).
 
     Args:
@@ -103,7 +104,7 @@ def probability_of_no_discharge(rate: object, duration: object) -> float | np.nd
     return _shape_out(np.exp(-n * t), s1 and s2)
 
 
-def probability_of_discharge(rate: object, duration: object) -> float | np.ndarray:
+def probability_of_discharge(rate: npt.ArrayLike, duration: npt.ArrayLike) -> float | np.ndarray:
     """Probability of at least one start electron within a time t: 1 − exp(−N·t), accurate for small N·t.
 
     Args:

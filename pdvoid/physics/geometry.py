@@ -9,6 +9,7 @@ from __future__ import annotations
 import math
 
 import numpy as np
+import numpy.typing as npt
 from scipy.special import elliprd
 
 from pdvoid.core.units import EPSILON_0
@@ -32,7 +33,7 @@ __all__ = [
 # ------------------------------------------------------------------------------------------------------------
 # depolarisation factors
 # ------------------------------------------------------------------------------------------------------------
-def depolarization_ellipsoid(a: float, b: float, c: float) -> float | np.ndarray:
+def depolarization_ellipsoid(a: npt.ArrayLike, b: npt.ArrayLike, c: npt.ArrayLike) -> float | np.ndarray:
     """Depolarisation factor N_c of an ellipsoid for a uniform field along its semi-axis ``c``.
 
     ``N_c = (a b c / 3) R_D(a², b², c²)`` with Carlson's symmetric integral R_D (``scipy.special.elliprd``);
@@ -115,7 +116,7 @@ def _spheroid_axial(diameter: np.ndarray, height: np.ndarray) -> np.ndarray:
     return n
 
 
-def depolarization_spheroid(diameter: float, height: float) -> float | np.ndarray:
+def depolarization_spheroid(diameter: npt.ArrayLike, height: npt.ArrayLike) -> float | np.ndarray:
     """Depolarisation factor N of a spheroid along its symmetry axis, the axis lying along the field.
 
     With a = diameter/2 (equatorial semi-axis) and c = height/2 (polar semi-axis, along the field):
@@ -152,7 +153,7 @@ def depolarization_spheroid(diameter: float, height: float) -> float | np.ndarra
 # field enhancement
 # ------------------------------------------------------------------------------------------------------------
 def field_enhancement(
-    permittivity: float, depolarization: float, gas_permittivity: float = 1.0
+    permittivity: npt.ArrayLike, depolarization: npt.ArrayLike, gas_permittivity: npt.ArrayLike = 1.0
 ) -> float | np.ndarray:
     """Ratio f of the uniform field inside an ellipsoidal void to the uniform applied (far) field.
 
@@ -182,7 +183,9 @@ def field_enhancement(
     return _out(f, permittivity, depolarization, gas_permittivity)
 
 
-def layered_field_enhancement(permittivity: float, height: float, thickness: float) -> float | np.ndarray:
+def layered_field_enhancement(
+    permittivity: npt.ArrayLike, height: npt.ArrayLike, thickness: npt.ArrayLike
+) -> float | np.ndarray:
     """Field in a flat void (much wider than tall) relative to the mean applied field V/d: a 1-D layered slab.
 
     Gas layer of thickness t (the void height) in series with solid of total thickness d − t; the normal
@@ -217,7 +220,7 @@ def layered_field_enhancement(permittivity: float, height: float, thickness: flo
 # ------------------------------------------------------------------------------------------------------------
 # volume and induced charge
 # ------------------------------------------------------------------------------------------------------------
-def ellipsoid_volume(a: float, b: float, c: float) -> float | np.ndarray:
+def ellipsoid_volume(a: npt.ArrayLike, b: npt.ArrayLike, c: npt.ArrayLike) -> float | np.ndarray:
     """Volume of an ellipsoid, (4/3) π a b c.
 
     Parameters:
@@ -240,7 +243,7 @@ def ellipsoid_volume(a: float, b: float, c: float) -> float | np.ndarray:
     return _out(4.0 / 3.0 * math.pi * x * y * z, a, b, c)
 
 
-def spheroid_volume(diameter: float, height: float) -> float | np.ndarray:
+def spheroid_volume(diameter: npt.ArrayLike, height: npt.ArrayLike) -> float | np.ndarray:
     """Volume of a spheroid, (π/6) D² h.
 
     Parameters:
@@ -262,7 +265,7 @@ def spheroid_volume(diameter: float, height: float) -> float | np.ndarray:
 
 
 def induced_charge_per_field(
-    permittivity: float, depolarization: float, volume: float, thickness: float
+    permittivity: npt.ArrayLike, depolarization: npt.ArrayLike, volume: npt.ArrayLike, thickness: npt.ArrayLike
 ) -> float | np.ndarray:
     """Charge induced on a plane electrode per unit drop of the field inside an ellipsoidal void.
 

@@ -8,6 +8,7 @@ The wording of the definitions is from memory of IEC 60270:2000+A1:2015 (status 
 from __future__ import annotations
 
 import numpy as np
+import numpy.typing as npt
 
 from pdvoid.core.errors import InputError, check_array, check_nonnegative, check_positive, check_real
 
@@ -20,13 +21,11 @@ __all__ = [
 ]
 
 
-def _events(name: str, value: object) -> np.ndarray:
+def _events(name: str, value: npt.ArrayLike) -> np.ndarray:
     """A 1-D float array of finite entries (a scalar counts as one event)."""
     if isinstance(value, np.ndarray) and value.ndim == 0:
         value = value[()]
-    if np.ndim(value) == 0:
-        value = [value]
-    return check_array(name, value, ndim=1)
+    return check_array(name, [value] if np.ndim(value) == 0 else value, ndim=1)
 
 
 def phase_angle_deg(time: float, frequency: float, zero_crossing_time: float = 0.0) -> float | np.ndarray:
@@ -57,7 +56,7 @@ def phase_angle_deg(time: float, frequency: float, zero_crossing_time: float = 0
     return float(phase[0]) if scalar else phase
 
 
-def _reference_time(reference_time: object) -> float:
+def _reference_time(reference_time: float) -> float:
     return check_positive("reference_time", reference_time, "s")
 
 

@@ -13,8 +13,10 @@ few per cent.
 from __future__ import annotations
 
 import math
+from typing import TYPE_CHECKING
 
 import numpy as np
+import numpy.typing as npt
 
 from pdvoid.core.errors import InputError, check_choice, check_range
 from pdvoid.core.units import ATM, T_ROOM
@@ -23,6 +25,9 @@ from pdvoid.physics.checks import shape_out as _shape_out
 from pdvoid.physics.checks import values as _values
 from pdvoid.physics.gas_density import density_equivalent_pressure
 from pdvoid.physics.ionization import ionization_integral_inception_field, sf6_ionization_integral_inception_field
+
+if TYPE_CHECKING:
+    from pdvoid.inputs.materials import GasData
 
 __all__ = [
     "density_equivalent_pressure",
@@ -35,9 +40,9 @@ __all__ = [
 
 
 # ----------------------------------------------------------------------------------------- streamer formula
-def streamer_inception_field(pressure: object, length: object, *, critical_reduced_field: float,
+def streamer_inception_field(pressure: npt.ArrayLike, length: npt.ArrayLike, *, critical_reduced_field: float,
                              b_constant: float, exponent: float,
-                             temperature: object = T_ROOM) -> float | np.ndarray:
+                             temperature: npt.ArrayLike = T_ROOM) -> float | np.ndarray:
     """Streamer inception field of a gas gap: E_inc = (E/p)_cr · p · (1 + B / (p·l)^n).
 
     p is the density-equivalent pressure p·(293.15 K/T). Air (gases.toml): (E/p)_cr = 24.2 V/(Pa m),
@@ -76,8 +81,8 @@ def streamer_inception_field(pressure: object, length: object, *, critical_reduc
 
 
 # ------------------------------------------------------------------------------------------------- Paschen
-def paschen_voltage(pressure: object, gap: object, *, a_coefficient: float, b_coefficient: float,
-                    secondary_emission: float, temperature: object = T_ROOM) -> float | np.ndarray:
+def paschen_voltage(pressure: npt.ArrayLike, gap: npt.ArrayLike, *, a_coefficient: float, b_coefficient: float,
+                    secondary_emission: float, temperature: npt.ArrayLike = T_ROOM) -> float | np.ndarray:
     """Paschen's law (Townsend breakdown): V_b = B·pd / (ln(A·pd) − ln(ln(1 + 1/γ))).
 
     p is the density-equivalent pressure p·(293.15 K/T). Left of the asymptote, pd ≤ ln(1 + 1/γ)/A, the
@@ -148,8 +153,8 @@ def paschen_minimum(a_coefficient: float, b_coefficient: float,
     return math.e * c / a, math.e * b / a * c
 
 
-def empirical_air_breakdown_voltage(gap: object, pressure: object = ATM,
-                                    temperature: object = T_ROOM) -> float | np.ndarray:
+def empirical_air_breakdown_voltage(gap: npt.ArrayLike, pressure: npt.ArrayLike = ATM,
+                                    temperature: npt.ArrayLike = T_ROOM) -> float | np.ndarray:
     """Uniform-field breakdown voltage of air: U_b = 24.22·(δd) + 6.08·sqrt(δd) kV, d in cm.
 
     δ is the relative gas density p/101325 Pa · 293.15 K/T (the source writes 293 K; the 0.05 % difference is
@@ -176,7 +181,7 @@ def empirical_air_breakdown_voltage(gap: object, pressure: object = ATM,
     return _shape_out(1e3 * (24.22 * x + 6.08 * np.sqrt(x)), s1 and s2 and s3)
 
 
-def gas_inception_field(gas: object, pressure: float, length: float, temperature: float = T_ROOM,
+def gas_inception_field(gas: str | GasData, pressure: float, length: float, temperature: float = T_ROOM,
                         criterion: str = "streamer", k_streamer: float | None = None) -> float:
     """Inception field of a named gas (or a :class:`pdvoid.inputs.materials.GasData`) from its parameter set.
 
@@ -216,6 +221,8 @@ def gas_inception_field(gas: object, pressure: float, length: float, temperature
         raise InputError(f"criterion='ionization_integral' needs an ionisation model; gas {data.name!r} has "
                          f"none. Built-in gases with one: {', '.join(available)}")
     k = data.k_streamer if k_streamer is None else k_streamer
+    if k is None:  # the gas file checks that an ionisation model comes with its K
+        raise InputError(f"gas {data.name!r} has an ionisation model but no k_streamer; give k_streamer")
     if data.ionization_model == "morrow_lowke_air":
         return ionization_integral_inception_field(length, pressure, temperature, k_streamer=k)
     return sf6_ionization_integral_inception_field(length, pressure, temperature, k_streamer=k)

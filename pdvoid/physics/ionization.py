@@ -6,6 +6,7 @@ from __future__ import annotations
 import math
 
 import numpy as np
+import numpy.typing as npt
 from scipy import integrate, optimize
 
 from pdvoid.core.errors import InputError, check_array, check_choice, check_range
@@ -45,7 +46,8 @@ def _morrow_lowke_reduced(x: np.ndarray, n_cm: np.ndarray) -> tuple[np.ndarray, 
     return alpha, eta2, eta3
 
 
-def morrow_lowke_coefficients(field: object, gas_number_density: object) -> tuple:
+def morrow_lowke_coefficients(field: npt.ArrayLike, gas_number_density: npt.ArrayLike
+                              ) -> tuple[float | np.ndarray, float | np.ndarray, float | np.ndarray]:
     """Ionisation α, two-body attachment η2 and three-body attachment η3 of air (Morrow & Lowke fits).
 
     With E/N in V cm² and N in cm⁻³ (converted here from SI):
@@ -77,8 +79,8 @@ def morrow_lowke_coefficients(field: object, gas_number_density: object) -> tupl
     return _shape_out(alpha, scalar), _shape_out(eta2, scalar), _shape_out(eta3, scalar)
 
 
-def effective_ionization_air(field: object, pressure: object = ATM,
-                             temperature: object = T_ROOM) -> float | np.ndarray:
+def effective_ionization_air(field: npt.ArrayLike, pressure: npt.ArrayLike = ATM,
+                             temperature: npt.ArrayLike = T_ROOM) -> float | np.ndarray:
     """Effective ionisation coefficient of air α_eff = α − η2 − η3 (Morrow & Lowke), N = p/(k_B T).
 
     Args:
@@ -183,7 +185,7 @@ def ionization_integral_inception_field(length: float, pressure: float = ATM, te
 
 
 def sf6_effective_ionization(
-    field: object, pressure: object, temperature: object = T_ROOM, *, slope: float = SF6_SLOPE,
+    field: npt.ArrayLike, pressure: npt.ArrayLike, temperature: npt.ArrayLike = T_ROOM, *, slope: float = SF6_SLOPE,
     limiting_reduced_field: float = SF6_LIMITING_REDUCED_FIELD,
 ) -> float | np.ndarray:
     """Linear fit of the effective ionisation of SF6: α̅/p = k·(E/p − (E/p)_lim), p density-equivalent.
@@ -240,7 +242,7 @@ def sf6_ionization_integral_inception_field(length: float, pressure: float, temp
     return peq * (SF6_LIMITING_REDUCED_FIELD + k / (SF6_SLOPE * peq * l))
 
 
-def streamer_integral(field_values: object, positions: object, *, pressure: float = ATM,
+def streamer_integral(field_values: npt.ArrayLike, positions: npt.ArrayLike, *, pressure: float = ATM,
                       temperature: float = T_ROOM, gas: str = "air", method: str = "trapezoid") -> float:
     """Ionisation integral ∫ α_eff(|E(x)|) dx along a field line from sampled field magnitudes.
 

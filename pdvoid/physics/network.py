@@ -11,6 +11,7 @@ from fractions import Fraction
 from typing import NamedTuple
 
 import numpy as np
+import numpy.typing as npt
 
 from pdvoid.core.errors import InputError, check_nonnegative, check_positive, check_range, check_real
 from pdvoid.core.units import EPSILON_0
@@ -56,11 +57,11 @@ class NetworkEquivalent(NamedTuple):
 
 
 def flat_void_capacitances(
-    diameter: float,
-    height: float,
-    thickness: float,
-    permittivity: float,
-    specimen_area: float | None = None,
+    diameter: npt.ArrayLike,
+    height: npt.ArrayLike,
+    thickness: npt.ArrayLike,
+    permittivity: npt.ArrayLike,
+    specimen_area: npt.ArrayLike | None = None,
 ) -> VoidCapacitances:
     """Capacitances of a flat cylindrical void centred in a slab between plane electrodes.
 
@@ -108,7 +109,7 @@ def flat_void_capacitances(
     return VoidCapacitances(c_a, _out(c_b, *inputs), _out(c_c, *inputs))
 
 
-def void_voltage_ratio(c_b: float, c_c: float) -> float | np.ndarray:
+def void_voltage_ratio(c_b: npt.ArrayLike, c_c: npt.ArrayLike) -> float | np.ndarray:
     """Ratio k of void voltage to applied voltage before any discharge (stiff source): k = C_b/(C_b + C_c).
 
     Parameters:
@@ -130,7 +131,7 @@ def void_voltage_ratio(c_b: float, c_c: float) -> float | np.ndarray:
 
 
 def spheroid_network_equivalent(
-    diameter: float, height: float, thickness: float, permittivity: float
+    diameter: npt.ArrayLike, height: npt.ArrayLike, thickness: npt.ArrayLike, permittivity: npt.ArrayLike
 ) -> NetworkEquivalent:
     """Network capacitances (C_b, C_c) and voltage ratio k reproducing the induced charge of a spheroid.
 
@@ -187,7 +188,7 @@ def spheroid_network_equivalent(
     return NetworkEquivalent(_out(c_b, *inputs), _out(c_c, *inputs), _out(k, *inputs))
 
 
-def apparent_charge(c_b: float, delta_v: float) -> float | np.ndarray:
+def apparent_charge(c_b: npt.ArrayLike, delta_v: npt.ArrayLike) -> float | np.ndarray:
     """Apparent charge of one discharge in the network model: q_a = C_b ΔV (signed like ΔV).
 
     The charge the source must deliver to restore the test-object voltage when the void voltage changes by
@@ -212,14 +213,14 @@ def apparent_charge(c_b: float, delta_v: float) -> float | np.ndarray:
     return _out(b_ * dv_, c_b, delta_v)
 
 
-def _voltages(inception_voltage: object, residual_voltage: object) -> tuple[float, float]:
+def _voltages(inception_voltage: float, residual_voltage: float) -> tuple[float, float]:
     vi = check_positive("inception_voltage", inception_voltage, "V")
     vr = check_range("residual_voltage", residual_voltage, 0.0, vi, high_open=True, unit="V")
     return vi, vr
 
 
 def discharge_energy(
-    c_b: float, c_c: float, inception_voltage: float, residual_voltage: float
+    c_b: npt.ArrayLike, c_c: npt.ArrayLike, inception_voltage: float, residual_voltage: float
 ) -> float | np.ndarray:
     """Energy dissipated in one discharge of the network model: W = ½ (C_c + C_b)(V_i² − V_r²).
 
@@ -247,7 +248,7 @@ def discharge_energy(
     return _out(0.5 * (c_ + b_) * (vi - vr) * (vi + vr), c_b, c_c)
 
 
-def _quarter_count(peak_void_voltage: object, inception_voltage: object, residual_voltage: object) -> int:
+def _quarter_count(peak_void_voltage: float, inception_voltage: float, residual_voltage: float) -> int:
     """n1 = floor((A − V_r)/(V_i − V_r)) for A >= V_i, else 0, evaluated exactly on the given floats."""
     a = check_nonnegative("peak_void_voltage", peak_void_voltage, "V")
     vi, vr = _voltages(inception_voltage, residual_voltage)

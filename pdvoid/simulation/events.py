@@ -65,6 +65,7 @@ class Events:
             raise InputError("charge must be finite everywhere")
         object.__setattr__(self, "phase_deg", _frozen(phase))
         object.__setattr__(self, "charge", _frozen(charge))
+        filled: dict[str, np.ndarray] = {}
         for name in ("time", "cycle", "voltage", "field_before", "field_after"):
             v = getattr(self, name)
             if v is None:
@@ -73,9 +74,10 @@ class Events:
                 arr = np.asarray(v, dtype=float)
                 if arr.shape != (n,):
                     raise InputError(f"{name} must have shape ({n},) like phase_deg; got {arr.shape}")
-            object.__setattr__(self, name, _frozen(arr))
-        if n and np.all(np.isnan(self.cycle)) and np.all(np.isfinite(self.time)):
-            object.__setattr__(self, "cycle", _frozen(np.floor(self.time * f)))
+            filled[name] = _frozen(arr)
+            object.__setattr__(self, name, filled[name])
+        if n and np.all(np.isnan(filled["cycle"])) and np.all(np.isfinite(filled["time"])):
+            object.__setattr__(self, "cycle", _frozen(np.floor(filled["time"] * f)))
 
     @property
     def duration(self) -> float:

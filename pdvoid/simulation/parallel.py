@@ -69,7 +69,7 @@ def _chunks(n: int, workers: int) -> list[range]:
     return [range(i, min(n, i + size)) for i in range(0, n, size)]
 
 
-def _progress_bar(total: int, enabled: bool, description: str):
+def _progress_bar(total: int, enabled: bool, description: str) -> Any:
     if not enabled:
         return None
     tqdm = require("tqdm.auto", feature="progress bars").tqdm
@@ -101,9 +101,10 @@ def _local_executor(workers: int) -> cf.Executor:
     return _stdlib_pool(workers)
 
 
-def _collect(futures: dict, n: int, bar, wait_any: Callable) -> list:
+def _collect(futures: dict[Any, range], n: int, bar: Any, wait_any: Callable[[list[Any]], Iterable[Any]]
+             ) -> list[Any]:
     """Gather chunk results into a list of n; on a failure cancel what has not started and re-raise."""
-    out: list = [None] * n
+    out: list[Any] = [None] * n
     try:
         for fut in wait_any(list(futures)):
             rng = futures[fut]
@@ -122,7 +123,7 @@ def _collect(futures: dict, n: int, bar, wait_any: Callable) -> list:
     return out
 
 
-def _dask_client(client: Any):
+def _dask_client(client: Any) -> tuple[Any, bool]:
     """(client, owned): a Client as given, or a new one connected to a scheduler address string."""
     distributed = require("distributed", feature="Dask clusters")
     if isinstance(client, str):
@@ -140,7 +141,7 @@ def _dask_client(client: Any):
     return client, False
 
 
-def _dask_map(func: Callable, items: list, client: Any, make_bar: Callable) -> list:
+def _dask_map(func: Callable[[Any], Any], items: list[Any], client: Any, make_bar: Callable[[], Any]) -> list[Any]:
     distributed = require("distributed", feature="Dask clusters")
     client, owned = _dask_client(client)
     try:
@@ -158,13 +159,13 @@ def _dask_map(func: Callable, items: list, client: Any, make_bar: Callable) -> l
 
 def parallel_map(
     func: Callable[[Any], Any],
-    items: Iterable,
+    items: Iterable[Any],
     *,
     client: Any = None,
     workers: int | None = None,
     progress: bool = False,
     description: str = "",
-) -> list:
+) -> list[Any]:
     """``[func(x) for x in items]``, in order, run serially, on local processes or on a Dask cluster.
 
     Args:
@@ -192,14 +193,13 @@ def parallel_map(
         raise InputError(f"progress must be True or False; got {progress!r}")
     items = list(items)
     n = len(items)
-    if client is None:
-        workers = _resolve_workers(workers)
+    local = _resolve_workers(workers) if client is None else 1
     if n == 0:
         return []
     if client is not None:
         return _dask_map(func, items, client, lambda: _progress_bar(n, progress, description))
     bar = _progress_bar(n, progress, description)
-    if workers == 1 or n == 1:
+    if local == 1 or n == 1:
         out = []
         try:
             for x in items:
@@ -211,10 +211,10 @@ def parallel_map(
                 bar.close()
         return out
     try:
-        executor = _local_executor(workers)
+        executor = _local_executor(local)
     except BaseException:
         if bar is not None:
             bar.close()
         raise
-    futures = {executor.submit(_run_chunk, func, [items[i] for i in rng]): rng for rng in _chunks(n, workers)}
+    futures = {executor.submit(_run_chunk, func, [items[i] for i in rng]): rng for rng in _chunks(n, local)}
     return _collect(futures, n, bar, cf.as_completed)

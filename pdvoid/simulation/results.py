@@ -7,6 +7,7 @@ import os
 import zipfile
 from dataclasses import dataclass
 from pathlib import Path
+from typing import cast
 
 import numpy as np
 
@@ -66,7 +67,7 @@ class Result:
     # event arrays, straight from the events
     @property
     def time(self) -> np.ndarray:
-        return self.events.time
+        return cast(np.ndarray, self.events.time)  # Events fills every array in __post_init__
 
     @property
     def phase_deg(self) -> np.ndarray:
@@ -74,7 +75,7 @@ class Result:
 
     @property
     def cycle(self) -> np.ndarray:
-        return self.events.cycle
+        return cast(np.ndarray, self.events.cycle)  # Events fills every array in __post_init__
 
     @property
     def charge(self) -> np.ndarray:
@@ -82,15 +83,15 @@ class Result:
 
     @property
     def voltage(self) -> np.ndarray:
-        return self.events.voltage
+        return cast(np.ndarray, self.events.voltage)  # Events fills every array in __post_init__
 
     @property
     def field_before(self) -> np.ndarray:
-        return self.events.field_before
+        return cast(np.ndarray, self.events.field_before)  # Events fills every array in __post_init__
 
     @property
     def field_after(self) -> np.ndarray:
-        return self.events.field_after
+        return cast(np.ndarray, self.events.field_after)  # Events fills every array in __post_init__
 
     @property
     def frequency(self) -> float:

@@ -13,6 +13,7 @@ from pdvoid.inputs.scenario import Scenario
 from pdvoid.inputs.waveform import evaluate
 from pdvoid.kernels import void_events as K
 from pdvoid.models import kernel_arguments
+from pdvoid.models.arguments import KernelArguments
 from pdvoid.simulation.events import Events
 from pdvoid.simulation.results import Histogram, Result
 
@@ -24,7 +25,7 @@ _MAX_STORED_EVENTS = 50_000_000
 _MAX_EVENTS_PER_CYCLE = 1_000_000  # about 1.6 GB of event arrays: beyond this use histogram mode
 
 
-def _default_charge_edges(args) -> np.ndarray:
+def _default_charge_edges(args: KernelArguments) -> np.ndarray:
     """Symmetric logarithmic charge edges for the histogram mode: 1e-3 to 10 times the lag-free charge."""
     q0 = abs(args.charge_per_unit * (args.x_inc - args.x_res))
     mags = np.geomspace(q0 * 1e-3, q0 * 10.0, 26)
@@ -43,7 +44,7 @@ class VoidRunner:
         seed: seed of the random generator [-].
     """
 
-    def __init__(self, scenario: Scenario, seed: int = 0, *, _args=None) -> None:
+    def __init__(self, scenario: Scenario, seed: int = 0, *, _args: KernelArguments | None = None) -> None:
         if not isinstance(scenario, Scenario):
             raise InputError(f"scenario must be a pdvoid.Scenario; got {type(scenario).__name__}")
         self.scenario = scenario
@@ -57,7 +58,9 @@ class VoidRunner:
         if not self.args.lag_free:
             K.start_wait(self.state)
 
-    def run(self, cycles: int, *, scale: float = 1.0, store: bool = True, counts=None, charge_edges=None):
+    def run(self, cycles: int, *, scale: float = 1.0, store: bool = True, counts: np.ndarray | None = None,
+            charge_edges: np.ndarray | None = None
+            ) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
         """Advance ``cycles`` whole cycles with the supply multiplied by ``scale`` [-].
 
         Returns (time [s], charge [C], field_before [V/m], field_after [V/m], voltage [V]) of the new events

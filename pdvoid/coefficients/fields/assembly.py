@@ -24,6 +24,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from typing import Any
 
 import numpy as np
 import scipy.sparse as sp
@@ -119,7 +120,8 @@ def _classify(layout: Layout, grid: Grid) -> tuple[np.ndarray, np.ndarray, list]
     return cid, owner, regions
 
 
-def _harmonic_line(layout: Layout, regs: list, p_r, p_z, e_r, e_z) -> tuple[np.ndarray, ...]:
+def _harmonic_line(layout: Layout, regs: list[Any], p_r: np.ndarray, p_z: np.ndarray, e_r: np.ndarray,
+                   e_z: np.ndarray) -> tuple[np.ndarray, ...]:
     """Along straight segments p -> e (exact material sub-segments): the harmonic-mean relative permittivity,
     the fraction of the length inside the void and the fraction of the potential drop across the void part
     (the drop splits like the series resistances Δt/ε when the flux density along the segment is constant)."""
@@ -176,7 +178,8 @@ def _harmonic_line(layout: Layout, regs: list, p_r, p_z, e_r, e_z) -> tuple[np.n
 
 
 def _link_permittivity(
-    layout: Layout, p_r, p_z, e_r, e_z, radial: np.ndarray, width: np.ndarray, samples: int
+    layout: Layout, p_r: np.ndarray, p_z: np.ndarray, e_r: np.ndarray, e_z: np.ndarray, radial: np.ndarray,
+    width: np.ndarray, samples: int
 ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """Effective relative permittivity of links p -> e whose faces have the given transverse width, and the
     link's void length fraction and void potential-drop fraction (both averaged over the face area).

@@ -18,7 +18,9 @@ electrodes it equals Pedersen's K εr ε0 Ω / d.
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 from dataclasses import dataclass, field, replace
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
@@ -29,6 +31,9 @@ from pdvoid.coefficients.fields.maps import field_magnitude, region_mask
 from pdvoid.coefficients.fields.solver import FieldSolver
 from pdvoid.coefficients.record import Coefficients
 from pdvoid.core.errors import InputError, check_bool, check_choice, check_positive, check_range
+
+if TYPE_CHECKING:
+    from pdvoid.inputs.scenario import Scenario
 
 __all__ = [
     "FieldSolution",
@@ -192,6 +197,8 @@ def _primary(solver: FieldSolver, measuring_electrode: str) -> dict:
 def _build(p: dict, solver: FieldSolver, measuring_electrode: str) -> FieldSolution:
     lay = solver.layout
     d = lay.thickness
+    if lay.void is None:  # coefficients_for always builds a layout with a void
+        raise InputError("the layout has no void; the coefficients need one")
     _, zlo, zhi = lay.void.bounds()
     height = min(zhi, d) - max(zlo, 0.0)
     zc = 0.5 * (max(zlo, 0.0) + min(zhi, d))
@@ -256,7 +263,7 @@ def coefficients_from_solver(
 
 def coefficients_for(
     thickness: float,
-    permittivity: object,
+    permittivity: float | Sequence[tuple[float, float]],
     void_diameter: float,
     void_height: float,
     *,
@@ -267,7 +274,7 @@ def coefficients_for(
     needle_tip_radius: float | None = None,
     needle_length: float | None = None,
     needle_electrode: str = "high",
-    inclusions: object = (),
+    inclusions: Sequence[tuple[float, float]] = (),
     outer_radius: float | None = None,
     cells: tuple[int, int] | None = None,
     resolution: float = 40.0,
@@ -329,14 +336,14 @@ def coefficients_for(
     return coefficients_from_solver(FieldSolver(layout, grid), measuring_electrode, coarse)
 
 
-def peak_enhancement(solver: FieldSolver, where: object = "dielectric") -> float:
+def peak_enhancement(solver: FieldSolver, where: str | np.ndarray = "dielectric") -> float:
     """Largest cell-centre |E| in ``where`` per applied uniform field V/d [-]."""
     u = solver.unit("high")
     mask = region_mask(solver, where)
     return float(np.max(field_magnitude(u)[mask], initial=0.0) * solver.layout.thickness)
 
 
-def solve_scenario(scenario: object, **options: object) -> FieldSolution:
+def solve_scenario(scenario: Scenario, **options: Any) -> FieldSolution:
     """Field-solver coefficients for a scenario's insulation and void.
 
     Reads ``scenario.insulation.thickness``, ``scenario.insulation.permittivity``, ``scenario.void.diameter``,
@@ -354,13 +361,15 @@ def solve_scenario(scenario: object, **options: object) -> FieldSolution:
         field_enhancement, depolarization, volume, charge_per_field and the capacitances.
     """
     try:
-        ins, void = scenario.insulation, scenario.void  # type: ignore[attr-defined]
+        ins, void = scenario.insulation, scenario.void
         thickness, permittivity = ins.thickness, ins.permittivity
         diameter, height = void.diameter, void.height
     except AttributeError as exc:
         raise InputError(
             f"scenario must have insulation.thickness, insulation.permittivity, void.diameter and void.height; {exc}"
         ) from None
+    if permittivity is None:
+        raise InputError("scenario.insulation.permittivity must be given (or taken from its material); got None")
     for name in ("thickness", "permittivity", "void_diameter", "void_height"):
         if name in options:
             raise InputError(f"{name} comes from the scenario; do not pass it as an option")
@@ -370,10 +379,10 @@ def solve_scenario(scenario: object, **options: object) -> FieldSolution:
         options["void_center"] = 0.0 if position == "ground_electrode" else thickness
     if "void_shape" not in options:
         options["void_shape"] = getattr(void, "shape", "spheroid")
-    return coefficients_for(thickness, permittivity, diameter, height, **options)  # type: ignore[arg-type]
+    return coefficients_for(thickness, permittivity, diameter, height, **options)
 
 
-def coefficients(scenario: object, **options: object) -> Coefficients:
+def coefficients(scenario: Scenario, **options: Any) -> Coefficients:
     """The coefficients of a scenario with its geometry solved numerically: the same :class:`Coefficients` type
     :func:`pdvoid.compute_coefficients` returns, with ``method="field solver"`` and the
     :class:`FieldSolution` in ``solution``.
@@ -387,11 +396,11 @@ def coefficients(scenario: object, **options: object) -> Coefficients:
         :class:`pdvoid.coefficients.Coefficients`; the gas, supply and model parts are those of the closed forms.
     """
     solution = solve_scenario(scenario, **options)
-    c = compute_coefficients(with_field_solution(scenario, solution))  # type: ignore[arg-type]
+    c = compute_coefficients(with_field_solution(scenario, solution))
     return replace(c, method="field solver", solution=solution)
 
 
-def with_field_solution(scenario: object, solution: FieldSolution | Coefficients) -> object:
+def with_field_solution(scenario: Scenario, solution: FieldSolution | Coefficients) -> Scenario:
     """``scenario`` with its void's field enhancement and charge per field taken from a numerical solution, so
     that :func:`pdvoid.simulate` runs the solved geometry through the same kernels at full speed."""
     if isinstance(solution, Coefficients):
@@ -402,7 +411,7 @@ def with_field_solution(scenario: object, solution: FieldSolution | Coefficients
     if not isinstance(solution, FieldSolution):
         raise InputError(f"solution must be a FieldSolution or Coefficients; got {type(solution).__name__}")
     try:
-        return scenario.replace(**{"void.field_enhancement": solution.field_enhancement,  # type: ignore[attr-defined]
+        return scenario.replace(**{"void.field_enhancement": solution.field_enhancement,
                                    "void.charge_per_field": solution.charge_per_field})
     except AttributeError:
         raise InputError(f"scenario must be a pdvoid.Scenario; got {type(scenario).__name__}") from None

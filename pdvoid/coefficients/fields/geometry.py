@@ -13,6 +13,7 @@ from abc import ABC, abstractmethod
 from dataclasses import dataclass
 
 import numpy as np
+import numpy.typing as npt
 
 from pdvoid.core.errors import InputError, check_array, check_positive, check_real
 
@@ -239,7 +240,7 @@ class Outline(Region):
         z: axial coordinates of the polygon vertices [m].
     """
 
-    def __init__(self, r: object, z: object) -> None:
+    def __init__(self, r: npt.ArrayLike, z: npt.ArrayLike) -> None:
         rr = check_array("r", r, min_size=3)
         zz = check_array("z", z, min_size=3)
         if rr.shape != zz.shape:

@@ -122,10 +122,10 @@ def _distance(x: np.ndarray, focus: Sequence[tuple[float, float]]) -> np.ndarray
     return d
 
 
-def _check_focus(length: float, focus: object) -> list[tuple[float, float]]:
+def _check_focus(length: float, focus: Sequence[tuple[float, float]]) -> list[tuple[float, float]]:
     out = []
     try:
-        items = list(focus)  # type: ignore[call-overload]
+        items = list(focus)
     except TypeError:
         raise InputError(f"focus must be a sequence of (low, high) intervals; got {focus!r}") from None
     for k, item in enumerate(items):
@@ -263,7 +263,7 @@ def make_grid(
         kw_r: dict = {"cells": nr}
         kw_z: dict = {"cells": nz}
     elif fine is not None:
-        fr, fz = (fine, fine) if np.ndim(fine) == 0 else tuple(fine)  # type: ignore[misc]
+        fr, fz = (fine, fine) if isinstance(fine, (int, float)) or np.ndim(fine) == 0 else tuple(fine)
         kw_r, kw_z = {"fine": fr}, {"fine": fz}
     else:
         raise InputError("give cells=(nr, nz) or fine=spacing")

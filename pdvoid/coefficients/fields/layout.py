@@ -9,7 +9,9 @@ whatever potential that requires. The outer radius and the axis carry no normal 
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 from dataclasses import dataclass
+from typing import Any
 
 import numpy as np
 
@@ -22,9 +24,9 @@ __all__ = ["Layout", "ELECTRODES", "specimen_layout", "grid_for"]
 ELECTRODES = ("ground", "high")  #: the two plane electrodes: z = 0 and z = thickness
 
 
-def _tuple(name: str, value: object) -> tuple:
+def _tuple(name: str, value: Any) -> tuple[Any, ...]:
     try:
-        return tuple(value)  # type: ignore[call-overload]
+        return tuple(value)
     except TypeError:
         raise InputError(f"{name} must be a sequence; got {value!r}") from None
 
@@ -158,7 +160,8 @@ class Layout:
         return fr, fz, small
 
 
-def _layers(thickness: float, permittivity: object) -> tuple[float, tuple]:
+def _layers(thickness: float, permittivity: float | Sequence[tuple[float, float]]
+            ) -> tuple[float, tuple[tuple[Slab, float], ...]]:
     """Background permittivity and slab dielectrics from a float or (layer thickness, εr) pairs."""
     if np.ndim(permittivity) == 0 and not isinstance(permittivity, (list, tuple)):
         return check_range("permittivity", permittivity, 1.0, 1e6), ()
@@ -186,14 +189,14 @@ def _layers(thickness: float, permittivity: object) -> tuple[float, tuple]:
 
 def specimen_layout(
     thickness: float,
-    permittivity: object,
+    permittivity: float | Sequence[tuple[float, float]],
     *,
     void: Region | None = None,
     gas_permittivity: float = 1.0,
     needle_tip_radius: float | None = None,
     needle_length: float | None = None,
     needle_electrode: str = "high",
-    inclusions: object = (),
+    inclusions: Sequence[tuple[float, float]] = (),
     outer_radius: float | None = None,
 ) -> Layout:
     """A :class:`Layout` from plain geometry arguments: slab, void, needle and conductive spheres.

@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from typing import Any
 
 import numpy as np
 
@@ -107,7 +108,7 @@ def field_magnitude(potential: Potential) -> np.ndarray:
     return np.hypot(er, ez)
 
 
-def region_mask(solver: FieldSolver, where: object = "dielectric") -> np.ndarray:
+def region_mask(solver: FieldSolver, where: str | np.ndarray = "dielectric") -> np.ndarray:
     """Boolean (nr, nz) mask of cells: "all", "dielectric" (outside conductors), "void" or "solid".
 
     A boolean array of shape (nr, nz) is passed through (after a shape check).
@@ -163,7 +164,7 @@ class SurfaceField:
         return float(self.r[k]), float(self.z[k])
 
 
-def _conductor_id(solver: FieldSolver, conductor: object) -> tuple[int, object]:
+def _conductor_id(solver: FieldSolver, conductor: str | int) -> tuple[int, list[Any]]:
     lay = solver.layout
     if isinstance(conductor, str):
         e = ELECTRODES.index(check_choice("conductor", conductor, ELECTRODES))
@@ -219,7 +220,7 @@ def _surface_slope(vl, fr, xs, a, b, step, s1, vc, order):
     return out
 
 
-def surface_field(potential: Potential, conductor: object, *, min_cosine: float = 0.5) -> SurfaceField:
+def surface_field(potential: Potential, conductor: str | int, *, min_cosine: float = 0.5) -> SurfaceField:
     """|E| on the surface of a shaped electrode part ("high"/"ground") or floating conductor (its index).
 
     Along every grid line that enters the conductor, the potential of the conductor surface and of the two
@@ -280,7 +281,7 @@ def surface_field(potential: Potential, conductor: object, *, min_cosine: float 
     return SurfaceField(np.concatenate(out_r), np.concatenate(out_z), np.concatenate(out_e))
 
 
-def critical_region(potential: Potential, critical_field: float, where: object = "dielectric") -> np.ndarray:
+def critical_region(potential: Potential, critical_field: float, where: str | np.ndarray = "dielectric") -> np.ndarray:
     """Boolean (nr, nz) mask of cells in ``where`` whose |E| exceeds ``critical_field``.
 
     Parameters:
@@ -294,7 +295,7 @@ def critical_region(potential: Potential, critical_field: float, where: object =
 
 
 def lowest_voltage(
-    solver: FieldSolver, critical_field: float, where: object = "dielectric", *, include_surface: bool = True
+    solver: FieldSolver, critical_field: float, where: str | np.ndarray = "dielectric", *, include_surface: bool = True
 ) -> float:
     """Lowest voltage on the high-voltage electrode at which |E| somewhere in ``where`` exceeds the critical field.
 

@@ -183,7 +183,7 @@ def conductive_void_reference(
     def volt_at(t: float) -> float:
         return amp * math.sin(2.0 * math.pi * freq * t)
 
-    out = {k: [] for k in ("time", "charge", "before", "after", "voltage")}
+    out: dict[str, list[float]] = {k: [] for k in ("time", "charge", "before", "after", "voltage")}
     total_steps = 0
     t = 0.0
     grid_t = np.linspace(0.0, period, 721)
