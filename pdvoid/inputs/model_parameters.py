@@ -28,7 +28,7 @@ class ModelParameters:
     """Parameters every void model shares: the residual field, the inception criterion and the start-electron
     supply. A concrete model derives from this class (see :class:`pdvoid.FieldModel`).
 
-    Parameters
+    Attributes
     ----------
     residual_ratio : float
         E_res / E_inc [-], in [0, 1). Default 0.25: a typical fitted value, not a published constant (the

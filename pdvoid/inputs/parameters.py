@@ -40,11 +40,16 @@ def _set(obj: object, name: str, value: object) -> None:
 class Insulation:
     """A slab of solid insulation between plane electrodes.
 
-    Args:
-        thickness: electrode spacing d [m], 1 µm to 1 m.
-        permittivity: relative permittivity εr of the host [-], 1 to 100. Taken from ``material`` when omitted.
-        material: name of a host material from the parameter sets (sets ``permittivity`` when that is omitted).
-        area: electrode area of the specimen [m²], optional; only the network model's C_a uses it.
+    Attributes
+    ----------
+    thickness : float
+        electrode spacing d [m], 1 µm to 1 m.
+    permittivity : float or None
+        relative permittivity εr of the host [-], 1 to 100. Taken from ``material`` when omitted.
+    material : str or None
+        name of a host material from the parameter sets (sets ``permittivity`` when that is omitted).
+    area : float or None
+        electrode area of the specimen [m²], optional; only the network model's C_a uses it.
     """
 
     thickness: float
@@ -71,20 +76,31 @@ class Insulation:
 class Void:
     """A gas-filled void, centred in the slab, its symmetry axis along the applied field.
 
-    Args:
-        diameter: extent across the field [m].
-        height: extent along the field [m].
-        pressure: gas pressure [Pa], 100 Pa to 1 MPa.
-        gas: "air", "nitrogen" or "sf6".
-        temperature: gas temperature [K], 200 to 500 K.
-        shape: "spheroid" (closed-form field and induced charge) or "cylinder" (flat disc: three-capacitance
-            formulas; the field model then uses the layered-slab field, valid for diameter ≫ height).
-        inception_length: the length l in the streamer criterion [m]; defaults to ``height``.
-        position: "centred" (far from both electrodes), or "high_voltage_electrode" / "ground_electrode" for a
-            void whose flat side lies on that electrode (a half spheroid; closed forms by the image method).
-        field_enhancement: void field / (V/d) [-] from a numerical field solution (pdvoid.fields), replacing
-            the closed form for geometries it does not cover; give it together with ``charge_per_field``.
-        charge_per_field: apparent charge per unit drop of the void field [C/(V/m)], likewise.
+    Attributes
+    ----------
+    diameter : float
+        extent across the field [m].
+    height : float
+        extent along the field [m].
+    pressure : float
+        gas pressure [Pa], 100 Pa to 1 MPa.
+    gas : str
+        "air", "nitrogen" or "sf6".
+    temperature : float
+        gas temperature [K], 200 to 500 K.
+    shape : str
+        "spheroid" (closed-form field and induced charge) or "cylinder" (flat disc: three-capacitance
+        formulas; the field model then uses the layered-slab field, valid for diameter ≫ height).
+    inception_length : float or None
+        the length l in the streamer criterion [m]; defaults to ``height``.
+    position : str
+        "centred" (far from both electrodes), or "high_voltage_electrode" / "ground_electrode" for a
+        void whose flat side lies on that electrode (a half spheroid; closed forms by the image method).
+    field_enhancement : float or None
+        void field / (V/d) [-] from a numerical field solution (pdvoid.fields), replacing
+        the closed form for geometries it does not cover; give it together with ``charge_per_field``.
+    charge_per_field : float or None
+        apparent charge per unit drop of the void field [C/(V/m)], likewise.
     """
 
     diameter: float
@@ -131,10 +147,14 @@ class Sine:
     V(t) = √2·rms·[sin(2πft) + Σ_k h_k·sin(2π·m_k·f·t + φ_k)]; t = 0 is the positive-going zero crossing of the
     fundamental, which is the phase reference of every event.
 
-    Args:
-        rms: rms value of the fundamental [V], > 0 and ≤ 10 MV.
-        frequency: fundamental frequency [Hz], 0.01 Hz to 10 kHz.
-        harmonics: tuples (order m ≥ 2, fraction h of the fundamental in [0, 1], phase φ [deg]).
+    Attributes
+    ----------
+    rms : float
+        rms value of the fundamental [V], > 0 and ≤ 10 MV.
+    frequency : float
+        fundamental frequency [Hz], 0.01 Hz to 10 kHz.
+    harmonics : tuple[tuple[int, float, float], ...]
+        tuples (order m ≥ 2, fraction h of the fundamental in [0, 1], phase φ [deg]).
     """
 
     rms: float
@@ -184,10 +204,14 @@ class Periodic:
     smooth, periodic and passes through every sample. t = 0 is the phase reference of every event; put a
     positive-going zero crossing there for IEC 60270 phase angles.
 
-    Args:
-        samples: applied voltage over one period [V], 4 to 4096 values.
-        frequency: repetition frequency [Hz], 0.01 Hz to 10 kHz.
-        max_harmonic: highest harmonic kept [-] (default: all the samples resolve, at most 64).
+    Attributes
+    ----------
+    samples : object
+        applied voltage over one period [V], 4 to 4096 values.
+    frequency : float
+        repetition frequency [Hz], 0.01 Hz to 10 kHz.
+    max_harmonic : int or None
+        highest harmonic kept [-] (default: all the samples resolve, at most 64).
     """
 
     samples: Any

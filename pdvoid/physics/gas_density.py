@@ -15,11 +15,16 @@ __all__ = ["density_equivalent_pressure"]
 def density_equivalent_pressure(pressure: npt.ArrayLike, temperature: npt.ArrayLike = T_ROOM) -> float | np.ndarray:
     """Pressure at 293.15 K with the same gas density: p·T_ref/T (ideal gas).
 
-    Args:
-        pressure: gas pressure p [Pa], > 0.
-        temperature: gas temperature T [K], > 0.
+    Parameters
+    ----------
+    pressure : array_like
+        gas pressure p [Pa], > 0.
+    temperature : array_like, optional
+        gas temperature T [K], > 0.
 
-    Returns:
+    Returns
+    -------
+    float or numpy.ndarray
         The density-equivalent pressure [Pa].
     """
     p, s1 = _values("pressure", pressure, unit="Pa")

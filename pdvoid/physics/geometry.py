@@ -40,19 +40,26 @@ def depolarization_ellipsoid(a: npt.ArrayLike, b: npt.ArrayLike, c: npt.ArrayLik
     this is DLMF eq. 19.33.8 divided by 4π (SI convention, N_a + N_b + N_c = 1). The axes are scaled by the
     largest one before the call, so the result depends only on the axis ratios.
 
-    Parameters:
-        a: first semi-axis across the field [m]
-        b: second semi-axis across the field [m]
-        c: semi-axis along the field [m]
+    Parameters
+    ----------
+    a : array_like
+        first semi-axis across the field [m]
+    b : array_like
+        second semi-axis across the field [m]
+    c : array_like
+        semi-axis along the field [m]
 
-    Returns:
+    Returns
+    -------
+    float or numpy.ndarray
         N_c, in (0, 1) [-]; 1/3 for a sphere.
 
     Validity: any ellipsoid with finite positive semi-axes (exact electrostatics, no approximation).
 
-    References:
-        dlmf19.33 (eq. 19.33.8, depolarisation factors); carlson1995 (R_D algorithm used by scipy);
-        stratton1941 (dielectric ellipsoid in a uniform field).
+    References
+    ----------
+    dlmf19.33 (eq. 19.33.8, depolarisation factors); carlson1995 (R_D algorithm used by scipy);
+    stratton1941 (dielectric ellipsoid in a uniform field).
     """
     a_ = _positive("a", a, "m")
     b_ = _positive("b", b, "m")
@@ -130,18 +137,24 @@ def depolarization_spheroid(diameter: npt.ArrayLike, height: npt.ArrayLike) -> f
     agrees with :func:`depolarization_ellipsoid` (Carlson's R_D) to about 1e-14 relative for aspect ratios
     from 1e-6 to 1e6. The transverse factors are (1 − N)/2.
 
-    Parameters:
-        diameter: void extent across the field, 2a [m]
-        height: void extent along the field, 2c [m]
+    Parameters
+    ----------
+    diameter : array_like
+        void extent across the field, 2a [m]
+    height : array_like
+        void extent along the field, 2c [m]
 
-    Returns:
+    Returns
+    -------
+    float or numpy.ndarray
         N along the field, in (0, 1) [-]: → 1 for a flat disc (height ≪ diameter), → 0 for a needle.
 
     Validity: exact for any spheroid with its symmetry axis along a uniform field.
 
-    References:
-        osborn1945 (closed spheroid forms, attribution from memory); dlmf19.33 (general ellipsoid,
-        eq. 19.33.8); stratton1941. The series near the sphere is derived here from the closed forms.
+    References
+    ----------
+    osborn1945 (closed spheroid forms, attribution from memory); dlmf19.33 (general ellipsoid,
+    eq. 19.33.8); stratton1941. The series near the sphere is derived here from the closed forms.
     """
     d_ = _positive("diameter", diameter, "m")
     h_ = _positive("height", height, "m")
@@ -161,19 +174,26 @@ def field_enhancement(
     K = 1/N: ``f = K εr / (1 + εr (K − 1))``. Limits: sphere (N = 1/3) 3εr/(2εr + 1); flat disc across the
     field (N → 1) εr; needle along the field (N → 0) 1. f grows with εr and with N.
 
-    Parameters:
-        permittivity: relative permittivity of the solid host εr, >= 1 [-]
-        depolarization: depolarisation factor of the void along the field N, in [0, 1] [-]
-        gas_permittivity: relative permittivity of the gas in the void εg, >= 1 [-]
+    Parameters
+    ----------
+    permittivity : array_like
+        relative permittivity of the solid host εr, >= 1 [-]
+    depolarization : array_like
+        depolarisation factor of the void along the field N, in [0, 1] [-]
+    gas_permittivity : array_like, optional
+        relative permittivity of the gas in the void εg, >= 1 [-]
 
-    Returns:
+    Returns
+    -------
+    float or numpy.ndarray
         f = E_void / E_applied [-]
 
     Validity: ellipsoidal void in an infinite homogeneous linear host under a uniform field along a principal
     axis (in practice: void small compared with its distance to the electrodes); no space charge in the void.
 
-    References:
-        stratton1941 (dielectric ellipsoid in a uniform field); crichton1989 (K notation for voids).
+    References
+    ----------
+    stratton1941 (dielectric ellipsoid in a uniform field); crichton1989 (K notation for voids).
     """
     er = _checked("permittivity", permittivity, 1.0)
     n = _checked("depolarization", depolarization, 0.0, 1.0)
@@ -193,20 +213,27 @@ def layered_field_enhancement(
     ``f = εr d / (εr t + d − t)``. As t/d → 0 this tends to εr, the flat-disc limit of
     :func:`field_enhancement`.
 
-    Parameters:
-        permittivity: relative permittivity of the solid εr, >= 1 [-]
-        height: void extent along the field t [m]
-        thickness: electrode spacing (slab thickness) d, > height [m]
+    Parameters
+    ----------
+    permittivity : array_like
+        relative permittivity of the solid εr, >= 1 [-]
+    height : array_like
+        void extent along the field t [m]
+    thickness : array_like
+        electrode spacing (slab thickness) d, > height [m]
 
-    Returns:
+    Returns
+    -------
+    float or numpy.ndarray
         f = E_void / (V/d) [-]
 
     Validity: void wide compared with its height and with its distance to the electrodes (edge fields
     neglected), plane electrodes, gas permittivity 1.
 
-    References:
-        derived (series capacitors, continuity of the normal displacement); same as the flat-void field of the
-        three-capacitance model (kuffel2000, kreuger1989).
+    References
+    ----------
+    derived (series capacitors, continuity of the normal displacement); same as the flat-void field of the
+    three-capacitance model (kuffel2000, kreuger1989).
     """
     er = _checked("permittivity", permittivity, 1.0)
     t = _positive("height", height, "m")
@@ -223,18 +250,25 @@ def layered_field_enhancement(
 def ellipsoid_volume(a: npt.ArrayLike, b: npt.ArrayLike, c: npt.ArrayLike) -> float | np.ndarray:
     """Volume of an ellipsoid, (4/3) π a b c.
 
-    Parameters:
-        a: first semi-axis [m]
-        b: second semi-axis [m]
-        c: third semi-axis [m]
+    Parameters
+    ----------
+    a : array_like
+        first semi-axis [m]
+    b : array_like
+        second semi-axis [m]
+    c : array_like
+        third semi-axis [m]
 
-    Returns:
+    Returns
+    -------
+    float or numpy.ndarray
         volume [m³]
 
     Validity: any positive semi-axes.
 
-    References:
-        common practice (elementary geometry).
+    References
+    ----------
+    common practice (elementary geometry).
     """
     a_ = _positive("a", a, "m")
     b_ = _positive("b", b, "m")
@@ -246,17 +280,23 @@ def ellipsoid_volume(a: npt.ArrayLike, b: npt.ArrayLike, c: npt.ArrayLike) -> fl
 def spheroid_volume(diameter: npt.ArrayLike, height: npt.ArrayLike) -> float | np.ndarray:
     """Volume of a spheroid, (π/6) D² h.
 
-    Parameters:
-        diameter: equatorial diameter D [m]
-        height: polar extent h [m]
+    Parameters
+    ----------
+    diameter : array_like
+        equatorial diameter D [m]
+    height : array_like
+        polar extent h [m]
 
-    Returns:
+    Returns
+    -------
+    float or numpy.ndarray
         volume [m³]
 
     Validity: any positive dimensions.
 
-    References:
-        common practice (elementary geometry).
+    References
+    ----------
+    common practice (elementary geometry).
     """
     d_ = _positive("diameter", diameter, "m")
     h_ = _positive("height", height, "m")
@@ -276,21 +316,29 @@ def induced_charge_per_field(
     ΔV_c when t ≪ d. ΔE is the drop of the field *inside* the void; for a drop of the applied field multiply
     by the field enhancement f.
 
-    Parameters:
-        permittivity: relative permittivity of the host εr, >= 1 [-]
-        depolarization: depolarisation factor of the void along the field N, in (0, 1] [-]
-        volume: void volume Ω [m³]
-        thickness: electrode spacing d [m]
+    Parameters
+    ----------
+    permittivity : array_like
+        relative permittivity of the host εr, >= 1 [-]
+    depolarization : array_like
+        depolarisation factor of the void along the field N, in (0, 1] [-]
+    volume : array_like
+        void volume Ω [m³]
+    thickness : array_like
+        electrode spacing d [m]
 
-    Returns:
+    Returns
+    -------
+    float or numpy.ndarray
         charge per field drop inside the void [C/(V/m)] (= C·m/V)
 
     Validity: void small compared with its distance to the electrodes (weighting field f/d uniform over the
     void), counter-field of the deposited charge uniform, homogeneous linear host, plane-parallel electrodes,
     gas permittivity 1.
 
-    References:
-        crichton1989 (K, λ and Ω notation; equation numbers from memory); pedersen1991; pedersen1995.
+    References
+    ----------
+    crichton1989 (K, λ and Ω notation; equation numbers from memory); pedersen1991; pedersen1995.
     """
     er = _checked("permittivity", permittivity, 1.0)
     n = _checked("depolarization", depolarization, 0.0, 1.0, low_open=True)

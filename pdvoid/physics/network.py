@@ -68,22 +68,31 @@ def flat_void_capacitances(
     Void of area S = π D²/4 and height t in a slab of thickness d and area A:
     ``C_c = ε0 S / t``, ``C_b = εr ε0 S / (d − t)``, ``C_a = εr ε0 (A − S) / d``.
 
-    Parameters:
-        diameter: void diameter across the field D [m]
-        height: void height along the field t, < thickness [m]
-        thickness: slab thickness (electrode spacing) d [m]
-        permittivity: relative permittivity of the solid εr, >= 1 [-]
-        specimen_area: electrode area A, > S; None leaves C_a undetermined [m²]
+    Parameters
+    ----------
+    diameter : array_like
+        void diameter across the field D [m]
+    height : array_like
+        void height along the field t, < thickness [m]
+    thickness : array_like
+        slab thickness (electrode spacing) d [m]
+    permittivity : array_like
+        relative permittivity of the solid εr, >= 1 [-]
+    specimen_area : array_like, optional
+        electrode area A, > S; None leaves C_a undetermined [m²]
 
-    Returns:
+    Returns
+    -------
+    VoidCapacitances
         VoidCapacitances(a, b, c) [F]; ``a`` is None when ``specimen_area`` is None.
 
     Validity: void much wider than tall and than its distance to the electrodes (edge fields neglected; the
     void and the solid column above and below it are treated as parallel-plate capacitors), gas
     permittivity 1. The capacitances are fitting quantities, not field quantities (pedersen1991).
 
-    References:
-        gemant1932; kreuger1989; kuffel2000 (PD-measurement chapter).
+    References
+    ----------
+    gemant1932; kreuger1989; kuffel2000 (PD-measurement chapter).
     """
     dia = _positive("diameter", diameter, "m")
     t = _positive("height", height, "m")
@@ -112,17 +121,23 @@ def flat_void_capacitances(
 def void_voltage_ratio(c_b: npt.ArrayLike, c_c: npt.ArrayLike) -> float | np.ndarray:
     """Ratio k of void voltage to applied voltage before any discharge (stiff source): k = C_b/(C_b + C_c).
 
-    Parameters:
-        c_b: capacitance of the solid in series with the void [F]
-        c_c: capacitance of the void [F]
+    Parameters
+    ----------
+    c_b : array_like
+        capacitance of the solid in series with the void [F]
+    c_c : array_like
+        capacitance of the void [F]
 
-    Returns:
+    Returns
+    -------
+    float or numpy.ndarray
         k, in (0, 1) [-]
 
     Validity: three-capacitance network, stiff source, no discharge yet, no leakage; C_a does not enter.
 
-    References:
-        kreuger1989; kuffel2000; gemant1932.
+    References
+    ----------
+    kreuger1989; kuffel2000; gemant1932.
     """
     b = _positive("c_b", c_b, "F")
     c = _positive("c_c", c_c, "F")
@@ -150,22 +165,30 @@ def spheroid_network_equivalent(
     same height and the same volume (area S = Ω/h = (2/3)·π D²/4): C_b → εr ε0 S/d, k → εr h/d,
     C_c → ε0 S/h, i.e. :func:`flat_void_capacitances` within O(h/d) and O(εr h/D).
 
-    Parameters:
-        diameter: void diameter across the field D [m]
-        height: void height along the field h, < thickness [m]
-        thickness: electrode spacing d [m]
-        permittivity: relative permittivity of the host εr, >= 1 [-]
+    Parameters
+    ----------
+    diameter : array_like
+        void diameter across the field D [m]
+    height : array_like
+        void height along the field h, < thickness [m]
+    thickness : array_like
+        electrode spacing d [m]
+    permittivity : array_like
+        relative permittivity of the host εr, >= 1 [-]
 
-    Returns:
+    Returns
+    -------
+    NetworkEquivalent
         NetworkEquivalent(c_b [F], c_c [F], k [-]).
 
     Validity: as :func:`pdvoid.physics.geometry.induced_charge_per_field` (void small compared with its
     distance to the electrodes, uniform counter-field, homogeneous linear host, plane electrodes). A void so
     large that f h/d >= 1 violates it and is rejected.
 
-    References:
-        crichton1989; pedersen1991 (induced charge); kreuger1989, gemant1932 (network); derived here
-        (k = f h/d).
+    References
+    ----------
+    crichton1989; pedersen1991 (induced charge); kreuger1989, gemant1932 (network); derived here
+    (k = f h/d).
     """
     dia = _positive("diameter", diameter, "m")
     h = _positive("height", height, "m")
@@ -194,18 +217,24 @@ def apparent_charge(c_b: npt.ArrayLike, delta_v: npt.ArrayLike) -> float | np.nd
     The charge the source must deliver to restore the test-object voltage when the void voltage changes by
     ΔV; it is the factor k = C_b/(C_b + C_c) smaller than the charge change of the void network.
 
-    Parameters:
-        c_b: capacitance of the solid in series with the void [F]
-        delta_v: change of void voltage in the discharge, V_i − V_r with the polarity of the void voltage [V]
+    Parameters
+    ----------
+    c_b : array_like
+        capacitance of the solid in series with the void [F]
+    delta_v : array_like
+        change of void voltage in the discharge, V_i − V_r with the polarity of the void voltage [V]
 
-    Returns:
+    Returns
+    -------
+    float or numpy.ndarray
         apparent charge [C], signed.
 
     Validity: three-capacitance network; the measured charge equals q_a only after calibration of the whole
     circuit (iec60270); finite coupling capacitance lowers it by C_k/(C_a + C_k).
 
-    References:
-        kreuger1989; kuffel2000; iec60270 (definition of apparent charge).
+    References
+    ----------
+    kreuger1989; kuffel2000; iec60270 (definition of apparent charge).
     """
     b = _positive("c_b", c_b, "F")
     dv = _checked("delta_v", delta_v, -math.inf, low_open=True, unit="V")
@@ -227,19 +256,27 @@ def discharge_energy(
     Equivalently W = ½ q_a U_inc (1 + V_r/V_i) with q_a = C_b (V_i − V_r) and U_inc = V_i/k the applied
     voltage at inception; for V_r = 0 the textbook ½ q_a U_inc.
 
-    Parameters:
-        c_b: capacitance of the solid in series with the void [F]
-        c_c: capacitance of the void [F]
-        inception_voltage: void voltage at which the discharge starts V_i, > 0 [V]
-        residual_voltage: void voltage after the discharge V_r, in [0, V_i) [V]
+    Parameters
+    ----------
+    c_b : array_like
+        capacitance of the solid in series with the void [F]
+    c_c : array_like
+        capacitance of the void [F]
+    inception_voltage : float
+        void voltage at which the discharge starts V_i, > 0 [V]
+    residual_voltage : float
+        void voltage after the discharge V_r, in [0, V_i) [V]
 
-    Returns:
+    Returns
+    -------
+    float or numpy.ndarray
         energy per discharge [J]
 
     Validity: three-capacitance network, stiff source (V_a constant during the discharge).
 
-    References:
-        kreuger1989; kuffel2000; derived (physics brief §1.3).
+    References
+    ----------
+    kreuger1989; kuffel2000; derived (physics brief §1.3).
     """
     b = _positive("c_b", c_b, "F")
     c = _positive("c_c", c_c, "F")
@@ -273,19 +310,26 @@ def lag_free_discharges_per_cycle(
     with the full amplitude applied at once. The steady state depends on history: other initial charge can
     give 4·n1 ± 2 per cycle.
 
-    Parameters:
-        peak_void_voltage: peak void voltage without discharges A = k V_m, >= 0 [V]
-        inception_voltage: void inception voltage V_i, > 0 [V]
-        residual_voltage: void residual voltage V_r, in [0, V_i) [V]
+    Parameters
+    ----------
+    peak_void_voltage : float
+        peak void voltage without discharges A = k V_m, >= 0 [V]
+    inception_voltage : float
+        void inception voltage V_i, > 0 [V]
+    residual_voltage : float
+        void residual voltage V_r, in [0, V_i) [V]
 
-    Returns:
+    Returns
+    -------
+    int
         discharges per cycle (whole number, multiple of 4) [-]
 
     Validity: the assumptions above; independent of frequency.
 
-    References:
-        derived (physics brief §1.4, checked against exact event simulation); model of kreuger1989,
-        kuffel2000.
+    References
+    ----------
+    derived (physics brief §1.4, checked against exact event simulation); model of kreuger1989,
+    kuffel2000.
     """
     return 4 * _quarter_count(peak_void_voltage, inception_voltage, residual_voltage)
 
@@ -301,18 +345,25 @@ def lag_free_phases_deg(
     at φ_j + 180°. The exact sine is <= 1 by the definition of n1; a rounding excess of a few ulps at an exact
     integer ratio is set to 1.
 
-    Parameters:
-        peak_void_voltage: peak void voltage without discharges A = k V_m, >= 0 [V]
-        inception_voltage: void inception voltage V_i, > 0 [V]
-        residual_voltage: void residual voltage V_r, in [0, V_i) [V]
+    Parameters
+    ----------
+    peak_void_voltage : float
+        peak void voltage without discharges A = k V_m, >= 0 [V]
+    inception_voltage : float
+        void inception voltage V_i, > 0 [V]
+    residual_voltage : float
+        void residual voltage V_r, in [0, V_i) [V]
 
-    Returns:
+    Returns
+    -------
+    numpy.ndarray
         phases in ascending order [deg]; empty when A < V_i.
 
     Validity: the assumptions of :func:`lag_free_discharges_per_cycle`.
 
-    References:
-        derived (physics brief §1.4); model of kreuger1989, kuffel2000.
+    References
+    ----------
+    derived (physics brief §1.4); model of kreuger1989, kuffel2000.
     """
     n1 = _quarter_count(peak_void_voltage, inception_voltage, residual_voltage)
     a = check_real("peak_void_voltage", peak_void_voltage)

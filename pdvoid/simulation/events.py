@@ -22,16 +22,28 @@ __all__ = ["Events", "as_events"]
 class Events:
     """Discharge events over an observation of whole AC cycles.
 
-    Attributes (SI):
-        time: event times from the start of the observation [s]; NaN where unknown (phase-only data).
-        phase_deg: phase from the positive-going zero crossing of the applied voltage [deg], in [0, 360).
-        cycle: index of the AC cycle each event falls in [-] (float array holding whole numbers).
-        charge: apparent charge, signed [C].
-        voltage: instantaneous applied voltage at each event [V]; NaN where unknown.
-        frequency: supply frequency [Hz].
-        cycles: number of AC cycles observed [-] (the reference time is cycles / frequency).
-        field_before, field_after: void field just before and after each event [V/m]; NaN where unknown.
-        label: free text (e.g. "simulated", "measured (synthetic demo data)").
+    Units: SI.
+
+    Attributes
+    ----------
+    time : numpy.ndarray or None
+        event times from the start of the observation [s]; NaN where unknown (phase-only data).
+    phase_deg : numpy.ndarray
+        phase from the positive-going zero crossing of the applied voltage [deg], in [0, 360).
+    cycle : numpy.ndarray or None
+        index of the AC cycle each event falls in [-] (float array holding whole numbers).
+    charge : numpy.ndarray
+        apparent charge, signed [C].
+    voltage : numpy.ndarray or None
+        instantaneous applied voltage at each event [V]; NaN where unknown.
+    frequency : float
+        supply frequency [Hz].
+    cycles : float
+        number of AC cycles observed [-] (the reference time is cycles / frequency).
+    field_before, field_after : numpy.ndarray or None
+        void field just before and after each event [V/m]; NaN where unknown.
+    label : str
+        free text (e.g. "simulated", "measured (synthetic demo data)").
     """
 
     phase_deg: np.ndarray

@@ -168,24 +168,36 @@ def parallel_map(
 ) -> list[Any]:
     """``[func(x) for x in items]``, in order, run serially, on local processes or on a Dask cluster.
 
-    Args:
-        func: a function of one argument, picklable (defined at module level, or a functools.partial of one)
-            for the process and Dask backends; exceptions it raises stop the map and are re-raised here
-            (tasks not yet started are cancelled).
-        items: the arguments, picklable.
-        client: None for local execution; a ``dask.distributed.Client``, or a scheduler address string
-            such as ``"tcp://127.0.0.1:8786"`` (a client is opened and closed for this call), to run on Dask.
-        workers: local worker processes [-]; None uses every core this process may use; 1 runs serially in
-            this process. Ignored with ``client``.
-        progress: show a progress bar (tqdm, notebook-aware).
-        description: label of the progress bar.
+    Parameters
+    ----------
+    func : Callable[[Any], Any]
+        a function of one argument, picklable (defined at module level, or a functools.partial of one)
+        for the process and Dask backends; exceptions it raises stop the map and are re-raised here
+        (tasks not yet started are cancelled).
+    items : Iterable[Any]
+        the arguments, picklable.
+    client : object, optional
+        None for local execution; a ``dask.distributed.Client``, or a scheduler address string
+        such as ``"tcp://127.0.0.1:8786"`` (a client is opened and closed for this call), to run on Dask.
+    workers : int, optional
+        local worker processes [-]; None uses every core this process may use; 1 runs serially in
+        this process. Ignored with ``client``.
+    progress : bool, optional
+        show a progress bar (tqdm, notebook-aware).
+    description : str, optional
+        label of the progress bar.
 
-    Returns:
+    Returns
+    -------
+    list[Any]
         The results in the order of ``items``.
 
-    Raises:
-        InputError: bad ``workers`` or ``client``.
-        MissingDependencyError: (an ImportError) Dask or tqdm is needed and not installed.
+    Raises
+    ------
+    InputError
+        bad ``workers`` or ``client``.
+    MissingDependencyError
+        (an ImportError) Dask or tqdm is needed and not installed.
     """
     if not callable(func):
         raise InputError(f"func must be callable; got {type(func).__name__}")

@@ -39,9 +39,12 @@ class VoidRunner:
     The generator is numba's (process-global per thread): run one VoidRunner at a time per thread, or the
     streams interleave and runs are no longer reproducible.
 
-    Args:
-        scenario: the void and its supply; ``run(scale=...)`` multiplies the supply waveform.
-        seed: seed of the random generator [-].
+    Parameters
+    ----------
+    scenario : Scenario
+        the void and its supply; ``run(scale=...)`` multiplies the supply waveform.
+    seed : int, optional
+        seed of the random generator [-].
     """
 
     def __init__(self, scenario: Scenario, seed: int = 0, *, _args: KernelArguments | None = None) -> None:
@@ -118,20 +121,32 @@ def simulate(
 ) -> Result:
     """Simulate ``cycles`` AC cycles of ``scenario`` from an uncharged void at the positive-going zero crossing.
 
-    Args:
-        scenario: the insulation, void, supply and model.
-        cycles: number of whole AC cycles [-], 1 to 1e9.
-        seed: seed of the random generator [-]; the same seed gives bit-identical results.
-        histogram: True to keep only the phase-resolved counts and the IEC 60270 sums (memory independent of
-            the number of events); False to keep every event.
-        phase_bins: phase bins over 0..360 deg for the histogram mode [-].
-        charge_edges: signed apparent-charge bin edges for the histogram mode [C], increasing; events outside
-            are counted in ``Histogram.below`` / ``above``. Default: symmetric log bins around the lag-free charge.
-        progress: called as progress(cycles_done, cycles) after each chunk.
-        should_stop: polled after each chunk; True ends the run early (the result says how many cycles ran).
-        chunk_cycles: cycles per kernel call (default: chosen from the event bound).
+    Parameters
+    ----------
+    scenario : Scenario
+        the insulation, void, supply and model.
+    cycles : int, optional
+        number of whole AC cycles [-], 1 to 1e9.
+    seed : int, optional
+        seed of the random generator [-]; the same seed gives bit-identical results.
+    histogram : bool, optional
+        True to keep only the phase-resolved counts and the IEC 60270 sums (memory independent of
+        the number of events); False to keep every event.
+    phase_bins : int, optional
+        phase bins over 0..360 deg for the histogram mode [-].
+    charge_edges : numpy.ndarray, optional
+        signed apparent-charge bin edges for the histogram mode [C], increasing; events outside
+        are counted in ``Histogram.below`` / ``above``. Default: symmetric log bins around the lag-free charge.
+    progress : Callable[[int, int], None], optional
+        called as progress(cycles_done, cycles) after each chunk.
+    should_stop : Callable[[], bool], optional
+        polled after each chunk; True ends the run early (the result says how many cycles ran).
+    chunk_cycles : int, optional
+        cycles per kernel call (default: chosen from the event bound).
 
-    Returns:
+    Returns
+    -------
+    Result
         :class:`pdvoid.simulation.results.Result`.
     """
     if not isinstance(scenario, Scenario):

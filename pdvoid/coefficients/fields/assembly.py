@@ -43,26 +43,45 @@ _MIN_CUT = 1e-6  # smallest fraction of a link left between a cell centre and a 
 class Assembly:
     """The assembled linear system and what is needed to evaluate charges and mean fields.
 
-    Attributes (lengths in m, conductances in m, i.e. relative permittivity x m):
-        grid, layout: the inputs.
-        matrix: sparse (n, n) system matrix A (CSC).
-        coupling: dense (n, 2) matrix B: column e couples the unknowns to electrode e (ground, high).
-        cell_index: (nr*nz,) unknown index of each cell, -1 for conductor cells.
-        cell_conductor: (nr*nz,) -1 free, 0 ground, 1 high, 2+k floating conductor k.
-        n_free: number of free cells; unknowns n_free.. are the floating potentials.
-        electrode_links: per electrode, (unknown indices, conductances) of the links ending on it.
-        polarization_source: (n,) load of a unit uniform axial free polarisation in the void per unknown,
-            Σ ± A ω over the axial links at that unknown (ω: the void share of the link's potential drop) [m^2];
-            the same vector weighs the potentials in the mean axial void field, so reciprocity is exact.
-        polarization_deposit: (2,) the same for the parts of the void wall that are electrode surface [m^2].
-        void_volume: Σ χ A Δz over axial links: the void volume in the quadrature of the mean field [m^3].
-        cr: (nr+1, nz) radial-face conductances (zero on axis, outer radius and inside conductors) [m].
-        cz: (nr, nz+1) axial-face conductances including the electrode faces [m].
-        cut_r, cut_z: fraction of each link inside the dielectric (1 unless it ends on a conductor) [-].
-        void_r, void_z: fraction of each link's length inside the void, averaged over its face [-].
-        drop_r, drop_z: fraction of each link's potential drop across its void part (series split for the
-            field normal to the outline, length split for the tangential field) [-].
-        permittivity: (nr, nz) relative permittivity at the cell centres [-].
+    Units: lengths in m, conductances in m, i.e. relative permittivity x m.
+
+    Attributes
+    ----------
+    grid, layout : Grid and Layout
+        the inputs.
+    matrix : sp.csc_matrix
+        sparse (n, n) system matrix A (CSC).
+    coupling : numpy.ndarray
+        dense (n, 2) matrix B: column e couples the unknowns to electrode e (ground, high).
+    cell_index : numpy.ndarray
+        (nr*nz,) unknown index of each cell, -1 for conductor cells.
+    cell_conductor : numpy.ndarray
+        (nr*nz,) -1 free, 0 ground, 1 high, 2+k floating conductor k.
+    n_free : int
+        number of free cells; unknowns n_free.. are the floating potentials.
+    electrode_links : tuple
+        per electrode, (unknown indices, conductances) of the links ending on it.
+    polarization_source : numpy.ndarray
+        (n,) load of a unit uniform axial free polarisation in the void per unknown,
+        Σ ± A ω over the axial links at that unknown (ω: the void share of the link's potential drop) [m^2];
+        the same vector weighs the potentials in the mean axial void field, so reciprocity is exact.
+    polarization_deposit : numpy.ndarray
+        (2,) the same for the parts of the void wall that are electrode surface [m^2].
+    void_volume : float
+        Σ χ A Δz over axial links: the void volume in the quadrature of the mean field [m^3].
+    cr : numpy.ndarray
+        (nr+1, nz) radial-face conductances (zero on axis, outer radius and inside conductors) [m].
+    cz : numpy.ndarray
+        (nr, nz+1) axial-face conductances including the electrode faces [m].
+    cut_r, cut_z : numpy.ndarray
+        fraction of each link inside the dielectric (1 unless it ends on a conductor) [-].
+    void_r, void_z : numpy.ndarray
+        fraction of each link's length inside the void, averaged over its face [-].
+    drop_r, drop_z : numpy.ndarray
+        fraction of each link's potential drop across its void part (series split for the
+        field normal to the outline, length split for the tangential field) [-].
+    permittivity : numpy.ndarray
+        (nr, nz) relative permittivity at the cell centres [-].
     """
 
     grid: Grid
@@ -232,10 +251,14 @@ def _link_permittivity(
 def assemble(layout: Layout, grid: Grid, *, samples: int = 4) -> Assembly:
     """Assemble the finite-volume system of ``layout`` on ``grid`` (fully vectorised).
 
-    Parameters:
-        layout: the field problem [-].
-        grid: the grid [-].
-        samples: lines across each face used to average the permittivity where an outline passes, >= 1 [-].
+    Parameters
+    ----------
+    layout : Layout
+        the field problem [-].
+    grid : Grid
+        the grid [-].
+    samples : int, optional
+        lines across each face used to average the permittivity where an outline passes, >= 1 [-].
     """
     samples = check_int("samples", samples, 1, 64)
     if not isinstance(layout, Layout):

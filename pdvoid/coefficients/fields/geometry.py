@@ -49,10 +49,14 @@ class Region(ABC):
 class Spheroid(Region):
     """A spheroid on the axis (sphere when diameter == height).
 
-    Attributes:
-        diameter: extent across the field (equatorial diameter 2a) [m].
-        height: extent along the field (polar diameter 2c) [m].
-        center: axial position of the centre above the ground electrode [m].
+    Attributes
+    ----------
+    diameter : float
+        extent across the field (equatorial diameter 2a) [m].
+    height : float
+        extent along the field (polar diameter 2c) [m].
+    center : float
+        axial position of the centre above the ground electrode [m].
     """
 
     diameter: float
@@ -85,11 +89,16 @@ class RoundedCylinder(Region):
     ``rim_radius == height / 2`` gives a disc with a fully rounded edge; ``rim_radius == height / 2 ==
     diameter / 2`` gives a sphere; ``rim_radius`` -> 0 gives a sharp-edged cylinder.
 
-    Attributes:
-        diameter: cylinder diameter [m].
-        height: cylinder height along the field [m].
-        center: axial position of the centre above the ground electrode [m].
-        rim_radius: radius of the rounded edge, 0 < rim_radius <= min(height, diameter) / 2 [m].
+    Attributes
+    ----------
+    diameter : float
+        cylinder diameter [m].
+    height : float
+        cylinder height along the field [m].
+    center : float
+        axial position of the centre above the ground electrode [m].
+    rim_radius : float
+        radius of the rounded edge, 0 < rim_radius <= min(height, diameter) / 2 [m].
     """
 
     diameter: float
@@ -129,10 +138,14 @@ class RoundedCylinder(Region):
 class Rod(Region):
     """A rod of radius ``tip_radius`` on the axis with a hemispherical tip: a needle or protrusion.
 
-    Attributes:
-        tip_radius: radius of the rod and of its hemispherical tip [m].
-        apex: axial position of the tip apex [m].
-        upward: True if the rod body extends upward from the apex (attached to the upper electrode) [-].
+    Attributes
+    ----------
+    tip_radius : float
+        radius of the rod and of its hemispherical tip [m].
+    apex : float
+        axial position of the tip apex [m].
+    upward : bool
+        True if the rod body extends upward from the apex (attached to the upper electrode) [-].
     """
 
     tip_radius: float
@@ -167,9 +180,12 @@ class Hyperboloid(Region):
     f (1 − η0²)/η0 = ``tip_radius``. This is the geometry behind the handbook point-plane formula (see
     :func:`pdvoid.coefficients.fields.pointplane.hyperboloid_tip_field`).
 
-    Attributes:
-        tip_radius: radius of curvature at the apex [m].
-        apex: gap between apex and ground plane [m].
+    Attributes
+    ----------
+    tip_radius : float
+        radius of curvature at the apex [m].
+    apex : float
+        gap between apex and ground plane [m].
     """
 
     tip_radius: float
@@ -205,9 +221,12 @@ class Hyperboloid(Region):
 class Slab(Region):
     """All radii between two axial positions: a dielectric layer.
 
-    Attributes:
-        bottom: lower face [m].
-        top: upper face, > bottom [m].
+    Attributes
+    ----------
+    bottom : float
+        lower face [m].
+    top : float
+        upper face, > bottom [m].
     """
 
     bottom: float
@@ -235,9 +254,12 @@ class Outline(Region):
     Points on the axis close the outline there. The level function is the signed distance to the polygon
     (negative inside by the even–odd rule).
 
-    Parameters:
-        r: radial coordinates of the polygon vertices, >= 0 [m].
-        z: axial coordinates of the polygon vertices [m].
+    Parameters
+    ----------
+    r : array_like
+        radial coordinates of the polygon vertices, >= 0 [m].
+    z : array_like
+        axial coordinates of the polygon vertices [m].
     """
 
     def __init__(self, r: npt.ArrayLike, z: npt.ArrayLike) -> None:
@@ -288,7 +310,9 @@ def crossing(
 
     The level function must change sign between the two ends of every segment. Bisection.
 
-    Returns:
+    Returns
+    -------
+    numpy.ndarray
         Fraction t in [0, 1] of the way from the first end to the crossing [-].
     """
     r0, z0, r1, z1 = (np.asarray(a, float) for a in (r0, z0, r1, z1))

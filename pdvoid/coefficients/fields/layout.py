@@ -35,16 +35,25 @@ def _tuple(name: str, value: Any) -> tuple[Any, ...]:
 class Layout:
     """A field problem: plane electrodes, dielectrics, an optional gas void, shaped and floating conductors.
 
-    Attributes:
-        thickness: electrode gap; ground at z = 0, high voltage at z = thickness [m].
-        outer_radius: radius of the modelled disc; zero normal field there [m].
-        permittivity: relative permittivity of the background insulation [-].
-        dielectrics: (region, relative permittivity) pairs; later entries override earlier ones [-].
-        void: the gas-filled void, or None; a void reaching through an electrode plane is cut by it (a
-            hemisphere centred on the plane is a hemispherical void on that electrode) [-].
-        gas_permittivity: relative permittivity of the gas in the void [-].
-        conductors: (region, electrode name) pairs: shaped parts of an electrode, e.g. a needle [-].
-        floating: (region, net charge) pairs: conductive inclusions with a fixed net charge [C].
+    Attributes
+    ----------
+    thickness : float
+        electrode gap; ground at z = 0, high voltage at z = thickness [m].
+    outer_radius : float
+        radius of the modelled disc; zero normal field there [m].
+    permittivity : float
+        relative permittivity of the background insulation [-].
+    dielectrics : tuple
+        (region, relative permittivity) pairs; later entries override earlier ones [-].
+    void : Region or None
+        the gas-filled void, or None; a void reaching through an electrode plane is cut by it (a
+        hemisphere centred on the plane is a hemispherical void on that electrode) [-].
+    gas_permittivity : float
+        relative permittivity of the gas in the void [-].
+    conductors : tuple
+        (region, electrode name) pairs: shaped parts of an electrode, e.g. a needle [-].
+    floating : tuple
+        (region, net charge) pairs: conductive inclusions with a fixed net charge [C].
     """
 
     thickness: float
@@ -201,17 +210,27 @@ def specimen_layout(
 ) -> Layout:
     """A :class:`Layout` from plain geometry arguments: slab, void, needle and conductive spheres.
 
-    Parameters:
-        thickness: electrode gap [m].
-        permittivity: relative permittivity of the insulation, or (layer thickness [m], εr) pairs listed from
-            the ground electrode upward [-].
-        void: the gas void (e.g. :class:`~pdvoid.coefficients.fields.geometry.Spheroid`), or None [-].
-        gas_permittivity: relative permittivity of the void gas [-].
-        needle_tip_radius: radius of a needle (rod with hemispherical tip) on ``needle_electrode`` [m].
-        needle_length: length of that needle from its electrode to the apex, < thickness [m].
-        needle_electrode: "high" (needle hangs from the upper electrode) or "ground" (stands on the lower) [-].
-        inclusions: (diameter [m], centre height [m]) of uncharged floating conductive spheres [-].
-        outer_radius: radius of the modelled disc [m]; default: the largest feature radius + 2 x thickness.
+    Parameters
+    ----------
+    thickness : float
+        electrode gap [m].
+    permittivity : float or Sequence[tuple[float, float]]
+        relative permittivity of the insulation, or (layer thickness [m], εr) pairs listed from
+        the ground electrode upward [-].
+    void : Region, optional
+        the gas void (e.g. :class:`~pdvoid.coefficients.fields.geometry.Spheroid`), or None [-].
+    gas_permittivity : float, optional
+        relative permittivity of the void gas [-].
+    needle_tip_radius : float, optional
+        radius of a needle (rod with hemispherical tip) on ``needle_electrode`` [m].
+    needle_length : float, optional
+        length of that needle from its electrode to the apex, < thickness [m].
+    needle_electrode : str, optional
+        "high" (needle hangs from the upper electrode) or "ground" (stands on the lower) [-].
+    inclusions : Sequence[tuple[float, float]], optional
+        (diameter [m], centre height [m]) of uncharged floating conductive spheres [-].
+    outer_radius : float, optional
+        radius of the modelled disc [m]; default: the largest feature radius + 2 x thickness.
     """
     thickness = check_positive("thickness", thickness, "m")
     background, slabs = _layers(thickness, permittivity)
@@ -277,12 +296,18 @@ def grid_for(
 ) -> Grid:
     """A graded grid for ``layout``: fine over the void and conductors, coarser towards the edges.
 
-    Parameters:
-        layout: the field problem [-].
-        cells: (nr, nz) numbers of cells; if None, the fine spacing is the smallest feature / resolution [-].
-        resolution: cells across the smallest feature (void height or diameter, tip radius) [-].
-        growth: neighbour ratio of cell sizes away from the features [-].
-        max_ratio: largest coarse-to-fine spacing ratio [-].
+    Parameters
+    ----------
+    layout : Layout
+        the field problem [-].
+    cells : tuple[int, int], optional
+        (nr, nz) numbers of cells; if None, the fine spacing is the smallest feature / resolution [-].
+    resolution : float, optional
+        cells across the smallest feature (void height or diameter, tip radius) [-].
+    growth : float, optional
+        neighbour ratio of cell sizes away from the features [-].
+    max_ratio : float, optional
+        largest coarse-to-fine spacing ratio [-].
     """
     if not isinstance(layout, Layout):
         raise InputError(f"layout must be a Layout; got {type(layout).__name__}")

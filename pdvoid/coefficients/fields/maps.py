@@ -143,9 +143,12 @@ def region_mask(solver: FieldSolver, where: str | np.ndarray = "dielectric") -> 
 class SurfaceField:
     """Field on a conductor surface at the points where grid lines cross it.
 
-    Attributes:
-        r, z: crossing points [m].
-        magnitude: |E| at each point (the grid-line component divided by the cosine of the surface normal) [V/m].
+    Attributes
+    ----------
+    r, z : numpy.ndarray
+        crossing points [m].
+    magnitude : numpy.ndarray
+        |E| at each point (the grid-line component divided by the cosine of the surface normal) [V/m].
     """
 
     r: np.ndarray
@@ -228,10 +231,14 @@ def surface_field(potential: Potential, conductor: str | int, *, min_cosine: flo
     (second-order one-sided difference). Dividing by the cosine between the line and the surface normal gives
     |E| (the field is normal to a conductor). Points where that cosine is below ``min_cosine`` are skipped.
 
-    Parameters:
-        potential: a solved potential [V].
-        conductor: "high", "ground" (their shaped parts) or the index of a floating conductor [-].
-        min_cosine: smallest accepted cosine between grid line and surface normal, in (0, 1] [-].
+    Parameters
+    ----------
+    potential : Potential
+        a solved potential [V].
+    conductor : str or int
+        "high", "ground" (their shaped parts) or the index of a floating conductor [-].
+    min_cosine : float, optional
+        smallest accepted cosine between grid line and surface normal, in (0, 1] [-].
     """
     if not isinstance(potential, Potential):
         raise InputError(f"potential must be a Potential; got {type(potential).__name__}")
@@ -284,10 +291,14 @@ def surface_field(potential: Potential, conductor: str | int, *, min_cosine: flo
 def critical_region(potential: Potential, critical_field: float, where: str | np.ndarray = "dielectric") -> np.ndarray:
     """Boolean (nr, nz) mask of cells in ``where`` whose |E| exceeds ``critical_field``.
 
-    Parameters:
-        potential: a solved potential [V].
-        critical_field: field threshold [V/m].
-        where: "all", "dielectric", "void", "solid" or a boolean mask [-].
+    Parameters
+    ----------
+    potential : Potential
+        a solved potential [V].
+    critical_field : float
+        field threshold [V/m].
+    where : str or numpy.ndarray, optional
+        "all", "dielectric", "void", "solid" or a boolean mask [-].
     """
     ec = check_positive("critical_field", critical_field, "V/m")
     mask = region_mask(potential.solver, where)
@@ -304,13 +315,20 @@ def lowest_voltage(
     conductors are included (they are the maxima at a needle tip or on an inclusion); cell-centre values
     underestimate a surface maximum on coarse grids.
 
-    Parameters:
-        solver: the factorised field problem [-].
-        critical_field: field threshold [V/m].
-        where: "all", "dielectric", "void", "solid" or a boolean mask [-].
-        include_surface: include conductor surface fields [-].
+    Parameters
+    ----------
+    solver : FieldSolver
+        the factorised field problem [-].
+    critical_field : float
+        field threshold [V/m].
+    where : str or numpy.ndarray, optional
+        "all", "dielectric", "void", "solid" or a boolean mask [-].
+    include_surface : bool, optional
+        include conductor surface fields [-].
 
-    Returns:
+    Returns
+    -------
+    float
         Voltage magnitude [V].
     """
     ec = check_positive("critical_field", critical_field, "V/m")

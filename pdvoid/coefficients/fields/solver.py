@@ -28,10 +28,14 @@ __all__ = ["FieldSolver", "Potential"]
 class Potential:
     """A solved potential.
 
-    Attributes:
-        solver: the :class:`FieldSolver` that produced it.
-        unknowns: the solution vector (free cells, then floating conductors) [V].
-        voltages: (ground, high) electrode potentials [V].
+    Attributes
+    ----------
+    solver : FieldSolver
+        the :class:`FieldSolver` that produced it.
+    unknowns : numpy.ndarray
+        the solution vector (free cells, then floating conductors) [V].
+    voltages : tuple[float, float]
+        (ground, high) electrode potentials [V].
     """
 
     solver: FieldSolver
@@ -91,9 +95,12 @@ class Potential:
 class FieldSolver:
     """Assemble and factorise a layout once; solve for many sources.
 
-    Parameters:
-        layout: the field problem [-].
-        grid: the grid; its extent must match the layout [-].
+    Parameters
+    ----------
+    layout : Layout
+        the field problem [-].
+    grid : Grid
+        the grid; its extent must match the layout [-].
     """
 
     def __init__(self, layout: Layout, grid: Grid, *, samples: int = 4) -> None:
@@ -115,10 +122,14 @@ class FieldSolver:
     ) -> Potential:
         """Potential for given electrode voltages, free charge per unknown and floating-conductor charges.
 
-        Parameters:
-            voltages: {"ground": V0, "high": V1}; missing electrodes are at 0 [V].
-            charge: free charge on each unknown (cells, then floating conductors) [C].
-            floating_charges: net charge of each floating conductor; default the layout's values [C].
+        Parameters
+        ----------
+        voltages : Mapping[str, float], optional
+            {"ground": V0, "high": V1}; missing electrodes are at 0 [V].
+        charge : numpy.ndarray, optional
+            free charge on each unknown (cells, then floating conductors) [C].
+        floating_charges : numpy.ndarray, optional
+            net charge of each floating conductor; default the layout's values [C].
         """
         asm = self.assembly
         v = np.zeros(2)
@@ -168,10 +179,11 @@ class FieldSolver:
     def induced_charge(self, charge: np.ndarray, electrode: str = "high") -> float:
         """Charge induced on a grounded ``electrode`` by free charge on the unknowns: q = −Σ Q λ [C].
 
-        References:
-            Pedersen's λ-function concept (Green's reciprocity): A. Pedersen, G. C. Crichton, I. W. McAllister,
-            'The theory and measurement of partial discharge transients', IEEE Trans. Electr. Insul. 26(3)
-            (1991) 487-497 (from memory, bibliography key ``pedersen1991``).
+        References
+        ----------
+        Pedersen's λ-function concept (Green's reciprocity): A. Pedersen, G. C. Crichton, I. W. McAllister,
+        'The theory and measurement of partial discharge transients', IEEE Trans. Electr. Insul. 26(3)
+        (1991) 487-497 (from memory, bibliography key ``pedersen1991``).
         """
         q = check_array("charge", charge)
         if q.size != self.assembly.n_unknowns:
