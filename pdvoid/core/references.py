@@ -19,6 +19,18 @@ __all__ = ["Reference", "REFERENCES", "HasReferences", "cite", "get_reference"]
 
 @dataclass(frozen=True)
 class Reference:
+    """One bibliography entry.
+
+    Attributes
+    ----------
+    key : str
+        Short key used in code and results, e.g. ``"niemeyer1995"``.
+    citation : str
+        The full citation.
+    status : str
+        ``"confirmed"``, ``"derived"``, ``"from memory"`` or ``"common practice"`` (see the module docstring).
+    """
+
     key: str
     citation: str
     status: str  # confirmed | derived | from memory | common practice
@@ -139,7 +151,23 @@ REFERENCES: dict[str, Reference] = dict(
 
 
 def get_reference(key: str) -> Reference:
-    """The :class:`Reference` for ``key``; :class:`InputError` for an unknown key."""
+    """The :class:`Reference` for ``key``; :class:`InputError` for an unknown key.
+
+    Parameters
+    ----------
+    key : str
+        A key of :data:`REFERENCES`.
+
+    Returns
+    -------
+    Reference
+        The entry.
+
+    Raises
+    ------
+    InputError
+        For an unknown key, listing the known ones.
+    """
     try:
         return REFERENCES[key]
     except KeyError:
@@ -151,11 +179,28 @@ class HasReferences(Protocol):
     """Anything that records the reference keys it relied on (a Result, Coefficients)."""
 
     @property
+                                           """The reference keys relied on, in order of first use."""
     def references(self) -> Iterable[str]: ...
 
 
 def cite(source: str | Iterable[str] | HasReferences) -> str:
-    """Full citations for a result, a scenario's coefficients, or an iterable of keys, one per line."""
+    """Full citations for a result, a scenario's coefficients, or an iterable of keys, one per line.
+
+    Parameters
+    ----------
+    source : str or Iterable[str] or HasReferences
+        A key, several keys, or an object with a ``references`` attribute (a Result, Coefficients).
+
+    Returns
+    -------
+    str
+        One full citation per line, each key once, in order of first use.
+
+    Raises
+    ------
+    InputError
+        For an unknown key or a ``source`` that is none of these.
+    """
     keys: Iterable[str]
     if isinstance(source, str):
         keys = [source]
