@@ -179,8 +179,9 @@ class HasReferences(Protocol):
     """Anything that records the reference keys it relied on (a Result, Coefficients)."""
 
     @property
-                                           """The reference keys relied on, in order of first use."""
-    def references(self) -> Iterable[str]: ...
+    def references(self) -> Iterable[str]:
+        """The reference keys relied on, in order of first use."""
+        ...
 
 
 def cite(source: str | Iterable[str] | HasReferences) -> str:

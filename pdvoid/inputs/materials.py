@@ -389,12 +389,24 @@ def _lookup(kind: str, name: object, table: Mapping[str, Any], origin: str) -> A
 
 
 def list_materials() -> list[str]:
-    """Names of the built-in host materials, sorted."""
+    """Names of the built-in host materials, sorted.
+
+    Returns
+    -------
+    list of str
+        The material keys.
+    """
     return sorted(_builtin_materials())
 
 
 def list_gases() -> list[str]:
-    """Names of the built-in gases, sorted."""
+    """Names of the built-in gases, sorted.
+
+    Returns
+    -------
+    list of str
+        The gas keys.
+    """
     return sorted(_builtin_gases())
 
 
@@ -407,6 +419,11 @@ def get_material(name: str, path: str | os.PathLike | None = None) -> Material:
         material key, e.g. "epoxy_cast", "xlpe".
     path : str or os.PathLike, optional
         optional user materials file [TOML].
+
+    Returns
+    -------
+    Material
+        The material with its values and their sources.
 
     Raises
     ------
@@ -427,6 +444,11 @@ def get_gas(name: str, path: str | os.PathLike | None = None) -> GasData:
         gas key, e.g. "air", "nitrogen", "sf6".
     path : str or os.PathLike, optional
         optional user gases file [TOML].
+
+    Returns
+    -------
+    GasData
+        The gas with its parameter set and sources.
 
     Raises
     ------

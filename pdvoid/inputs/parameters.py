@@ -184,7 +184,13 @@ class Sine:
         _set(self, "harmonics", tuple(hs))
 
     def fourier(self) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
-        """(orders, a, b) with V(t) = Σ a_m sin(m ω t) + b_m cos(m ω t) [V]."""
+        """(orders, a, b) with V(t) = Σ a_m sin(m ω t) + b_m cos(m ω t) [V].
+
+        Returns
+        -------
+        tuple of numpy.ndarray
+            ``(orders, a, b)``: harmonic orders m [-] and the sine and cosine amplitudes a_m, b_m [V].
+        """
         amp = math.sqrt(2.0) * self.rms
         orders = [1] + [h[0] for h in self.harmonics]
         a = [amp] + [amp * h[1] * math.cos(math.radians(h[2])) for h in self.harmonics]
@@ -193,6 +199,7 @@ class Sine:
 
     @property
     def is_pure(self) -> bool:
+        """True when every harmonic has zero amplitude (a plain sine)."""
         return all(h[1] == 0.0 for h in self.harmonics)
 
 
@@ -235,6 +242,20 @@ class Periodic:
             raise InputError(f"supply.max_harmonic must be a whole number in [1, {nyq}]; got {self.max_harmonic!r}")
 
     def fourier(self) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+        """(orders, a, b) with V(t) = Σ a_m sin(m ω t) + b_m cos(m ω t) [V], from the FFT of the samples.
+
+        Harmonics 1 to ``max_harmonic`` are kept.
+
+        Returns
+        -------
+        tuple of numpy.ndarray
+            ``(orders, a, b)``: harmonic orders m [-] and the sine and cosine amplitudes a_m, b_m [V].
+
+        Raises
+        ------
+        InputError
+            When the samples do not have zero mean (not an AC supply).
+        """
         n = self.samples.size
         c = np.fft.rfft(self.samples) / n
         if abs(c[0].real) > 1e-9 * np.max(np.abs(self.samples)):
@@ -258,6 +279,7 @@ class Periodic:
 
     @property
     def is_pure(self) -> bool:
+        """Always False: a sampled waveform is treated as a general periodic supply."""
         return False
 
     def __eq__(self, other: object) -> bool:
@@ -272,11 +294,46 @@ class Periodic:
 
 
 def check_seed(seed: object) -> int:
-    """A seed for the generator: a whole number in [0, 2**32 - 1]."""
+    """A seed for the generator: a whole number in [0, 2**32 - 1].
+
+    Parameters
+    ----------
+    seed : object
+        The seed to check (this function is the type gate; booleans and floats are refused).
+
+    Returns
+    -------
+    int
+        ``seed`` as a Python int.
+
+    Raises
+    ------
+    InputError
+        Unless ``seed`` is a whole number in [0, 4294967295].
+    """
     if isinstance(seed, bool) or not isinstance(seed, (int, np.integer)) or not 0 <= int(seed) < 2**32:
         raise InputError(f"seed must be a whole number in [0, 4294967295]; got {seed!r}")
     return int(seed)
 
 
 def real_or_none(name: str, value: object) -> float | None:
+    """None, or ``value`` checked as a finite real number.
+
+    Parameters
+    ----------
+    name : str
+        The parameter's name, used in the error message.
+    value : object
+        None or a number (this function is the type gate).
+
+    Returns
+    -------
+    float or None
+        ``value`` as a float, or None.
+
+    Raises
+    ------
+    InputError
+        For a value that is neither None nor a finite real number.
+    """
     return None if value is None else check_real(name, value)

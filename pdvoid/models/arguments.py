@@ -45,7 +45,18 @@ class KernelArguments:
     def max_events_per_cycle(self, scale: float = 1.0) -> int:
         """An upper bound on discharges in one cycle with the supply multiplied by ``scale`` (each discharge
         lowers |x| by at least x_inc - x_res; on every monotone piece x travels at most the swing of g·V plus
-        the decay of the deposited part)."""
+        the decay of the deposited part).
+
+        Parameters
+        ----------
+        scale : float, optional
+            Factor on the supply waveform [-].
+
+        Returns
+        -------
+        int
+            The bound [-].
+        """
         from pdvoid.inputs.waveform import evaluate
 
         v = scale * evaluate(self.seg_fracs, self.orders, self.a_coef, self.b_coef)
@@ -60,7 +71,19 @@ class KernelArguments:
 
 
 def supply_arrays(supply: Sine | Periodic) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray, bool]:
-    """(orders, a, b, breakpoints, pure_sine) for the kernel."""
+    """(orders, a, b, breakpoints, pure_sine) for the kernel.
+
+    Parameters
+    ----------
+    supply : Sine or Periodic
+        The supply.
+
+    Returns
+    -------
+    tuple
+        Harmonic orders [-], sine and cosine amplitudes [V], breakpoints of the monotone pieces as fractions of the
+        period [-], and whether the supply is a plain sine.
+    """
     orders, a, b = supply.fourier()
     pure = bool(supply.is_pure)
     if pure:
@@ -80,7 +103,20 @@ def cathode_rate(scenario: Scenario, polarity: float) -> float:
     electrode has the metal as its cathode in negative discharges, a void on the ground electrode in positive
     ones (electron drift against the field; the metal supplies electrons far more readily than the dielectric
     wall — the mechanism behind the asymmetric patterns of electrode-bounded cavities reported by Forssén &
-    Edin 2008, as summarised by Illias, Chen & Lewin 2011)."""
+    Edin 2008, as summarised by Illias, Chen & Lewin 2011).
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The scenario (its void position and model).
+    polarity : float
+        +1 or -1: the polarity of the discharge.
+
+    Returns
+    -------
+    float
+        The extra start-electron rate [1/s].
+    """
     position = scenario.void.position
     if position == "centred":
         return 0.0

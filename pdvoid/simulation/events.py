@@ -98,6 +98,7 @@ class Events:
 
     @property
     def count(self) -> int:
+        """Number of events [-]."""
         return int(self.charge.size)
 
     def __len__(self) -> int:
@@ -105,7 +106,23 @@ class Events:
 
 
 def as_events(obj: object) -> Events:
-    """Accept an :class:`Events`, a Result (anything with ``.events``) or raise :class:`InputError`."""
+    """Accept an :class:`Events`, a Result (anything with ``.events``) or raise :class:`InputError`.
+
+    Parameters
+    ----------
+    obj : object
+        An Events, or anything with an ``events`` attribute holding one (a Result, measured data).
+
+    Returns
+    -------
+    Events
+        The events.
+
+    Raises
+    ------
+    InputError
+        For anything else.
+    """
     if isinstance(obj, Events):
         return obj
     ev = getattr(obj, "events", None)

@@ -29,7 +29,13 @@ _stdlib_pools: dict[int, cf.ProcessPoolExecutor] = {}
 
 
 def local_workers() -> int:
-    """The number of cores this process may use [-] (CPU affinity and container limits respected)."""
+    """The number of cores this process may use [-] (CPU affinity and container limits respected).
+
+    Returns
+    -------
+    int
+        At least 1.
+    """
     if available("joblib"):
         import joblib
 
@@ -41,7 +47,20 @@ def local_workers() -> int:
 
 
 def backend_name(client: Any = None, workers: int | None = None) -> str:
-    """Which backend ``parallel_map`` would use: "serial", "loky", "processes" (stdlib) or "dask"."""
+    """Which backend ``parallel_map`` would use: "serial", "loky", "processes" (stdlib) or "dask".
+
+    Parameters
+    ----------
+    client : object, optional
+        As for :func:`parallel_map`: None, a Dask client or a scheduler address.
+    workers : int or None, optional
+        As for :func:`parallel_map`.
+
+    Returns
+    -------
+    str
+        ``"serial"``, ``"loky"``, ``"processes"`` or ``"dask"``.
+    """
     if client is not None:
         return "dask"
     if _resolve_workers(workers) == 1:

@@ -67,7 +67,31 @@ class VoidRunner:
         """Advance ``cycles`` whole cycles with the supply multiplied by ``scale`` [-].
 
         Returns (time [s], charge [C], field_before [V/m], field_after [V/m], voltage [V]) of the new events
-        (empty arrays when ``store`` is False; the running sums in ``totals`` and ``counts`` still grow)."""
+        (empty arrays when ``store`` is False; the running sums in ``totals`` and ``counts`` still grow).
+
+        Parameters
+        ----------
+        cycles : int
+            Whole cycles to advance [-], 1 to 1e9.
+        scale : float, optional
+            Factor on the supply waveform [-], 0 to 1000.
+        store : bool, optional
+            True to return the new events; False to only accumulate the sums and ``counts``.
+        counts : numpy.ndarray or None, optional
+            Phase x charge histogram (int64) to add the events to, or None for none.
+        charge_edges : numpy.ndarray or None, optional
+            Charge bin edges of ``counts`` [C].
+
+        Returns
+        -------
+        tuple of numpy.ndarray
+            (time [s], charge [C], field_before [V/m], field_after [V/m], voltage [V]) of the new events.
+
+        Raises
+        ------
+        InputError
+            For bad ``cycles`` or ``scale``, or a scenario that could produce more than a million discharges per cycle.
+        """
         cycles = check_int("cycles", cycles, 1, MAX_CYCLES)
         scale = check_range("scale", scale, 0.0, 1e3)
         a = self.args
