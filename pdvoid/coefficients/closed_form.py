@@ -28,13 +28,41 @@ __all__ = ["compute_coefficients", "supply_peak_factor"]
 
 
 def supply_peak_factor(supply: Sine | Periodic) -> float:
-    """Peak of |V| divided by the rms value the supply is specified with [-]."""
+    """Peak of |V| divided by the rms value the supply is specified with [-].
+
+    Parameters
+    ----------
+    supply : Sine or Periodic
+        The supply.
+
+    Returns
+    -------
+    float
+        peak |V| / rms [-] (√2 for a plain sine).
+    """
     orders, a, b = supply.fourier()
     return peak_value(orders, a, b) / supply.rms
 
 
 def compute_coefficients(scenario: Scenario) -> Coefficients:
-    """All coefficients of a :class:`pdvoid.inputs.scenario.Scenario` (see :class:`Coefficients`)."""
+    """All coefficients of a :class:`pdvoid.inputs.scenario.Scenario` (see :class:`Coefficients`).
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The scenario.
+
+    Returns
+    -------
+    Coefficients
+        Its coefficients in SI, with the reference keys relied on.
+
+    Raises
+    ------
+    InputError
+        When the scenario's geometry lies outside the closed forms (e.g. a spheroid too tall for its network
+        equivalent when the model needs it), or the inception criterion has no data for the gas.
+    """
     ins, void, model = scenario.insulation, scenario.void, scenario.model
     d, er = ins.thickness, ins.permittivity
     if er is None:  # Insulation fills it in from its material; never None after construction

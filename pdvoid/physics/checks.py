@@ -15,7 +15,31 @@ __all__ = ["values", "shape_out", "broadcast", "checked", "positive", "broadcast
 
 def values(name: str, value: npt.ArrayLike, *, low: float = 0.0, low_open: bool = True, high: float = math.inf,
             unit: str = "") -> tuple[np.ndarray, bool]:
-    """``value`` (number or array) as a float array checked against (low, high]; and whether it was scalar."""
+    """``value`` (number or array) as a float array checked against (low, high]; and whether it was scalar.
+
+    Parameters
+    ----------
+    name : str
+        The parameter's name, used in error messages.
+    value : array_like
+        A number or an array of numbers.
+    low, high : float, optional
+        The interval (low, high] ([low, high] when not ``low_open``).
+    low_open : bool, optional
+        True to exclude ``low``.
+    unit : str, optional
+        Unit named in the error message.
+
+    Returns
+    -------
+    tuple
+        The float array (0-d for a scalar) and whether the input was a scalar.
+
+    Raises
+    ------
+    InputError
+        For a non-number or an entry outside the interval.
+    """
     def check(label: str, x: object) -> float:
         if high == math.inf and low == 0.0:
             return (check_positive if low_open else check_nonnegative)(label, x, unit)
@@ -34,10 +58,41 @@ def values(name: str, value: npt.ArrayLike, *, low: float = 0.0, low_open: bool 
 
 
 def shape_out(result: np.ndarray, scalar: bool) -> float | np.ndarray:
+    """A float when ``scalar``, else the array.
+
+    Parameters
+    ----------
+    result : numpy.ndarray
+        The computed values.
+    scalar : bool
+        Whether the inputs were scalars.
+
+    Returns
+    -------
+    float or numpy.ndarray
+        ``float(result)`` or ``result``.
+    """
     return float(result) if scalar else result
 
 
 def broadcast(**arrays: np.ndarray) -> list[np.ndarray]:
+    """Broadcast arrays together; InputError naming them if their shapes do not fit.
+
+    Parameters
+    ----------
+    **arrays : numpy.ndarray
+        The arrays, by name.
+
+    Returns
+    -------
+    list of numpy.ndarray
+        The broadcast arrays, in the order given.
+
+    Raises
+    ------
+    InputError
+        When the shapes are not broadcast-compatible.
+    """
     try:
         return list(np.broadcast_arrays(*arrays.values()))
     except ValueError:
@@ -55,7 +110,31 @@ def checked(
     high_open: bool = False,
     unit: str = "",
 ) -> float | np.ndarray:
-    """``value`` as a float (scalar input) or float array; every entry finite and inside the interval."""
+    """``value`` as a float (scalar input) or float array; every entry finite and inside the interval.
+
+    Parameters
+    ----------
+    name : str
+        The parameter's name, used in error messages.
+    value : array_like
+        A number or an array of numbers.
+    low, high : float
+        The interval's ends.
+    low_open, high_open : bool, optional
+        True to exclude that end (an infinite ``high`` is always open).
+    unit : str, optional
+        Unit named in the error message.
+
+    Returns
+    -------
+    float or numpy.ndarray
+        A float for scalar input, else a float array.
+
+    Raises
+    ------
+    InputError
+        For a non-number or an entry outside the interval (named by index).
+    """
     if isinstance(value, np.ndarray) and value.ndim == 0:
         value = value[()]
     if np.ndim(value) == 0:
@@ -76,11 +155,48 @@ def checked(
 
 
 def positive(name: str, value: npt.ArrayLike, unit: str = "") -> float | np.ndarray:
+    """``value`` as a float or float array with every entry finite and > 0.
+
+    Parameters
+    ----------
+    name : str
+        The parameter's name, used in error messages.
+    value : array_like
+        A number or an array of numbers.
+    unit : str, optional
+        Unit named in the error message.
+
+    Returns
+    -------
+    float or numpy.ndarray
+        A float for scalar input, else a float array.
+
+    Raises
+    ------
+    InputError
+        For a non-number or an entry <= 0 (named by index).
+    """
     return checked(name, value, 0.0, low_open=True, unit=unit)
 
 
 def broadcast_named(**named: npt.ArrayLike) -> list[np.ndarray]:
-    """Broadcast checked inputs together; InputError naming them if their shapes do not fit."""
+    """Broadcast checked inputs together; InputError naming them if their shapes do not fit.
+
+    Parameters
+    ----------
+    **named : array_like
+        The checked inputs, by name.
+
+    Returns
+    -------
+    list of numpy.ndarray
+        Float arrays broadcast together, in the order given.
+
+    Raises
+    ------
+    InputError
+        When the shapes are not broadcast-compatible.
+    """
     try:
         return list(np.broadcast_arrays(*(np.asarray(v, dtype=float) for v in named.values())))
     except ValueError:
@@ -89,14 +205,42 @@ def broadcast_named(**named: npt.ArrayLike) -> list[np.ndarray]:
 
 
 def scalar_or_array(x: np.ndarray, *inputs: npt.ArrayLike) -> float | np.ndarray:
-    """A float when every input was a scalar, else the array."""
+    """A float when every input was a scalar, else the array.
+
+    Parameters
+    ----------
+    x : numpy.ndarray
+        The computed values.
+    *inputs : array_like
+        The inputs the values were computed from.
+
+    Returns
+    -------
+    float or numpy.ndarray
+        ``x`` as a float, or ``x`` itself.
+    """
     if all(np.ndim(v) == 0 for v in inputs):
         return float(np.asarray(x).reshape(()))
     return x
 
 
 def less_than(name_small: str, small: npt.ArrayLike, name_large: str, large: npt.ArrayLike, unit: str = "m") -> None:
-    """InputError unless small < large everywhere."""
+    """InputError unless small < large everywhere.
+
+    Parameters
+    ----------
+    name_small, name_large : str
+        The parameters' names, used in the error message.
+    small, large : array_like
+        The values, broadcast together.
+    unit : str, optional
+        Unit named in the error message.
+
+    Raises
+    ------
+    InputError
+        Where ``small >= large``, naming both values.
+    """
     s, g = broadcast_named(**{name_small: small, name_large: large})
     bad = ~(s < g)
     if np.any(bad):

@@ -107,10 +107,12 @@ class Assembly:
 
     @property
     def n_unknowns(self) -> int:
+        """Size of the linear system: free cells plus floating-conductor potentials [-]."""
         return self.matrix.shape[0]
 
     @property
     def n_floating(self) -> int:
+        """Number of floating conductors [-]."""
         return len(self.layout.floating)
 
 
@@ -259,6 +261,11 @@ def assemble(layout: Layout, grid: Grid, *, samples: int = 4) -> Assembly:
         the grid [-].
     samples : int, optional
         lines across each face used to average the permittivity where an outline passes, >= 1 [-].
+
+    Returns
+    -------
+    Assembly
+        The assembled system.
     """
     samples = check_int("samples", samples, 1, 64)
     if not isinstance(layout, Layout):

@@ -186,6 +186,11 @@ def void_region(
         "spheroid" or "cylinder" [-].
     rim_radius : float, optional
         rounding radius of the cylinder rim, default height/2 (fully rounded edge) [m].
+
+    Returns
+    -------
+    Region
+        A :class:`Spheroid` or :class:`RoundedCylinder`.
     """
     check_choice("shape", shape, ("spheroid", "cylinder"))
     if shape == "spheroid":
@@ -286,6 +291,11 @@ def coefficients_from_solver(
         the same layout on a grid twice as coarse; if given, the primary quantities (f, the
         counter-field, the induced charge, the volume, the capacitance) are Richardson-extrapolated,
         x = 2 x_fine − x_coarse, assuming the first-order convergence these show for smooth voids [-].
+
+    Returns
+    -------
+    FieldSolution
+        The void's coefficients.
 
     References
     ----------
@@ -399,7 +409,20 @@ def coefficients_for(
 
 
 def peak_enhancement(solver: FieldSolver, where: str | np.ndarray = "dielectric") -> float:
-    """Largest cell-centre |E| in ``where`` per applied uniform field V/d [-]."""
+    """Largest cell-centre |E| in ``where`` per applied uniform field V/d [-].
+
+    Parameters
+    ----------
+    solver : FieldSolver
+        The assembled solver.
+    where : str or numpy.ndarray, optional
+        Cells considered, as for :func:`region_mask`.
+
+    Returns
+    -------
+    float
+        Peak |E| per V/d [-] (0 when no cell is selected).
+    """
     u = solver.unit("high")
     mask = region_mask(solver, where)
     return float(np.max(field_magnitude(u)[mask], initial=0.0) * solver.layout.thickness)
@@ -474,7 +497,25 @@ def coefficients(scenario: Scenario, **options: Any) -> Coefficients:
 
 def with_field_solution(scenario: Scenario, solution: FieldSolution | Coefficients) -> Scenario:
     """``scenario`` with its void's field enhancement and charge per field taken from a numerical solution, so
-    that :func:`pdvoid.simulate` runs the solved geometry through the same kernels at full speed."""
+    that :func:`pdvoid.simulate` runs the solved geometry through the same kernels at full speed.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The scenario.
+    solution : FieldSolution or Coefficients
+        A numerical solution, or the Coefficients of :func:`coefficients` holding one.
+
+    Returns
+    -------
+    Scenario
+        A copy with ``void.field_enhancement`` and ``void.charge_per_field`` set.
+
+    Raises
+    ------
+    InputError
+        For closed-form Coefficients, another kind of solution, or a ``scenario`` that is not a Scenario.
+    """
     if isinstance(solution, Coefficients):
         if solution.solution is None:
             raise InputError("solution must be a FieldSolution or the Coefficients of pdvoid.fields.coefficients; "

@@ -100,7 +100,13 @@ class Grid:
         return np.outer(self.ring_area, self.dz)
 
     def centres(self) -> tuple[np.ndarray, np.ndarray]:
-        """Cell-centre coordinates as two (nr, nz) arrays (R, Z) [m]."""
+        """Cell-centre coordinates as two (nr, nz) arrays (R, Z) [m].
+
+        Returns
+        -------
+        tuple of numpy.ndarray
+            ``(R, Z)``, each of shape (nr, nz) [m].
+        """
         return np.meshgrid(self.r, self.z, indexing="ij")
 
     @property
@@ -277,6 +283,11 @@ def make_grid(
         neighbour ratio of cell sizes away from the focus [-].
     max_ratio : float, optional
         largest coarse-to-fine spacing ratio [-].
+
+    Returns
+    -------
+    Grid
+        The grid.
     """
     if cells is not None:
         try:

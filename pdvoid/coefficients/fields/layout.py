@@ -106,7 +106,18 @@ class Layout:
 
     # -- material -------------------------------------------------------------------------------------------
     def permittivity_at(self, r: np.ndarray, z: np.ndarray) -> np.ndarray:
-        """Relative permittivity at (r, z), the void included [-]."""
+        """Relative permittivity at (r, z), the void included [-].
+
+        Parameters
+        ----------
+        r, z : numpy.ndarray
+            Radial and axial coordinates, broadcast together [m].
+
+        Returns
+        -------
+        numpy.ndarray
+            Relative permittivity at each point [-].
+        """
         r, z = np.broadcast_arrays(np.asarray(r, float), np.asarray(z, float))
         eps = np.full(r.shape, float(self.permittivity))
         for reg, e in self.dielectrics:
@@ -116,7 +127,13 @@ class Layout:
         return eps
 
     def material_regions(self) -> list[Region]:
-        """Regions whose outlines are permittivity interfaces."""
+        """Regions whose outlines are permittivity interfaces.
+
+        Returns
+        -------
+        list of Region
+            The dielectric regions and the void.
+        """
         regs = [reg for reg, _ in self.dielectrics]
         if self.void is not None:
             regs.append(self.void)
@@ -124,7 +141,13 @@ class Layout:
 
     # -- grid hints -----------------------------------------------------------------------------------------
     def layer_interfaces(self) -> list[float]:
-        """Axial positions of slab interfaces strictly inside the gap (grid faces are put there) [m]."""
+        """Axial positions of slab interfaces strictly inside the gap (grid faces are put there) [m].
+
+        Returns
+        -------
+        list of float
+            Sorted axial positions [m].
+        """
         out = set()
         for reg, _ in self.dielectrics:
             if isinstance(reg, Slab):
@@ -134,7 +157,13 @@ class Layout:
         return sorted(out)
 
     def features(self) -> list[Region]:
-        """Regions that need a fine grid: the void, shaped and floating conductors, non-slab dielectrics."""
+        """Regions that need a fine grid: the void, shaped and floating conductors, non-slab dielectrics.
+
+        Returns
+        -------
+        list of Region
+            The regions.
+        """
         regs = [reg for reg, _ in self.dielectrics if not isinstance(reg, Slab)]
         if self.void is not None:
             regs.append(self.void)
@@ -142,7 +171,13 @@ class Layout:
         return regs
 
     def focus(self) -> tuple[list[tuple[float, float]], list[tuple[float, float]], float]:
-        """Refinement intervals in r and z, and the smallest feature length [m]."""
+        """Refinement intervals in r and z, and the smallest feature length [m].
+
+        Returns
+        -------
+        tuple
+            Radial intervals [m], axial intervals [m] and the smallest feature length [m].
+        """
         fr: list[tuple[float, float]] = []
         fz: list[tuple[float, float]] = []
         small = math.inf
@@ -231,6 +266,11 @@ def specimen_layout(
         (diameter [m], centre height [m]) of uncharged floating conductive spheres [-].
     outer_radius : float, optional
         radius of the modelled disc [m]; default: the largest feature radius + 2 x thickness.
+
+    Returns
+    -------
+    Layout
+        The field problem.
     """
     thickness = check_positive("thickness", thickness, "m")
     background, slabs = _layers(thickness, permittivity)
@@ -308,6 +348,11 @@ def grid_for(
         neighbour ratio of cell sizes away from the features [-].
     max_ratio : float, optional
         largest coarse-to-fine spacing ratio [-].
+
+    Returns
+    -------
+    Grid
+        A grid refined around the layout's features.
     """
     if not isinstance(layout, Layout):
         raise InputError(f"layout must be a Layout; got {type(layout).__name__}")

@@ -53,6 +53,21 @@ def field_components(potential: Potential) -> tuple[np.ndarray, np.ndarray]:
     crosses the void outline, the link's potential drop is split between gas and solid as in the assembly
     (series split for the field normal to the outline, length split for the tangential one). Cells inside
     conductors get zero.
+
+    Parameters
+    ----------
+    potential : Potential
+        A solved potential.
+
+    Returns
+    -------
+    tuple of numpy.ndarray
+        ``(E_r, E_z)``, each of shape (nr, nz) [V/m].
+
+    Raises
+    ------
+    InputError
+        Unless ``potential`` is a Potential.
     """
     if not isinstance(potential, Potential):
         raise InputError(f"potential must be a Potential; got {type(potential).__name__}")
@@ -103,7 +118,18 @@ def field_components(potential: Potential) -> tuple[np.ndarray, np.ndarray]:
 
 
 def field_magnitude(potential: Potential) -> np.ndarray:
-    """|E| at the cell centres, shape (nr, nz) [V/m]."""
+    """|E| at the cell centres, shape (nr, nz) [V/m].
+
+    Parameters
+    ----------
+    potential : Potential
+        A solved potential.
+
+    Returns
+    -------
+    numpy.ndarray
+        |E|, shape (nr, nz) [V/m].
+    """
     er, ez = field_components(potential)
     return np.hypot(er, ez)
 
@@ -112,6 +138,23 @@ def region_mask(solver: FieldSolver, where: str | np.ndarray = "dielectric") -> 
     """Boolean (nr, nz) mask of cells: "all", "dielectric" (outside conductors), "void" or "solid".
 
     A boolean array of shape (nr, nz) is passed through (after a shape check).
+
+    Parameters
+    ----------
+    solver : FieldSolver
+        The assembled solver.
+    where : str or numpy.ndarray, optional
+        ``"all"``, ``"dielectric"``, ``"void"``, ``"solid"`` or a boolean (nr, nz) mask.
+
+    Returns
+    -------
+    numpy.ndarray
+        Boolean mask of shape (nr, nz).
+
+    Raises
+    ------
+    InputError
+        For another ``where``, a mask of the wrong shape or type, or ``"void"`` without a void.
     """
     if not isinstance(solver, FieldSolver):
         raise InputError(f"solver must be a FieldSolver; got {type(solver).__name__}")
@@ -239,6 +282,11 @@ def surface_field(potential: Potential, conductor: str | int, *, min_cosine: flo
         "high", "ground" (their shaped parts) or the index of a floating conductor [-].
     min_cosine : float, optional
         smallest accepted cosine between grid line and surface normal, in (0, 1] [-].
+
+    Returns
+    -------
+    SurfaceField
+        Points on the surface and |E| there [m, V/m].
     """
     if not isinstance(potential, Potential):
         raise InputError(f"potential must be a Potential; got {type(potential).__name__}")
@@ -299,6 +347,11 @@ def critical_region(potential: Potential, critical_field: float, where: str | np
         field threshold [V/m].
     where : str or numpy.ndarray, optional
         "all", "dielectric", "void", "solid" or a boolean mask [-].
+
+    Returns
+    -------
+    numpy.ndarray
+        Boolean mask of shape (nr, nz).
     """
     ec = check_positive("critical_field", critical_field, "V/m")
     mask = region_mask(potential.solver, where)

@@ -149,6 +149,11 @@ def trace_field_line(
         longest length traced in each direction; default the electrode gap [m].
     step_factor : float, optional
         step length as a fraction of the local cell size, in (0, 1] [-].
+
+    Returns
+    -------
+    FieldLine
+        The traced line with positions [m] and |E| along it [V/m].
     """
     if not isinstance(potential, Potential):
         raise InputError(f"potential must be a Potential; got {type(potential).__name__}")
