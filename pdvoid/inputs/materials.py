@@ -153,7 +153,7 @@ _MATERIAL_KEYS = {"description", "permittivity", "permittivity_range", "source",
 
 
 # ----------------------------------------------------------------------------------------- file reading
-def _read_toml(path: object) -> tuple[str, dict[str, Any]]:
+def _read_toml(path: str | os.PathLike[str]) -> tuple[str, dict[str, Any]]:
     if not isinstance(path, (str, os.PathLike)):
         raise InputError(f"parameter file path must be a str or path; got {type(path).__name__}")
     p = Path(path)
@@ -252,7 +252,7 @@ def _material(label: str, name: str, entry: dict[str, Any]) -> Material:
     )
 
 
-def load_materials(path: str | os.PathLike) -> dict[str, Material]:
+def load_materials(path: str | os.PathLike[str]) -> dict[str, Material]:
     """Read and validate a materials file (layout of the built-in ``materials.toml``).
 
     Parameters
@@ -345,7 +345,7 @@ def _gas(label: str, name: str, entry: dict[str, Any]) -> GasData:
     )
 
 
-def load_gases(path: str | os.PathLike) -> dict[str, GasData]:
+def load_gases(path: str | os.PathLike[str]) -> dict[str, GasData]:
     """Read and validate a gases file (layout of the built-in ``gases.toml``; values SI with the unit stated).
 
     Parameters
@@ -410,7 +410,7 @@ def list_gases() -> list[str]:
     return sorted(_builtin_gases())
 
 
-def get_material(name: str, path: str | os.PathLike | None = None) -> Material:
+def get_material(name: str, path: str | os.PathLike[str] | None = None) -> Material:
     """A host material by name, from the built-in set or, with ``path``, from that user file.
 
     Parameters
@@ -435,7 +435,7 @@ def get_material(name: str, path: str | os.PathLike | None = None) -> Material:
     return _lookup("material", name, load_materials(path), f"file {path}")
 
 
-def get_gas(name: str, path: str | os.PathLike | None = None) -> GasData:
+def get_gas(name: str, path: str | os.PathLike[str] | None = None) -> GasData:
     """A void gas by name, from the built-in set or, with ``path``, from that user file.
 
     Parameters

@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from typing import Any, ClassVar, TypeVar
+from typing import ClassVar, TypeVar
 
 from pdvoid.core.errors import InputError, check_bool, check_choice, check_nonnegative, check_range
 
@@ -168,13 +168,13 @@ def model_kinds() -> tuple[str, ...]:
     return tuple(_REGISTRY)
 
 
-def model_class(kind: Any) -> type[ModelParameters]:
+def model_class(kind: object) -> type[ModelParameters]:
     """The model class registered under ``kind``.
 
     Parameters
     ----------
-    kind : str
-        A registered kind (see :func:`model_kinds`).
+    kind : object
+        A registered kind (see :func:`model_kinds`); anything else (also a non-string from a file) raises.
 
     Returns
     -------

@@ -71,7 +71,7 @@ def field_schema(part: str, obj: Any) -> dict[str, tuple[str | None, str]]:
     return dict(_DIMS[part])
 
 
-def quantity_value(value: Any, dim: str, where: str) -> float:
+def quantity_value(value: float | str, dim: str, where: str) -> float:
     """A quantity from a file: a number (SI) or text with a unit of dimension ``dim``, as an SI float.
 
     Parameters
@@ -167,7 +167,7 @@ def _from_dict(data: dict, source: str) -> dict[str, Any]:
     return {"insulation": ins, "void": void, "supply": supply, "model": cls(**kw), "name": data.get("name", "")}
 
 
-def read_scenario_parts(path: str | os.PathLike) -> dict[str, Any]:
+def read_scenario_parts(path: str | os.PathLike[str]) -> dict[str, Any]:
     """Read a TOML scenario file into the keyword arguments of :class:`pdvoid.Scenario`.
 
     Parameters
@@ -248,7 +248,7 @@ def scenario_to_dict(s: Scenario) -> dict[str, Any]:
     return out
 
 
-def write_scenario_file(s: Scenario, path: str | os.PathLike) -> Path:
+def write_scenario_file(s: Scenario, path: str | os.PathLike[str]) -> Path:
     """Write a TOML scenario file that :func:`pdvoid.inputs.scenario.read_scenario` restores exactly.
 
     Parameters
