@@ -104,8 +104,9 @@ def voltage(t: float, omega: float, orders: np.ndarray, a_coef: np.ndarray, b_co
 
 
 @njit_cached
-def voltage_slope(t: float, omega: float, orders: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray
-                  ) -> float:
+def voltage_slope(
+    t: float, omega: float, orders: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray,
+) -> float:
     """dV/dt [V/s].
 
     Parameters
@@ -133,19 +134,25 @@ def voltage_slope(t: float, omega: float, orders: np.ndarray, a_coef: np.ndarray
 
 
 @njit_cached
-def _xq(t, xq0, tq, tau_q):
+def _xq(t: float, xq0: float, tq: float, tau_q: float) -> float:
     if tau_q == math.inf or xq0 == 0.0:
         return xq0
     return xq0 * math.exp(-(t - tq) / tau_q)
 
 
 @njit_cached
-def _x(t, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q):
+def _x(
+    t: float, gain: float, omega: float, orders: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray, xq0: float,
+    tq: float, tau_q: float,
+) -> float:
     return gain * voltage(t, omega, orders, a_coef, b_coef) + _xq(t, xq0, tq, tau_q)
 
 
 @njit_cached
-def _dx(t, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q):
+def _dx(
+    t: float, gain: float, omega: float, orders: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray, xq0: float,
+    tq: float, tau_q: float,
+) -> float:
     d = gain * voltage_slope(t, omega, orders, a_coef, b_coef)
     if tau_q != math.inf and xq0 != 0.0:
         d -= _xq(t, xq0, tq, tau_q) / tau_q
@@ -153,7 +160,10 @@ def _dx(t, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q):
 
 
 @njit_cached
-def _root_x(target, t0, t1, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q):
+def _root_x(
+    target: float, t0: float, t1: float, gain: float, omega: float, orders: np.ndarray, a_coef: np.ndarray,
+    b_coef: np.ndarray, xq0: float, tq: float, tau_q: float,
+) -> float:
     """Root of x(t) = target on [t0, t1] where x is monotone and brackets target: Newton with bisection guard."""
     f0 = _x(t0, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q) - target
     f1 = _x(t1, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q) - target
@@ -185,7 +195,9 @@ def _root_x(target, t0, t1, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
 
 
 @njit_cached
-def _root_sine(target, t0, t1, amp_g, omega, cycle_t, seg, xq0):
+def _root_sine(
+    target: float, t0: float, t1: float, amp_g: float, omega: float, cycle_t: float, seg: int, xq0: float,
+) -> float:
     """Closed-form root of g·A·sin(w t) + xq0 = target on the piece `seg` (0 rising, 1 falling, 2 rising)."""
     s = (target - xq0) / amp_g
     if s > 1.0:
@@ -208,7 +220,7 @@ def _root_sine(target, t0, t1, amp_g, omega, cycle_t, seg, xq0):
 
 
 @njit_cached
-def _surface_level(pol, last_pol, n_same, n_rev):
+def _surface_level(pol: float, last_pol: float, n_same: float, n_rev: float) -> float:
     if last_pol == 0.0:
         return 0.0
     if pol == last_pol:
@@ -217,8 +229,11 @@ def _surface_level(pol, last_pol, n_same, n_rev):
 
 
 @njit_cached
-def _rate(t, pol, state, n_vol, n_same, n_rev, tau_s, field_assisted, x_inc,
-          gain, omega, orders, a_coef, b_coef, tau_q):
+def _rate(
+    t: float, pol: float, state: np.ndarray, n_vol: float, n_same: float, n_rev: float, tau_s: float,
+    field_assisted: bool, x_inc: float, gain: float, omega: float, orders: np.ndarray, a_coef: np.ndarray,
+    b_coef: np.ndarray, tau_q: float,
+) -> float:
     ns = _surface_level(pol, state[S_LASTPOL], n_same, n_rev)
     r = n_vol
     if ns > 0.0:
@@ -233,7 +248,9 @@ def _rate(t, pol, state, n_vol, n_same, n_rev, tau_s, field_assisted, x_inc,
 
 
 @njit_cached
-def _invert_closed(t0, t1, need, ns, n_vol, tau_s, t_last):
+def _invert_closed(
+    t0: float, t1: float, need: float, ns: float, n_vol: float, tau_s: float, t_last: float,
+) -> tuple[float, float]:
     """Spend hazard `need` of the rate n_vol + ns·exp(-(t - t_last)/tau_s) from t0 on.
 
     Returns (t, spent): t in [t0, t1] where the hazard reaches `need`, or (t1, hazard of the whole window) when
@@ -267,8 +284,11 @@ def _invert_closed(t0, t1, need, ns, n_vol, tau_s, t_last):
 
 
 @njit_cached
-def _consume_window(t0, t1, x0, x1, pol, state, n_vol, n_same, n_rev, tau_s, field_assisted, x_inc,
-                    gain, omega, orders, a_coef, b_coef, tau_q):
+def _consume_window(
+    t0: float, t1: float, x0: float, x1: float, pol: float, state: np.ndarray, n_vol: float, n_same: float,
+    n_rev: float, tau_s: float, field_assisted: bool, x_inc: float, gain: float, omega: float, orders: np.ndarray,
+    a_coef: np.ndarray, b_coef: np.ndarray, tau_q: float,
+) -> float:
     """Spend the remaining hazard over the above-threshold window [t0, t1].
 
     x0, x1 are |x| at t0 and t1. Returns the discharge time, or -1.0 when the window ends first (the hazard
@@ -319,7 +339,10 @@ def _consume_window(t0, t1, x0, x1, pol, state, n_vol, n_same, n_rev, tau_s, fie
 
 
 @njit_cached
-def _monotone_end(t, t_end, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q):
+def _monotone_end(
+    t: float, t_end: float, gain: float, omega: float, orders: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray,
+    xq0: float, tq: float, tau_q: float,
+) -> float:
     """With charge decay, x may turn inside a V-monotone piece: the first sign change of dx/dt after t
     (scanned on 16 sub-intervals, then bisected), or t_end."""
     n = 16

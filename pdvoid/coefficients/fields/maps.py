@@ -30,7 +30,10 @@ WHERE = ("all", "dielectric", "void", "solid")
 _ORDER = 3  # polynomial order of the one-sided surface-field fit (tested against a conducting sphere)
 
 
-def _end_fields(flux_density, dv, length, nu, omega, gas_a, gas_b, eps_a, eps_b):
+def _end_fields(
+    flux_density: np.ndarray, dv: np.ndarray, length: np.ndarray, nu: np.ndarray, omega: np.ndarray, gas_a: np.ndarray,
+    gas_b: np.ndarray, eps_a: np.ndarray, eps_b: np.ndarray,
+) -> tuple[np.ndarray, np.ndarray]:
     """Field along a link at its two end cells: εr·E/εr from the flux density in a single material; where the
     link crosses the void outline, the potential drop splits into a void and a solid part (fractions ω and ν
     of the drop and of the length), giving the field on each side."""
@@ -226,7 +229,7 @@ def _conductor_id(solver: FieldSolver, conductor: str | int) -> tuple[int, list[
 
 
 def _normal_cos(regions: list, r: np.ndarray, z: np.ndarray, axial: bool, h: float) -> np.ndarray:
-    def lev(rr, zz):
+    def lev(rr: np.ndarray, zz: np.ndarray) -> np.ndarray:
         return np.min([reg.level(rr, zz) for reg in regions], axis=0)
 
     gr = (lev(r + h, z) - lev(np.maximum(r - h, 0.0), z)) / (r + h - np.maximum(r - h, 0.0))
@@ -236,7 +239,10 @@ def _normal_cos(regions: list, r: np.ndarray, z: np.ndarray, axial: bool, h: flo
     return np.abs(gz if axial else gr) / norm
 
 
-def _surface_slope(vl, fr, xs, a, b, step, s1, vc, order):
+def _surface_slope(
+    vl: np.ndarray, fr: np.ndarray, xs: np.ndarray, a: np.ndarray, b: np.ndarray, step: int, s1: np.ndarray, vc: float,
+    order: int,
+) -> np.ndarray:
     """Slope at the surface of the polynomial through the surface potential and ``order`` free cells.
 
     The cell next to the surface is skipped: the symmetric cut-link scheme keeps the potential second-order
