@@ -1,4 +1,7 @@
-"""Scenario files: TOML whose quantities may carry units ("1.2 mm", "12 kV", "50 Hz", "1 atm").
+"""Scenario files: TOML whose quantities may carry units ("1.2 mm", "12 kV", "50 Hz", "1 atm", "0.1 pF", "1 cm2").
+
+Any unit pint knows is accepted when its dimension fits the key (:func:`pdvoid.core.units.parse_quantity`);
+files written by pdvoid carry SI units.
 
 Layout (every key optional unless the class requires it; bare numbers are SI)::
 
