@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import functools
 import re
+import threading
 import tokenize
 from typing import TYPE_CHECKING, Any
 
@@ -90,18 +91,20 @@ _UNIT_TEXT = re.compile(r"^[A-Za-z0-9_µμ°%²³·*/^()., -]+$")
 _TRAILING_POWER = re.compile(r"(?<=[A-Za-zµμ])(\d+)(?![\w.])")
 
 _registry: pint.UnitRegistry[Any] | None = None
+_registry_lock = threading.Lock()  # one registry per process: units of two registries cannot be combined
 
 
 def _unit_registry() -> pint.UnitRegistry[Any]:
     """The pint registry, created (and pint imported) on first use."""
     global _registry
-    if _registry is None:
-        import pint
+    with _registry_lock:
+        if _registry is None:
+            import pint
 
-        reg: pint.UnitRegistry[Any] = pint.UnitRegistry()
-        reg.define("Torr = torr")  # the symbol as written in SI brochures; pint knows only the lower-case name
-        _registry = reg
-    return _registry
+            reg: pint.UnitRegistry[Any] = pint.UnitRegistry()
+            reg.define("Torr = torr")  # the symbol used in SI documents; pint knows only the lower-case name
+            _registry = reg
+        return _registry
 
 
 @functools.lru_cache(maxsize=256)
