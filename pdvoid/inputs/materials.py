@@ -77,7 +77,19 @@ class Material:
 
 @dataclass(frozen=True)
 class Provenance:
-    """Where one gas constant comes from: its unit, status and source."""
+    """Where one gas constant comes from: its unit, status and source.
+
+    Attributes
+    ----------
+    unit : str
+        Unit of the constant as written in the parameter file.
+    status : str
+        ``"confirmed"``, ``"derived"``, ``"from memory"`` or ``"common practice"``.
+    source : str
+        The source (a reference key or a citation).
+    note : str
+        Free remarks; empty when none.
+    """
 
     unit: str
     status: str

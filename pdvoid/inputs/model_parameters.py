@@ -60,9 +60,6 @@ class ModelParameters:
         Extra start electrons [1/s] when the void lies on an electrode and the metal wall is the cathode of the
         pending discharge (electrons from the metal). Default 0; illustrative values are hundreds to thousands
         per second.
-
-    Attributes
-    ----------
     kind : str
         The model's name in scenario files (``[model] kind = ...``); set by each concrete model.
     title : str

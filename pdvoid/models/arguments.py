@@ -18,8 +18,46 @@ __all__ = ["KernelArguments", "supply_arrays", "cathode_rate"]
 
 @dataclass(frozen=True, eq=False)
 class KernelArguments:
-    """Kernel inputs in SI. The void quantity x is a field [V/m] (field model) or a voltage [V] (network model);
-    ``x_to_field`` converts it to the void field [V/m]."""
+    """Kernel inputs in SI.
+
+    The void quantity x is a field [V/m] (field model) or a voltage [V] (network model); ``x_to_field`` converts it
+    to the void field [V/m].
+
+    Attributes
+    ----------
+    frequency : float
+        Supply frequency [Hz].
+    orders : numpy.ndarray
+        Harmonic orders of the supply [-].
+    a_coef, b_coef : numpy.ndarray
+        Sine and cosine amplitudes of each order [V].
+    seg_fracs : numpy.ndarray
+        Breakpoints of the monotone pieces of V, fractions of the period from 0 to 1 [-].
+    pure_sine : bool
+        True for a plain sine.
+    gain : float
+        g: void quantity per applied volt (f/d [1/m] or k [-]).
+    x_inc, x_res : float
+        Inception and residual value of the void quantity [V/m or V].
+    charge_per_unit : float
+        Apparent charge per unit drop of the void quantity [C/(V/m) or C/V].
+    lag_free : bool
+        True to discharge the instant |x| reaches x_inc.
+    n_vol_pos, n_vol_neg : float
+        Volume start-electron rate for positive and negative discharges [1/s].
+    n_same, n_rev : float
+        Surface emission rate after a discharge, same and reversed polarity [1/s].
+    tau_s : float
+        Decay time of the surface emission [s].
+    field_assisted : bool
+        True to multiply the rate by exp(|x|/x_inc).
+    tau_q : float
+        Decay time of the deposited quantity [s]; inf for none.
+    x_to_field : float
+        Void field per unit of the void quantity ([-] for the field model, 1/h [1/m] for the network model).
+    references : tuple of str
+        Bibliography keys the model relied on.
+    """
 
     frequency: float
     orders: np.ndarray

@@ -23,10 +23,12 @@ def values(name: str, value: npt.ArrayLike, *, low: float = 0.0, low_open: bool 
         The parameter's name, used in error messages.
     value : array_like
         A number or an array of numbers.
-    low, high : float, optional
-        The interval (low, high] ([low, high] when not ``low_open``).
+    low : float, optional
+        Lower end of the interval (low, high] ([low, high] when not ``low_open``).
     low_open : bool, optional
         True to exclude ``low``.
+    high : float, optional
+        Upper end of the interval (included).
     unit : str, optional
         Unit named in the error message.
 
@@ -229,10 +231,14 @@ def less_than(name_small: str, small: npt.ArrayLike, name_large: str, large: npt
 
     Parameters
     ----------
-    name_small, name_large : str
-        The parameters' names, used in the error message.
-    small, large : array_like
-        The values, broadcast together.
+    name_small : str
+        Name of the smaller parameter, used in the error message.
+    small : array_like
+        Its values.
+    name_large : str
+        Name of the larger parameter, used in the error message.
+    large : array_like
+        Its values, broadcast with ``small``.
     unit : str, optional
         Unit named in the error message.
 

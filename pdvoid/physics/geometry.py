@@ -54,6 +54,8 @@ def depolarization_ellipsoid(a: npt.ArrayLike, b: npt.ArrayLike, c: npt.ArrayLik
     float or numpy.ndarray
         N_c, in (0, 1) [-]; 1/3 for a sphere.
 
+    Notes
+    -----
     Validity: any ellipsoid with finite positive semi-axes (exact electrostatics, no approximation).
 
     References
@@ -149,6 +151,8 @@ def depolarization_spheroid(diameter: npt.ArrayLike, height: npt.ArrayLike) -> f
     float or numpy.ndarray
         N along the field, in (0, 1) [-]: → 1 for a flat disc (height ≪ diameter), → 0 for a needle.
 
+    Notes
+    -----
     Validity: exact for any spheroid with its symmetry axis along a uniform field.
 
     References
@@ -188,6 +192,8 @@ def field_enhancement(
     float or numpy.ndarray
         f = E_void / E_applied [-]
 
+    Notes
+    -----
     Validity: ellipsoidal void in an infinite homogeneous linear host under a uniform field along a principal
     axis (in practice: void small compared with its distance to the electrodes); no space charge in the void.
 
@@ -227,6 +233,8 @@ def layered_field_enhancement(
     float or numpy.ndarray
         f = E_void / (V/d) [-]
 
+    Notes
+    -----
     Validity: void wide compared with its height and with its distance to the electrodes (edge fields
     neglected), plane electrodes, gas permittivity 1.
 
@@ -264,6 +272,8 @@ def ellipsoid_volume(a: npt.ArrayLike, b: npt.ArrayLike, c: npt.ArrayLike) -> fl
     float or numpy.ndarray
         volume [m³]
 
+    Notes
+    -----
     Validity: any positive semi-axes.
 
     References
@@ -292,6 +302,8 @@ def spheroid_volume(diameter: npt.ArrayLike, height: npt.ArrayLike) -> float | n
     float or numpy.ndarray
         volume [m³]
 
+    Notes
+    -----
     Validity: any positive dimensions.
 
     References
@@ -332,6 +344,8 @@ def induced_charge_per_field(
     float or numpy.ndarray
         charge per field drop inside the void [C/(V/m)] (= C·m/V)
 
+    Notes
+    -----
     Validity: void small compared with its distance to the electrodes (weighting field f/d uniform over the
     void), counter-field of the deposited charge uniform, homogeneous linear host, plane-parallel electrodes,
     gas permittivity 1.

@@ -48,6 +48,8 @@ def phase_angle_deg(time: float, frequency: float, zero_crossing_time: float = 0
     float or numpy.ndarray
         phase angle(s) [deg], a float for scalar ``time``.
 
+    Notes
+    -----
     Validity: strictly periodic test voltage of constant frequency.
 
     References
@@ -82,6 +84,8 @@ def average_discharge_current(charge: np.ndarray, reference_time: float) -> floa
     float
         I [A]; 0 for no pulses.
 
+    Notes
+    -----
     Validity: pulses recorded over the whole reference interval.
 
     References
@@ -107,6 +111,8 @@ def quadratic_rate(charge: np.ndarray, reference_time: float) -> float:
     float
         D [C²/s]; 0 for no pulses.
 
+    Notes
+    -----
     Validity: pulses recorded over the whole reference interval.
 
     References
@@ -134,6 +140,8 @@ def discharge_power(charge: np.ndarray, voltage: np.ndarray, reference_time: flo
     float
         P [W]; 0 for no pulses.
 
+    Notes
+    -----
     Validity: pulses recorded over the whole reference interval.
 
     References
@@ -164,6 +172,8 @@ def repetition_rate(charge: np.ndarray, reference_time: float, threshold: float 
     float
         n [1/s]; 0 for no pulses.
 
+    Notes
+    -----
     Validity: pulses recorded over the whole reference interval.
 
     References

@@ -41,7 +41,17 @@ __all__ = [
 
 
 class VoidCapacitances(NamedTuple):
-    """The three capacitances of the a-b-c network [F]; ``a`` is None when the specimen area is not given."""
+    """The three capacitances of the a-b-c network [F]; ``a`` is None when the specimen area is not given.
+
+    Attributes
+    ----------
+    a : float or numpy.ndarray or None
+        C_a, the healthy insulation in parallel [F].
+    b : float or numpy.ndarray
+        C_b, the solid in series with the void [F].
+    c : float or numpy.ndarray
+        C_c, the void [F].
+    """
 
     a: float | np.ndarray | None
     b: float | np.ndarray
@@ -49,7 +59,17 @@ class VoidCapacitances(NamedTuple):
 
 
 class NetworkEquivalent(NamedTuple):
-    """Network capacitances equivalent to a spheroidal void [F], and the void voltage ratio k [-]."""
+    """Network capacitances equivalent to a spheroidal void [F], and the void voltage ratio k [-].
+
+    Attributes
+    ----------
+    c_b : float or numpy.ndarray
+        C_b, in series with the void [F].
+    c_c : float or numpy.ndarray
+        C_c, the void [F].
+    k : float or numpy.ndarray
+        k = C_b / (C_b + C_c), void voltage per applied volt [-].
+    """
 
     c_b: float | np.ndarray
     c_c: float | np.ndarray
@@ -86,6 +106,8 @@ def flat_void_capacitances(
     VoidCapacitances
         VoidCapacitances(a, b, c) [F]; ``a`` is None when ``specimen_area`` is None.
 
+    Notes
+    -----
     Validity: void much wider than tall and than its distance to the electrodes (edge fields neglected; the
     void and the solid column above and below it are treated as parallel-plate capacitors), gas
     permittivity 1. The capacitances are fitting quantities, not field quantities (pedersen1991).
@@ -133,6 +155,8 @@ def void_voltage_ratio(c_b: npt.ArrayLike, c_c: npt.ArrayLike) -> float | np.nda
     float or numpy.ndarray
         k, in (0, 1) [-]
 
+    Notes
+    -----
     Validity: three-capacitance network, stiff source, no discharge yet, no leakage; C_a does not enter.
 
     References
@@ -181,6 +205,8 @@ def spheroid_network_equivalent(
     NetworkEquivalent
         NetworkEquivalent(c_b [F], c_c [F], k [-]).
 
+    Notes
+    -----
     Validity: as :func:`pdvoid.physics.geometry.induced_charge_per_field` (void small compared with its
     distance to the electrodes, uniform counter-field, homogeneous linear host, plane electrodes). A void so
     large that f h/d >= 1 violates it and is rejected.
@@ -229,6 +255,8 @@ def apparent_charge(c_b: npt.ArrayLike, delta_v: npt.ArrayLike) -> float | np.nd
     float or numpy.ndarray
         apparent charge [C], signed.
 
+    Notes
+    -----
     Validity: three-capacitance network; the measured charge equals q_a only after calibration of the whole
     circuit (iec60270); finite coupling capacitance lowers it by C_k/(C_a + C_k).
 
@@ -272,6 +300,8 @@ def discharge_energy(
     float or numpy.ndarray
         energy per discharge [J]
 
+    Notes
+    -----
     Validity: three-capacitance network, stiff source (V_a constant during the discharge).
 
     References
@@ -324,6 +354,8 @@ def lag_free_discharges_per_cycle(
     int
         discharges per cycle (whole number, multiple of 4) [-]
 
+    Notes
+    -----
     Validity: the assumptions above; independent of frequency.
 
     References
@@ -359,6 +391,8 @@ def lag_free_phases_deg(
     numpy.ndarray
         phases in ascending order [deg]; empty when A < V_i.
 
+    Notes
+    -----
     Validity: the assumptions of :func:`lag_free_discharges_per_cycle`.
 
     References

@@ -33,7 +33,19 @@ class Histogram:
     """Phase-resolved counts accumulated inside the kernel (histogram-only runs).
 
     counts[i, j]: events in phase bin i (edges phase_edges_deg [deg]) and charge bin j (edges charge_edges [C]);
-    below / above: events whose charge fell outside the charge edges (counted, never dropped silently)."""
+    below / above: events whose charge fell outside the charge edges (counted, never dropped silently).
+
+    Attributes
+    ----------
+    counts : numpy.ndarray
+        Counts per (phase bin, charge bin), int64 [-].
+    phase_edges_deg : numpy.ndarray
+        Phase bin edges over 0..360 [deg].
+    charge_edges : numpy.ndarray
+        Signed apparent-charge bin edges, increasing [C].
+    below, above : int
+        Events with a charge below the first or above the last edge [-].
+    """
 
     counts: np.ndarray
     phase_edges_deg: np.ndarray
@@ -49,6 +61,33 @@ class Result:
     Event arrays (SI): time [s], phase_deg [deg], cycle [-], charge [C] (apparent, signed), voltage [V] (applied,
     at each event), field_before / field_after [V/m] (in the void). In histogram-only runs the event arrays are
     empty and ``histogram`` plus the IEC 60270 sums hold the outcome.
+
+    Attributes
+    ----------
+    events : Events
+        The discharge events (empty in histogram-only runs).
+    scenario : Scenario
+        The scenario simulated.
+    seed : int
+        Seed of the random generator [-].
+    cycles : int
+        Cycles simulated [-].
+    requested_cycles : int
+        Cycles asked for [-]; more than ``cycles`` when the run was stopped early.
+    version : str
+        pdvoid version that produced the result.
+    references : tuple of str
+        Bibliography keys the scenario relied on (:func:`pdvoid.cite`).
+    histogram : Histogram or None
+        Phase-resolved counts of a histogram-only run, else None.
+    event_count : int
+        Number of discharges, also in histogram-only runs [-].
+    sum_abs_charge : float
+        Σ |q| over all discharges [C].
+    sum_charge_squared : float
+        Σ q² over all discharges [C²].
+    sum_charge_voltage : float
+        Σ q·u over all discharges (signed), u the applied voltage at the discharge [C·V].
     """
 
     events: Events

@@ -441,7 +441,7 @@ def solve_scenario(scenario: Scenario, **options: Any) -> FieldSolution:
     ----------
     scenario : Scenario
         a :class:`pdvoid.Scenario` or any object with those attributes [-].
-    options : object
+    **options : Any
         keyword arguments of :func:`coefficients_for` [-].
 
     Returns
@@ -481,7 +481,7 @@ def coefficients(scenario: Scenario, **options: Any) -> Coefficients:
     ----------
     scenario : Scenario
         a :class:`pdvoid.Scenario` [-].
-    options : object
+    **options : Any
         keyword arguments of :func:`coefficients_for` (rim_radius, needle, inclusions, grid settings,
         measuring electrode, extrapolation) [-].
 

@@ -520,11 +520,6 @@ def crossing(
 
     The level function must change sign between the two ends of every segment. Bisection.
 
-    Returns
-    -------
-    numpy.ndarray
-        Fraction t in [0, 1] of the way from the first end to the crossing [-].
-
     Parameters
     ----------
     region : Region
@@ -533,6 +528,11 @@ def crossing(
         Segment ends [m].
     iterations : int, optional
         Bisection steps [-].
+
+    Returns
+    -------
+    numpy.ndarray
+        Fraction t in [0, 1] of the way from the first end to the crossing [-].
     """
     r0, z0, r1, z1 = (np.asarray(a, float) for a in (r0, z0, r1, z1))
     lo = np.zeros(r0.shape)
