@@ -3,11 +3,12 @@
 from __future__ import annotations
 
 import math
+import re
 
 import pytest
 
 import pdvoid
-from pdvoid.core.units import MAX_QUANTITY_TEXT, parse_quantity
+from pdvoid.core.units import DIMENSIONS, MAX_QUANTITY_TEXT, parse_quantity
 
 
 @pytest.mark.parametrize(
@@ -152,3 +153,33 @@ def test_scenario_file_names_the_key_of_a_wrong_unit(tmp_path):
     )
     with pytest.raises(pdvoid.InputError, match=r"insulation\.area.*'area'"):
         pdvoid.Scenario.from_file(p)
+
+
+@pytest.mark.parametrize("dimension", sorted(DIMENSIONS))
+def test_examples_named_in_error_messages_parse(dimension):
+    # every example unit an error message offers must itself be accepted for that dimension
+    examples = re.findall(r"'([^']*)'", DIMENSIONS[dimension][1])
+    assert examples
+    for text in examples:
+        assert math.isfinite(parse_quantity(text, dimension, name=dimension))
+
+
+@pytest.fixture
+def fresh_registry(monkeypatch):
+    from pdvoid.core import units
+
+    units._parse_unit.cache_clear()
+    monkeypatch.setattr(units, "_registry", None)
+    yield
+    units._parse_unit.cache_clear()  # the cached units belong to this test's registry
+
+
+def test_registry_is_shared_between_threads(fresh_registry):
+    from concurrent.futures import ThreadPoolExecutor
+
+    # first use from several threads at once: one registry, no mixing of units from two (pint refuses to mix them)
+    texts = ["1.2 mm", "1 cm2", "7 psi", "20 degC", "3 us"] * 8
+    dims = ["length", "area", "pressure", "temperature", "time"] * 8
+    with ThreadPoolExecutor(4) as pool:
+        values = list(pool.map(parse_quantity, texts, dims))
+    assert values[:5] == [parse_quantity(t, d) for t, d in zip(texts[:5], dims[:5], strict=True)]
