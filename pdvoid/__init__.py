@@ -65,6 +65,23 @@ __all__ = [
 
 
 def __getattr__(name: str) -> Any:
+    """Import a subpackage or a lazily loaded name on first access (keeps ``import pdvoid`` light).
+
+    Parameters
+    ----------
+    name : str
+        The attribute asked for, e.g. ``"analysis"`` or a name of the lazily loaded public API.
+
+    Returns
+    -------
+    object
+        The module or object; it is cached in the package namespace.
+
+    Raises
+    ------
+    AttributeError
+        For a name pdvoid does not have.
+    """
     if name in _SUBPACKAGES:
         value = importlib.import_module(_SUBPACKAGES[name])
     elif name in _LAZY:
@@ -76,4 +93,11 @@ def __getattr__(name: str) -> Any:
 
 
 def __dir__() -> list[str]:
+    """The package's names, the lazily loaded ones included.
+
+    Returns
+    -------
+    list of str
+        Sorted names.
+    """
     return sorted(set(globals()) | set(_LAZY) | set(_SUBPACKAGES))

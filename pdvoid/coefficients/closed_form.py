@@ -4,6 +4,7 @@ field drop, capacitances, inception voltage), computed from the physics function
 from __future__ import annotations
 
 import math
+from typing import TYPE_CHECKING
 
 from pdvoid.coefficients.record import Coefficients
 from pdvoid.core.errors import InputError
@@ -19,19 +20,53 @@ from pdvoid.physics.geometry import (
 from pdvoid.physics.inception import gas_inception_field
 from pdvoid.physics.network import flat_void_capacitances, spheroid_network_equivalent, void_voltage_ratio
 
+if TYPE_CHECKING:
+    from pdvoid.inputs.parameters import Periodic, Sine
+    from pdvoid.inputs.scenario import Scenario
+
 __all__ = ["compute_coefficients", "supply_peak_factor"]
 
 
-def supply_peak_factor(supply) -> float:
-    """Peak of |V| divided by the rms value the supply is specified with [-]."""
+def supply_peak_factor(supply: Sine | Periodic) -> float:
+    """Peak of |V| divided by the rms value the supply is specified with [-].
+
+    Parameters
+    ----------
+    supply : Sine or Periodic
+        The supply.
+
+    Returns
+    -------
+    float
+        peak |V| / rms [-] (√2 for a plain sine).
+    """
     orders, a, b = supply.fourier()
     return peak_value(orders, a, b) / supply.rms
 
 
-def compute_coefficients(scenario) -> Coefficients:
-    """All coefficients of a :class:`pdvoid.inputs.scenario.Scenario` (see :class:`Coefficients`)."""
+def compute_coefficients(scenario: Scenario) -> Coefficients:
+    """All coefficients of a :class:`pdvoid.inputs.scenario.Scenario` (see :class:`Coefficients`).
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The scenario.
+
+    Returns
+    -------
+    Coefficients
+        Its coefficients in SI, with the reference keys relied on.
+
+    Raises
+    ------
+    InputError
+        When the scenario's geometry lies outside the closed forms (e.g. a spheroid too tall for its network
+        equivalent when the model needs it), or the inception criterion has no data for the gas.
+    """
     ins, void, model = scenario.insulation, scenario.void, scenario.model
     d, er = ins.thickness, ins.permittivity
+    if er is None:  # Insulation fills it in from its material; never None after construction
+        raise InputError("insulation.permittivity or insulation.material must be given; got neither")
     D, h = void.diameter, void.height
     refs = ["niemeyer1995", "gutfleisch1995", "hess1951"]
 
@@ -39,13 +74,17 @@ def compute_coefficients(scenario) -> Coefficients:
         # a void on an electrode is half a spheroid; with its mirror image in the equipotential electrode it is a
         # whole spheroid of height 2h (method of images): same field, and the real half carries half the dipole
         h_full = h if void.position == "centred" else 2.0 * h
-        n = depolarization_spheroid(D, h_full)
-        f = field_enhancement(er, n)
-        omega = spheroid_volume(D, h_full) * (h / h_full)
-        c_field = induced_charge_per_field(er, n, omega, d)
+        # the physics functions return floats for float inputs; float() only tells the type checker so
+        n = float(depolarization_spheroid(D, h_full))
+        f = float(field_enhancement(er, n))
+        omega = float(spheroid_volume(D, h_full)) * (h / h_full)
+        c_field = float(induced_charge_per_field(er, n, omega, d))
         if f * h < d:
-            c_b, c_c, _k = spheroid_network_equivalent(D, h, d, er) if void.position == "centred" else (
-                c_field / h, c_field / h * (d / (f * h) - 1.0), f * h / d)
+            if void.position == "centred":
+                equivalent = spheroid_network_equivalent(D, h, d, er)
+                c_b, c_c = float(equivalent.c_b), float(equivalent.c_c)
+            else:
+                c_b, c_c = c_field / h, c_field / h * (d / (f * h) - 1.0)
         elif model.gain_from_network and model.network_capacitances() is None:
             raise InputError(
                 f"void.height {h:g} m is too large for the network equivalent of a spheroid in "
@@ -55,14 +94,15 @@ def compute_coefficients(scenario) -> Coefficients:
             c_b = c_c = math.nan  # the field model does not need the network equivalent
         refs += ["dlmf19.33", "osborn1945", "stratton1941", "crichton1989", "pedersen1991"]
     else:  # flat cylinder: layered-slab field, three-capacitance charge
-        f = layered_field_enhancement(er, h, d)
+        f = float(layered_field_enhancement(er, h, d))
         n = (er / f - er) / (1.0 - er) if er > 1.0 else 1.0
         omega = math.pi * D * D / 4.0 * h
         caps = flat_void_capacitances(D, h, d, er)
-        c_b, c_c = caps.b, caps.c
+        c_b, c_c = float(caps.b), float(caps.c)
         c_field = c_b * h
         refs += ["gemant1932", "kreuger1989", "kuffel2000"]
-    if void.field_enhancement is not None:  # a numerical field solution replaces the closed forms
+    # a numerical field solution replaces the closed forms (Void requires both values together)
+    if void.field_enhancement is not None and void.charge_per_field is not None:
         f, c_field = void.field_enhancement, void.charge_per_field
         n = (er / f - er) / (1.0 - er) if er > 1.0 and f != er else math.nan
         k_eq = f * h / d
@@ -74,7 +114,8 @@ def compute_coefficients(scenario) -> Coefficients:
         s_void = math.pi * D * D / 4.0
         if ins.area <= s_void:
             raise InputError(f"insulation.area must exceed the void's cross-section {s_void:g} m²; got {ins.area:g}")
-        c_a = flat_void_capacitances(D, min(h, 0.999 * d), d, er, specimen_area=ins.area).a
+        c_parallel = flat_void_capacitances(D, min(h, 0.999 * d), d, er, specimen_area=ins.area).a
+        c_a = math.nan if c_parallel is None else float(c_parallel)  # never None: the area is given
 
     l_str = void.streamer_length
     e_str = gas_inception_field(void.gas, void.pressure, l_str, void.temperature, criterion="streamer")
@@ -95,7 +136,7 @@ def compute_coefficients(scenario) -> Coefficients:
     if given is not None:  # a network model with capacitances of its own
         c_c, c_b = given
         c_field = c_b * h
-    k = void_voltage_ratio(c_b, c_c) if math.isfinite(c_b) else math.nan
+    k = float(void_voltage_ratio(c_b, c_c)) if math.isfinite(c_b) else math.nan
     if model.gain_from_network:
         gain_field = k / h  # void field per applied volt
         refs += ["gemant1932", "kreuger1989"]
@@ -106,8 +147,8 @@ def compute_coefficients(scenario) -> Coefficients:
     def u_inc(e: float) -> float:
         return e / (gain_field * pf) if math.isfinite(e) else math.nan
 
-    n_vol = volume_electron_rate(omega, void.pressure, void.temperature,
-                                 ionization_rate=model.ionization_rate, electron_yield=model.electron_yield)
+    n_vol = float(volume_electron_rate(omega, void.pressure, void.temperature,
+                                       ionization_rate=model.ionization_rate, electron_yield=model.electron_yield))
     f_eff = gain_field * d if model.gain_from_network else f
     return Coefficients(
         field_enhancement=f_eff,

@@ -36,7 +36,25 @@ def _show(value: object) -> str:
 
 
 def check_real(name: str, value: object) -> float:
-    """Return ``value`` as a finite float, or raise :class:`InputError` naming ``name``."""
+    """Return ``value`` as a finite float, or raise :class:`InputError` naming ``name``.
+
+    Parameters
+    ----------
+    name : str
+        The parameter's name, used in the error message.
+    value : object
+        The value to check; any object (this function is the type gate).
+
+    Returns
+    -------
+    float
+        ``value`` as a Python float.
+
+    Raises
+    ------
+    InputError
+        For a boolean, a non-number (strings are never converted) or a non-finite number.
+    """
     if isinstance(value, bool) or not isinstance(value, (int, float, np.integer, np.floating)):
         raise InputError(f"{name} must be a real number; got {_show(value)} of type {type(value).__name__}")
     x = float(value)
@@ -46,7 +64,27 @@ def check_real(name: str, value: object) -> float:
 
 
 def check_positive(name: str, value: object, unit: str = "") -> float:
-    """A finite number > 0."""
+    """A finite number > 0.
+
+    Parameters
+    ----------
+    name : str
+        The parameter's name, used in the error message.
+    value : object
+        The value to check; any object (this function is the type gate).
+    unit : str, optional
+        Unit named in the error message [-].
+
+    Returns
+    -------
+    float
+        ``value`` as a float.
+
+    Raises
+    ------
+    InputError
+        Unless ``value`` is a finite real number > 0.
+    """
     x = check_real(name, value)
     if x <= 0.0:
         raise InputError(f"{name} must be > 0{' ' + unit if unit else ''}; got {x!r}")
@@ -54,7 +92,27 @@ def check_positive(name: str, value: object, unit: str = "") -> float:
 
 
 def check_nonnegative(name: str, value: object, unit: str = "") -> float:
-    """A finite number >= 0."""
+    """A finite number >= 0.
+
+    Parameters
+    ----------
+    name : str
+        The parameter's name, used in the error message.
+    value : object
+        The value to check; any object (this function is the type gate).
+    unit : str, optional
+        Unit named in the error message [-].
+
+    Returns
+    -------
+    float
+        ``value`` as a float.
+
+    Raises
+    ------
+    InputError
+        Unless ``value`` is a finite real number >= 0.
+    """
     x = check_real(name, value)
     if x < 0.0:
         raise InputError(f"{name} must be >= 0{' ' + unit if unit else ''}; got {x!r}")
@@ -72,7 +130,33 @@ def check_range(
     unit: str = "",
     allow_inf: bool = False,
 ) -> float:
-    """A number inside [low, high] (ends open as asked); ``allow_inf`` lets +inf through when high is inf."""
+    """A number inside [low, high] (ends open as asked); ``allow_inf`` lets +inf through when high is inf.
+
+    Parameters
+    ----------
+    name : str
+        The parameter's name, used in the error message.
+    value : object
+        The value to check; any object (this function is the type gate).
+    low, high : float
+        The interval's ends, in the unit of ``value``.
+    low_open, high_open : bool, optional
+        True to exclude that end.
+    unit : str, optional
+        Unit named in the error message [-].
+    allow_inf : bool, optional
+        True to accept ``+inf`` (e.g. a decay time that never ends) when ``high`` is inf.
+
+    Returns
+    -------
+    float
+        ``value`` as a float.
+
+    Raises
+    ------
+    InputError
+        For a non-number or a value outside the interval, naming the interval and ``unit``.
+    """
     if allow_inf and isinstance(value, (int, float, np.floating)) and float(value) == math.inf:
         x = math.inf
     else:
@@ -88,7 +172,27 @@ def check_range(
 
 
 def check_choice(name: str, value: object, choices: Iterable[str]) -> str:
-    """One of a fixed set of strings (case-sensitive)."""
+    """One of a fixed set of strings (case-sensitive).
+
+    Parameters
+    ----------
+    name : str
+        The parameter's name, used in the error message.
+    value : object
+        The value to check; any object (this function is the type gate).
+    choices : Iterable[str]
+        The allowed strings.
+
+    Returns
+    -------
+    str
+        ``value``.
+
+    Raises
+    ------
+    InputError
+        Unless ``value`` is one of ``choices``; the message lists them.
+    """
     options = list(choices)
     if not isinstance(value, str) or value not in options:
         raise InputError(f"{name} must be one of {', '.join(map(repr, options))}; got {_show(value)}")
@@ -96,7 +200,27 @@ def check_choice(name: str, value: object, choices: Iterable[str]) -> str:
 
 
 def check_int(name: str, value: object, low: int | None = None, high: int | None = None) -> int:
-    """A whole number (not bool) inside [low, high]."""
+    """A whole number (not bool) inside [low, high].
+
+    Parameters
+    ----------
+    name : str
+        The parameter's name, used in the error message.
+    value : object
+        The value to check; any object (this function is the type gate).
+    low, high : int or None, optional
+        Inclusive bounds; None for no bound.
+
+    Returns
+    -------
+    int
+        ``value`` as a Python int.
+
+    Raises
+    ------
+    InputError
+        For a boolean, a non-integer (floats such as ``3.0`` included) or a value out of range.
+    """
     if isinstance(value, bool) or not isinstance(value, (int, np.integer)):
         raise InputError(f"{name} must be a whole number; got {_show(value)}")
     v = int(value)
@@ -106,7 +230,25 @@ def check_int(name: str, value: object, low: int | None = None, high: int | None
 
 
 def check_bool(name: str, value: object) -> bool:
-    """A real bool (not 0/1, not a string)."""
+    """A real bool (not 0/1, not a string).
+
+    Parameters
+    ----------
+    name : str
+        The parameter's name, used in the error message.
+    value : object
+        The value to check; any object (this function is the type gate).
+
+    Returns
+    -------
+    bool
+        ``value`` as a Python bool.
+
+    Raises
+    ------
+    InputError
+        Unless ``value`` is a bool or a numpy bool.
+    """
     if not isinstance(value, (bool, np.bool_)):
         raise InputError(f"{name} must be True or False; got {_show(value)}")
     return bool(value)
@@ -121,7 +263,31 @@ def check_array(
     max_size: int | None = None,
     finite: bool = True,
 ) -> np.ndarray:
-    """A float array of the given dimension with finite entries."""
+    """A float array of the given dimension with finite entries.
+
+    Parameters
+    ----------
+    name : str
+        The parameter's name, used in the error message.
+    value : object
+        The value to check; any object (this function is the type gate).
+    ndim : int, optional
+        Required number of dimensions.
+    min_size, max_size : int or None, optional
+        Bounds on the number of entries; ``max_size`` None for no bound.
+    finite : bool, optional
+        True to require every entry finite.
+
+    Returns
+    -------
+    numpy.ndarray
+        ``value`` as a float array (a view when no conversion was needed).
+
+    Raises
+    ------
+    InputError
+        For values that are not real numbers, the wrong dimension or size, or a non-finite entry (named by index).
+    """
     try:
         arr = np.asarray(value, dtype=float)
     except (TypeError, ValueError) as exc:

@@ -32,7 +32,25 @@ class MissingDependencyError(ImportError):
 
 
 def require(module: str, *, feature: str | None = None) -> ModuleType:
-    """Import ``module`` or raise :class:`MissingDependencyError` naming the extra, e.g. ``pdvoid[sweep]``."""
+    """Import ``module`` or raise :class:`MissingDependencyError` naming the extra, e.g. ``pdvoid[sweep]``.
+
+    Parameters
+    ----------
+    module : str
+        Dotted module name, e.g. ``"dask.distributed"``.
+    feature : str or None, optional
+        What needs it, for the message; default: the feature of the module's extra.
+
+    Returns
+    -------
+    types.ModuleType
+        The imported module.
+
+    Raises
+    ------
+    MissingDependencyError
+        (an ImportError) when the module cannot be imported; the message names the extra to install.
+    """
     try:
         return importlib.import_module(module)
     except ImportError as exc:
@@ -46,7 +64,18 @@ def require(module: str, *, feature: str | None = None) -> ModuleType:
 
 
 def available(module: str) -> bool:
-    """True when ``module`` can be imported (it is imported to find out)."""
+    """True when ``module`` can be imported (it is imported to find out).
+
+    Parameters
+    ----------
+    module : str
+        Dotted module name.
+
+    Returns
+    -------
+    bool
+        Whether the import succeeded.
+    """
     try:
         importlib.import_module(module)
     except ImportError:

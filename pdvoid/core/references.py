@@ -10,14 +10,27 @@ from __future__ import annotations
 
 from collections.abc import Iterable
 from dataclasses import dataclass
+from typing import Protocol, runtime_checkable
 
 from pdvoid.core.errors import InputError
 
-__all__ = ["Reference", "REFERENCES", "cite", "get_reference"]
+__all__ = ["Reference", "REFERENCES", "HasReferences", "cite", "get_reference"]
 
 
 @dataclass(frozen=True)
 class Reference:
+    """One bibliography entry.
+
+    Attributes
+    ----------
+    key : str
+        Short key used in code and results, e.g. ``"niemeyer1995"``.
+    citation : str
+        The full citation.
+    status : str
+        ``"confirmed"``, ``"derived"``, ``"from memory"`` or ``"common practice"`` (see the module docstring).
+    """
+
     key: str
     citation: str
     status: str  # confirmed | derived | from memory | common practice
@@ -138,22 +151,64 @@ REFERENCES: dict[str, Reference] = dict(
 
 
 def get_reference(key: str) -> Reference:
-    """The :class:`Reference` for ``key``; :class:`InputError` for an unknown key."""
+    """The :class:`Reference` for ``key``; :class:`InputError` for an unknown key.
+
+    Parameters
+    ----------
+    key : str
+        A key of :data:`REFERENCES`.
+
+    Returns
+    -------
+    Reference
+        The entry.
+
+    Raises
+    ------
+    InputError
+        For an unknown key, listing the known ones.
+    """
     try:
         return REFERENCES[key]
     except KeyError:
         raise InputError(f"unknown reference key {key!r}; known keys: {sorted(REFERENCES)}") from None
 
 
-def cite(source: object) -> str:
-    """Full citations for a result, a scenario's coefficients, or an iterable of keys, one per line."""
+@runtime_checkable
+class HasReferences(Protocol):
+    """Anything that records the reference keys it relied on (a Result, Coefficients)."""
+
+    @property
+    def references(self) -> Iterable[str]:
+        """The reference keys relied on, in order of first use."""
+        ...
+
+
+def cite(source: str | Iterable[str] | HasReferences) -> str:
+    """Full citations for a result, a scenario's coefficients, or an iterable of keys, one per line.
+
+    Parameters
+    ----------
+    source : str or Iterable[str] or HasReferences
+        A key, several keys, or an object with a ``references`` attribute (a Result, Coefficients).
+
+    Returns
+    -------
+    str
+        One full citation per line, each key once, in order of first use.
+
+    Raises
+    ------
+    InputError
+        For an unknown key or a ``source`` that is none of these.
+    """
     keys: Iterable[str]
     if isinstance(source, str):
         keys = [source]
-    elif hasattr(source, "references"):
-        keys = source.references  # type: ignore[assignment]
+    elif isinstance(source, HasReferences):
+        keys = source.references
     else:
-        keys = source  # type: ignore[assignment]
+        keys = source
     try:
         ordered = list(dict.fromkeys(keys))
     except TypeError:

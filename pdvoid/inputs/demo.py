@@ -6,7 +6,7 @@ from __future__ import annotations
 from importlib import resources
 from pathlib import Path
 
-from pdvoid.inputs.scenario import read_scenario
+from pdvoid.inputs.scenario import Scenario, read_scenario
 
 __all__ = ["DEMO_SERVICE_RMS", "DEMO_TEST_RMS", "demo_scenario", "demo_scenario_path", "demo_measured_path",
            "demo_sweep_path"]
@@ -53,7 +53,7 @@ def demo_measured_path() -> Path:
     return _example("demo_measured.csv")
 
 
-def demo_scenario():
+def demo_scenario() -> Scenario:
     """The built-in demo scenario (an invented example: a 1.5 mm air bubble in 6 mm of filled cast epoxy).
 
     Returns

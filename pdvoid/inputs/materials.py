@@ -48,14 +48,22 @@ _GASES_SCHEMA = "pdvoid.gases/1"
 class Material:
     """A host dielectric.
 
-    Attributes:
-        name: key in the parameter set.
-        permittivity: relative permittivity near power frequency [-].
-        description: what the material is.
-        source: where the value comes from.
-        status: confirmed, derived, from memory or common practice.
-        permittivity_range: typical spread (low, high) [-], or None.
-        note: free text.
+    Attributes
+    ----------
+    name : str
+        key in the parameter set.
+    permittivity : float
+        relative permittivity near power frequency [-].
+    description : str
+        what the material is.
+    source : str
+        where the value comes from.
+    status : str
+        confirmed, derived, from memory or common practice.
+    permittivity_range : tuple[float, float] or None
+        typical spread (low, high) [-], or None.
+    note : str
+        free text.
     """
 
     name: str
@@ -69,7 +77,19 @@ class Material:
 
 @dataclass(frozen=True)
 class Provenance:
-    """Where one gas constant comes from: its unit, status and source."""
+    """Where one gas constant comes from: its unit, status and source.
+
+    Attributes
+    ----------
+    unit : str
+        Unit of the constant as written in the parameter file.
+    status : str
+        ``"confirmed"``, ``"derived"``, ``"from memory"`` or ``"common practice"``.
+    source : str
+        The source (a reference key or a citation).
+    note : str
+        Free remarks; empty when none.
+    """
 
     unit: str
     status: str
@@ -81,21 +101,36 @@ class Provenance:
 class GasData:
     """Constants of a void gas (SI).
 
-    Attributes:
-        name: key in the parameter set.
-        description: what the gas is.
-        permittivity: relative permittivity [-].
-        critical_reduced_field: (E/p)_cr of the streamer formula [V/(Pa m)].
-        b_constant: B of the streamer formula [(Pa m)^n].
-        exponent: n of the streamer formula [-].
-        paschen_a: A of Paschen's law [1/(Pa m)], or None.
-        paschen_b: B of Paschen's law [V/(Pa m)], or None.
-        secondary_emission: γ of Paschen's law [-], or None.
-        k_streamer: ionisation-integral threshold K [-], or None.
-        ionization_model: "morrow_lowke_air", "sf6_linear" or None.
-        references: bibliography keys (pdvoid.core.references).
-        notes: free text.
-        provenance: quantity name -> :class:`Provenance`.
+    Attributes
+    ----------
+    name : str
+        key in the parameter set.
+    description : str
+        what the gas is.
+    permittivity : float
+        relative permittivity [-].
+    critical_reduced_field : float
+        (E/p)_cr of the streamer formula [V/(Pa m)].
+    b_constant : float
+        B of the streamer formula [(Pa m)^n].
+    exponent : float
+        n of the streamer formula [-].
+    paschen_a : float or None
+        A of Paschen's law [1/(Pa m)], or None.
+    paschen_b : float or None
+        B of Paschen's law [V/(Pa m)], or None.
+    secondary_emission : float or None
+        γ of Paschen's law [-], or None.
+    k_streamer : float or None
+        ionisation-integral threshold K [-], or None.
+    ionization_model : str or None
+        "morrow_lowke_air", "sf6_linear" or None.
+    references : tuple[str, ...]
+        bibliography keys (pdvoid.core.references).
+    notes : str
+        free text.
+    provenance : Mapping[str, Provenance]
+        quantity name -> :class:`Provenance`.
     """
 
     name: str
@@ -130,7 +165,7 @@ _MATERIAL_KEYS = {"description", "permittivity", "permittivity_range", "source",
 
 
 # ----------------------------------------------------------------------------------------- file reading
-def _read_toml(path: object) -> tuple[str, dict[str, Any]]:
+def _read_toml(path: str | os.PathLike[str]) -> tuple[str, dict[str, Any]]:
     if not isinstance(path, (str, os.PathLike)):
         raise InputError(f"parameter file path must be a str or path; got {type(path).__name__}")
     p = Path(path)
@@ -229,17 +264,23 @@ def _material(label: str, name: str, entry: dict[str, Any]) -> Material:
     )
 
 
-def load_materials(path: str | os.PathLike) -> dict[str, Material]:
+def load_materials(path: str | os.PathLike[str]) -> dict[str, Material]:
     """Read and validate a materials file (layout of the built-in ``materials.toml``).
 
-    Args:
-        path: the TOML file (at most 1 MB).
+    Parameters
+    ----------
+    path : str or os.PathLike
+        the TOML file (at most 1 MB).
 
-    Returns:
+    Returns
+    -------
+    dict[str, Material]
         Material name -> :class:`Material`.
 
-    Raises:
-        InputError: naming the file, the key and the problem (missing, unknown, out of range, εr < 1).
+    Raises
+    ------
+    InputError
+        naming the file, the key and the problem (missing, unknown, out of range, εr < 1).
     """
     label, data = _read_toml(path)
     return {name: _material(label, name, e) for name, e in _entries(label, data, _MATERIALS_SCHEMA).items()}
@@ -316,17 +357,23 @@ def _gas(label: str, name: str, entry: dict[str, Any]) -> GasData:
     )
 
 
-def load_gases(path: str | os.PathLike) -> dict[str, GasData]:
+def load_gases(path: str | os.PathLike[str]) -> dict[str, GasData]:
     """Read and validate a gases file (layout of the built-in ``gases.toml``; values SI with the unit stated).
 
-    Args:
-        path: the TOML file (at most 1 MB).
+    Parameters
+    ----------
+    path : str or os.PathLike
+        the TOML file (at most 1 MB).
 
-    Returns:
+    Returns
+    -------
+    dict[str, GasData]
         Gas name -> :class:`GasData`.
 
-    Raises:
-        InputError: naming the file, the key and the problem (missing, unknown, wrong unit, out of range).
+    Raises
+    ------
+    InputError
+        naming the file, the key and the problem (missing, unknown, wrong unit, out of range).
     """
     label, data = _read_toml(path)
     return {name: _gas(label, name, e) for name, e in _entries(label, data, _GASES_SCHEMA).items()}
@@ -354,39 +401,71 @@ def _lookup(kind: str, name: object, table: Mapping[str, Any], origin: str) -> A
 
 
 def list_materials() -> list[str]:
-    """Names of the built-in host materials, sorted."""
+    """Names of the built-in host materials, sorted.
+
+    Returns
+    -------
+    list of str
+        The material keys.
+    """
     return sorted(_builtin_materials())
 
 
 def list_gases() -> list[str]:
-    """Names of the built-in gases, sorted."""
+    """Names of the built-in gases, sorted.
+
+    Returns
+    -------
+    list of str
+        The gas keys.
+    """
     return sorted(_builtin_gases())
 
 
-def get_material(name: str, path: str | os.PathLike | None = None) -> Material:
+def get_material(name: str, path: str | os.PathLike[str] | None = None) -> Material:
     """A host material by name, from the built-in set or, with ``path``, from that user file.
 
-    Args:
-        name: material key, e.g. "epoxy_cast", "xlpe".
-        path: optional user materials file [TOML].
+    Parameters
+    ----------
+    name : str
+        material key, e.g. "epoxy_cast", "xlpe".
+    path : str or os.PathLike, optional
+        optional user materials file [TOML].
 
-    Raises:
-        InputError: for an unknown name (listing the known ones) or a bad file.
+    Returns
+    -------
+    Material
+        The material with its values and their sources.
+
+    Raises
+    ------
+    InputError
+        for an unknown name (listing the known ones) or a bad file.
     """
     if path is None:
         return _lookup("material", name, _builtin_materials(), "the built-in materials")
     return _lookup("material", name, load_materials(path), f"file {path}")
 
 
-def get_gas(name: str, path: str | os.PathLike | None = None) -> GasData:
+def get_gas(name: str, path: str | os.PathLike[str] | None = None) -> GasData:
     """A void gas by name, from the built-in set or, with ``path``, from that user file.
 
-    Args:
-        name: gas key, e.g. "air", "nitrogen", "sf6".
-        path: optional user gases file [TOML].
+    Parameters
+    ----------
+    name : str
+        gas key, e.g. "air", "nitrogen", "sf6".
+    path : str or os.PathLike, optional
+        optional user gases file [TOML].
 
-    Raises:
-        InputError: for an unknown name (listing the known ones) or a bad file.
+    Returns
+    -------
+    GasData
+        The gas with its parameter set and sources.
+
+    Raises
+    ------
+    InputError
+        for an unknown name (listing the known ones) or a bad file.
     """
     if path is None:
         return _lookup("gas", name, _builtin_gases(), "the built-in gases")

@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from typing import Any, ClassVar, TypeVar
+from typing import ClassVar, TypeVar
 
 from pdvoid.core.errors import InputError, check_bool, check_choice, check_nonnegative, check_range
 
@@ -28,7 +28,7 @@ class ModelParameters:
     """Parameters every void model shares: the residual field, the inception criterion and the start-electron
     supply. A concrete model derives from this class (see :class:`pdvoid.FieldModel`).
 
-    Parameters
+    Attributes
     ----------
     residual_ratio : float
         E_res / E_inc [-], in [0, 1). Default 0.25: a typical fitted value, not a published constant (the
@@ -60,9 +60,6 @@ class ModelParameters:
         Extra start electrons [1/s] when the void lies on an electrode and the metal wall is the cathode of the
         pending discharge (electrons from the metal). Default 0; illustrative values are hundreds to thousands
         per second.
-
-    Attributes
-    ----------
     kind : str
         The model's name in scenario files (``[model] kind = ...``); set by each concrete model.
     title : str
@@ -168,13 +165,13 @@ def model_kinds() -> tuple[str, ...]:
     return tuple(_REGISTRY)
 
 
-def model_class(kind: Any) -> type[ModelParameters]:
+def model_class(kind: object) -> type[ModelParameters]:
     """The model class registered under ``kind``.
 
     Parameters
     ----------
-    kind : str
-        A registered kind (see :func:`model_kinds`).
+    kind : object
+        A registered kind (see :func:`model_kinds`); anything else (also a non-string from a file) raises.
 
     Returns
     -------

@@ -40,11 +40,16 @@ def _set(obj: object, name: str, value: object) -> None:
 class Insulation:
     """A slab of solid insulation between plane electrodes.
 
-    Args:
-        thickness: electrode spacing d [m], 1 µm to 1 m.
-        permittivity: relative permittivity εr of the host [-], 1 to 100. Taken from ``material`` when omitted.
-        material: name of a host material from the parameter sets (sets ``permittivity`` when that is omitted).
-        area: electrode area of the specimen [m²], optional; only the network model's C_a uses it.
+    Attributes
+    ----------
+    thickness : float
+        electrode spacing d [m], 1 µm to 1 m.
+    permittivity : float or None
+        relative permittivity εr of the host [-], 1 to 100. Taken from ``material`` when omitted.
+    material : str or None
+        name of a host material from the parameter sets (sets ``permittivity`` when that is omitted).
+    area : float or None
+        electrode area of the specimen [m²], optional; only the network model's C_a uses it.
     """
 
     thickness: float
@@ -71,20 +76,31 @@ class Insulation:
 class Void:
     """A gas-filled void, centred in the slab, its symmetry axis along the applied field.
 
-    Args:
-        diameter: extent across the field [m].
-        height: extent along the field [m].
-        pressure: gas pressure [Pa], 100 Pa to 1 MPa.
-        gas: "air", "nitrogen" or "sf6".
-        temperature: gas temperature [K], 200 to 500 K.
-        shape: "spheroid" (closed-form field and induced charge) or "cylinder" (flat disc: three-capacitance
-            formulas; the field model then uses the layered-slab field, valid for diameter ≫ height).
-        inception_length: the length l in the streamer criterion [m]; defaults to ``height``.
-        position: "centred" (far from both electrodes), or "high_voltage_electrode" / "ground_electrode" for a
-            void whose flat side lies on that electrode (a half spheroid; closed forms by the image method).
-        field_enhancement: void field / (V/d) [-] from a numerical field solution (pdvoid.fields), replacing
-            the closed form for geometries it does not cover; give it together with ``charge_per_field``.
-        charge_per_field: apparent charge per unit drop of the void field [C/(V/m)], likewise.
+    Attributes
+    ----------
+    diameter : float
+        extent across the field [m].
+    height : float
+        extent along the field [m].
+    pressure : float
+        gas pressure [Pa], 100 Pa to 1 MPa.
+    gas : str
+        "air", "nitrogen" or "sf6".
+    temperature : float
+        gas temperature [K], 200 to 500 K.
+    shape : str
+        "spheroid" (closed-form field and induced charge) or "cylinder" (flat disc: three-capacitance
+        formulas; the field model then uses the layered-slab field, valid for diameter ≫ height).
+    inception_length : float or None
+        the length l in the streamer criterion [m]; defaults to ``height``.
+    position : str
+        "centred" (far from both electrodes), or "high_voltage_electrode" / "ground_electrode" for a
+        void whose flat side lies on that electrode (a half spheroid; closed forms by the image method).
+    field_enhancement : float or None
+        void field / (V/d) [-] from a numerical field solution (pdvoid.fields), replacing
+        the closed form for geometries it does not cover; give it together with ``charge_per_field``.
+    charge_per_field : float or None
+        apparent charge per unit drop of the void field [C/(V/m)], likewise.
     """
 
     diameter: float
@@ -131,10 +147,14 @@ class Sine:
     V(t) = √2·rms·[sin(2πft) + Σ_k h_k·sin(2π·m_k·f·t + φ_k)]; t = 0 is the positive-going zero crossing of the
     fundamental, which is the phase reference of every event.
 
-    Args:
-        rms: rms value of the fundamental [V], > 0 and ≤ 10 MV.
-        frequency: fundamental frequency [Hz], 0.01 Hz to 10 kHz.
-        harmonics: tuples (order m ≥ 2, fraction h of the fundamental in [0, 1], phase φ [deg]).
+    Attributes
+    ----------
+    rms : float
+        rms value of the fundamental [V], > 0 and ≤ 10 MV.
+    frequency : float
+        fundamental frequency [Hz], 0.01 Hz to 10 kHz.
+    harmonics : tuple[tuple[int, float, float], ...]
+        tuples (order m ≥ 2, fraction h of the fundamental in [0, 1], phase φ [deg]).
     """
 
     rms: float
@@ -164,7 +184,13 @@ class Sine:
         _set(self, "harmonics", tuple(hs))
 
     def fourier(self) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
-        """(orders, a, b) with V(t) = Σ a_m sin(m ω t) + b_m cos(m ω t) [V]."""
+        """(orders, a, b) with V(t) = Σ a_m sin(m ω t) + b_m cos(m ω t) [V].
+
+        Returns
+        -------
+        tuple of numpy.ndarray
+            ``(orders, a, b)``: harmonic orders m [-] and the sine and cosine amplitudes a_m, b_m [V].
+        """
         amp = math.sqrt(2.0) * self.rms
         orders = [1] + [h[0] for h in self.harmonics]
         a = [amp] + [amp * h[1] * math.cos(math.radians(h[2])) for h in self.harmonics]
@@ -173,6 +199,7 @@ class Sine:
 
     @property
     def is_pure(self) -> bool:
+        """True when every harmonic has zero amplitude (a plain sine)."""
         return all(h[1] == 0.0 for h in self.harmonics)
 
 
@@ -184,10 +211,14 @@ class Periodic:
     smooth, periodic and passes through every sample. t = 0 is the phase reference of every event; put a
     positive-going zero crossing there for IEC 60270 phase angles.
 
-    Args:
-        samples: applied voltage over one period [V], 4 to 4096 values.
-        frequency: repetition frequency [Hz], 0.01 Hz to 10 kHz.
-        max_harmonic: highest harmonic kept [-] (default: all the samples resolve, at most 64).
+    Attributes
+    ----------
+    samples : object
+        applied voltage over one period [V], 4 to 4096 values.
+    frequency : float
+        repetition frequency [Hz], 0.01 Hz to 10 kHz.
+    max_harmonic : int or None
+        highest harmonic kept [-] (default: all the samples resolve, at most 64).
     """
 
     samples: Any
@@ -211,16 +242,35 @@ class Periodic:
             raise InputError(f"supply.max_harmonic must be a whole number in [1, {nyq}]; got {self.max_harmonic!r}")
 
     def fourier(self) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+        """(orders, a, b) with V(t) = Σ a_m sin(m ω t) + b_m cos(m ω t) [V], from the FFT of the samples.
+
+        Harmonics 1 to ``max_harmonic`` are kept.
+
+        Returns
+        -------
+        tuple of numpy.ndarray
+            ``(orders, a, b)``: harmonic orders m [-] and the sine and cosine amplitudes a_m, b_m [V].
+
+        Raises
+        ------
+        InputError
+            When the samples do not have zero mean (not an AC supply).
+        """
         n = self.samples.size
         c = np.fft.rfft(self.samples) / n
         if abs(c[0].real) > 1e-9 * np.max(np.abs(self.samples)):
             raise InputError(
                 f"supply.samples must have zero mean (an AC supply); the mean is {c[0].real:.6g} V"
             )
-        m = np.arange(1, int(self.max_harmonic) + 1)
+        m = np.arange(1, self._harmonics() + 1)
         a = -2.0 * c[m].imag
         b = 2.0 * c[m].real
         return m.astype(float), a, b
+
+    def _harmonics(self) -> int:
+        if self.max_harmonic is None:  # __post_init__ sets it; never None after construction
+            raise InputError("supply.max_harmonic is not set")
+        return int(self.max_harmonic)
 
     @property
     def rms(self) -> float:
@@ -229,6 +279,7 @@ class Periodic:
 
     @property
     def is_pure(self) -> bool:
+        """Always False: a sampled waveform is treated as a general periodic supply."""
         return False
 
     def __eq__(self, other: object) -> bool:
@@ -243,11 +294,46 @@ class Periodic:
 
 
 def check_seed(seed: object) -> int:
-    """A seed for the generator: a whole number in [0, 2**32 - 1]."""
+    """A seed for the generator: a whole number in [0, 2**32 - 1].
+
+    Parameters
+    ----------
+    seed : object
+        The seed to check (this function is the type gate; booleans and floats are refused).
+
+    Returns
+    -------
+    int
+        ``seed`` as a Python int.
+
+    Raises
+    ------
+    InputError
+        Unless ``seed`` is a whole number in [0, 4294967295].
+    """
     if isinstance(seed, bool) or not isinstance(seed, (int, np.integer)) or not 0 <= int(seed) < 2**32:
         raise InputError(f"seed must be a whole number in [0, 4294967295]; got {seed!r}")
     return int(seed)
 
 
 def real_or_none(name: str, value: object) -> float | None:
+    """None, or ``value`` checked as a finite real number.
+
+    Parameters
+    ----------
+    name : str
+        The parameter's name, used in the error message.
+    value : object
+        None or a number (this function is the type gate).
+
+    Returns
+    -------
+    float or None
+        ``value`` as a float, or None.
+
+    Raises
+    ------
+    InputError
+        For a value that is neither None nor a finite real number.
+    """
     return None if value is None else check_real(name, value)

@@ -21,7 +21,7 @@ PARTS = ("insulation", "void", "supply", "model")
 class Scenario:
     """Everything one simulation needs: insulation, void, supply and model.
 
-    Parameters
+    Attributes
     ----------
     insulation : pdvoid.Insulation
         The host slab.

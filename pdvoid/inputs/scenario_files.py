@@ -1,4 +1,7 @@
-"""Scenario files: TOML whose quantities may carry units ("1.2 mm", "12 kV", "50 Hz", "1 atm").
+"""Scenario files: TOML whose quantities may carry units ("1.2 mm", "12 kV", "50 Hz", "1 atm", "0.1 pF", "1 cm2").
+
+Any unit pint knows is accepted when its dimension fits the key (:func:`pdvoid.core.units.parse_quantity`);
+files written by pdvoid carry SI units.
 
 Layout (every key optional unless the class requires it; bare numbers are SI)::
 
@@ -45,7 +48,6 @@ _DIMS: dict[str, dict[str, tuple[str | None, str]]] = {
     "sine": {"rms": ("voltage", "V"), "frequency": ("frequency", "Hz"), "harmonics": (None, "")},
     "periodic": {"samples": (None, ""), "frequency": ("frequency", "Hz"), "max_harmonic": (None, "")},
 }
-_SI_ONLY = {"area": "m2", "capacitance": "F", "charge per field": "C/(V/m)"}
 
 
 def field_schema(part: str, obj: Any) -> dict[str, tuple[str | None, str]]:
@@ -72,7 +74,7 @@ def field_schema(part: str, obj: Any) -> dict[str, tuple[str | None, str]]:
     return dict(_DIMS[part])
 
 
-def quantity_value(value: Any, dim: str, where: str) -> float:
+def quantity_value(value: float | str, dim: str, where: str) -> float:
     """A quantity from a file: a number (SI) or text with a unit of dimension ``dim``, as an SI float.
 
     Parameters
@@ -89,17 +91,6 @@ def quantity_value(value: Any, dim: str, where: str) -> float:
     float
         The value in SI units.
     """
-    if dim in _SI_ONLY:
-        if isinstance(value, str):
-            text = value.strip()
-            unit = _SI_ONLY[dim]
-            if text.endswith(unit):
-                text = text[: -len(unit)]
-            try:
-                return float(text)
-            except ValueError:
-                raise InputError(f"{where}: expected a number in {unit}; got {value!r}") from None
-        return parse_quantity(value, "dimensionless", name=where)
     return parse_quantity(value, dim, name=where)
 
 
@@ -179,7 +170,7 @@ def _from_dict(data: dict, source: str) -> dict[str, Any]:
     return {"insulation": ins, "void": void, "supply": supply, "model": cls(**kw), "name": data.get("name", "")}
 
 
-def read_scenario_parts(path: str | os.PathLike) -> dict[str, Any]:
+def read_scenario_parts(path: str | os.PathLike[str]) -> dict[str, Any]:
     """Read a TOML scenario file into the keyword arguments of :class:`pdvoid.Scenario`.
 
     Parameters
@@ -239,14 +230,16 @@ def scenario_to_dict(s: Scenario) -> dict[str, Any]:
             if v is None:
                 continue
             dim, unit = schema[f.name]
-            out[part][f.name] = _q(v, unit) if dim is not None and unit and dim not in _SI_ONLY else v
+            out[part][f.name] = _q(v, unit) if dim is not None and unit else v
     if isinstance(s.supply, Sine):
         out["supply"] = {"kind": "sine", "rms": _q(s.supply.rms, "V"), "frequency": _q(s.supply.frequency, "Hz")}
         if s.supply.harmonics:
             out["supply"]["harmonics"] = [list(h) for h in s.supply.harmonics]
     else:
         out["supply"] = {"kind": "periodic", "samples": [float(x) for x in s.supply.samples],
-                         "frequency": _q(s.supply.frequency, "Hz"), "max_harmonic": int(s.supply.max_harmonic)}
+                         "frequency": _q(s.supply.frequency, "Hz")}
+        if s.supply.max_harmonic is not None:  # always set once the supply is constructed
+            out["supply"]["max_harmonic"] = int(s.supply.max_harmonic)
     m = s.model
     out["model"] = {"kind": m.kind}
     for f in fields(m):
@@ -258,7 +251,7 @@ def scenario_to_dict(s: Scenario) -> dict[str, Any]:
     return out
 
 
-def write_scenario_file(s: Scenario, path: str | os.PathLike) -> Path:
+def write_scenario_file(s: Scenario, path: str | os.PathLike[str]) -> Path:
     """Write a TOML scenario file that :func:`pdvoid.inputs.scenario.read_scenario` restores exactly.
 
     Parameters

@@ -8,6 +8,8 @@ cache function``; we then compile without a cache, so pdvoid still imports and r
 from __future__ import annotations
 
 import logging
+from collections.abc import Callable
+from typing import Any
 
 import numba
 
@@ -16,10 +18,23 @@ __all__ = ["njit_cached"]
 _log = logging.getLogger("pdvoid")
 
 
-def njit_cached(func=None, **options):
-    """``numba.njit(cache=True)`` with a fall-back to ``cache=False`` when no cache location is writable."""
+def njit_cached(func: Callable[..., Any] | None = None, **options: Any) -> Any:
+    """``numba.njit(cache=True)`` with a fall-back to ``cache=False`` when no cache location is writable.
 
-    def wrap(f):
+    Parameters
+    ----------
+    func : callable or None, optional
+        The function to compile; None when used as ``@njit_cached(**options)``.
+    **options : Any
+        Further options of ``numba.njit``.
+
+    Returns
+    -------
+    object
+        The compiled dispatcher, or a decorator when ``func`` is None.
+    """
+
+    def wrap(f: Callable[..., Any]) -> Any:
         try:
             return numba.njit(cache=True, **options)(f)
         except RuntimeError as exc:  # numba: "cannot cache function ...: no locator available"

@@ -53,20 +53,49 @@ T_HIGH = 5
 TOTALS_SIZE = 8
 
 @njit_cached
-def seed_generator(seed):
-    """Seed the generator used by :func:`run_cycles` (numba's own; numpy's legacy one without JIT)."""
+def seed_generator(seed: int) -> None:
+    """Seed the generator used by :func:`run_cycles` (numba's own; numpy's legacy one without JIT).
+
+    Parameters
+    ----------
+    seed : int
+        Seed in [0, 2**32 - 1] [-].
+    """
     np.random.seed(seed)
 
 
 @njit_cached
-def start_wait(state):
-    """Draw the exponential hazard the next discharge must accumulate."""
+def start_wait(state: np.ndarray) -> None:
+    """Draw the exponential hazard the next discharge must accumulate.
+
+    Parameters
+    ----------
+    state : numpy.ndarray
+        The void state vector (layout ``S_*`` above); its ``S_REMAIN`` entry is set.
+    """
     state[S_REMAIN] = np.random.exponential(1.0)
 
 
 @njit_cached
-def voltage(t, omega, orders, a_coef, b_coef):
-    """V(t) = sum_m a_m sin(m w t) + b_m cos(m w t) [V]."""
+def voltage(t: float, omega: float, orders: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray) -> float:
+    """V(t) = sum_m a_m sin(m w t) + b_m cos(m w t) [V].
+
+    Parameters
+    ----------
+    t : float
+        Time from the positive-going zero crossing [s].
+    omega : float
+        Angular frequency of the fundamental [rad/s].
+    orders : numpy.ndarray
+        Harmonic orders m [-].
+    a_coef, b_coef : numpy.ndarray
+        Sine and cosine amplitudes of each order [V].
+
+    Returns
+    -------
+    float
+        The applied voltage [V].
+    """
     v = 0.0
     for i in range(orders.size):
         ph = orders[i] * omega * t
@@ -75,8 +104,27 @@ def voltage(t, omega, orders, a_coef, b_coef):
 
 
 @njit_cached
-def voltage_slope(t, omega, orders, a_coef, b_coef):
-    """dV/dt [V/s]."""
+def voltage_slope(
+    t: float, omega: float, orders: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray,
+) -> float:
+    """dV/dt [V/s].
+
+    Parameters
+    ----------
+    t : float
+        Time from the positive-going zero crossing [s].
+    omega : float
+        Angular frequency of the fundamental [rad/s].
+    orders : numpy.ndarray
+        Harmonic orders m [-].
+    a_coef, b_coef : numpy.ndarray
+        Sine and cosine amplitudes of each order [V].
+
+    Returns
+    -------
+    float
+        dV/dt [V/s].
+    """
     v = 0.0
     for i in range(orders.size):
         m = orders[i] * omega
@@ -86,19 +134,25 @@ def voltage_slope(t, omega, orders, a_coef, b_coef):
 
 
 @njit_cached
-def _xq(t, xq0, tq, tau_q):
+def _xq(t: float, xq0: float, tq: float, tau_q: float) -> float:
     if tau_q == math.inf or xq0 == 0.0:
         return xq0
     return xq0 * math.exp(-(t - tq) / tau_q)
 
 
 @njit_cached
-def _x(t, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q):
+def _x(
+    t: float, gain: float, omega: float, orders: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray, xq0: float,
+    tq: float, tau_q: float,
+) -> float:
     return gain * voltage(t, omega, orders, a_coef, b_coef) + _xq(t, xq0, tq, tau_q)
 
 
 @njit_cached
-def _dx(t, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q):
+def _dx(
+    t: float, gain: float, omega: float, orders: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray, xq0: float,
+    tq: float, tau_q: float,
+) -> float:
     d = gain * voltage_slope(t, omega, orders, a_coef, b_coef)
     if tau_q != math.inf and xq0 != 0.0:
         d -= _xq(t, xq0, tq, tau_q) / tau_q
@@ -106,7 +160,10 @@ def _dx(t, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q):
 
 
 @njit_cached
-def _root_x(target, t0, t1, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q):
+def _root_x(
+    target: float, t0: float, t1: float, gain: float, omega: float, orders: np.ndarray, a_coef: np.ndarray,
+    b_coef: np.ndarray, xq0: float, tq: float, tau_q: float,
+) -> float:
     """Root of x(t) = target on [t0, t1] where x is monotone and brackets target: Newton with bisection guard."""
     f0 = _x(t0, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q) - target
     f1 = _x(t1, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q) - target
@@ -138,7 +195,9 @@ def _root_x(target, t0, t1, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
 
 
 @njit_cached
-def _root_sine(target, t0, t1, amp_g, omega, cycle_t, seg, xq0):
+def _root_sine(
+    target: float, t0: float, t1: float, amp_g: float, omega: float, cycle_t: float, seg: int, xq0: float,
+) -> float:
     """Closed-form root of g·A·sin(w t) + xq0 = target on the piece `seg` (0 rising, 1 falling, 2 rising)."""
     s = (target - xq0) / amp_g
     if s > 1.0:
@@ -161,7 +220,7 @@ def _root_sine(target, t0, t1, amp_g, omega, cycle_t, seg, xq0):
 
 
 @njit_cached
-def _surface_level(pol, last_pol, n_same, n_rev):
+def _surface_level(pol: float, last_pol: float, n_same: float, n_rev: float) -> float:
     if last_pol == 0.0:
         return 0.0
     if pol == last_pol:
@@ -170,8 +229,11 @@ def _surface_level(pol, last_pol, n_same, n_rev):
 
 
 @njit_cached
-def _rate(t, pol, state, n_vol, n_same, n_rev, tau_s, field_assisted, x_inc,
-          gain, omega, orders, a_coef, b_coef, tau_q):
+def _rate(
+    t: float, pol: float, state: np.ndarray, n_vol: float, n_same: float, n_rev: float, tau_s: float,
+    field_assisted: bool, x_inc: float, gain: float, omega: float, orders: np.ndarray, a_coef: np.ndarray,
+    b_coef: np.ndarray, tau_q: float,
+) -> float:
     ns = _surface_level(pol, state[S_LASTPOL], n_same, n_rev)
     r = n_vol
     if ns > 0.0:
@@ -186,7 +248,9 @@ def _rate(t, pol, state, n_vol, n_same, n_rev, tau_s, field_assisted, x_inc,
 
 
 @njit_cached
-def _invert_closed(t0, t1, need, ns, n_vol, tau_s, t_last):
+def _invert_closed(
+    t0: float, t1: float, need: float, ns: float, n_vol: float, tau_s: float, t_last: float,
+) -> tuple[float, float]:
     """Spend hazard `need` of the rate n_vol + ns·exp(-(t - t_last)/tau_s) from t0 on.
 
     Returns (t, spent): t in [t0, t1] where the hazard reaches `need`, or (t1, hazard of the whole window) when
@@ -220,8 +284,11 @@ def _invert_closed(t0, t1, need, ns, n_vol, tau_s, t_last):
 
 
 @njit_cached
-def _consume_window(t0, t1, x0, x1, pol, state, n_vol, n_same, n_rev, tau_s, field_assisted, x_inc,
-                    gain, omega, orders, a_coef, b_coef, tau_q):
+def _consume_window(
+    t0: float, t1: float, x0: float, x1: float, pol: float, state: np.ndarray, n_vol: float, n_same: float,
+    n_rev: float, tau_s: float, field_assisted: bool, x_inc: float, gain: float, omega: float, orders: np.ndarray,
+    a_coef: np.ndarray, b_coef: np.ndarray, tau_q: float,
+) -> float:
     """Spend the remaining hazard over the above-threshold window [t0, t1].
 
     x0, x1 are |x| at t0 and t1. Returns the discharge time, or -1.0 when the window ends first (the hazard
@@ -272,7 +339,10 @@ def _consume_window(t0, t1, x0, x1, pol, state, n_vol, n_same, n_rev, tau_s, fie
 
 
 @njit_cached
-def _monotone_end(t, t_end, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q):
+def _monotone_end(
+    t: float, t_end: float, gain: float, omega: float, orders: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray,
+    xq0: float, tq: float, tau_q: float,
+) -> float:
     """With charge decay, x may turn inside a V-monotone piece: the first sign change of dx/dt after t
     (scanned on 16 sub-intervals, then bisected), or t_end."""
     n = 16
@@ -300,43 +370,95 @@ def _monotone_end(t, t_end, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
 
 @njit_cached
 def run_cycles(
-    state,
-    cycle_start,
-    cycle_stop,
-    frequency,
-    orders,
-    a_coef,
-    b_coef,
-    seg_fracs,
-    pure_sine,
-    gain,
-    x_inc,
-    x_res,
-    charge_per_unit,
-    lag_free,
-    n_vol_pos,
-    n_vol_neg,
-    n_same,
-    n_rev,
-    tau_s,
-    field_assisted,
-    tau_q,
-    store_events,
-    out_time,
-    out_charge,
-    out_before,
-    out_after,
-    max_per_cycle,
-    hist_counts,
-    charge_edges,
-    totals,
-):
+    state: np.ndarray,
+    cycle_start: int,
+    cycle_stop: int,
+    frequency: float,
+    orders: np.ndarray,
+    a_coef: np.ndarray,
+    b_coef: np.ndarray,
+    seg_fracs: np.ndarray,
+    pure_sine: bool,
+    gain: float,
+    x_inc: float,
+    x_res: float,
+    charge_per_unit: float,
+    lag_free: bool,
+    n_vol_pos: float,
+    n_vol_neg: float,
+    n_same: float,
+    n_rev: float,
+    tau_s: float,
+    field_assisted: bool,
+    tau_q: float,
+    store_events: bool,
+    out_time: np.ndarray,
+    out_charge: np.ndarray,
+    out_before: np.ndarray,
+    out_after: np.ndarray,
+    max_per_cycle: int,
+    hist_counts: np.ndarray,
+    charge_edges: np.ndarray,
+    totals: np.ndarray,
+) -> tuple[int, int]:
     """Advance the void over AC cycles [cycle_start, cycle_stop).
 
     Events are written to the out_* buffers (when store_events) and always accumulated into totals and, when
     hist_counts has rows, into the phase x charge histogram (rows = phase bins over 0..360 deg, columns = bins
     between charge_edges [C]). Returns (events written, next cycle). The loop stops early, at a cycle boundary,
     when the buffers have room for fewer than max_per_cycle further events; the caller then grows them.
+
+    Parameters
+    ----------
+    state : numpy.ndarray
+        The void state vector (layout ``S_*`` above), updated in place.
+    cycle_start, cycle_stop : int
+        The cycles to run, [cycle_start, cycle_stop) [-].
+    frequency : float
+        Supply frequency [Hz].
+    orders : numpy.ndarray
+        Harmonic orders m [-].
+    a_coef, b_coef : numpy.ndarray
+        Sine and cosine amplitudes of each order [V].
+    seg_fracs : numpy.ndarray
+        Breakpoints of the monotone pieces of V, as fractions of the period from 0 to 1 [-].
+    pure_sine : bool
+        True for a plain sine (closed-form threshold crossings without decay).
+    gain : float
+        g: void quantity per applied volt (f/d [1/m] for the field model, k [-] for the network model).
+    x_inc, x_res : float
+        Inception and residual value of the void quantity [V/m or V].
+    charge_per_unit : float
+        Apparent charge per unit drop of the void quantity [C/(V/m) or C/V].
+    lag_free : bool
+        True to discharge the instant |x| reaches x_inc (no start-electron wait).
+    n_vol_pos, n_vol_neg : float
+        Volume start-electron rate for positive and negative discharges [1/s].
+    n_same, n_rev : float
+        Surface emission rate after a discharge, for the same and the reversed polarity [1/s].
+    tau_s : float
+        Decay time of the surface emission rate [s].
+    field_assisted : bool
+        True to multiply the rate by exp(|x|/x_inc).
+    tau_q : float
+        Decay time of the deposited quantity [s]; inf for none.
+    store_events : bool
+        True to write events to the ``out_*`` buffers.
+    out_time, out_charge, out_before, out_after : numpy.ndarray
+        Event buffers: time [s], apparent charge [C], void quantity before and after [V/m or V].
+    max_per_cycle : int
+        Upper bound on events in one cycle [-]; the loop stops when the buffers have less room.
+    hist_counts : numpy.ndarray
+        Phase x charge histogram, int64, updated in place; zero rows for none.
+    charge_edges : numpy.ndarray
+        Charge bin edges of the histogram [C].
+    totals : numpy.ndarray
+        Running sums (layout ``T_*`` above), updated in place.
+
+    Returns
+    -------
+    tuple of int
+        (events written, next cycle to run).
     """
     period = 1.0 / frequency
     omega = 2.0 * math.pi * frequency

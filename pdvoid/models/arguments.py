@@ -3,18 +3,61 @@
 from __future__ import annotations
 
 from dataclasses import dataclass
+from typing import TYPE_CHECKING
 
 import numpy as np
 
 from pdvoid.inputs.waveform import monotone_breakpoints
+
+if TYPE_CHECKING:
+    from pdvoid.inputs.parameters import Periodic, Sine
+    from pdvoid.inputs.scenario import Scenario
 
 __all__ = ["KernelArguments", "supply_arrays", "cathode_rate"]
 
 
 @dataclass(frozen=True, eq=False)
 class KernelArguments:
-    """Kernel inputs in SI. The void quantity x is a field [V/m] (field model) or a voltage [V] (network model);
-    ``x_to_field`` converts it to the void field [V/m]."""
+    """Kernel inputs in SI.
+
+    The void quantity x is a field [V/m] (field model) or a voltage [V] (network model); ``x_to_field`` converts it
+    to the void field [V/m].
+
+    Attributes
+    ----------
+    frequency : float
+        Supply frequency [Hz].
+    orders : numpy.ndarray
+        Harmonic orders of the supply [-].
+    a_coef, b_coef : numpy.ndarray
+        Sine and cosine amplitudes of each order [V].
+    seg_fracs : numpy.ndarray
+        Breakpoints of the monotone pieces of V, fractions of the period from 0 to 1 [-].
+    pure_sine : bool
+        True for a plain sine.
+    gain : float
+        g: void quantity per applied volt (f/d [1/m] or k [-]).
+    x_inc, x_res : float
+        Inception and residual value of the void quantity [V/m or V].
+    charge_per_unit : float
+        Apparent charge per unit drop of the void quantity [C/(V/m) or C/V].
+    lag_free : bool
+        True to discharge the instant |x| reaches x_inc.
+    n_vol_pos, n_vol_neg : float
+        Volume start-electron rate for positive and negative discharges [1/s].
+    n_same, n_rev : float
+        Surface emission rate after a discharge, same and reversed polarity [1/s].
+    tau_s : float
+        Decay time of the surface emission [s].
+    field_assisted : bool
+        True to multiply the rate by exp(|x|/x_inc).
+    tau_q : float
+        Decay time of the deposited quantity [s]; inf for none.
+    x_to_field : float
+        Void field per unit of the void quantity ([-] for the field model, 1/h [1/m] for the network model).
+    references : tuple of str
+        Bibliography keys the model relied on.
+    """
 
     frequency: float
     orders: np.ndarray
@@ -40,7 +83,18 @@ class KernelArguments:
     def max_events_per_cycle(self, scale: float = 1.0) -> int:
         """An upper bound on discharges in one cycle with the supply multiplied by ``scale`` (each discharge
         lowers |x| by at least x_inc - x_res; on every monotone piece x travels at most the swing of g·V plus
-        the decay of the deposited part)."""
+        the decay of the deposited part).
+
+        Parameters
+        ----------
+        scale : float, optional
+            Factor on the supply waveform [-].
+
+        Returns
+        -------
+        int
+            The bound [-].
+        """
         from pdvoid.inputs.waveform import evaluate
 
         v = scale * evaluate(self.seg_fracs, self.orders, self.a_coef, self.b_coef)
@@ -58,8 +112,20 @@ class KernelArguments:
         return int(np.ceil((swing + pieces * 2.0 * (vmax + self.x_inc)) / step)) + 4 * pieces + 4
 
 
-def supply_arrays(supply) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray, bool]:
-    """(orders, a, b, breakpoints, pure_sine) for the kernel."""
+def supply_arrays(supply: Sine | Periodic) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray, bool]:
+    """(orders, a, b, breakpoints, pure_sine) for the kernel.
+
+    Parameters
+    ----------
+    supply : Sine or Periodic
+        The supply.
+
+    Returns
+    -------
+    tuple
+        Harmonic orders [-], sine and cosine amplitudes [V], breakpoints of the monotone pieces as fractions of the
+        period [-], and whether the supply is a plain sine.
+    """
     orders, a, b = supply.fourier()
     pure = bool(supply.is_pure)
     if pure:
@@ -70,7 +136,7 @@ def supply_arrays(supply) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarra
     return orders, a, b, seg, pure
 
 
-def cathode_rate(scenario, polarity: float) -> float:
+def cathode_rate(scenario: Scenario, polarity: float) -> float:
     """Extra start electrons [1/s] for discharges of ``polarity`` (+1: void field along the field of the positive
     half cycle) in a void bounded by an electrode: model.cathode_emission_rate when the metal wall is the
     cathode of that discharge, else 0.
@@ -79,7 +145,20 @@ def cathode_rate(scenario, polarity: float) -> float:
     electrode has the metal as its cathode in negative discharges, a void on the ground electrode in positive
     ones (electron drift against the field; the metal supplies electrons far more readily than the dielectric
     wall — the mechanism behind the asymmetric patterns of electrode-bounded cavities reported by Forssén &
-    Edin 2008, as summarised by Illias, Chen & Lewin 2011)."""
+    Edin 2008, as summarised by Illias, Chen & Lewin 2011).
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The scenario (its void position and model).
+    polarity : float
+        +1 or -1: the polarity of the discharge.
+
+    Returns
+    -------
+    float
+        The extra start-electron rate [1/s].
+    """
     position = scenario.void.position
     if position == "centred":
         return 0.0

@@ -30,7 +30,7 @@ class NetworkModel(ModelParameters):
     Capacitances come from the geometry (flat cylindrical void: parallel-plate formulas; spheroid: the documented
     equivalent that reproduces the induced charge) unless given here.
 
-    Parameters
+    Attributes
     ----------
     capacitance_void : float, optional
         C_c [F] (give both or neither of C_c and C_b).

@@ -35,10 +35,29 @@ class VoidModel(Protocol):
     gain_from_network: ClassVar[bool]
 
     def network_capacitances(self) -> tuple[float, float] | None:
-        """(C_c, C_b) the model prescribes, or None [F]."""
+        """(C_c, C_b) the model prescribes, or None [F].
+
+        Returns
+        -------
+        tuple of float or None
+            The void and series capacitances [F], or None when the coefficients supply them.
+        """
 
     def kernel_arguments(self, scenario: Scenario, c: Coefficients) -> KernelArguments:
-        """The plain floats and arrays of one kernel call."""
+        """The plain floats and arrays of one kernel call.
+
+        Parameters
+        ----------
+        scenario : Scenario
+            The scenario to run.
+        c : Coefficients
+            Its coefficients (:func:`pdvoid.compute_coefficients`).
+
+        Returns
+        -------
+        KernelArguments
+            Everything the event kernel needs, in SI.
+        """
 
 
 def kernel_arguments(scenario: Scenario) -> KernelArguments:

@@ -10,6 +10,7 @@ from __future__ import annotations
 import math
 
 import numpy as np
+import numpy.typing as npt
 
 from pdvoid.core.errors import check_range
 from pdvoid.core.units import ATM, T_ROOM
@@ -29,7 +30,7 @@ __all__ = [
 REFERENCE_IONIZATION_RATE = 1.0e7
 
 
-def volume_electron_rate(volume: object, pressure: object, temperature: object = T_ROOM, *,
+def volume_electron_rate(volume: npt.ArrayLike, pressure: npt.ArrayLike, temperature: npt.ArrayLike = T_ROOM, *,
                          ionization_rate: float = REFERENCE_IONIZATION_RATE,
                          electron_yield: float = 1.0) -> float | np.ndarray:
     """Start electrons per second from volume ionisation of the void gas: N_vol = G·(n/n0)·Ω·η.
@@ -44,19 +45,28 @@ def volume_electron_rate(volume: object, pressure: object, temperature: object =
     estimate); radiation reaching a void inside solid insulation is attenuated and altered, and indoor radon
     can raise G considerably.
 
-    Args:
-        volume: void volume Ω [m³], > 0.
-        pressure: gas pressure p [Pa], > 0.
-        temperature: gas temperature T [K], > 0.
-        ionization_rate: G, ion pairs per m³ per s at 101325 Pa and 293.15 K [1/(m³ s)], >= 0.
-        electron_yield: η, start electrons per ion pair [-], in [0, 1].
+    Parameters
+    ----------
+    volume : array_like
+        void volume Ω [m³], > 0.
+    pressure : array_like
+        gas pressure p [Pa], > 0.
+    temperature : array_like, optional
+        gas temperature T [K], > 0.
+    ionization_rate : float, optional
+        G, ion pairs per m³ per s at 101325 Pa and 293.15 K [1/(m³ s)], >= 0.
+    electron_yield : float, optional
+        η, start electrons per ion pair [-], in [0, 1].
 
-    Returns:
+    Returns
+    -------
+    float or numpy.ndarray
         Rate of start electrons N_vol [1/s].
 
-    References:
-        hess1951 (about 10 ion pairs per cm³ per s near ground), niemeyer1995 (volume term of the
-        electron-generation rate, structure).
+    References
+    ----------
+    hess1951 (about 10 ion pairs per cm³ per s near ground), niemeyer1995 (volume term of the
+    electron-generation rate, structure).
     """
     g = check_range("ionization_rate", ionization_rate, 0.0, math.inf, unit="1/(m³ s)")
     eta = check_range("electron_yield", electron_yield, 0.0, 1.0)
@@ -68,34 +78,45 @@ def volume_electron_rate(volume: object, pressure: object, temperature: object =
     return _shape_out(g * density_ratio * v * eta, s1 and s2 and s3)
 
 
-def statistical_time_lag_mean(rate: object) -> float | np.ndarray:
+def statistical_time_lag_mean(rate: npt.ArrayLike) -> float | np.ndarray:
     """Mean statistical time lag 1/N of a Poisson supply of start electrons of rate N.
 
-    Args:
-        rate: start-electron rate N [1/s], > 0.
+    Parameters
+    ----------
+    rate : array_like
+        start-electron rate N [1/s], > 0.
 
-    Returns:
+    Returns
+    -------
+    float or numpy.ndarray
         Mean waiting time for a start electron [s].
 
-    References:
-        niemeyer1995 (statistical time lag; exponential waiting times of a Poisson process, common practice).
+    References
+    ----------
+    niemeyer1995 (statistical time lag; exponential waiting times of a Poisson process, common practice).
     """
     n, s = _values("rate", rate, unit="1/s")
     return _shape_out(1.0 / n, s)
 
 
-def probability_of_no_discharge(rate: object, duration: object) -> float | np.ndarray:
+def probability_of_no_discharge(rate: npt.ArrayLike, duration: npt.ArrayLike) -> float | np.ndarray:
     """Probability that no start electron appears within a time t: exp(−N·t) (Poisson process).
 
-    Args:
-        rate: start-electron rate N [1/s], >= 0.
-        duration: time interval t during which the field is above inception [s], >= 0.
+    Parameters
+    ----------
+    rate : array_like
+        start-electron rate N [1/s], >= 0.
+    duration : array_like
+        time interval t during which the field is above inception [s], >= 0.
 
-    Returns:
+    Returns
+    -------
+    float or numpy.ndarray
         Probability [-], in (0, 1].
 
-    References:
-        niemeyer1995 (discharge probability per step; common practice for a Poisson process).
+    References
+    ----------
+    niemeyer1995 (discharge probability per step; common practice for a Poisson process).
     """
     n, s1 = _values("rate", rate, low_open=False, unit="1/s")
     t, s2 = _values("duration", duration, low_open=False, unit="s")
@@ -103,18 +124,24 @@ def probability_of_no_discharge(rate: object, duration: object) -> float | np.nd
     return _shape_out(np.exp(-n * t), s1 and s2)
 
 
-def probability_of_discharge(rate: object, duration: object) -> float | np.ndarray:
+def probability_of_discharge(rate: npt.ArrayLike, duration: npt.ArrayLike) -> float | np.ndarray:
     """Probability of at least one start electron within a time t: 1 − exp(−N·t), accurate for small N·t.
 
-    Args:
-        rate: start-electron rate N [1/s], >= 0.
-        duration: time interval t [s], >= 0.
+    Parameters
+    ----------
+    rate : array_like
+        start-electron rate N [1/s], >= 0.
+    duration : array_like
+        time interval t [s], >= 0.
 
-    Returns:
+    Returns
+    -------
+    float or numpy.ndarray
         Probability [-], in [0, 1).
 
-    References:
-        niemeyer1995 (P = 1 − exp(−N Δt), from memory for the exact form in the paper; common practice).
+    References
+    ----------
+    niemeyer1995 (P = 1 − exp(−N Δt), from memory for the exact form in the paper; common practice).
     """
     n, s1 = _values("rate", rate, low_open=False, unit="1/s")
     t, s2 = _values("duration", duration, low_open=False, unit="s")

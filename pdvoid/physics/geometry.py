@@ -9,6 +9,7 @@ from __future__ import annotations
 import math
 
 import numpy as np
+import numpy.typing as npt
 from scipy.special import elliprd
 
 from pdvoid.core.units import EPSILON_0
@@ -32,26 +33,35 @@ __all__ = [
 # ------------------------------------------------------------------------------------------------------------
 # depolarisation factors
 # ------------------------------------------------------------------------------------------------------------
-def depolarization_ellipsoid(a: float, b: float, c: float) -> float | np.ndarray:
+def depolarization_ellipsoid(a: npt.ArrayLike, b: npt.ArrayLike, c: npt.ArrayLike) -> float | np.ndarray:
     """Depolarisation factor N_c of an ellipsoid for a uniform field along its semi-axis ``c``.
 
     ``N_c = (a b c / 3) R_D(a², b², c²)`` with Carlson's symmetric integral R_D (``scipy.special.elliprd``);
     this is DLMF eq. 19.33.8 divided by 4π (SI convention, N_a + N_b + N_c = 1). The axes are scaled by the
     largest one before the call, so the result depends only on the axis ratios.
 
-    Parameters:
-        a: first semi-axis across the field [m]
-        b: second semi-axis across the field [m]
-        c: semi-axis along the field [m]
+    Parameters
+    ----------
+    a : array_like
+        first semi-axis across the field [m]
+    b : array_like
+        second semi-axis across the field [m]
+    c : array_like
+        semi-axis along the field [m]
 
-    Returns:
+    Returns
+    -------
+    float or numpy.ndarray
         N_c, in (0, 1) [-]; 1/3 for a sphere.
 
+    Notes
+    -----
     Validity: any ellipsoid with finite positive semi-axes (exact electrostatics, no approximation).
 
-    References:
-        dlmf19.33 (eq. 19.33.8, depolarisation factors); carlson1995 (R_D algorithm used by scipy);
-        stratton1941 (dielectric ellipsoid in a uniform field).
+    References
+    ----------
+    dlmf19.33 (eq. 19.33.8, depolarisation factors); carlson1995 (R_D algorithm used by scipy);
+    stratton1941 (dielectric ellipsoid in a uniform field).
     """
     a_ = _positive("a", a, "m")
     b_ = _positive("b", b, "m")
@@ -115,7 +125,7 @@ def _spheroid_axial(diameter: np.ndarray, height: np.ndarray) -> np.ndarray:
     return n
 
 
-def depolarization_spheroid(diameter: float, height: float) -> float | np.ndarray:
+def depolarization_spheroid(diameter: npt.ArrayLike, height: npt.ArrayLike) -> float | np.ndarray:
     """Depolarisation factor N of a spheroid along its symmetry axis, the axis lying along the field.
 
     With a = diameter/2 (equatorial semi-axis) and c = height/2 (polar semi-axis, along the field):
@@ -129,18 +139,26 @@ def depolarization_spheroid(diameter: float, height: float) -> float | np.ndarra
     agrees with :func:`depolarization_ellipsoid` (Carlson's R_D) to about 1e-14 relative for aspect ratios
     from 1e-6 to 1e6. The transverse factors are (1 − N)/2.
 
-    Parameters:
-        diameter: void extent across the field, 2a [m]
-        height: void extent along the field, 2c [m]
+    Parameters
+    ----------
+    diameter : array_like
+        void extent across the field, 2a [m]
+    height : array_like
+        void extent along the field, 2c [m]
 
-    Returns:
+    Returns
+    -------
+    float or numpy.ndarray
         N along the field, in (0, 1) [-]: → 1 for a flat disc (height ≪ diameter), → 0 for a needle.
 
+    Notes
+    -----
     Validity: exact for any spheroid with its symmetry axis along a uniform field.
 
-    References:
-        osborn1945 (closed spheroid forms, attribution from memory); dlmf19.33 (general ellipsoid,
-        eq. 19.33.8); stratton1941. The series near the sphere is derived here from the closed forms.
+    References
+    ----------
+    osborn1945 (closed spheroid forms, attribution from memory); dlmf19.33 (general ellipsoid,
+    eq. 19.33.8); stratton1941. The series near the sphere is derived here from the closed forms.
     """
     d_ = _positive("diameter", diameter, "m")
     h_ = _positive("height", height, "m")
@@ -152,7 +170,7 @@ def depolarization_spheroid(diameter: float, height: float) -> float | np.ndarra
 # field enhancement
 # ------------------------------------------------------------------------------------------------------------
 def field_enhancement(
-    permittivity: float, depolarization: float, gas_permittivity: float = 1.0
+    permittivity: npt.ArrayLike, depolarization: npt.ArrayLike, gas_permittivity: npt.ArrayLike = 1.0
 ) -> float | np.ndarray:
     """Ratio f of the uniform field inside an ellipsoidal void to the uniform applied (far) field.
 
@@ -160,19 +178,28 @@ def field_enhancement(
     K = 1/N: ``f = K εr / (1 + εr (K − 1))``. Limits: sphere (N = 1/3) 3εr/(2εr + 1); flat disc across the
     field (N → 1) εr; needle along the field (N → 0) 1. f grows with εr and with N.
 
-    Parameters:
-        permittivity: relative permittivity of the solid host εr, >= 1 [-]
-        depolarization: depolarisation factor of the void along the field N, in [0, 1] [-]
-        gas_permittivity: relative permittivity of the gas in the void εg, >= 1 [-]
+    Parameters
+    ----------
+    permittivity : array_like
+        relative permittivity of the solid host εr, >= 1 [-]
+    depolarization : array_like
+        depolarisation factor of the void along the field N, in [0, 1] [-]
+    gas_permittivity : array_like, optional
+        relative permittivity of the gas in the void εg, >= 1 [-]
 
-    Returns:
+    Returns
+    -------
+    float or numpy.ndarray
         f = E_void / E_applied [-]
 
+    Notes
+    -----
     Validity: ellipsoidal void in an infinite homogeneous linear host under a uniform field along a principal
     axis (in practice: void small compared with its distance to the electrodes); no space charge in the void.
 
-    References:
-        stratton1941 (dielectric ellipsoid in a uniform field); crichton1989 (K notation for voids).
+    References
+    ----------
+    stratton1941 (dielectric ellipsoid in a uniform field); crichton1989 (K notation for voids).
     """
     er = _checked("permittivity", permittivity, 1.0)
     n = _checked("depolarization", depolarization, 0.0, 1.0)
@@ -182,7 +209,9 @@ def field_enhancement(
     return _out(f, permittivity, depolarization, gas_permittivity)
 
 
-def layered_field_enhancement(permittivity: float, height: float, thickness: float) -> float | np.ndarray:
+def layered_field_enhancement(
+    permittivity: npt.ArrayLike, height: npt.ArrayLike, thickness: npt.ArrayLike
+) -> float | np.ndarray:
     """Field in a flat void (much wider than tall) relative to the mean applied field V/d: a 1-D layered slab.
 
     Gas layer of thickness t (the void height) in series with solid of total thickness d − t; the normal
@@ -190,20 +219,29 @@ def layered_field_enhancement(permittivity: float, height: float, thickness: flo
     ``f = εr d / (εr t + d − t)``. As t/d → 0 this tends to εr, the flat-disc limit of
     :func:`field_enhancement`.
 
-    Parameters:
-        permittivity: relative permittivity of the solid εr, >= 1 [-]
-        height: void extent along the field t [m]
-        thickness: electrode spacing (slab thickness) d, > height [m]
+    Parameters
+    ----------
+    permittivity : array_like
+        relative permittivity of the solid εr, >= 1 [-]
+    height : array_like
+        void extent along the field t [m]
+    thickness : array_like
+        electrode spacing (slab thickness) d, > height [m]
 
-    Returns:
+    Returns
+    -------
+    float or numpy.ndarray
         f = E_void / (V/d) [-]
 
+    Notes
+    -----
     Validity: void wide compared with its height and with its distance to the electrodes (edge fields
     neglected), plane electrodes, gas permittivity 1.
 
-    References:
-        derived (series capacitors, continuity of the normal displacement); same as the flat-void field of the
-        three-capacitance model (kuffel2000, kreuger1989).
+    References
+    ----------
+    derived (series capacitors, continuity of the normal displacement); same as the flat-void field of the
+    three-capacitance model (kuffel2000, kreuger1989).
     """
     er = _checked("permittivity", permittivity, 1.0)
     t = _positive("height", height, "m")
@@ -217,21 +255,30 @@ def layered_field_enhancement(permittivity: float, height: float, thickness: flo
 # ------------------------------------------------------------------------------------------------------------
 # volume and induced charge
 # ------------------------------------------------------------------------------------------------------------
-def ellipsoid_volume(a: float, b: float, c: float) -> float | np.ndarray:
+def ellipsoid_volume(a: npt.ArrayLike, b: npt.ArrayLike, c: npt.ArrayLike) -> float | np.ndarray:
     """Volume of an ellipsoid, (4/3) π a b c.
 
-    Parameters:
-        a: first semi-axis [m]
-        b: second semi-axis [m]
-        c: third semi-axis [m]
+    Parameters
+    ----------
+    a : array_like
+        first semi-axis [m]
+    b : array_like
+        second semi-axis [m]
+    c : array_like
+        third semi-axis [m]
 
-    Returns:
+    Returns
+    -------
+    float or numpy.ndarray
         volume [m³]
 
+    Notes
+    -----
     Validity: any positive semi-axes.
 
-    References:
-        common practice (elementary geometry).
+    References
+    ----------
+    common practice (elementary geometry).
     """
     a_ = _positive("a", a, "m")
     b_ = _positive("b", b, "m")
@@ -240,20 +287,28 @@ def ellipsoid_volume(a: float, b: float, c: float) -> float | np.ndarray:
     return _out(4.0 / 3.0 * math.pi * x * y * z, a, b, c)
 
 
-def spheroid_volume(diameter: float, height: float) -> float | np.ndarray:
+def spheroid_volume(diameter: npt.ArrayLike, height: npt.ArrayLike) -> float | np.ndarray:
     """Volume of a spheroid, (π/6) D² h.
 
-    Parameters:
-        diameter: equatorial diameter D [m]
-        height: polar extent h [m]
+    Parameters
+    ----------
+    diameter : array_like
+        equatorial diameter D [m]
+    height : array_like
+        polar extent h [m]
 
-    Returns:
+    Returns
+    -------
+    float or numpy.ndarray
         volume [m³]
 
+    Notes
+    -----
     Validity: any positive dimensions.
 
-    References:
-        common practice (elementary geometry).
+    References
+    ----------
+    common practice (elementary geometry).
     """
     d_ = _positive("diameter", diameter, "m")
     h_ = _positive("height", height, "m")
@@ -262,7 +317,7 @@ def spheroid_volume(diameter: float, height: float) -> float | np.ndarray:
 
 
 def induced_charge_per_field(
-    permittivity: float, depolarization: float, volume: float, thickness: float
+    permittivity: npt.ArrayLike, depolarization: npt.ArrayLike, volume: npt.ArrayLike, thickness: npt.ArrayLike
 ) -> float | np.ndarray:
     """Charge induced on a plane electrode per unit drop of the field inside an ellipsoidal void.
 
@@ -273,21 +328,31 @@ def induced_charge_per_field(
     ΔV_c when t ≪ d. ΔE is the drop of the field *inside* the void; for a drop of the applied field multiply
     by the field enhancement f.
 
-    Parameters:
-        permittivity: relative permittivity of the host εr, >= 1 [-]
-        depolarization: depolarisation factor of the void along the field N, in (0, 1] [-]
-        volume: void volume Ω [m³]
-        thickness: electrode spacing d [m]
+    Parameters
+    ----------
+    permittivity : array_like
+        relative permittivity of the host εr, >= 1 [-]
+    depolarization : array_like
+        depolarisation factor of the void along the field N, in (0, 1] [-]
+    volume : array_like
+        void volume Ω [m³]
+    thickness : array_like
+        electrode spacing d [m]
 
-    Returns:
+    Returns
+    -------
+    float or numpy.ndarray
         charge per field drop inside the void [C/(V/m)] (= C·m/V)
 
+    Notes
+    -----
     Validity: void small compared with its distance to the electrodes (weighting field f/d uniform over the
     void), counter-field of the deposited charge uniform, homogeneous linear host, plane-parallel electrodes,
     gas permittivity 1.
 
-    References:
-        crichton1989 (K, λ and Ω notation; equation numbers from memory); pedersen1991; pedersen1995.
+    References
+    ----------
+    crichton1989 (K, λ and Ω notation; equation numbers from memory); pedersen1991; pedersen1995.
     """
     er = _checked("permittivity", permittivity, 1.0)
     n = _checked("depolarization", depolarization, 0.0, 1.0, low_open=True)

@@ -8,6 +8,7 @@ The wording of the definitions is from memory of IEC 60270:2000+A1:2015 (status 
 from __future__ import annotations
 
 import numpy as np
+import numpy.typing as npt
 
 from pdvoid.core.errors import InputError, check_array, check_nonnegative, check_positive, check_real
 
@@ -20,13 +21,11 @@ __all__ = [
 ]
 
 
-def _events(name: str, value: object) -> np.ndarray:
+def _events(name: str, value: npt.ArrayLike) -> np.ndarray:
     """A 1-D float array of finite entries (a scalar counts as one event)."""
     if isinstance(value, np.ndarray) and value.ndim == 0:
         value = value[()]
-    if np.ndim(value) == 0:
-        value = [value]
-    return check_array(name, value, ndim=1)
+    return check_array(name, [value] if np.ndim(value) == 0 else value, ndim=1)
 
 
 def phase_angle_deg(time: float, frequency: float, zero_crossing_time: float = 0.0) -> float | np.ndarray:
@@ -35,18 +34,27 @@ def phase_angle_deg(time: float, frequency: float, zero_crossing_time: float = 0
     t − t0 is counted from a positive-going zero crossing of the test voltage at t0; earlier or later zero
     crossings give the same phase (periodic extension).
 
-    Parameters:
-        time: pulse time(s) t [s]
-        frequency: test-voltage frequency f [Hz]
-        zero_crossing_time: time t0 of a positive-going zero crossing of the test voltage [s]
+    Parameters
+    ----------
+    time : float
+        pulse time(s) t [s]
+    frequency : float
+        test-voltage frequency f [Hz]
+    zero_crossing_time : float, optional
+        time t0 of a positive-going zero crossing of the test voltage [s]
 
-    Returns:
+    Returns
+    -------
+    float or numpy.ndarray
         phase angle(s) [deg], a float for scalar ``time``.
 
+    Notes
+    -----
     Validity: strictly periodic test voltage of constant frequency.
 
-    References:
-        iec60270 (clause 3, phase angle; wording from memory).
+    References
+    ----------
+    iec60270 (clause 3, phase angle; wording from memory).
     """
     f = check_positive("frequency", frequency, "Hz")
     t0 = check_real("zero_crossing_time", zero_crossing_time)
@@ -57,24 +65,32 @@ def phase_angle_deg(time: float, frequency: float, zero_crossing_time: float = 0
     return float(phase[0]) if scalar else phase
 
 
-def _reference_time(reference_time: object) -> float:
+def _reference_time(reference_time: float) -> float:
     return check_positive("reference_time", reference_time, "s")
 
 
 def average_discharge_current(charge: np.ndarray, reference_time: float) -> float:
     """Average discharge current I = (|q_1| + … + |q_m|) / T_ref.
 
-    Parameters:
-        charge: apparent charges of the pulses in the reference time, signed [C]
-        reference_time: reference time interval T_ref [s]
+    Parameters
+    ----------
+    charge : numpy.ndarray
+        apparent charges of the pulses in the reference time, signed [C]
+    reference_time : float
+        reference time interval T_ref [s]
 
-    Returns:
+    Returns
+    -------
+    float
         I [A]; 0 for no pulses.
 
+    Notes
+    -----
     Validity: pulses recorded over the whole reference interval.
 
-    References:
-        iec60270 (clause 3, average discharge current; wording from memory).
+    References
+    ----------
+    iec60270 (clause 3, average discharge current; wording from memory).
     """
     q = _events("charge", charge)
     return float(np.sum(np.abs(q)) / _reference_time(reference_time))
@@ -83,17 +99,25 @@ def average_discharge_current(charge: np.ndarray, reference_time: float) -> floa
 def quadratic_rate(charge: np.ndarray, reference_time: float) -> float:
     """Quadratic rate D = (q_1² + … + q_m²) / T_ref.
 
-    Parameters:
-        charge: apparent charges of the pulses in the reference time, signed [C]
-        reference_time: reference time interval T_ref [s]
+    Parameters
+    ----------
+    charge : numpy.ndarray
+        apparent charges of the pulses in the reference time, signed [C]
+    reference_time : float
+        reference time interval T_ref [s]
 
-    Returns:
+    Returns
+    -------
+    float
         D [C²/s]; 0 for no pulses.
 
+    Notes
+    -----
     Validity: pulses recorded over the whole reference interval.
 
-    References:
-        iec60270 (clause 3, quadratic rate; wording from memory).
+    References
+    ----------
+    iec60270 (clause 3, quadratic rate; wording from memory).
     """
     q = _events("charge", charge)
     return float(np.sum(q * q) / _reference_time(reference_time))
@@ -102,18 +126,27 @@ def quadratic_rate(charge: np.ndarray, reference_time: float) -> float:
 def discharge_power(charge: np.ndarray, voltage: np.ndarray, reference_time: float) -> float:
     """Discharge power P = (q_1 u_1 + … + q_m u_m) / T_ref, with signed products.
 
-    Parameters:
-        charge: apparent charges of the pulses, signed [C]
-        voltage: instantaneous test voltage at each pulse u_i, signed, same length as ``charge`` [V]
-        reference_time: reference time interval T_ref [s]
+    Parameters
+    ----------
+    charge : numpy.ndarray
+        apparent charges of the pulses, signed [C]
+    voltage : numpy.ndarray
+        instantaneous test voltage at each pulse u_i, signed, same length as ``charge`` [V]
+    reference_time : float
+        reference time interval T_ref [s]
 
-    Returns:
+    Returns
+    -------
+    float
         P [W]; 0 for no pulses.
 
+    Notes
+    -----
     Validity: pulses recorded over the whole reference interval.
 
-    References:
-        iec60270 (clause 3, discharge power; wording from memory).
+    References
+    ----------
+    iec60270 (clause 3, discharge power; wording from memory).
     """
     q = _events("charge", charge)
     u = _events("voltage", voltage)
@@ -125,18 +158,27 @@ def discharge_power(charge: np.ndarray, voltage: np.ndarray, reference_time: flo
 def repetition_rate(charge: np.ndarray, reference_time: float, threshold: float = 0.0) -> float:
     """Pulse repetition rate n = (number of pulses with |q| >= threshold) / T_ref.
 
-    Parameters:
-        charge: apparent charges of the pulses, signed [C]
-        reference_time: reference time interval T_ref [s]
-        threshold: smallest magnitude counted, >= 0 [C]
+    Parameters
+    ----------
+    charge : numpy.ndarray
+        apparent charges of the pulses, signed [C]
+    reference_time : float
+        reference time interval T_ref [s]
+    threshold : float, optional
+        smallest magnitude counted, >= 0 [C]
 
-    Returns:
+    Returns
+    -------
+    float
         n [1/s]; 0 for no pulses.
 
+    Notes
+    -----
     Validity: pulses recorded over the whole reference interval.
 
-    References:
-        iec60270 (clause 3, pulse repetition rate; wording from memory).
+    References
+    ----------
+    iec60270 (clause 3, pulse repetition rate; wording from memory).
     """
     q = _events("charge", charge)
     thr = check_nonnegative("threshold", threshold, "C")

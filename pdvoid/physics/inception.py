@@ -13,8 +13,10 @@ few per cent.
 from __future__ import annotations
 
 import math
+from typing import TYPE_CHECKING
 
 import numpy as np
+import numpy.typing as npt
 
 from pdvoid.core.errors import InputError, check_choice, check_range
 from pdvoid.core.units import ATM, T_ROOM
@@ -23,6 +25,9 @@ from pdvoid.physics.checks import shape_out as _shape_out
 from pdvoid.physics.checks import values as _values
 from pdvoid.physics.gas_density import density_equivalent_pressure
 from pdvoid.physics.ionization import ionization_integral_inception_field, sf6_ionization_integral_inception_field
+
+if TYPE_CHECKING:
+    from pdvoid.inputs.materials import GasData
 
 __all__ = [
     "density_equivalent_pressure",
@@ -35,9 +40,9 @@ __all__ = [
 
 
 # ----------------------------------------------------------------------------------------- streamer formula
-def streamer_inception_field(pressure: object, length: object, *, critical_reduced_field: float,
+def streamer_inception_field(pressure: npt.ArrayLike, length: npt.ArrayLike, *, critical_reduced_field: float,
                              b_constant: float, exponent: float,
-                             temperature: object = T_ROOM) -> float | np.ndarray:
+                             temperature: npt.ArrayLike = T_ROOM) -> float | np.ndarray:
     """Streamer inception field of a gas gap: E_inc = (E/p)_cr · p · (1 + B / (p·l)^n).
 
     p is the density-equivalent pressure p·(293.15 K/T). Air (gases.toml): (E/p)_cr = 24.2 V/(Pa m),
@@ -47,21 +52,31 @@ def streamer_inception_field(pressure: object, length: object, *, critical_reduc
     practice). Which length l is meant (void extent along the field, i.e. the diameter of a sphere, or the
     radius) is a convention of the model using it; Illias et al. use the diameter (from memory).
 
-    Args:
-        pressure: gas pressure p [Pa], > 0.
-        length: discharge length l along the field [m], > 0.
-        critical_reduced_field: (E/p)_cr [V/(Pa m)], > 0.
-        b_constant: B [(Pa m)^n], >= 0.
-        exponent: n [-], in (0, 1].
-        temperature: gas temperature T [K], > 0.
+    Parameters
+    ----------
+    pressure : array_like
+        gas pressure p [Pa], > 0.
+    length : array_like
+        discharge length l along the field [m], > 0.
+    critical_reduced_field : float
+        (E/p)_cr [V/(Pa m)], > 0.
+    b_constant : float
+        B [(Pa m)^n], >= 0.
+    exponent : float
+        n [-], in (0, 1].
+    temperature : array_like, optional
+        gas temperature T [K], > 0.
 
-    Returns:
+    Returns
+    -------
+    float or numpy.ndarray
         Inception field E_inc [V/m] (the field inside the void).
 
-    References:
-        niemeyer1995 (generalised PD model, streamer inception formula; equation number not confirmed),
-        gutfleisch1995 (from memory), illias2011 (air constants 24.2 V/(Pa m), 8.6 Pa^½ m^½, n = ½; from
-        memory).
+    References
+    ----------
+    niemeyer1995 (generalised PD model, streamer inception formula; equation number not confirmed),
+    gutfleisch1995 (from memory), illias2011 (air constants 24.2 V/(Pa m), 8.6 Pa^½ m^½, n = ½; from
+    memory).
     """
     ecr = check_range("critical_reduced_field", critical_reduced_field, 0.0, math.inf, low_open=True,
                       unit="V/(Pa m)")
@@ -76,8 +91,8 @@ def streamer_inception_field(pressure: object, length: object, *, critical_reduc
 
 
 # ------------------------------------------------------------------------------------------------- Paschen
-def paschen_voltage(pressure: object, gap: object, *, a_coefficient: float, b_coefficient: float,
-                    secondary_emission: float, temperature: object = T_ROOM) -> float | np.ndarray:
+def paschen_voltage(pressure: npt.ArrayLike, gap: npt.ArrayLike, *, a_coefficient: float, b_coefficient: float,
+                    secondary_emission: float, temperature: npt.ArrayLike = T_ROOM) -> float | np.ndarray:
     """Paschen's law (Townsend breakdown): V_b = B·pd / (ln(A·pd) − ln(ln(1 + 1/γ))).
 
     p is the density-equivalent pressure p·(293.15 K/T). Left of the asymptote, pd ≤ ln(1 + 1/γ)/A, the
@@ -88,20 +103,30 @@ def paschen_voltage(pressure: object, gap: object, *, a_coefficient: float, b_co
     longer at 1 atm, E/p < 100 V/(cm Torr)) the formula over-predicts: 1 cm at 1 atm gives 35.5 kV against a
     measured ~30 kV. Use :func:`empirical_air_breakdown_voltage` there.
 
-    Args:
-        pressure: gas pressure p [Pa], > 0.
-        gap: electrode gap d [m], > 0.
-        a_coefficient: A [1/(Pa m)], > 0 (air: 11.2509, i.e. 15 /(cm Torr)).
-        b_coefficient: B [V/(Pa m)], > 0 (air: 273.7725, i.e. 365 V/(cm Torr)).
-        secondary_emission: γ [-], in (0, 1] (air: 0.01).
-        temperature: gas temperature T [K], > 0.
+    Parameters
+    ----------
+    pressure : array_like
+        gas pressure p [Pa], > 0.
+    gap : array_like
+        electrode gap d [m], > 0.
+    a_coefficient : float
+        A [1/(Pa m)], > 0 (air: 11.2509, i.e. 15 /(cm Torr)).
+    b_coefficient : float
+        B [V/(Pa m)], > 0 (air: 273.7725, i.e. 365 V/(cm Torr)).
+    secondary_emission : float
+        γ [-], in (0, 1] (air: 0.01).
+    temperature : array_like, optional
+        gas temperature T [K], > 0.
 
-    Returns:
+    Returns
+    -------
+    float or numpy.ndarray
         Breakdown voltage V_b [V].
 
-    References:
-        bazelyan1998 (air A, B, γ; confirmed via lux_paschen), raizer1991 (A, B table, validity range; from
-        memory).
+    References
+    ----------
+    bazelyan1998 (air A, B, γ; confirmed via lux_paschen), raizer1991 (A, B table, validity range; from
+    memory).
     """
     a = check_range("a_coefficient", a_coefficient, 0.0, math.inf, low_open=True, unit="1/(Pa m)")
     b = check_range("b_coefficient", b_coefficient, 0.0, math.inf, low_open=True, unit="V/(Pa m)")
@@ -130,16 +155,23 @@ def paschen_minimum(a_coefficient: float, b_coefficient: float,
     Derived from dV_b/d(pd) = 0 of :func:`paschen_voltage`. Air (A = 15 /(cm Torr), B = 365 V/(cm Torr),
     γ = 0.01) gives 305.27 V at 0.8363 Torr cm; the measured air minimum is about 327 V at 0.57 Torr cm.
 
-    Args:
-        a_coefficient: A [1/(Pa m)], > 0.
-        b_coefficient: B [V/(Pa m)], > 0.
-        secondary_emission: γ [-], in (0, 1].
+    Parameters
+    ----------
+    a_coefficient : float
+        A [1/(Pa m)], > 0.
+    b_coefficient : float
+        B [V/(Pa m)], > 0.
+    secondary_emission : float
+        γ [-], in (0, 1].
 
-    Returns:
+    Returns
+    -------
+    tuple[float, float]
         ((pd)_min [Pa m], V_min [V]) with p the density-equivalent pressure at 293.15 K.
 
-    References:
-        bazelyan1998, raizer1991 (the formula whose minimum this is).
+    References
+    ----------
+    bazelyan1998, raizer1991 (the formula whose minimum this is).
     """
     a = check_range("a_coefficient", a_coefficient, 0.0, math.inf, low_open=True, unit="1/(Pa m)")
     b = check_range("b_coefficient", b_coefficient, 0.0, math.inf, low_open=True, unit="V/(Pa m)")
@@ -148,8 +180,8 @@ def paschen_minimum(a_coefficient: float, b_coefficient: float,
     return math.e * c / a, math.e * b / a * c
 
 
-def empirical_air_breakdown_voltage(gap: object, pressure: object = ATM,
-                                    temperature: object = T_ROOM) -> float | np.ndarray:
+def empirical_air_breakdown_voltage(gap: npt.ArrayLike, pressure: npt.ArrayLike = ATM,
+                                    temperature: npt.ArrayLike = T_ROOM) -> float | np.ndarray:
     """Uniform-field breakdown voltage of air: U_b = 24.22·(δd) + 6.08·sqrt(δd) kV, d in cm.
 
     δ is the relative gas density p/101325 Pa · 293.15 K/T (the source writes 293 K; the 0.05 % difference is
@@ -157,16 +189,23 @@ def empirical_air_breakdown_voltage(gap: object, pressure: object = ATM,
 
     Validity: mm to cm gaps near atmospheric density (δd from about 0.05 to 10 cm); dry air.
 
-    Args:
-        gap: electrode gap d [m], > 0.
-        pressure: gas pressure p [Pa], > 0.
-        temperature: gas temperature T [K], > 0.
+    Parameters
+    ----------
+    gap : array_like
+        electrode gap d [m], > 0.
+    pressure : array_like, optional
+        gas pressure p [Pa], > 0.
+    temperature : array_like, optional
+        gas temperature T [K], > 0.
 
-    Returns:
+    Returns
+    -------
+    float or numpy.ndarray
         Breakdown voltage U_b [V].
 
-    References:
-        lux_paschen (formula, confirmed), schumann1923 (usual attribution, from memory).
+    References
+    ----------
+    lux_paschen (formula, confirmed), schumann1923 (usual attribution, from memory).
     """
     d, s1 = _values("gap", gap, unit="m")
     p, s2 = _values("pressure", pressure, unit="Pa")
@@ -176,7 +215,7 @@ def empirical_air_breakdown_voltage(gap: object, pressure: object = ATM,
     return _shape_out(1e3 * (24.22 * x + 6.08 * np.sqrt(x)), s1 and s2 and s3)
 
 
-def gas_inception_field(gas: object, pressure: float, length: float, temperature: float = T_ROOM,
+def gas_inception_field(gas: str | GasData, pressure: float, length: float, temperature: float = T_ROOM,
                         criterion: str = "streamer", k_streamer: float | None = None) -> float:
     """Inception field of a named gas (or a :class:`pdvoid.inputs.materials.GasData`) from its parameter set.
 
@@ -186,19 +225,29 @@ def gas_inception_field(gas: object, pressure: float, length: float, temperature
     (:func:`sf6_ionization_integral_inception_field`), with K from the parameter set unless ``k_streamer``
     is given. Other gases (e.g. nitrogen) have no ionisation model here.
 
-    Args:
-        gas: gas name in the built-in parameter set ("air", "nitrogen", "sf6") or a GasData.
-        pressure: gas pressure p [Pa], > 0.
-        length: discharge length l [m], > 0.
-        temperature: gas temperature T [K], > 0.
-        criterion: "streamer" or "ionization_integral".
-        k_streamer: threshold K [-] overriding the parameter set (ionization_integral only).
+    Parameters
+    ----------
+    gas : str or GasData
+        gas name in the built-in parameter set ("air", "nitrogen", "sf6") or a GasData.
+    pressure : float
+        gas pressure p [Pa], > 0.
+    length : float
+        discharge length l [m], > 0.
+    temperature : float, optional
+        gas temperature T [K], > 0.
+    criterion : str, optional
+        "streamer" or "ionization_integral".
+    k_streamer : float, optional
+        threshold K [-] overriding the parameter set (ionization_integral only).
 
-    Returns:
+    Returns
+    -------
+    float
         Inception field [V/m].
 
-    References:
-        niemeyer1995, illias2011, morrow1997, pedersen1970 (see the functions used).
+    References
+    ----------
+    niemeyer1995, illias2011, morrow1997, pedersen1970 (see the functions used).
     """
     from pdvoid.inputs.materials import GasData, get_gas, list_gases
 
@@ -216,6 +265,8 @@ def gas_inception_field(gas: object, pressure: float, length: float, temperature
         raise InputError(f"criterion='ionization_integral' needs an ionisation model; gas {data.name!r} has "
                          f"none. Built-in gases with one: {', '.join(available)}")
     k = data.k_streamer if k_streamer is None else k_streamer
+    if k is None:  # the gas file checks that an ionisation model comes with its K
+        raise InputError(f"gas {data.name!r} has an ionisation model but no k_streamer; give k_streamer")
     if data.ionization_model == "morrow_lowke_air":
         return ionization_integral_inception_field(length, pressure, temperature, k_streamer=k)
     return sf6_ionization_integral_inception_field(length, pressure, temperature, k_streamer=k)

@@ -6,6 +6,7 @@ from __future__ import annotations
 import math
 
 import numpy as np
+import numpy.typing as npt
 from scipy import integrate, optimize
 
 from pdvoid.core.errors import InputError, check_array, check_choice, check_range
@@ -45,7 +46,8 @@ def _morrow_lowke_reduced(x: np.ndarray, n_cm: np.ndarray) -> tuple[np.ndarray, 
     return alpha, eta2, eta3
 
 
-def morrow_lowke_coefficients(field: object, gas_number_density: object) -> tuple:
+def morrow_lowke_coefficients(field: npt.ArrayLike, gas_number_density: npt.ArrayLike
+                              ) -> tuple[float | np.ndarray, float | np.ndarray, float | np.ndarray]:
     """Ionisation α, two-body attachment η2 and three-body attachment η3 of air (Morrow & Lowke fits).
 
     With E/N in V cm² and N in cm⁻³ (converted here from SI):
@@ -56,15 +58,21 @@ def morrow_lowke_coefficients(field: object, gas_number_density: object) -> tupl
     Validity: dry air; the fits were made for streamer simulation near atmospheric density. η3 grows as N², so
     far from 1 atm the attachment part is an extrapolation; above about 1000 Td the fits are extrapolated too.
 
-    Args:
-        field: electric field magnitude E [V/m], > 0.
-        gas_number_density: N [1/m³], > 0.
+    Parameters
+    ----------
+    field : array_like
+        electric field magnitude E [V/m], > 0.
+    gas_number_density : array_like
+        N [1/m³], > 0.
 
-    Returns:
+    Returns
+    -------
+    tuple[float | numpy.ndarray, float | numpy.ndarray, float | numpy.ndarray]
         (alpha, eta2, eta3) [1/m], floats or arrays.
 
-    References:
-        morrow1997 (appendix; coefficients confirmed against independent public code copies).
+    References
+    ----------
+    morrow1997 (appendix; coefficients confirmed against independent public code copies).
     """
     e, s1 = _values("field", field, unit="V/m")
     n, s2 = _values("gas_number_density", gas_number_density, unit="1/m³")
@@ -77,20 +85,27 @@ def morrow_lowke_coefficients(field: object, gas_number_density: object) -> tupl
     return _shape_out(alpha, scalar), _shape_out(eta2, scalar), _shape_out(eta3, scalar)
 
 
-def effective_ionization_air(field: object, pressure: object = ATM,
-                             temperature: object = T_ROOM) -> float | np.ndarray:
+def effective_ionization_air(field: npt.ArrayLike, pressure: npt.ArrayLike = ATM,
+                             temperature: npt.ArrayLike = T_ROOM) -> float | np.ndarray:
     """Effective ionisation coefficient of air α_eff = α − η2 − η3 (Morrow & Lowke), N = p/(k_B T).
 
-    Args:
-        field: electric field magnitude E [V/m], > 0.
-        pressure: gas pressure p [Pa], > 0.
-        temperature: gas temperature T [K], > 0.
+    Parameters
+    ----------
+    field : array_like
+        electric field magnitude E [V/m], > 0.
+    pressure : array_like, optional
+        gas pressure p [Pa], > 0.
+    temperature : array_like, optional
+        gas temperature T [K], > 0.
 
-    Returns:
+    Returns
+    -------
+    float or numpy.ndarray
         α_eff [1/m]; negative where attachment wins.
 
-    References:
-        morrow1997 (see :func:`morrow_lowke_coefficients` for the fits and their validity).
+    References
+    ----------
+    morrow1997 (see :func:`morrow_lowke_coefficients` for the fits and their validity).
     """
     p, s1 = _values("pressure", pressure, unit="Pa")
     t, s2 = _values("temperature", temperature, unit="K")
@@ -130,15 +145,21 @@ def critical_field_air(pressure: float = ATM, temperature: float = T_ROOM) -> fl
     α_eff < 0 at any density; at 10 000 Td α_eff > 0 unless N exceeds about 1e32 m⁻³. A single sign change
     in between was checked on a fine grid from 1 Pa to 10 MPa. At 1 atm and 293 K: 26.97 kV/cm (107.7 Td).
 
-    Args:
-        pressure: gas pressure p [Pa], > 0.
-        temperature: gas temperature T [K], > 0.
+    Parameters
+    ----------
+    pressure : float, optional
+        gas pressure p [Pa], > 0.
+    temperature : float, optional
+        gas temperature T [K], > 0.
 
-    Returns:
+    Returns
+    -------
+    float
         Critical field E_cr [V/m].
 
-    References:
-        morrow1997.
+    References
+    ----------
+    morrow1997.
     """
     n_cm = _air_density_cm(pressure, temperature)
     x = _air_reduced_root(n_cm, 0.0, _X_LOW, _no_critical_field(pressure, temperature))
@@ -158,18 +179,26 @@ def ionization_integral_inception_field(length: float, pressure: float = ATM, te
     Validity: uniform field; dry air; roots well above about 1000 Td (sub-10 µm gaps at 1 atm) rely on
     extrapolated fits.
 
-    Args:
-        length: gap length l along the field [m], > 0.
-        pressure: gas pressure p [Pa], > 0.
-        temperature: gas temperature T [K], > 0.
-        k_streamer: ionisation-integral threshold K [-], in (0, 100]; 9.15–9.2 (avalanche of 1e4) or about
-            18–20 (1e8).
+    Parameters
+    ----------
+    length : float
+        gap length l along the field [m], > 0.
+    pressure : float, optional
+        gas pressure p [Pa], > 0.
+    temperature : float, optional
+        gas temperature T [K], > 0.
+    k_streamer : float, optional
+        ionisation-integral threshold K [-], in (0, 100]; 9.15–9.2 (avalanche of 1e4) or about
+        18–20 (1e8).
 
-    Returns:
+    Returns
+    -------
+    float
         Inception field [V/m].
 
-    References:
-        morrow1997 (α, η), mikropoulos2009 (K about 9.2).
+    References
+    ----------
+    morrow1997 (α, η), mikropoulos2009 (K about 9.2).
     """
     l = check_range("length", length, 0.0, math.inf, low_open=True, unit="m")
     k = check_range("k_streamer", k_streamer, 0.0, 100.0, low_open=True)
@@ -183,7 +212,7 @@ def ionization_integral_inception_field(length: float, pressure: float = ATM, te
 
 
 def sf6_effective_ionization(
-    field: object, pressure: object, temperature: object = T_ROOM, *, slope: float = SF6_SLOPE,
+    field: npt.ArrayLike, pressure: npt.ArrayLike, temperature: npt.ArrayLike = T_ROOM, *, slope: float = SF6_SLOPE,
     limiting_reduced_field: float = SF6_LIMITING_REDUCED_FIELD,
 ) -> float | np.ndarray:
     """Linear fit of the effective ionisation of SF6: α̅/p = k·(E/p − (E/p)_lim), p density-equivalent.
@@ -192,18 +221,27 @@ def sf6_effective_ionization(
     (E/p)_lim = 88.6 V/(Pa m) (1 kV/(cm bar) = 1 V/(Pa m)). Validity: E/p near (E/p)_lim (roughly ±30 %,
     from memory); negative below (E/p)_lim (net attachment).
 
-    Args:
-        field: field magnitude E [V/m], >= 0.
-        pressure: gas pressure p [Pa], > 0.
-        temperature: gas temperature T [K], > 0.
-        slope: k [1/V], > 0.
-        limiting_reduced_field: (E/p)_lim [V/(Pa m)], > 0.
+    Parameters
+    ----------
+    field : array_like
+        field magnitude E [V/m], >= 0.
+    pressure : array_like
+        gas pressure p [Pa], > 0.
+    temperature : array_like, optional
+        gas temperature T [K], > 0.
+    slope : float, optional
+        k [1/V], > 0.
+    limiting_reduced_field : float, optional
+        (E/p)_lim [V/(Pa m)], > 0.
 
-    Returns:
+    Returns
+    -------
+    float or numpy.ndarray
         α̅ [1/m].
 
-    References:
-        pedersen1970 (from memory), niemeyer1995.
+    References
+    ----------
+    pedersen1970 (from memory), niemeyer1995.
     """
     k = check_range("slope", slope, 0.0, math.inf, low_open=True, unit="1/V")
     elim = check_range("limiting_reduced_field", limiting_reduced_field, 0.0, math.inf, low_open=True,
@@ -222,17 +260,25 @@ def sf6_ionization_integral_inception_field(length: float, pressure: float, temp
 
     Equal to the streamer formula with n = 1 and B = K/(k·(E/p)_lim) = 4.278 Pa m for K = 10.5.
 
-    Args:
-        length: gap length l [m], > 0.
-        pressure: gas pressure p [Pa], > 0.
-        temperature: gas temperature T [K], > 0.
-        k_streamer: threshold K [-], in (0, 100]; 10.5 for SF6 (from memory).
+    Parameters
+    ----------
+    length : float
+        gap length l [m], > 0.
+    pressure : float
+        gas pressure p [Pa], > 0.
+    temperature : float, optional
+        gas temperature T [K], > 0.
+    k_streamer : float, optional
+        threshold K [-], in (0, 100]; 10.5 for SF6 (from memory).
 
-    Returns:
+    Returns
+    -------
+    float
         Inception field [V/m].
 
-    References:
-        pedersen1970 (from memory), niemeyer1995.
+    References
+    ----------
+    pedersen1970 (from memory), niemeyer1995.
     """
     l = check_range("length", length, 0.0, math.inf, low_open=True, unit="m")
     k = check_range("k_streamer", k_streamer, 0.0, 100.0, low_open=True)
@@ -240,7 +286,7 @@ def sf6_ionization_integral_inception_field(length: float, pressure: float, temp
     return peq * (SF6_LIMITING_REDUCED_FIELD + k / (SF6_SLOPE * peq * l))
 
 
-def streamer_integral(field_values: object, positions: object, *, pressure: float = ATM,
+def streamer_integral(field_values: npt.ArrayLike, positions: npt.ArrayLike, *, pressure: float = ATM,
                       temperature: float = T_ROOM, gas: str = "air", method: str = "trapezoid") -> float:
     """Ionisation integral ∫ α_eff(|E(x)|) dx along a field line from sampled field magnitudes.
 
@@ -248,19 +294,29 @@ def streamer_integral(field_values: object, positions: object, *, pressure: floa
     parts with α_eff < 0 are integrated as they are (the avalanche shrinks there). Compare the result with K
     (9.15–9.2 for air, 10.5 for SF6) for the streamer criterion.
 
-    Args:
-        field_values: field magnitudes |E| at the samples [V/m], all > 0.
-        positions: sample positions along the line [m], strictly increasing, same length (>= 2).
-        pressure: gas pressure p [Pa], > 0.
-        temperature: gas temperature T [K], > 0.
-        gas: "air" (Morrow–Lowke α_eff) or "sf6" (linear fit).
-        method: "trapezoid" or "simpson" (scipy.integrate).
+    Parameters
+    ----------
+    field_values : array_like
+        field magnitudes |E| at the samples [V/m], all > 0.
+    positions : array_like
+        sample positions along the line [m], strictly increasing, same length (>= 2).
+    pressure : float, optional
+        gas pressure p [Pa], > 0.
+    temperature : float, optional
+        gas temperature T [K], > 0.
+    gas : str, optional
+        "air" (Morrow–Lowke α_eff) or "sf6" (linear fit).
+    method : str, optional
+        "trapezoid" or "simpson" (scipy.integrate).
 
-    Returns:
+    Returns
+    -------
+    float
         ∫ α_eff dx [-].
 
-    References:
-        morrow1997 (air), pedersen1970 (SF6, from memory).
+    References
+    ----------
+    morrow1997 (air), pedersen1970 (SF6, from memory).
     """
     check_choice("gas", gas, ("air", "sf6"))
     check_choice("method", method, ("trapezoid", "simpson"))

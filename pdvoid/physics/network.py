@@ -11,6 +11,7 @@ from fractions import Fraction
 from typing import NamedTuple
 
 import numpy as np
+import numpy.typing as npt
 
 from pdvoid.core.errors import InputError, check_nonnegative, check_positive, check_range, check_real
 from pdvoid.core.units import EPSILON_0
@@ -40,7 +41,17 @@ __all__ = [
 
 
 class VoidCapacitances(NamedTuple):
-    """The three capacitances of the a-b-c network [F]; ``a`` is None when the specimen area is not given."""
+    """The three capacitances of the a-b-c network [F]; ``a`` is None when the specimen area is not given.
+
+    Attributes
+    ----------
+    a : float or numpy.ndarray or None
+        C_a, the healthy insulation in parallel [F].
+    b : float or numpy.ndarray
+        C_b, the solid in series with the void [F].
+    c : float or numpy.ndarray
+        C_c, the void [F].
+    """
 
     a: float | np.ndarray | None
     b: float | np.ndarray
@@ -48,7 +59,17 @@ class VoidCapacitances(NamedTuple):
 
 
 class NetworkEquivalent(NamedTuple):
-    """Network capacitances equivalent to a spheroidal void [F], and the void voltage ratio k [-]."""
+    """Network capacitances equivalent to a spheroidal void [F], and the void voltage ratio k [-].
+
+    Attributes
+    ----------
+    c_b : float or numpy.ndarray
+        C_b, in series with the void [F].
+    c_c : float or numpy.ndarray
+        C_c, the void [F].
+    k : float or numpy.ndarray
+        k = C_b / (C_b + C_c), void voltage per applied volt [-].
+    """
 
     c_b: float | np.ndarray
     c_c: float | np.ndarray
@@ -56,33 +77,44 @@ class NetworkEquivalent(NamedTuple):
 
 
 def flat_void_capacitances(
-    diameter: float,
-    height: float,
-    thickness: float,
-    permittivity: float,
-    specimen_area: float | None = None,
+    diameter: npt.ArrayLike,
+    height: npt.ArrayLike,
+    thickness: npt.ArrayLike,
+    permittivity: npt.ArrayLike,
+    specimen_area: npt.ArrayLike | None = None,
 ) -> VoidCapacitances:
     """Capacitances of a flat cylindrical void centred in a slab between plane electrodes.
 
     Void of area S = π D²/4 and height t in a slab of thickness d and area A:
     ``C_c = ε0 S / t``, ``C_b = εr ε0 S / (d − t)``, ``C_a = εr ε0 (A − S) / d``.
 
-    Parameters:
-        diameter: void diameter across the field D [m]
-        height: void height along the field t, < thickness [m]
-        thickness: slab thickness (electrode spacing) d [m]
-        permittivity: relative permittivity of the solid εr, >= 1 [-]
-        specimen_area: electrode area A, > S; None leaves C_a undetermined [m²]
+    Parameters
+    ----------
+    diameter : array_like
+        void diameter across the field D [m]
+    height : array_like
+        void height along the field t, < thickness [m]
+    thickness : array_like
+        slab thickness (electrode spacing) d [m]
+    permittivity : array_like
+        relative permittivity of the solid εr, >= 1 [-]
+    specimen_area : array_like, optional
+        electrode area A, > S; None leaves C_a undetermined [m²]
 
-    Returns:
+    Returns
+    -------
+    VoidCapacitances
         VoidCapacitances(a, b, c) [F]; ``a`` is None when ``specimen_area`` is None.
 
+    Notes
+    -----
     Validity: void much wider than tall and than its distance to the electrodes (edge fields neglected; the
     void and the solid column above and below it are treated as parallel-plate capacitors), gas
     permittivity 1. The capacitances are fitting quantities, not field quantities (pedersen1991).
 
-    References:
-        gemant1932; kreuger1989; kuffel2000 (PD-measurement chapter).
+    References
+    ----------
+    gemant1932; kreuger1989; kuffel2000 (PD-measurement chapter).
     """
     dia = _positive("diameter", diameter, "m")
     t = _positive("height", height, "m")
@@ -108,20 +140,28 @@ def flat_void_capacitances(
     return VoidCapacitances(c_a, _out(c_b, *inputs), _out(c_c, *inputs))
 
 
-def void_voltage_ratio(c_b: float, c_c: float) -> float | np.ndarray:
+def void_voltage_ratio(c_b: npt.ArrayLike, c_c: npt.ArrayLike) -> float | np.ndarray:
     """Ratio k of void voltage to applied voltage before any discharge (stiff source): k = C_b/(C_b + C_c).
 
-    Parameters:
-        c_b: capacitance of the solid in series with the void [F]
-        c_c: capacitance of the void [F]
+    Parameters
+    ----------
+    c_b : array_like
+        capacitance of the solid in series with the void [F]
+    c_c : array_like
+        capacitance of the void [F]
 
-    Returns:
+    Returns
+    -------
+    float or numpy.ndarray
         k, in (0, 1) [-]
 
+    Notes
+    -----
     Validity: three-capacitance network, stiff source, no discharge yet, no leakage; C_a does not enter.
 
-    References:
-        kreuger1989; kuffel2000; gemant1932.
+    References
+    ----------
+    kreuger1989; kuffel2000; gemant1932.
     """
     b = _positive("c_b", c_b, "F")
     c = _positive("c_c", c_c, "F")
@@ -130,7 +170,7 @@ def void_voltage_ratio(c_b: float, c_c: float) -> float | np.ndarray:
 
 
 def spheroid_network_equivalent(
-    diameter: float, height: float, thickness: float, permittivity: float
+    diameter: npt.ArrayLike, height: npt.ArrayLike, thickness: npt.ArrayLike, permittivity: npt.ArrayLike
 ) -> NetworkEquivalent:
     """Network capacitances (C_b, C_c) and voltage ratio k reproducing the induced charge of a spheroid.
 
@@ -149,22 +189,32 @@ def spheroid_network_equivalent(
     same height and the same volume (area S = Ω/h = (2/3)·π D²/4): C_b → εr ε0 S/d, k → εr h/d,
     C_c → ε0 S/h, i.e. :func:`flat_void_capacitances` within O(h/d) and O(εr h/D).
 
-    Parameters:
-        diameter: void diameter across the field D [m]
-        height: void height along the field h, < thickness [m]
-        thickness: electrode spacing d [m]
-        permittivity: relative permittivity of the host εr, >= 1 [-]
+    Parameters
+    ----------
+    diameter : array_like
+        void diameter across the field D [m]
+    height : array_like
+        void height along the field h, < thickness [m]
+    thickness : array_like
+        electrode spacing d [m]
+    permittivity : array_like
+        relative permittivity of the host εr, >= 1 [-]
 
-    Returns:
+    Returns
+    -------
+    NetworkEquivalent
         NetworkEquivalent(c_b [F], c_c [F], k [-]).
 
+    Notes
+    -----
     Validity: as :func:`pdvoid.physics.geometry.induced_charge_per_field` (void small compared with its
     distance to the electrodes, uniform counter-field, homogeneous linear host, plane electrodes). A void so
     large that f h/d >= 1 violates it and is rejected.
 
-    References:
-        crichton1989; pedersen1991 (induced charge); kreuger1989, gemant1932 (network); derived here
-        (k = f h/d).
+    References
+    ----------
+    crichton1989; pedersen1991 (induced charge); kreuger1989, gemant1932 (network); derived here
+    (k = f h/d).
     """
     dia = _positive("diameter", diameter, "m")
     h = _positive("height", height, "m")
@@ -187,24 +237,32 @@ def spheroid_network_equivalent(
     return NetworkEquivalent(_out(c_b, *inputs), _out(c_c, *inputs), _out(k, *inputs))
 
 
-def apparent_charge(c_b: float, delta_v: float) -> float | np.ndarray:
+def apparent_charge(c_b: npt.ArrayLike, delta_v: npt.ArrayLike) -> float | np.ndarray:
     """Apparent charge of one discharge in the network model: q_a = C_b ΔV (signed like ΔV).
 
     The charge the source must deliver to restore the test-object voltage when the void voltage changes by
     ΔV; it is the factor k = C_b/(C_b + C_c) smaller than the charge change of the void network.
 
-    Parameters:
-        c_b: capacitance of the solid in series with the void [F]
-        delta_v: change of void voltage in the discharge, V_i − V_r with the polarity of the void voltage [V]
+    Parameters
+    ----------
+    c_b : array_like
+        capacitance of the solid in series with the void [F]
+    delta_v : array_like
+        change of void voltage in the discharge, V_i − V_r with the polarity of the void voltage [V]
 
-    Returns:
+    Returns
+    -------
+    float or numpy.ndarray
         apparent charge [C], signed.
 
+    Notes
+    -----
     Validity: three-capacitance network; the measured charge equals q_a only after calibration of the whole
     circuit (iec60270); finite coupling capacitance lowers it by C_k/(C_a + C_k).
 
-    References:
-        kreuger1989; kuffel2000; iec60270 (definition of apparent charge).
+    References
+    ----------
+    kreuger1989; kuffel2000; iec60270 (definition of apparent charge).
     """
     b = _positive("c_b", c_b, "F")
     dv = _checked("delta_v", delta_v, -math.inf, low_open=True, unit="V")
@@ -212,33 +270,43 @@ def apparent_charge(c_b: float, delta_v: float) -> float | np.ndarray:
     return _out(b_ * dv_, c_b, delta_v)
 
 
-def _voltages(inception_voltage: object, residual_voltage: object) -> tuple[float, float]:
+def _voltages(inception_voltage: float, residual_voltage: float) -> tuple[float, float]:
     vi = check_positive("inception_voltage", inception_voltage, "V")
     vr = check_range("residual_voltage", residual_voltage, 0.0, vi, high_open=True, unit="V")
     return vi, vr
 
 
 def discharge_energy(
-    c_b: float, c_c: float, inception_voltage: float, residual_voltage: float
+    c_b: npt.ArrayLike, c_c: npt.ArrayLike, inception_voltage: float, residual_voltage: float
 ) -> float | np.ndarray:
     """Energy dissipated in one discharge of the network model: W = ½ (C_c + C_b)(V_i² − V_r²).
 
     Equivalently W = ½ q_a U_inc (1 + V_r/V_i) with q_a = C_b (V_i − V_r) and U_inc = V_i/k the applied
     voltage at inception; for V_r = 0 the textbook ½ q_a U_inc.
 
-    Parameters:
-        c_b: capacitance of the solid in series with the void [F]
-        c_c: capacitance of the void [F]
-        inception_voltage: void voltage at which the discharge starts V_i, > 0 [V]
-        residual_voltage: void voltage after the discharge V_r, in [0, V_i) [V]
+    Parameters
+    ----------
+    c_b : array_like
+        capacitance of the solid in series with the void [F]
+    c_c : array_like
+        capacitance of the void [F]
+    inception_voltage : float
+        void voltage at which the discharge starts V_i, > 0 [V]
+    residual_voltage : float
+        void voltage after the discharge V_r, in [0, V_i) [V]
 
-    Returns:
+    Returns
+    -------
+    float or numpy.ndarray
         energy per discharge [J]
 
+    Notes
+    -----
     Validity: three-capacitance network, stiff source (V_a constant during the discharge).
 
-    References:
-        kreuger1989; kuffel2000; derived (physics brief §1.3).
+    References
+    ----------
+    kreuger1989; kuffel2000; derived (physics brief §1.3).
     """
     b = _positive("c_b", c_b, "F")
     c = _positive("c_c", c_c, "F")
@@ -247,7 +315,7 @@ def discharge_energy(
     return _out(0.5 * (c_ + b_) * (vi - vr) * (vi + vr), c_b, c_c)
 
 
-def _quarter_count(peak_void_voltage: object, inception_voltage: object, residual_voltage: object) -> int:
+def _quarter_count(peak_void_voltage: float, inception_voltage: float, residual_voltage: float) -> int:
     """n1 = floor((A − V_r)/(V_i − V_r)) for A >= V_i, else 0, evaluated exactly on the given floats."""
     a = check_nonnegative("peak_void_voltage", peak_void_voltage, "V")
     vi, vr = _voltages(inception_voltage, residual_voltage)
@@ -272,19 +340,28 @@ def lag_free_discharges_per_cycle(
     with the full amplitude applied at once. The steady state depends on history: other initial charge can
     give 4·n1 ± 2 per cycle.
 
-    Parameters:
-        peak_void_voltage: peak void voltage without discharges A = k V_m, >= 0 [V]
-        inception_voltage: void inception voltage V_i, > 0 [V]
-        residual_voltage: void residual voltage V_r, in [0, V_i) [V]
+    Parameters
+    ----------
+    peak_void_voltage : float
+        peak void voltage without discharges A = k V_m, >= 0 [V]
+    inception_voltage : float
+        void inception voltage V_i, > 0 [V]
+    residual_voltage : float
+        void residual voltage V_r, in [0, V_i) [V]
 
-    Returns:
+    Returns
+    -------
+    int
         discharges per cycle (whole number, multiple of 4) [-]
 
+    Notes
+    -----
     Validity: the assumptions above; independent of frequency.
 
-    References:
-        derived (physics brief §1.4, checked against exact event simulation); model of kreuger1989,
-        kuffel2000.
+    References
+    ----------
+    derived (physics brief §1.4, checked against exact event simulation); model of kreuger1989,
+    kuffel2000.
     """
     return 4 * _quarter_count(peak_void_voltage, inception_voltage, residual_voltage)
 
@@ -300,18 +377,27 @@ def lag_free_phases_deg(
     at φ_j + 180°. The exact sine is <= 1 by the definition of n1; a rounding excess of a few ulps at an exact
     integer ratio is set to 1.
 
-    Parameters:
-        peak_void_voltage: peak void voltage without discharges A = k V_m, >= 0 [V]
-        inception_voltage: void inception voltage V_i, > 0 [V]
-        residual_voltage: void residual voltage V_r, in [0, V_i) [V]
+    Parameters
+    ----------
+    peak_void_voltage : float
+        peak void voltage without discharges A = k V_m, >= 0 [V]
+    inception_voltage : float
+        void inception voltage V_i, > 0 [V]
+    residual_voltage : float
+        void residual voltage V_r, in [0, V_i) [V]
 
-    Returns:
+    Returns
+    -------
+    numpy.ndarray
         phases in ascending order [deg]; empty when A < V_i.
 
+    Notes
+    -----
     Validity: the assumptions of :func:`lag_free_discharges_per_cycle`.
 
-    References:
-        derived (physics brief §1.4); model of kreuger1989, kuffel2000.
+    References
+    ----------
+    derived (physics brief §1.4); model of kreuger1989, kuffel2000.
     """
     n1 = _quarter_count(peak_void_voltage, inception_voltage, residual_voltage)
     a = check_real("peak_void_voltage", peak_void_voltage)

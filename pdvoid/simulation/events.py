@@ -22,16 +22,28 @@ __all__ = ["Events", "as_events"]
 class Events:
     """Discharge events over an observation of whole AC cycles.
 
-    Attributes (SI):
-        time: event times from the start of the observation [s]; NaN where unknown (phase-only data).
-        phase_deg: phase from the positive-going zero crossing of the applied voltage [deg], in [0, 360).
-        cycle: index of the AC cycle each event falls in [-] (float array holding whole numbers).
-        charge: apparent charge, signed [C].
-        voltage: instantaneous applied voltage at each event [V]; NaN where unknown.
-        frequency: supply frequency [Hz].
-        cycles: number of AC cycles observed [-] (the reference time is cycles / frequency).
-        field_before, field_after: void field just before and after each event [V/m]; NaN where unknown.
-        label: free text (e.g. "simulated", "measured (synthetic demo data)").
+    Units: SI.
+
+    Attributes
+    ----------
+    time : numpy.ndarray or None
+        event times from the start of the observation [s]; NaN where unknown (phase-only data).
+    phase_deg : numpy.ndarray
+        phase from the positive-going zero crossing of the applied voltage [deg], in [0, 360).
+    cycle : numpy.ndarray or None
+        index of the AC cycle each event falls in [-] (float array holding whole numbers).
+    charge : numpy.ndarray
+        apparent charge, signed [C].
+    voltage : numpy.ndarray or None
+        instantaneous applied voltage at each event [V]; NaN where unknown.
+    frequency : float
+        supply frequency [Hz].
+    cycles : float
+        number of AC cycles observed [-] (the reference time is cycles / frequency).
+    field_before, field_after : numpy.ndarray or None
+        void field just before and after each event [V/m]; NaN where unknown.
+    label : str
+        free text (e.g. "simulated", "measured (synthetic demo data)").
     """
 
     phase_deg: np.ndarray
@@ -65,6 +77,7 @@ class Events:
             raise InputError("charge must be finite everywhere")
         object.__setattr__(self, "phase_deg", _frozen(phase))
         object.__setattr__(self, "charge", _frozen(charge))
+        filled: dict[str, np.ndarray] = {}
         for name in ("time", "cycle", "voltage", "field_before", "field_after"):
             v = getattr(self, name)
             if v is None:
@@ -73,9 +86,10 @@ class Events:
                 arr = np.asarray(v, dtype=float)
                 if arr.shape != (n,):
                     raise InputError(f"{name} must have shape ({n},) like phase_deg; got {arr.shape}")
-            object.__setattr__(self, name, _frozen(arr))
-        if n and np.all(np.isnan(self.cycle)) and np.all(np.isfinite(self.time)):
-            object.__setattr__(self, "cycle", _frozen(np.floor(self.time * f)))
+            filled[name] = _frozen(arr)
+            object.__setattr__(self, name, filled[name])
+        if n and np.all(np.isnan(filled["cycle"])) and np.all(np.isfinite(filled["time"])):
+            object.__setattr__(self, "cycle", _frozen(np.floor(filled["time"] * f)))
 
     @property
     def duration(self) -> float:
@@ -84,6 +98,7 @@ class Events:
 
     @property
     def count(self) -> int:
+        """Number of events [-]."""
         return int(self.charge.size)
 
     def __len__(self) -> int:
@@ -91,7 +106,23 @@ class Events:
 
 
 def as_events(obj: object) -> Events:
-    """Accept an :class:`Events`, a Result (anything with ``.events``) or raise :class:`InputError`."""
+    """Accept an :class:`Events`, a Result (anything with ``.events``) or raise :class:`InputError`.
+
+    Parameters
+    ----------
+    obj : object
+        An Events, or anything with an ``events`` attribute holding one (a Result, measured data).
+
+    Returns
+    -------
+    Events
+        The events.
+
+    Raises
+    ------
+    InputError
+        For anything else.
+    """
     if isinstance(obj, Events):
         return obj
     ev = getattr(obj, "events", None)

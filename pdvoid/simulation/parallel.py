@@ -29,7 +29,13 @@ _stdlib_pools: dict[int, cf.ProcessPoolExecutor] = {}
 
 
 def local_workers() -> int:
-    """The number of cores this process may use [-] (CPU affinity and container limits respected)."""
+    """The number of cores this process may use [-] (CPU affinity and container limits respected).
+
+    Returns
+    -------
+    int
+        At least 1.
+    """
     if available("joblib"):
         import joblib
 
@@ -41,7 +47,20 @@ def local_workers() -> int:
 
 
 def backend_name(client: Any = None, workers: int | None = None) -> str:
-    """Which backend ``parallel_map`` would use: "serial", "loky", "processes" (stdlib) or "dask"."""
+    """Which backend ``parallel_map`` would use: "serial", "loky", "processes" (stdlib) or "dask".
+
+    Parameters
+    ----------
+    client : object, optional
+        As for :func:`parallel_map`: None, a Dask client or a scheduler address.
+    workers : int or None, optional
+        As for :func:`parallel_map`.
+
+    Returns
+    -------
+    str
+        ``"serial"``, ``"loky"``, ``"processes"`` or ``"dask"``.
+    """
     if client is not None:
         return "dask"
     if _resolve_workers(workers) == 1:
@@ -69,7 +88,7 @@ def _chunks(n: int, workers: int) -> list[range]:
     return [range(i, min(n, i + size)) for i in range(0, n, size)]
 
 
-def _progress_bar(total: int, enabled: bool, description: str):
+def _progress_bar(total: int, enabled: bool, description: str) -> Any:
     if not enabled:
         return None
     tqdm = require("tqdm.auto", feature="progress bars").tqdm
@@ -101,9 +120,10 @@ def _local_executor(workers: int) -> cf.Executor:
     return _stdlib_pool(workers)
 
 
-def _collect(futures: dict, n: int, bar, wait_any: Callable) -> list:
+def _collect(futures: dict[Any, range], n: int, bar: Any, wait_any: Callable[[list[Any]], Iterable[Any]]
+             ) -> list[Any]:
     """Gather chunk results into a list of n; on a failure cancel what has not started and re-raise."""
-    out: list = [None] * n
+    out: list[Any] = [None] * n
     try:
         for fut in wait_any(list(futures)):
             rng = futures[fut]
@@ -122,7 +142,7 @@ def _collect(futures: dict, n: int, bar, wait_any: Callable) -> list:
     return out
 
 
-def _dask_client(client: Any):
+def _dask_client(client: Any) -> tuple[Any, bool]:
     """(client, owned): a Client as given, or a new one connected to a scheduler address string."""
     distributed = require("distributed", feature="Dask clusters")
     if isinstance(client, str):
@@ -140,7 +160,7 @@ def _dask_client(client: Any):
     return client, False
 
 
-def _dask_map(func: Callable, items: list, client: Any, make_bar: Callable) -> list:
+def _dask_map(func: Callable[[Any], Any], items: list[Any], client: Any, make_bar: Callable[[], Any]) -> list[Any]:
     distributed = require("distributed", feature="Dask clusters")
     client, owned = _dask_client(client)
     try:
@@ -158,33 +178,45 @@ def _dask_map(func: Callable, items: list, client: Any, make_bar: Callable) -> l
 
 def parallel_map(
     func: Callable[[Any], Any],
-    items: Iterable,
+    items: Iterable[Any],
     *,
     client: Any = None,
     workers: int | None = None,
     progress: bool = False,
     description: str = "",
-) -> list:
+) -> list[Any]:
     """``[func(x) for x in items]``, in order, run serially, on local processes or on a Dask cluster.
 
-    Args:
-        func: a function of one argument, picklable (defined at module level, or a functools.partial of one)
-            for the process and Dask backends; exceptions it raises stop the map and are re-raised here
-            (tasks not yet started are cancelled).
-        items: the arguments, picklable.
-        client: None for local execution; a ``dask.distributed.Client``, or a scheduler address string
-            such as ``"tcp://127.0.0.1:8786"`` (a client is opened and closed for this call), to run on Dask.
-        workers: local worker processes [-]; None uses every core this process may use; 1 runs serially in
-            this process. Ignored with ``client``.
-        progress: show a progress bar (tqdm, notebook-aware).
-        description: label of the progress bar.
+    Parameters
+    ----------
+    func : Callable[[Any], Any]
+        a function of one argument, picklable (defined at module level, or a functools.partial of one)
+        for the process and Dask backends; exceptions it raises stop the map and are re-raised here
+        (tasks not yet started are cancelled).
+    items : Iterable[Any]
+        the arguments, picklable.
+    client : object, optional
+        None for local execution; a ``dask.distributed.Client``, or a scheduler address string
+        such as ``"tcp://127.0.0.1:8786"`` (a client is opened and closed for this call), to run on Dask.
+    workers : int, optional
+        local worker processes [-]; None uses every core this process may use; 1 runs serially in
+        this process. Ignored with ``client``.
+    progress : bool, optional
+        show a progress bar (tqdm, notebook-aware).
+    description : str, optional
+        label of the progress bar.
 
-    Returns:
+    Returns
+    -------
+    list[Any]
         The results in the order of ``items``.
 
-    Raises:
-        InputError: bad ``workers`` or ``client``.
-        MissingDependencyError: (an ImportError) Dask or tqdm is needed and not installed.
+    Raises
+    ------
+    InputError
+        bad ``workers`` or ``client``.
+    MissingDependencyError
+        (an ImportError) Dask or tqdm is needed and not installed.
     """
     if not callable(func):
         raise InputError(f"func must be callable; got {type(func).__name__}")
@@ -192,14 +224,13 @@ def parallel_map(
         raise InputError(f"progress must be True or False; got {progress!r}")
     items = list(items)
     n = len(items)
-    if client is None:
-        workers = _resolve_workers(workers)
+    local = _resolve_workers(workers) if client is None else 1
     if n == 0:
         return []
     if client is not None:
         return _dask_map(func, items, client, lambda: _progress_bar(n, progress, description))
     bar = _progress_bar(n, progress, description)
-    if workers == 1 or n == 1:
+    if local == 1 or n == 1:
         out = []
         try:
             for x in items:
@@ -211,10 +242,10 @@ def parallel_map(
                 bar.close()
         return out
     try:
-        executor = _local_executor(workers)
+        executor = _local_executor(local)
     except BaseException:
         if bar is not None:
             bar.close()
         raise
-    futures = {executor.submit(_run_chunk, func, [items[i] for i in rng]): rng for rng in _chunks(n, workers)}
+    futures = {executor.submit(_run_chunk, func, [items[i] for i in rng]): rng for rng in _chunks(n, local)}
     return _collect(futures, n, bar, cf.as_completed)

@@ -7,10 +7,11 @@ import os
 import zipfile
 from dataclasses import dataclass
 from pathlib import Path
+from typing import cast
 
 import numpy as np
 
-from pdvoid.coefficients import compute_coefficients
+from pdvoid.coefficients import Coefficients, compute_coefficients
 from pdvoid.core.errors import InputError
 from pdvoid.inputs.scenario import Scenario
 from pdvoid.simulation.events import Events
@@ -32,7 +33,19 @@ class Histogram:
     """Phase-resolved counts accumulated inside the kernel (histogram-only runs).
 
     counts[i, j]: events in phase bin i (edges phase_edges_deg [deg]) and charge bin j (edges charge_edges [C]);
-    below / above: events whose charge fell outside the charge edges (counted, never dropped silently)."""
+    below / above: events whose charge fell outside the charge edges (counted, never dropped silently).
+
+    Attributes
+    ----------
+    counts : numpy.ndarray
+        Counts per (phase bin, charge bin), int64 [-].
+    phase_edges_deg : numpy.ndarray
+        Phase bin edges over 0..360 [deg].
+    charge_edges : numpy.ndarray
+        Signed apparent-charge bin edges, increasing [C].
+    below, above : int
+        Events with a charge below the first or above the last edge [-].
+    """
 
     counts: np.ndarray
     phase_edges_deg: np.ndarray
@@ -48,6 +61,33 @@ class Result:
     Event arrays (SI): time [s], phase_deg [deg], cycle [-], charge [C] (apparent, signed), voltage [V] (applied,
     at each event), field_before / field_after [V/m] (in the void). In histogram-only runs the event arrays are
     empty and ``histogram`` plus the IEC 60270 sums hold the outcome.
+
+    Attributes
+    ----------
+    events : Events
+        The discharge events (empty in histogram-only runs).
+    scenario : Scenario
+        The scenario simulated.
+    seed : int
+        Seed of the random generator [-].
+    cycles : int
+        Cycles simulated [-].
+    requested_cycles : int
+        Cycles asked for [-]; more than ``cycles`` when the run was stopped early.
+    version : str
+        pdvoid version that produced the result.
+    references : tuple of str
+        Bibliography keys the scenario relied on (:func:`pdvoid.cite`).
+    histogram : Histogram or None
+        Phase-resolved counts of a histogram-only run, else None.
+    event_count : int
+        Number of discharges, also in histogram-only runs [-].
+    sum_abs_charge : float
+        Σ |q| over all discharges [C].
+    sum_charge_squared : float
+        Σ q² over all discharges [C²].
+    sum_charge_voltage : float
+        Σ q·u over all discharges (signed), u the applied voltage at the discharge [C·V].
     """
 
     events: Events
@@ -66,34 +106,42 @@ class Result:
     # event arrays, straight from the events
     @property
     def time(self) -> np.ndarray:
-        return self.events.time
+        """Event times from the start of the run [s]."""
+        return cast(np.ndarray, self.events.time)  # Events fills every array in __post_init__
 
     @property
     def phase_deg(self) -> np.ndarray:
+        """Event phases from the positive-going zero crossing of the supply [deg], in [0, 360)."""
         return self.events.phase_deg
 
     @property
     def cycle(self) -> np.ndarray:
-        return self.events.cycle
+        """Index of the AC cycle of each event [-] (whole numbers as floats)."""
+        return cast(np.ndarray, self.events.cycle)  # Events fills every array in __post_init__
 
     @property
     def charge(self) -> np.ndarray:
+        """Apparent charge of each event, signed [C]."""
         return self.events.charge
 
     @property
     def voltage(self) -> np.ndarray:
-        return self.events.voltage
+        """Applied voltage at each event [V]."""
+        return cast(np.ndarray, self.events.voltage)  # Events fills every array in __post_init__
 
     @property
     def field_before(self) -> np.ndarray:
-        return self.events.field_before
+        """Void field just before each event [V/m]."""
+        return cast(np.ndarray, self.events.field_before)  # Events fills every array in __post_init__
 
     @property
     def field_after(self) -> np.ndarray:
-        return self.events.field_after
+        """Void field just after each event [V/m]."""
+        return cast(np.ndarray, self.events.field_after)  # Events fills every array in __post_init__
 
     @property
     def frequency(self) -> float:
+        """Supply frequency [Hz]."""
         return self.events.frequency
 
     @property
@@ -108,15 +156,34 @@ class Result:
 
     @property
     def discharges_per_cycle(self) -> float:
+        """Mean number of discharges per simulated cycle [-] (0 when no cycle ran)."""
         return self.event_count / self.cycles if self.cycles else 0.0
 
-    def coefficients(self):
+    def coefficients(self) -> Coefficients:
+        """The coefficients of the result's scenario (recomputed; the same as at simulation time).
+
+        Returns
+        -------
+        Coefficients
+            See :func:`pdvoid.compute_coefficients`.
+        """
         return compute_coefficients(self.scenario)
 
     # ---- files -------------------------------------------------------------------------------------------
-    def save(self, path: str | os.PathLike) -> Path:
+    def save(self, path: str | os.PathLike[str]) -> Path:
         """Write an NPZ file: event arrays, histogram arrays and a JSON metadata entry (scenario, seed, version,
-        references, sums). Exactly restored by :func:`load`."""
+        references, sums). Exactly restored by :func:`load`.
+
+        Parameters
+        ----------
+        path : str or os.PathLike
+            File to write (``.npz``).
+
+        Returns
+        -------
+        pathlib.Path
+            The path written.
+        """
         from pdvoid.inputs.scenario_files import scenario_to_dict
 
         p = Path(path)
@@ -139,8 +206,19 @@ class Result:
             np.savez_compressed(fh, **arrays)
         return p
 
-    def to_csv(self, path: str | os.PathLike) -> Path:
-        """Events as CSV with units in the column headers (full double precision)."""
+    def to_csv(self, path: str | os.PathLike[str]) -> Path:
+        """Events as CSV with units in the column headers (full double precision).
+
+        Parameters
+        ----------
+        path : str or os.PathLike
+            File to write.
+
+        Returns
+        -------
+        pathlib.Path
+            The path written.
+        """
         p = Path(path)
         cols = np.column_stack([getattr(self.events, n) for n in _EVENT_FIELDS]) if self.events.count else None
         header = ",".join(_CSV_HEADER[n] for n in _EVENT_FIELDS)
@@ -151,8 +229,24 @@ class Result:
         return p
 
 
-def load(path: str | os.PathLike) -> Result:
-    """Read a result written by :meth:`Result.save`. Malformed files raise :class:`InputError` naming the file."""
+def load(path: str | os.PathLike[str]) -> Result:
+    """Read a result written by :meth:`Result.save`. Malformed files raise :class:`InputError` naming the file.
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+        A file written by :meth:`Result.save`.
+
+    Returns
+    -------
+    Result
+        The result, bit for bit as saved.
+
+    Raises
+    ------
+    InputError
+        For a missing, over-large or malformed file, naming it.
+    """
     from pdvoid.inputs.scenario import scenario_from_dict
 
     p = Path(path)

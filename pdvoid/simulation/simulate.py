@@ -13,6 +13,7 @@ from pdvoid.inputs.scenario import Scenario
 from pdvoid.inputs.waveform import evaluate
 from pdvoid.kernels import void_events as K
 from pdvoid.models import kernel_arguments
+from pdvoid.models.arguments import KernelArguments
 from pdvoid.simulation.events import Events
 from pdvoid.simulation.results import Histogram, Result
 
@@ -24,7 +25,7 @@ _MAX_STORED_EVENTS = 50_000_000
 _MAX_EVENTS_PER_CYCLE = 1_000_000  # about 1.6 GB of event arrays: beyond this use histogram mode
 
 
-def _default_charge_edges(args) -> np.ndarray:
+def _default_charge_edges(args: KernelArguments) -> np.ndarray:
     """Symmetric logarithmic charge edges for the histogram mode: 1e-3 to 10 times the lag-free charge."""
     q0 = abs(args.charge_per_unit * (args.x_inc - args.x_res))
     mags = np.geomspace(q0 * 1e-3, q0 * 10.0, 26)
@@ -38,12 +39,15 @@ class VoidRunner:
     The generator is numba's (process-global per thread): run one VoidRunner at a time per thread, or the
     streams interleave and runs are no longer reproducible.
 
-    Args:
-        scenario: the void and its supply; ``run(scale=...)`` multiplies the supply waveform.
-        seed: seed of the random generator [-].
+    Parameters
+    ----------
+    scenario : Scenario
+        the void and its supply; ``run(scale=...)`` multiplies the supply waveform.
+    seed : int, optional
+        seed of the random generator [-].
     """
 
-    def __init__(self, scenario: Scenario, seed: int = 0, *, _args=None) -> None:
+    def __init__(self, scenario: Scenario, seed: int = 0, *, _args: KernelArguments | None = None) -> None:
         if not isinstance(scenario, Scenario):
             raise InputError(f"scenario must be a pdvoid.Scenario; got {type(scenario).__name__}")
         self.scenario = scenario
@@ -57,11 +61,37 @@ class VoidRunner:
         if not self.args.lag_free:
             K.start_wait(self.state)
 
-    def run(self, cycles: int, *, scale: float = 1.0, store: bool = True, counts=None, charge_edges=None):
+    def run(self, cycles: int, *, scale: float = 1.0, store: bool = True, counts: np.ndarray | None = None,
+            charge_edges: np.ndarray | None = None
+            ) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
         """Advance ``cycles`` whole cycles with the supply multiplied by ``scale`` [-].
 
         Returns (time [s], charge [C], field_before [V/m], field_after [V/m], voltage [V]) of the new events
-        (empty arrays when ``store`` is False; the running sums in ``totals`` and ``counts`` still grow)."""
+        (empty arrays when ``store`` is False; the running sums in ``totals`` and ``counts`` still grow).
+
+        Parameters
+        ----------
+        cycles : int
+            Whole cycles to advance [-], 1 to 1e9.
+        scale : float, optional
+            Factor on the supply waveform [-], 0 to 1000.
+        store : bool, optional
+            True to return the new events; False to only accumulate the sums and ``counts``.
+        counts : numpy.ndarray or None, optional
+            Phase x charge histogram (int64) to add the events to, or None for none.
+        charge_edges : numpy.ndarray or None, optional
+            Charge bin edges of ``counts`` [C].
+
+        Returns
+        -------
+        tuple of numpy.ndarray
+            (time [s], charge [C], field_before [V/m], field_after [V/m], voltage [V]) of the new events.
+
+        Raises
+        ------
+        InputError
+            For bad ``cycles`` or ``scale``, or a scenario that could produce more than a million discharges per cycle.
+        """
         cycles = check_int("cycles", cycles, 1, MAX_CYCLES)
         scale = check_range("scale", scale, 0.0, 1e3)
         a = self.args
@@ -115,20 +145,32 @@ def simulate(
 ) -> Result:
     """Simulate ``cycles`` AC cycles of ``scenario`` from an uncharged void at the positive-going zero crossing.
 
-    Args:
-        scenario: the insulation, void, supply and model.
-        cycles: number of whole AC cycles [-], 1 to 1e9.
-        seed: seed of the random generator [-]; the same seed gives bit-identical results.
-        histogram: True to keep only the phase-resolved counts and the IEC 60270 sums (memory independent of
-            the number of events); False to keep every event.
-        phase_bins: phase bins over 0..360 deg for the histogram mode [-].
-        charge_edges: signed apparent-charge bin edges for the histogram mode [C], increasing; events outside
-            are counted in ``Histogram.below`` / ``above``. Default: symmetric log bins around the lag-free charge.
-        progress: called as progress(cycles_done, cycles) after each chunk.
-        should_stop: polled after each chunk; True ends the run early (the result says how many cycles ran).
-        chunk_cycles: cycles per kernel call (default: chosen from the event bound).
+    Parameters
+    ----------
+    scenario : Scenario
+        the insulation, void, supply and model.
+    cycles : int, optional
+        number of whole AC cycles [-], 1 to 1e9.
+    seed : int, optional
+        seed of the random generator [-]; the same seed gives bit-identical results.
+    histogram : bool, optional
+        True to keep only the phase-resolved counts and the IEC 60270 sums (memory independent of
+        the number of events); False to keep every event.
+    phase_bins : int, optional
+        phase bins over 0..360 deg for the histogram mode [-].
+    charge_edges : numpy.ndarray, optional
+        signed apparent-charge bin edges for the histogram mode [C], increasing; events outside
+        are counted in ``Histogram.below`` / ``above``. Default: symmetric log bins around the lag-free charge.
+    progress : Callable[[int, int], None], optional
+        called as progress(cycles_done, cycles) after each chunk.
+    should_stop : Callable[[], bool], optional
+        polled after each chunk; True ends the run early (the result says how many cycles ran).
+    chunk_cycles : int, optional
+        cycles per kernel call (default: chosen from the event bound).
 
-    Returns:
+    Returns
+    -------
+    Result
         :class:`pdvoid.simulation.results.Result`.
     """
     if not isinstance(scenario, Scenario):

@@ -24,6 +24,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from typing import Any
 
 import numpy as np
 import scipy.sparse as sp
@@ -42,26 +43,45 @@ _MIN_CUT = 1e-6  # smallest fraction of a link left between a cell centre and a 
 class Assembly:
     """The assembled linear system and what is needed to evaluate charges and mean fields.
 
-    Attributes (lengths in m, conductances in m, i.e. relative permittivity x m):
-        grid, layout: the inputs.
-        matrix: sparse (n, n) system matrix A (CSC).
-        coupling: dense (n, 2) matrix B: column e couples the unknowns to electrode e (ground, high).
-        cell_index: (nr*nz,) unknown index of each cell, -1 for conductor cells.
-        cell_conductor: (nr*nz,) -1 free, 0 ground, 1 high, 2+k floating conductor k.
-        n_free: number of free cells; unknowns n_free.. are the floating potentials.
-        electrode_links: per electrode, (unknown indices, conductances) of the links ending on it.
-        polarization_source: (n,) load of a unit uniform axial free polarisation in the void per unknown,
-            Σ ± A ω over the axial links at that unknown (ω: the void share of the link's potential drop) [m^2];
-            the same vector weighs the potentials in the mean axial void field, so reciprocity is exact.
-        polarization_deposit: (2,) the same for the parts of the void wall that are electrode surface [m^2].
-        void_volume: Σ χ A Δz over axial links: the void volume in the quadrature of the mean field [m^3].
-        cr: (nr+1, nz) radial-face conductances (zero on axis, outer radius and inside conductors) [m].
-        cz: (nr, nz+1) axial-face conductances including the electrode faces [m].
-        cut_r, cut_z: fraction of each link inside the dielectric (1 unless it ends on a conductor) [-].
-        void_r, void_z: fraction of each link's length inside the void, averaged over its face [-].
-        drop_r, drop_z: fraction of each link's potential drop across its void part (series split for the
-            field normal to the outline, length split for the tangential field) [-].
-        permittivity: (nr, nz) relative permittivity at the cell centres [-].
+    Units: lengths in m, conductances in m, i.e. relative permittivity x m.
+
+    Attributes
+    ----------
+    grid, layout : Grid and Layout
+        the inputs.
+    matrix : sp.csc_matrix
+        sparse (n, n) system matrix A (CSC).
+    coupling : numpy.ndarray
+        dense (n, 2) matrix B: column e couples the unknowns to electrode e (ground, high).
+    cell_index : numpy.ndarray
+        (nr*nz,) unknown index of each cell, -1 for conductor cells.
+    cell_conductor : numpy.ndarray
+        (nr*nz,) -1 free, 0 ground, 1 high, 2+k floating conductor k.
+    n_free : int
+        number of free cells; unknowns n_free.. are the floating potentials.
+    electrode_links : tuple
+        per electrode, (unknown indices, conductances) of the links ending on it.
+    polarization_source : numpy.ndarray
+        (n,) load of a unit uniform axial free polarisation in the void per unknown,
+        Σ ± A ω over the axial links at that unknown (ω: the void share of the link's potential drop) [m^2];
+        the same vector weighs the potentials in the mean axial void field, so reciprocity is exact.
+    polarization_deposit : numpy.ndarray
+        (2,) the same for the parts of the void wall that are electrode surface [m^2].
+    void_volume : float
+        Σ χ A Δz over axial links: the void volume in the quadrature of the mean field [m^3].
+    cr : numpy.ndarray
+        (nr+1, nz) radial-face conductances (zero on axis, outer radius and inside conductors) [m].
+    cz : numpy.ndarray
+        (nr, nz+1) axial-face conductances including the electrode faces [m].
+    cut_r, cut_z : numpy.ndarray
+        fraction of each link inside the dielectric (1 unless it ends on a conductor) [-].
+    void_r, void_z : numpy.ndarray
+        fraction of each link's length inside the void, averaged over its face [-].
+    drop_r, drop_z : numpy.ndarray
+        fraction of each link's potential drop across its void part (series split for the
+        field normal to the outline, length split for the tangential field) [-].
+    permittivity : numpy.ndarray
+        (nr, nz) relative permittivity at the cell centres [-].
     """
 
     grid: Grid
@@ -87,10 +107,12 @@ class Assembly:
 
     @property
     def n_unknowns(self) -> int:
+        """Size of the linear system: free cells plus floating-conductor potentials [-]."""
         return self.matrix.shape[0]
 
     @property
     def n_floating(self) -> int:
+        """Number of floating conductors [-]."""
         return len(self.layout.floating)
 
 
@@ -119,7 +141,8 @@ def _classify(layout: Layout, grid: Grid) -> tuple[np.ndarray, np.ndarray, list]
     return cid, owner, regions
 
 
-def _harmonic_line(layout: Layout, regs: list, p_r, p_z, e_r, e_z) -> tuple[np.ndarray, ...]:
+def _harmonic_line(layout: Layout, regs: list[Any], p_r: np.ndarray, p_z: np.ndarray, e_r: np.ndarray,
+                   e_z: np.ndarray) -> tuple[np.ndarray, ...]:
     """Along straight segments p -> e (exact material sub-segments): the harmonic-mean relative permittivity,
     the fraction of the length inside the void and the fraction of the potential drop across the void part
     (the drop splits like the series resistances Δt/ε when the flux density along the segment is constant)."""
@@ -176,7 +199,8 @@ def _harmonic_line(layout: Layout, regs: list, p_r, p_z, e_r, e_z) -> tuple[np.n
 
 
 def _link_permittivity(
-    layout: Layout, p_r, p_z, e_r, e_z, radial: np.ndarray, width: np.ndarray, samples: int
+    layout: Layout, p_r: np.ndarray, p_z: np.ndarray, e_r: np.ndarray, e_z: np.ndarray, radial: np.ndarray,
+    width: np.ndarray, samples: int
 ) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """Effective relative permittivity of links p -> e whose faces have the given transverse width, and the
     link's void length fraction and void potential-drop fraction (both averaged over the face area).
@@ -229,10 +253,19 @@ def _link_permittivity(
 def assemble(layout: Layout, grid: Grid, *, samples: int = 4) -> Assembly:
     """Assemble the finite-volume system of ``layout`` on ``grid`` (fully vectorised).
 
-    Parameters:
-        layout: the field problem [-].
-        grid: the grid [-].
-        samples: lines across each face used to average the permittivity where an outline passes, >= 1 [-].
+    Parameters
+    ----------
+    layout : Layout
+        the field problem [-].
+    grid : Grid
+        the grid [-].
+    samples : int, optional
+        lines across each face used to average the permittivity where an outline passes, >= 1 [-].
+
+    Returns
+    -------
+    Assembly
+        The assembled system.
     """
     samples = check_int("samples", samples, 1, 64)
     if not isinstance(layout, Layout):

@@ -18,7 +18,9 @@ electrodes it equals Pedersen's K εr ε0 Ω / d.
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 from dataclasses import dataclass, field, replace
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
@@ -29,6 +31,9 @@ from pdvoid.coefficients.fields.maps import field_magnitude, region_mask
 from pdvoid.coefficients.fields.solver import FieldSolver
 from pdvoid.coefficients.record import Coefficients
 from pdvoid.core.errors import InputError, check_bool, check_choice, check_positive, check_range
+
+if TYPE_CHECKING:
+    from pdvoid.inputs.scenario import Scenario
 
 __all__ = [
     "FieldSolution",
@@ -48,33 +53,55 @@ REFERENCES = ("pedersen1991", "crichton1989", "stratton1941", "mcallister2002")
 class FieldSolution:
     """Geometry coefficients of a void computed by the field solver (all SI, plain floats).
 
-    Attributes:
-        field_enhancement: mean axial field in the void per applied uniform field V/d [-].
-        charge_per_field: apparent charge on the measuring electrode per unit drop of the mean in-void field,
-            for a uniform free polarisation deposited in the void [C/(V/m)].
-        void_volume: void volume (the solver's quadrature of it) [m^3].
-        depolarization: equivalent depolarisation factor N with f = εr / (εr (1 − N) + N εg), εr the host
-            permittivity at the void centre; NaN when εr equals the gas permittivity [-].
-        counter_field_per_polarization: mean axial in-void field set up by a unit uniform free polarisation,
-            electrodes earthed (negative) [(V/m)/(C/m^2)].
-        induced_charge_per_polarization: charge induced on the measuring electrode by a unit uniform free
-            polarisation, signed (negative for an upward P and the upper electrode) [C/(C/m^2)] = [m^2].
-        capacitance: capacitance between the electrodes of the modelled disc [F].
-        capacitance_series: equivalent three-capacitance C_b = charge_per_field / void_height [F].
-        capacitance_void: equivalent C_c from k = C_b/(C_b + C_c) = f·void_height/thickness [F] (NaN if k >= 1).
-        capacitance_parallel: equivalent C_a = capacitance − C_b C_c/(C_b + C_c) for the modelled disc [F].
-        void_voltage_ratio: k = f·void_height/thickness (physics brief §4: the field model equals the
-            three-capacitance model with this k) [-].
-        thickness: electrode gap [m].
-        void_height: axial extent of the void [m].
-        host_permittivity: host relative permittivity at the void centre [-].
-        gas_permittivity: relative permittivity of the void gas [-].
-        outer_radius: radius of the modelled disc [m].
-        measuring_electrode: "high" or "ground" [-].
-        grid_shape: (nr, nz) cells [-].
-        smallest_spacing: smallest cell size (r, z) [m].
-        unknowns: size of the linear system [-].
-        references: bibliography keys (pdvoid.core.references) [-].
+    Attributes
+    ----------
+    field_enhancement : float
+        mean axial field in the void per applied uniform field V/d [-].
+    charge_per_field : float
+        apparent charge on the measuring electrode per unit drop of the mean in-void field,
+        for a uniform free polarisation deposited in the void [C/(V/m)].
+    void_volume : float
+        void volume (the solver's quadrature of it) [m^3].
+    depolarization : float
+        equivalent depolarisation factor N with f = εr / (εr (1 − N) + N εg), εr the host
+        permittivity at the void centre; NaN when εr equals the gas permittivity [-].
+    counter_field_per_polarization : float
+        mean axial in-void field set up by a unit uniform free polarisation,
+        electrodes earthed (negative) [(V/m)/(C/m^2)].
+    induced_charge_per_polarization : float
+        charge induced on the measuring electrode by a unit uniform free
+        polarisation, signed (negative for an upward P and the upper electrode) [C/(C/m^2)] = [m^2].
+    capacitance : float
+        capacitance between the electrodes of the modelled disc [F].
+    capacitance_series : float
+        equivalent three-capacitance C_b = charge_per_field / void_height [F].
+    capacitance_void : float
+        equivalent C_c from k = C_b/(C_b + C_c) = f·void_height/thickness [F] (NaN if k >= 1).
+    capacitance_parallel : float
+        equivalent C_a = capacitance − C_b C_c/(C_b + C_c) for the modelled disc [F].
+    void_voltage_ratio : float
+        k = f·void_height/thickness (physics brief §4: the field model equals the
+        three-capacitance model with this k) [-].
+    thickness : float
+        electrode gap [m].
+    void_height : float
+        axial extent of the void [m].
+    host_permittivity : float
+        host relative permittivity at the void centre [-].
+    gas_permittivity : float
+        relative permittivity of the void gas [-].
+    outer_radius : float
+        radius of the modelled disc [m].
+    measuring_electrode : str
+        "high" or "ground" [-].
+    grid_shape : tuple[int, int]
+        (nr, nz) cells [-].
+    smallest_spacing : tuple[float, float]
+        smallest cell size (r, z) [m].
+    unknowns : int
+        size of the linear system [-].
+    references : tuple[str, ...]
+        bibliography keys (pdvoid.core.references) [-].
     """
 
     field_enhancement: float
@@ -115,17 +142,24 @@ def equivalent_depolarization(field_enhancement: float, permittivity: float, gas
 
     Inverts f = εr / (εr + N (εg − εr)) (uniformly polarised ellipsoid): N = (εr/f − εr)/(εg − εr).
 
-    Parameters:
-        field_enhancement: f [-], > 0.
-        permittivity: host relative permittivity εr [-].
-        gas_permittivity: void relative permittivity εg [-].
+    Parameters
+    ----------
+    field_enhancement : float
+        f [-], > 0.
+    permittivity : float
+        host relative permittivity εr [-].
+    gas_permittivity : float, optional
+        void relative permittivity εg [-].
 
-    Returns:
+    Returns
+    -------
+    float
         N [-]; NaN when εr == εg (f = 1 whatever the shape).
 
-    References:
-        stratton1941 (dielectric ellipsoid in a uniform field, from memory); crichton1989 (K = 1/N notation).
-        Exact for ellipsoids far from electrodes; an equivalent value otherwise.
+    References
+    ----------
+    stratton1941 (dielectric ellipsoid in a uniform field, from memory); crichton1989 (K = 1/N notation).
+    Exact for ellipsoids far from electrodes; an equivalent value otherwise.
     """
     f = check_positive("field_enhancement", field_enhancement)
     er = check_range("permittivity", permittivity, 1.0, 1e6)
@@ -140,12 +174,23 @@ def void_region(
 ) -> Region:
     """A void outline from plain parameters: "spheroid" or "cylinder" (with rounded rim).
 
-    Parameters:
-        diameter: extent across the field [m].
-        height: extent along the field [m].
-        center: axial position of the centre above the ground electrode [m].
-        shape: "spheroid" or "cylinder" [-].
-        rim_radius: rounding radius of the cylinder rim, default height/2 (fully rounded edge) [m].
+    Parameters
+    ----------
+    diameter : float
+        extent across the field [m].
+    height : float
+        extent along the field [m].
+    center : float
+        axial position of the centre above the ground electrode [m].
+    shape : str, optional
+        "spheroid" or "cylinder" [-].
+    rim_radius : float, optional
+        rounding radius of the cylinder rim, default height/2 (fully rounded edge) [m].
+
+    Returns
+    -------
+    Region
+        A :class:`Spheroid` or :class:`RoundedCylinder`.
     """
     check_choice("shape", shape, ("spheroid", "cylinder"))
     if shape == "spheroid":
@@ -192,6 +237,8 @@ def _primary(solver: FieldSolver, measuring_electrode: str) -> dict:
 def _build(p: dict, solver: FieldSolver, measuring_electrode: str) -> FieldSolution:
     lay = solver.layout
     d = lay.thickness
+    if lay.void is None:  # coefficients_for always builds a layout with a void
+        raise InputError("the layout has no void; the coefficients need one")
     _, zlo, zhi = lay.void.bounds()
     height = min(zhi, d) - max(zlo, 0.0)
     zc = 0.5 * (max(zlo, 0.0) + min(zhi, d))
@@ -234,16 +281,26 @@ def coefficients_from_solver(
 ) -> FieldSolution:
     """:class:`FieldSolution` of the void of an assembled, factorised layout.
 
-    Parameters:
-        solver: a :class:`FieldSolver` whose layout has a void [-].
-        measuring_electrode: "high" or "ground": the electrode whose induced charge is the apparent charge [-].
-        coarse: the same layout on a grid twice as coarse; if given, the primary quantities (f, the
-            counter-field, the induced charge, the volume, the capacitance) are Richardson-extrapolated,
-            x = 2 x_fine − x_coarse, assuming the first-order convergence these show for smooth voids [-].
+    Parameters
+    ----------
+    solver : FieldSolver
+        a :class:`FieldSolver` whose layout has a void [-].
+    measuring_electrode : str, optional
+        "high" or "ground": the electrode whose induced charge is the apparent charge [-].
+    coarse : FieldSolver, optional
+        the same layout on a grid twice as coarse; if given, the primary quantities (f, the
+        counter-field, the induced charge, the volume, the capacitance) are Richardson-extrapolated,
+        x = 2 x_fine − x_coarse, assuming the first-order convergence these show for smooth voids [-].
 
-    References:
-        Richardson extrapolation: L. F. Richardson, Phil. Trans. R. Soc. A 210 (1911) 307-357 (common
-        practice; from memory).
+    Returns
+    -------
+    FieldSolution
+        The void's coefficients.
+
+    References
+    ----------
+    Richardson extrapolation: L. F. Richardson, Phil. Trans. R. Soc. A 210 (1911) 307-357 (common
+    practice; from memory).
     """
     p = _primary(solver, measuring_electrode)
     if coarse is not None:
@@ -256,7 +313,7 @@ def coefficients_from_solver(
 
 def coefficients_for(
     thickness: float,
-    permittivity: object,
+    permittivity: float | Sequence[tuple[float, float]],
     void_diameter: float,
     void_height: float,
     *,
@@ -267,7 +324,7 @@ def coefficients_for(
     needle_tip_radius: float | None = None,
     needle_length: float | None = None,
     needle_electrode: str = "high",
-    inclusions: object = (),
+    inclusions: Sequence[tuple[float, float]] = (),
     outer_radius: float | None = None,
     cells: tuple[int, int] | None = None,
     resolution: float = 40.0,
@@ -277,35 +334,57 @@ def coefficients_for(
 ) -> FieldSolution:
     """Field-solver coefficients of a void in a slab between plane electrodes, from plain SI arguments.
 
-    Parameters:
-        thickness: electrode gap [m].
-        permittivity: insulation relative permittivity, or (layer thickness [m], εr) pairs from the ground
-            electrode up [-].
-        void_diameter: void extent across the field [m].
-        void_height: void extent along the field [m].
-        void_shape: "spheroid" or "cylinder" (rounded rim) [-].
-        rim_radius: rim rounding radius of a cylinder, default void_height/2 [m].
-        void_center: height of the void centre above the ground electrode, default thickness/2; use
-            void_height/2 for a void on the ground electrode [m].
-        gas_permittivity: relative permittivity of the void gas [-].
-        needle_tip_radius: tip radius of a needle on ``needle_electrode`` [m].
-        needle_length: needle length from its electrode [m].
-        needle_electrode: "high" or "ground" [-].
-        inclusions: (diameter, centre height) of uncharged conductive spheres [m].
-        outer_radius: radius of the modelled disc; default widest feature + 2 x thickness [m].
-        cells: (nr, nz) grid cells; default from ``resolution`` [-].
-        resolution: cells across the smallest feature when ``cells`` is None [-].
-        growth: neighbour ratio of cell sizes away from features [-].
-        measuring_electrode: "high" or "ground" [-].
-        extrapolate: also solve on a grid twice as coarse and Richardson-extrapolate (about 1.3 x the work;
-            errors drop from about 1-2 % to about 0.2 % for smooth voids at the default resolution) [-].
+    Parameters
+    ----------
+    thickness : float
+        electrode gap [m].
+    permittivity : float or Sequence[tuple[float, float]]
+        insulation relative permittivity, or (layer thickness [m], εr) pairs from the ground
+        electrode up [-].
+    void_diameter : float
+        void extent across the field [m].
+    void_height : float
+        void extent along the field [m].
+    void_shape : str, optional
+        "spheroid" or "cylinder" (rounded rim) [-].
+    rim_radius : float, optional
+        rim rounding radius of a cylinder, default void_height/2 [m].
+    void_center : float, optional
+        height of the void centre above the ground electrode, default thickness/2; use
+        void_height/2 for a void on the ground electrode [m].
+    gas_permittivity : float, optional
+        relative permittivity of the void gas [-].
+    needle_tip_radius : float, optional
+        tip radius of a needle on ``needle_electrode`` [m].
+    needle_length : float, optional
+        needle length from its electrode [m].
+    needle_electrode : str, optional
+        "high" or "ground" [-].
+    inclusions : Sequence[tuple[float, float]], optional
+        (diameter, centre height) of uncharged conductive spheres [m].
+    outer_radius : float, optional
+        radius of the modelled disc; default widest feature + 2 x thickness [m].
+    cells : tuple[int, int], optional
+        (nr, nz) grid cells; default from ``resolution`` [-].
+    resolution : float, optional
+        cells across the smallest feature when ``cells`` is None [-].
+    growth : float, optional
+        neighbour ratio of cell sizes away from features [-].
+    measuring_electrode : str, optional
+        "high" or "ground" [-].
+    extrapolate : bool, optional
+        also solve on a grid twice as coarse and Richardson-extrapolate (about 1.3 x the work;
+        errors drop from about 1-2 % to about 0.2 % for smooth voids at the default resolution) [-].
 
-    Returns:
+    Returns
+    -------
+    FieldSolution
         :class:`FieldSolution` (grid information is that of the fine grid).
 
-    References:
-        pedersen1991, crichton1989 (induced charge via the λ function), mcallister2002; all from memory
-        except mcallister2002 (confirmed). The finite-volume discretisation is common practice.
+    References
+    ----------
+    pedersen1991, crichton1989 (induced charge via the λ function), mcallister2002; all from memory
+    except mcallister2002 (confirmed). The finite-volume discretisation is common practice.
     """
     thickness = check_positive("thickness", thickness, "m")
     zc = 0.5 * thickness if void_center is None else void_center
@@ -329,14 +408,27 @@ def coefficients_for(
     return coefficients_from_solver(FieldSolver(layout, grid), measuring_electrode, coarse)
 
 
-def peak_enhancement(solver: FieldSolver, where: object = "dielectric") -> float:
-    """Largest cell-centre |E| in ``where`` per applied uniform field V/d [-]."""
+def peak_enhancement(solver: FieldSolver, where: str | np.ndarray = "dielectric") -> float:
+    """Largest cell-centre |E| in ``where`` per applied uniform field V/d [-].
+
+    Parameters
+    ----------
+    solver : FieldSolver
+        The assembled solver.
+    where : str or numpy.ndarray, optional
+        Cells considered, as for :func:`region_mask`.
+
+    Returns
+    -------
+    float
+        Peak |E| per V/d [-] (0 when no cell is selected).
+    """
     u = solver.unit("high")
     mask = region_mask(solver, where)
     return float(np.max(field_magnitude(u)[mask], initial=0.0) * solver.layout.thickness)
 
 
-def solve_scenario(scenario: object, **options: object) -> FieldSolution:
+def solve_scenario(scenario: Scenario, **options: Any) -> FieldSolution:
     """Field-solver coefficients for a scenario's insulation and void.
 
     Reads ``scenario.insulation.thickness``, ``scenario.insulation.permittivity``, ``scenario.void.diameter``,
@@ -345,22 +437,29 @@ def solve_scenario(scenario: object, **options: object) -> FieldSolution:
     :func:`coefficients_for` (rim_radius, needle, inclusions, grid settings, measuring electrode,
     extrapolation) passes through.
 
-    Parameters:
-        scenario: a :class:`pdvoid.Scenario` or any object with those attributes [-].
-        options: keyword arguments of :func:`coefficients_for` [-].
+    Parameters
+    ----------
+    scenario : Scenario
+        a :class:`pdvoid.Scenario` or any object with those attributes [-].
+    **options : Any
+        keyword arguments of :func:`coefficients_for` [-].
 
-    Returns:
+    Returns
+    -------
+    FieldSolution
         :class:`FieldSolution`, comparable field by field with :func:`pdvoid.compute_coefficients` for
         field_enhancement, depolarization, volume, charge_per_field and the capacitances.
     """
     try:
-        ins, void = scenario.insulation, scenario.void  # type: ignore[attr-defined]
+        ins, void = scenario.insulation, scenario.void
         thickness, permittivity = ins.thickness, ins.permittivity
         diameter, height = void.diameter, void.height
     except AttributeError as exc:
         raise InputError(
             f"scenario must have insulation.thickness, insulation.permittivity, void.diameter and void.height; {exc}"
         ) from None
+    if permittivity is None:
+        raise InputError("scenario.insulation.permittivity must be given (or taken from its material); got None")
     for name in ("thickness", "permittivity", "void_diameter", "void_height"):
         if name in options:
             raise InputError(f"{name} comes from the scenario; do not pass it as an option")
@@ -370,30 +469,53 @@ def solve_scenario(scenario: object, **options: object) -> FieldSolution:
         options["void_center"] = 0.0 if position == "ground_electrode" else thickness
     if "void_shape" not in options:
         options["void_shape"] = getattr(void, "shape", "spheroid")
-    return coefficients_for(thickness, permittivity, diameter, height, **options)  # type: ignore[arg-type]
+    return coefficients_for(thickness, permittivity, diameter, height, **options)
 
 
-def coefficients(scenario: object, **options: object) -> Coefficients:
+def coefficients(scenario: Scenario, **options: Any) -> Coefficients:
     """The coefficients of a scenario with its geometry solved numerically: the same :class:`Coefficients` type
     :func:`pdvoid.compute_coefficients` returns, with ``method="field solver"`` and the
     :class:`FieldSolution` in ``solution``.
 
-    Parameters:
-        scenario: a :class:`pdvoid.Scenario` [-].
-        options: keyword arguments of :func:`coefficients_for` (rim_radius, needle, inclusions, grid settings,
-            measuring electrode, extrapolation) [-].
+    Parameters
+    ----------
+    scenario : Scenario
+        a :class:`pdvoid.Scenario` [-].
+    **options : Any
+        keyword arguments of :func:`coefficients_for` (rim_radius, needle, inclusions, grid settings,
+        measuring electrode, extrapolation) [-].
 
-    Returns:
+    Returns
+    -------
+    Coefficients
         :class:`pdvoid.coefficients.Coefficients`; the gas, supply and model parts are those of the closed forms.
     """
     solution = solve_scenario(scenario, **options)
-    c = compute_coefficients(with_field_solution(scenario, solution))  # type: ignore[arg-type]
+    c = compute_coefficients(with_field_solution(scenario, solution))
     return replace(c, method="field solver", solution=solution)
 
 
-def with_field_solution(scenario: object, solution: FieldSolution | Coefficients) -> object:
+def with_field_solution(scenario: Scenario, solution: FieldSolution | Coefficients) -> Scenario:
     """``scenario`` with its void's field enhancement and charge per field taken from a numerical solution, so
-    that :func:`pdvoid.simulate` runs the solved geometry through the same kernels at full speed."""
+    that :func:`pdvoid.simulate` runs the solved geometry through the same kernels at full speed.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The scenario.
+    solution : FieldSolution or Coefficients
+        A numerical solution, or the Coefficients of :func:`coefficients` holding one.
+
+    Returns
+    -------
+    Scenario
+        A copy with ``void.field_enhancement`` and ``void.charge_per_field`` set.
+
+    Raises
+    ------
+    InputError
+        For closed-form Coefficients, another kind of solution, or a ``scenario`` that is not a Scenario.
+    """
     if isinstance(solution, Coefficients):
         if solution.solution is None:
             raise InputError("solution must be a FieldSolution or the Coefficients of pdvoid.fields.coefficients; "
@@ -402,7 +524,7 @@ def with_field_solution(scenario: object, solution: FieldSolution | Coefficients
     if not isinstance(solution, FieldSolution):
         raise InputError(f"solution must be a FieldSolution or Coefficients; got {type(solution).__name__}")
     try:
-        return scenario.replace(**{"void.field_enhancement": solution.field_enhancement,  # type: ignore[attr-defined]
+        return scenario.replace(**{"void.field_enhancement": solution.field_enhancement,
                                    "void.charge_per_field": solution.charge_per_field})
     except AttributeError:
         raise InputError(f"scenario must be a pdvoid.Scenario; got {type(scenario).__name__}") from None

@@ -13,6 +13,7 @@ from abc import ABC, abstractmethod
 from dataclasses import dataclass
 
 import numpy as np
+import numpy.typing as npt
 
 from pdvoid.core.errors import InputError, check_array, check_positive, check_real
 
@@ -24,23 +25,63 @@ class Region(ABC):
 
     @abstractmethod
     def level(self, r: np.ndarray, z: np.ndarray) -> np.ndarray:
-        """Level-set value at (r, z): < 0 inside, > 0 outside [m or dimensionless]."""
+        """Level-set value at (r, z): < 0 inside, > 0 outside [m or dimensionless].
+
+        Parameters
+        ----------
+        r, z : numpy.ndarray
+            Radial and axial coordinates, broadcast together [m].
+
+        Returns
+        -------
+        numpy.ndarray
+            The level value at each point [m or dimensionless]; only its sign and zero set matter.
+        """
 
     @abstractmethod
     def bounds(self) -> tuple[float, float, float]:
-        """(largest radius, lowest z, highest z) of the region [m]."""
+        """(largest radius, lowest z, highest z) of the region [m].
+
+        Returns
+        -------
+        tuple of float
+            ``(r_max, z_low, z_high)`` [m].
+        """
 
     def volume(self) -> float | None:
-        """Exact volume where known [m^3], else None."""
+        """Exact volume where known [m^3], else None.
+
+        Returns
+        -------
+        float or None
+            The volume [m^3], or None when there is no closed form.
+        """
         return None
 
     def smallest_feature(self) -> float:
-        """A length that the grid must resolve (e.g. a height or a tip radius) [m]."""
+        """A length that the grid must resolve (e.g. a height or a tip radius) [m].
+
+        Returns
+        -------
+        float
+            The length [m].
+        """
         rmax, zlo, zhi = self.bounds()
         return min(rmax, zhi - zlo)
 
     def contains(self, r: np.ndarray, z: np.ndarray) -> np.ndarray:
-        """True where (r, z) lies inside."""
+        """True where (r, z) lies inside.
+
+        Parameters
+        ----------
+        r, z : numpy.ndarray
+            Radial and axial coordinates, broadcast together [m].
+
+        Returns
+        -------
+        numpy.ndarray
+            Boolean array, True inside (level < 0).
+        """
         return self.level(np.asarray(r, float), np.asarray(z, float)) < 0.0
 
 
@@ -48,10 +89,14 @@ class Region(ABC):
 class Spheroid(Region):
     """A spheroid on the axis (sphere when diameter == height).
 
-    Attributes:
-        diameter: extent across the field (equatorial diameter 2a) [m].
-        height: extent along the field (polar diameter 2c) [m].
-        center: axial position of the centre above the ground electrode [m].
+    Attributes
+    ----------
+    diameter : float
+        extent across the field (equatorial diameter 2a) [m].
+    height : float
+        extent along the field (polar diameter 2c) [m].
+    center : float
+        axial position of the centre above the ground electrode [m].
     """
 
     diameter: float
@@ -64,16 +109,49 @@ class Spheroid(Region):
         check_real("center", self.center)
 
     def level(self, r: np.ndarray, z: np.ndarray) -> np.ndarray:
+        """Level-set value at (r, z): < 0 inside, > 0 outside [m or dimensionless].
+
+        Parameters
+        ----------
+        r, z : numpy.ndarray
+            Radial and axial coordinates, broadcast together [m].
+
+        Returns
+        -------
+        numpy.ndarray
+            The level value at each point [m or dimensionless]; only its sign and zero set matter.
+        """
         a, c = 0.5 * self.diameter, 0.5 * self.height
         return (np.hypot(r / a, (z - self.center) / c) - 1.0) * min(a, c)
 
     def bounds(self) -> tuple[float, float, float]:
+        """(largest radius, lowest z, highest z) of the region [m].
+
+        Returns
+        -------
+        tuple of float
+            ``(r_max, z_low, z_high)`` [m].
+        """
         return 0.5 * self.diameter, self.center - 0.5 * self.height, self.center + 0.5 * self.height
 
     def volume(self) -> float:
+        """Exact volume where known [m^3].
+
+        Returns
+        -------
+        float
+            The volume [m^3].
+        """
         return math.pi / 6.0 * self.diameter**2 * self.height
 
     def smallest_feature(self) -> float:
+        """A length that the grid must resolve (e.g. a height or a tip radius) [m].
+
+        Returns
+        -------
+        float
+            The length [m].
+        """
         return min(self.diameter, self.height)
 
 
@@ -84,11 +162,16 @@ class RoundedCylinder(Region):
     ``rim_radius == height / 2`` gives a disc with a fully rounded edge; ``rim_radius == height / 2 ==
     diameter / 2`` gives a sphere; ``rim_radius`` -> 0 gives a sharp-edged cylinder.
 
-    Attributes:
-        diameter: cylinder diameter [m].
-        height: cylinder height along the field [m].
-        center: axial position of the centre above the ground electrode [m].
-        rim_radius: radius of the rounded edge, 0 < rim_radius <= min(height, diameter) / 2 [m].
+    Attributes
+    ----------
+    diameter : float
+        cylinder diameter [m].
+    height : float
+        cylinder height along the field [m].
+    center : float
+        axial position of the centre above the ground electrode [m].
+    rim_radius : float
+        radius of the rounded edge, 0 < rim_radius <= min(height, diameter) / 2 [m].
     """
 
     diameter: float
@@ -106,6 +189,18 @@ class RoundedCylinder(Region):
             raise InputError(f"rim_radius must be <= min(height, diameter)/2 = {limit:g} m; got {self.rim_radius!r}")
 
     def level(self, r: np.ndarray, z: np.ndarray) -> np.ndarray:
+        """Level-set value at (r, z): < 0 inside, > 0 outside [m or dimensionless].
+
+        Parameters
+        ----------
+        r, z : numpy.ndarray
+            Radial and axial coordinates, broadcast together [m].
+
+        Returns
+        -------
+        numpy.ndarray
+            The level value at each point [m or dimensionless]; only its sign and zero set matter.
+        """
         rho = self.rim_radius
         qx = r - 0.5 * self.diameter + rho
         qy = np.abs(z - self.center) - 0.5 * self.height + rho
@@ -113,14 +208,35 @@ class RoundedCylinder(Region):
         return outside + np.minimum(np.maximum(qx, qy), 0.0) - rho
 
     def bounds(self) -> tuple[float, float, float]:
+        """(largest radius, lowest z, highest z) of the region [m].
+
+        Returns
+        -------
+        tuple of float
+            ``(r_max, z_low, z_high)`` [m].
+        """
         return 0.5 * self.diameter, self.center - 0.5 * self.height, self.center + 0.5 * self.height
 
     def volume(self) -> float:
+        """Exact volume where known [m^3].
+
+        Returns
+        -------
+        float
+            The volume [m^3].
+        """
         big_r, h, rho = 0.5 * self.diameter, self.height, self.rim_radius
         corner = (big_r - rho) * rho**2 * (1.0 - math.pi / 4.0) + rho**3 / 6.0  # Pappus, per corner / (2 pi)
         return math.pi * big_r**2 * h - 4.0 * math.pi * corner
 
     def smallest_feature(self) -> float:
+        """A length that the grid must resolve (e.g. a height or a tip radius) [m].
+
+        Returns
+        -------
+        float
+            The length [m].
+        """
         return min(self.height, self.diameter, 4.0 * self.rim_radius)
 
 
@@ -128,10 +244,14 @@ class RoundedCylinder(Region):
 class Rod(Region):
     """A rod of radius ``tip_radius`` on the axis with a hemispherical tip: a needle or protrusion.
 
-    Attributes:
-        tip_radius: radius of the rod and of its hemispherical tip [m].
-        apex: axial position of the tip apex [m].
-        upward: True if the rod body extends upward from the apex (attached to the upper electrode) [-].
+    Attributes
+    ----------
+    tip_radius : float
+        radius of the rod and of its hemispherical tip [m].
+    apex : float
+        axial position of the tip apex [m].
+    upward : bool
+        True if the rod body extends upward from the apex (attached to the upper electrode) [-].
     """
 
     tip_radius: float
@@ -143,17 +263,43 @@ class Rod(Region):
         check_real("apex", self.apex)
 
     def level(self, r: np.ndarray, z: np.ndarray) -> np.ndarray:
+        """Level-set value at (r, z): < 0 inside, > 0 outside [m or dimensionless].
+
+        Parameters
+        ----------
+        r, z : numpy.ndarray
+            Radial and axial coordinates, broadcast together [m].
+
+        Returns
+        -------
+        numpy.ndarray
+            The level value at each point [m or dimensionless]; only its sign and zero set matter.
+        """
         rho = self.tip_radius
         s = (z - self.apex) if self.upward else (self.apex - z)  # distance beyond the apex into the body
         along = np.maximum(rho - s, 0.0)  # axial offset from the tip-sphere centre where below it
         return np.hypot(r, along) - rho
 
     def bounds(self) -> tuple[float, float, float]:
+        """(largest radius, lowest z, highest z) of the region [m].
+
+        Returns
+        -------
+        tuple of float
+            ``(r_max, z_low, z_high)`` [m].
+        """
         if self.upward:
             return self.tip_radius, self.apex, math.inf
         return self.tip_radius, -math.inf, self.apex
 
     def smallest_feature(self) -> float:
+        """A length that the grid must resolve (e.g. a height or a tip radius) [m].
+
+        Returns
+        -------
+        float
+            The length [m].
+        """
         return self.tip_radius
 
 
@@ -166,9 +312,12 @@ class Hyperboloid(Region):
     f (1 − η0²)/η0 = ``tip_radius``. This is the geometry behind the handbook point-plane formula (see
     :func:`pdvoid.coefficients.fields.pointplane.hyperboloid_tip_field`).
 
-    Attributes:
-        tip_radius: radius of curvature at the apex [m].
-        apex: gap between apex and ground plane [m].
+    Attributes
+    ----------
+    tip_radius : float
+        radius of curvature at the apex [m].
+    apex : float
+        gap between apex and ground plane [m].
     """
 
     tip_radius: float
@@ -189,14 +338,40 @@ class Hyperboloid(Region):
         return self.apex / self.eta0
 
     def level(self, r: np.ndarray, z: np.ndarray) -> np.ndarray:
+        """Level-set value at (r, z): < 0 inside, > 0 outside [m or dimensionless].
+
+        Parameters
+        ----------
+        r, z : numpy.ndarray
+            Radial and axial coordinates, broadcast together [m].
+
+        Returns
+        -------
+        numpy.ndarray
+            The level value at each point [m or dimensionless]; only its sign and zero set matter.
+        """
         f = self.focal_distance
         eta = (np.hypot(r, z + f) - np.hypot(r, z - f)) / (2.0 * f)
         return (self.eta0 - eta) * f
 
     def bounds(self) -> tuple[float, float, float]:
+        """(largest radius, lowest z, highest z) of the region [m].
+
+        Returns
+        -------
+        tuple of float
+            ``(r_max, z_low, z_high)`` [m].
+        """
         return math.inf, self.apex, math.inf
 
     def smallest_feature(self) -> float:
+        """A length that the grid must resolve (e.g. a height or a tip radius) [m].
+
+        Returns
+        -------
+        float
+            The length [m].
+        """
         return self.tip_radius
 
 
@@ -204,9 +379,12 @@ class Hyperboloid(Region):
 class Slab(Region):
     """All radii between two axial positions: a dielectric layer.
 
-    Attributes:
-        bottom: lower face [m].
-        top: upper face, > bottom [m].
+    Attributes
+    ----------
+    bottom : float
+        lower face [m].
+    top : float
+        upper face, > bottom [m].
     """
 
     bottom: float
@@ -219,12 +397,38 @@ class Slab(Region):
             raise InputError(f"Slab top must be > bottom; got bottom={self.bottom!r}, top={self.top!r}")
 
     def level(self, r: np.ndarray, z: np.ndarray) -> np.ndarray:
+        """Level-set value at (r, z): < 0 inside, > 0 outside [m or dimensionless].
+
+        Parameters
+        ----------
+        r, z : numpy.ndarray
+            Radial and axial coordinates, broadcast together [m].
+
+        Returns
+        -------
+        numpy.ndarray
+            The level value at each point [m or dimensionless]; only its sign and zero set matter.
+        """
         return np.maximum(self.bottom - z, z - self.top) + 0.0 * r
 
     def bounds(self) -> tuple[float, float, float]:
+        """(largest radius, lowest z, highest z) of the region [m].
+
+        Returns
+        -------
+        tuple of float
+            ``(r_max, z_low, z_high)`` [m].
+        """
         return math.inf, self.bottom, self.top
 
     def smallest_feature(self) -> float:
+        """A length that the grid must resolve (e.g. a height or a tip radius) [m].
+
+        Returns
+        -------
+        float
+            The length [m].
+        """
         return self.top - self.bottom
 
 
@@ -234,12 +438,15 @@ class Outline(Region):
     Points on the axis close the outline there. The level function is the signed distance to the polygon
     (negative inside by the even–odd rule).
 
-    Parameters:
-        r: radial coordinates of the polygon vertices, >= 0 [m].
-        z: axial coordinates of the polygon vertices [m].
+    Parameters
+    ----------
+    r : array_like
+        radial coordinates of the polygon vertices, >= 0 [m].
+    z : array_like
+        axial coordinates of the polygon vertices [m].
     """
 
-    def __init__(self, r: object, z: object) -> None:
+    def __init__(self, r: npt.ArrayLike, z: npt.ArrayLike) -> None:
         rr = check_array("r", r, min_size=3)
         zz = check_array("z", z, min_size=3)
         if rr.shape != zz.shape:
@@ -253,6 +460,18 @@ class Outline(Region):
             raise InputError("the outline encloses no area")
 
     def level(self, r: np.ndarray, z: np.ndarray) -> np.ndarray:
+        """Level-set value at (r, z): < 0 inside, > 0 outside [m or dimensionless].
+
+        Parameters
+        ----------
+        r, z : numpy.ndarray
+            Radial and axial coordinates, broadcast together [m].
+
+        Returns
+        -------
+        numpy.ndarray
+            The level value at each point [m or dimensionless]; only its sign and zero set matter.
+        """
         r = np.asarray(r, float)
         z = np.asarray(z, float)
         shape = np.broadcast(r, z).shape
@@ -269,10 +488,24 @@ class Outline(Region):
         return np.where(inside, -dist, dist).reshape(shape)
 
     def bounds(self) -> tuple[float, float, float]:
+        """(largest radius, lowest z, highest z) of the region [m].
+
+        Returns
+        -------
+        tuple of float
+            ``(r_max, z_low, z_high)`` [m].
+        """
         return float(self.r0.max()), float(self.z0.min()), float(self.z0.max())
 
     def volume(self) -> float:
         # Pappus: V = 2 pi * integral of r over the cross-section (Green's theorem on the polygon)
+        """Exact volume where known [m^3].
+
+        Returns
+        -------
+        float
+            The volume [m^3].
+        """
         a = self.r0 * self.z1 - self.r1 * self.z0
         return float(abs(np.sum(a * (self.r0 + self.r1)) / 6.0) * 2.0 * math.pi)
 
@@ -287,7 +520,18 @@ def crossing(
 
     The level function must change sign between the two ends of every segment. Bisection.
 
-    Returns:
+    Parameters
+    ----------
+    region : Region
+        The region whose outline is sought.
+    r0, z0, r1, z1 : numpy.ndarray
+        Segment ends [m].
+    iterations : int, optional
+        Bisection steps [-].
+
+    Returns
+    -------
+    numpy.ndarray
         Fraction t in [0, 1] of the way from the first end to the crossing [-].
     """
     r0, z0, r1, z1 = (np.asarray(a, float) for a in (r0, z0, r1, z1))

@@ -31,9 +31,12 @@ _SAMPLES = 40001  # resolution of the numerical inverse of the cell-count functi
 class Grid:
     """An axisymmetric tensor-product grid of cells.
 
-    Attributes:
-        r_faces: radial face positions, increasing, ``r_faces[0] == 0`` (the axis) [m].
-        z_faces: axial face positions, increasing, ``z_faces[0] == 0`` (ground electrode) [m].
+    Attributes
+    ----------
+    r_faces : numpy.ndarray
+        radial face positions, increasing, ``r_faces[0] == 0`` (the axis) [m].
+    z_faces : numpy.ndarray
+        axial face positions, increasing, ``z_faces[0] == 0`` (ground electrode) [m].
     Derived arrays have shape ``(nr, nz)`` for cells (index ``[i, j]`` = radial ``i``, axial ``j``).
     """
 
@@ -97,7 +100,13 @@ class Grid:
         return np.outer(self.ring_area, self.dz)
 
     def centres(self) -> tuple[np.ndarray, np.ndarray]:
-        """Cell-centre coordinates as two (nr, nz) arrays (R, Z) [m]."""
+        """Cell-centre coordinates as two (nr, nz) arrays (R, Z) [m].
+
+        Returns
+        -------
+        tuple of numpy.ndarray
+            ``(R, Z)``, each of shape (nr, nz) [m].
+        """
         return np.meshgrid(self.r, self.z, indexing="ij")
 
     @property
@@ -122,10 +131,10 @@ def _distance(x: np.ndarray, focus: Sequence[tuple[float, float]]) -> np.ndarray
     return d
 
 
-def _check_focus(length: float, focus: object) -> list[tuple[float, float]]:
+def _check_focus(length: float, focus: Sequence[tuple[float, float]]) -> list[tuple[float, float]]:
     out = []
     try:
-        items = list(focus)  # type: ignore[call-overload]
+        items = list(focus)
     except TypeError:
         raise InputError(f"focus must be a sequence of (low, high) intervals; got {focus!r}") from None
     for k, item in enumerate(items):
@@ -154,16 +163,26 @@ def graded_faces(
     Give exactly one of ``cells`` (total number of cells; the fine spacing is found by bisection) or ``fine``
     (the spacing inside the focus intervals). Without focus intervals the spacing is uniform.
 
-    Parameters:
-        length: extent of the axis [m].
-        cells: number of cells wanted [-].
-        fine: spacing inside the focus intervals [m].
-        focus: intervals (low, high) that get the fine spacing [m].
-        breaks: points strictly inside (0, length) that must be faces, e.g. layer interfaces [m].
-        growth: ratio of neighbouring cell sizes away from the focus, in (1, 2] [-].
-        max_ratio: largest ratio of the coarsest to the finest spacing, >= 1 [-].
+    Parameters
+    ----------
+    length : float
+        extent of the axis [m].
+    cells : int, optional
+        number of cells wanted [-].
+    fine : float, optional
+        spacing inside the focus intervals [m].
+    focus : Sequence[tuple[float, float]], optional
+        intervals (low, high) that get the fine spacing [m].
+    breaks : Sequence[float], optional
+        points strictly inside (0, length) that must be faces, e.g. layer interfaces [m].
+    growth : float, optional
+        ratio of neighbouring cell sizes away from the focus, in (1, 2] [-].
+    max_ratio : float, optional
+        largest ratio of the coarsest to the finest spacing, >= 1 [-].
 
-    Returns:
+    Returns
+    -------
+    numpy.ndarray
         Increasing face positions starting at 0 and ending at ``length`` [m].
     """
     length = check_positive("length", length, "m")
@@ -244,16 +263,31 @@ def make_grid(
 ) -> Grid:
     """A graded :class:`Grid` on [0, outer_radius] x [0, thickness].
 
-    Parameters:
-        outer_radius: radius of the modelled disc [m].
-        thickness: electrode gap [m].
-        cells: (nr, nz) numbers of cells [-]; or give ``fine``.
-        fine: spacing in the focus intervals, one value or (r, z) [m].
-        focus_r: radial intervals to refine [m].
-        focus_z: axial intervals to refine [m].
-        breaks_z: axial positions that must be faces (layer interfaces) [m].
-        growth: neighbour ratio of cell sizes away from the focus [-].
-        max_ratio: largest coarse-to-fine spacing ratio [-].
+    Parameters
+    ----------
+    outer_radius : float
+        radius of the modelled disc [m].
+    thickness : float
+        electrode gap [m].
+    cells : tuple[int, int], optional
+        (nr, nz) numbers of cells [-]; or give ``fine``.
+    fine : float or tuple[float, float], optional
+        spacing in the focus intervals, one value or (r, z) [m].
+    focus_r : Sequence[tuple[float, float]], optional
+        radial intervals to refine [m].
+    focus_z : Sequence[tuple[float, float]], optional
+        axial intervals to refine [m].
+    breaks_z : Sequence[float], optional
+        axial positions that must be faces (layer interfaces) [m].
+    growth : float, optional
+        neighbour ratio of cell sizes away from the focus [-].
+    max_ratio : float, optional
+        largest coarse-to-fine spacing ratio [-].
+
+    Returns
+    -------
+    Grid
+        The grid.
     """
     if cells is not None:
         try:
@@ -263,7 +297,7 @@ def make_grid(
         kw_r: dict = {"cells": nr}
         kw_z: dict = {"cells": nz}
     elif fine is not None:
-        fr, fz = (fine, fine) if np.ndim(fine) == 0 else tuple(fine)  # type: ignore[misc]
+        fr, fz = (fine, fine) if isinstance(fine, (int, float)) or np.ndim(fine) == 0 else tuple(fine)
         kw_r, kw_z = {"fine": fr}, {"fine": fz}
     else:
         raise InputError("give cells=(nr, nz) or fine=spacing")

@@ -9,7 +9,9 @@ whatever potential that requires. The outer radius and the axis carry no normal 
 from __future__ import annotations
 
 import math
+from collections.abc import Sequence
 from dataclasses import dataclass
+from typing import Any
 
 import numpy as np
 
@@ -22,9 +24,9 @@ __all__ = ["Layout", "ELECTRODES", "specimen_layout", "grid_for"]
 ELECTRODES = ("ground", "high")  #: the two plane electrodes: z = 0 and z = thickness
 
 
-def _tuple(name: str, value: object) -> tuple:
+def _tuple(name: str, value: Any) -> tuple[Any, ...]:
     try:
-        return tuple(value)  # type: ignore[call-overload]
+        return tuple(value)
     except TypeError:
         raise InputError(f"{name} must be a sequence; got {value!r}") from None
 
@@ -33,16 +35,25 @@ def _tuple(name: str, value: object) -> tuple:
 class Layout:
     """A field problem: plane electrodes, dielectrics, an optional gas void, shaped and floating conductors.
 
-    Attributes:
-        thickness: electrode gap; ground at z = 0, high voltage at z = thickness [m].
-        outer_radius: radius of the modelled disc; zero normal field there [m].
-        permittivity: relative permittivity of the background insulation [-].
-        dielectrics: (region, relative permittivity) pairs; later entries override earlier ones [-].
-        void: the gas-filled void, or None; a void reaching through an electrode plane is cut by it (a
-            hemisphere centred on the plane is a hemispherical void on that electrode) [-].
-        gas_permittivity: relative permittivity of the gas in the void [-].
-        conductors: (region, electrode name) pairs: shaped parts of an electrode, e.g. a needle [-].
-        floating: (region, net charge) pairs: conductive inclusions with a fixed net charge [C].
+    Attributes
+    ----------
+    thickness : float
+        electrode gap; ground at z = 0, high voltage at z = thickness [m].
+    outer_radius : float
+        radius of the modelled disc; zero normal field there [m].
+    permittivity : float
+        relative permittivity of the background insulation [-].
+    dielectrics : tuple
+        (region, relative permittivity) pairs; later entries override earlier ones [-].
+    void : Region or None
+        the gas-filled void, or None; a void reaching through an electrode plane is cut by it (a
+        hemisphere centred on the plane is a hemispherical void on that electrode) [-].
+    gas_permittivity : float
+        relative permittivity of the gas in the void [-].
+    conductors : tuple
+        (region, electrode name) pairs: shaped parts of an electrode, e.g. a needle [-].
+    floating : tuple
+        (region, net charge) pairs: conductive inclusions with a fixed net charge [C].
     """
 
     thickness: float
@@ -95,7 +106,18 @@ class Layout:
 
     # -- material -------------------------------------------------------------------------------------------
     def permittivity_at(self, r: np.ndarray, z: np.ndarray) -> np.ndarray:
-        """Relative permittivity at (r, z), the void included [-]."""
+        """Relative permittivity at (r, z), the void included [-].
+
+        Parameters
+        ----------
+        r, z : numpy.ndarray
+            Radial and axial coordinates, broadcast together [m].
+
+        Returns
+        -------
+        numpy.ndarray
+            Relative permittivity at each point [-].
+        """
         r, z = np.broadcast_arrays(np.asarray(r, float), np.asarray(z, float))
         eps = np.full(r.shape, float(self.permittivity))
         for reg, e in self.dielectrics:
@@ -105,7 +127,13 @@ class Layout:
         return eps
 
     def material_regions(self) -> list[Region]:
-        """Regions whose outlines are permittivity interfaces."""
+        """Regions whose outlines are permittivity interfaces.
+
+        Returns
+        -------
+        list of Region
+            The dielectric regions and the void.
+        """
         regs = [reg for reg, _ in self.dielectrics]
         if self.void is not None:
             regs.append(self.void)
@@ -113,7 +141,13 @@ class Layout:
 
     # -- grid hints -----------------------------------------------------------------------------------------
     def layer_interfaces(self) -> list[float]:
-        """Axial positions of slab interfaces strictly inside the gap (grid faces are put there) [m]."""
+        """Axial positions of slab interfaces strictly inside the gap (grid faces are put there) [m].
+
+        Returns
+        -------
+        list of float
+            Sorted axial positions [m].
+        """
         out = set()
         for reg, _ in self.dielectrics:
             if isinstance(reg, Slab):
@@ -123,7 +157,13 @@ class Layout:
         return sorted(out)
 
     def features(self) -> list[Region]:
-        """Regions that need a fine grid: the void, shaped and floating conductors, non-slab dielectrics."""
+        """Regions that need a fine grid: the void, shaped and floating conductors, non-slab dielectrics.
+
+        Returns
+        -------
+        list of Region
+            The regions.
+        """
         regs = [reg for reg, _ in self.dielectrics if not isinstance(reg, Slab)]
         if self.void is not None:
             regs.append(self.void)
@@ -131,7 +171,13 @@ class Layout:
         return regs
 
     def focus(self) -> tuple[list[tuple[float, float]], list[tuple[float, float]], float]:
-        """Refinement intervals in r and z, and the smallest feature length [m]."""
+        """Refinement intervals in r and z, and the smallest feature length [m].
+
+        Returns
+        -------
+        tuple
+            Radial intervals [m], axial intervals [m] and the smallest feature length [m].
+        """
         fr: list[tuple[float, float]] = []
         fz: list[tuple[float, float]] = []
         small = math.inf
@@ -158,7 +204,8 @@ class Layout:
         return fr, fz, small
 
 
-def _layers(thickness: float, permittivity: object) -> tuple[float, tuple]:
+def _layers(thickness: float, permittivity: float | Sequence[tuple[float, float]]
+            ) -> tuple[float, tuple[tuple[Slab, float], ...]]:
     """Background permittivity and slab dielectrics from a float or (layer thickness, εr) pairs."""
     if np.ndim(permittivity) == 0 and not isinstance(permittivity, (list, tuple)):
         return check_range("permittivity", permittivity, 1.0, 1e6), ()
@@ -186,29 +233,44 @@ def _layers(thickness: float, permittivity: object) -> tuple[float, tuple]:
 
 def specimen_layout(
     thickness: float,
-    permittivity: object,
+    permittivity: float | Sequence[tuple[float, float]],
     *,
     void: Region | None = None,
     gas_permittivity: float = 1.0,
     needle_tip_radius: float | None = None,
     needle_length: float | None = None,
     needle_electrode: str = "high",
-    inclusions: object = (),
+    inclusions: Sequence[tuple[float, float]] = (),
     outer_radius: float | None = None,
 ) -> Layout:
     """A :class:`Layout` from plain geometry arguments: slab, void, needle and conductive spheres.
 
-    Parameters:
-        thickness: electrode gap [m].
-        permittivity: relative permittivity of the insulation, or (layer thickness [m], εr) pairs listed from
-            the ground electrode upward [-].
-        void: the gas void (e.g. :class:`~pdvoid.coefficients.fields.geometry.Spheroid`), or None [-].
-        gas_permittivity: relative permittivity of the void gas [-].
-        needle_tip_radius: radius of a needle (rod with hemispherical tip) on ``needle_electrode`` [m].
-        needle_length: length of that needle from its electrode to the apex, < thickness [m].
-        needle_electrode: "high" (needle hangs from the upper electrode) or "ground" (stands on the lower) [-].
-        inclusions: (diameter [m], centre height [m]) of uncharged floating conductive spheres [-].
-        outer_radius: radius of the modelled disc [m]; default: the largest feature radius + 2 x thickness.
+    Parameters
+    ----------
+    thickness : float
+        electrode gap [m].
+    permittivity : float or Sequence[tuple[float, float]]
+        relative permittivity of the insulation, or (layer thickness [m], εr) pairs listed from
+        the ground electrode upward [-].
+    void : Region, optional
+        the gas void (e.g. :class:`~pdvoid.coefficients.fields.geometry.Spheroid`), or None [-].
+    gas_permittivity : float, optional
+        relative permittivity of the void gas [-].
+    needle_tip_radius : float, optional
+        radius of a needle (rod with hemispherical tip) on ``needle_electrode`` [m].
+    needle_length : float, optional
+        length of that needle from its electrode to the apex, < thickness [m].
+    needle_electrode : str, optional
+        "high" (needle hangs from the upper electrode) or "ground" (stands on the lower) [-].
+    inclusions : Sequence[tuple[float, float]], optional
+        (diameter [m], centre height [m]) of uncharged floating conductive spheres [-].
+    outer_radius : float, optional
+        radius of the modelled disc [m]; default: the largest feature radius + 2 x thickness.
+
+    Returns
+    -------
+    Layout
+        The field problem.
     """
     thickness = check_positive("thickness", thickness, "m")
     background, slabs = _layers(thickness, permittivity)
@@ -274,12 +336,23 @@ def grid_for(
 ) -> Grid:
     """A graded grid for ``layout``: fine over the void and conductors, coarser towards the edges.
 
-    Parameters:
-        layout: the field problem [-].
-        cells: (nr, nz) numbers of cells; if None, the fine spacing is the smallest feature / resolution [-].
-        resolution: cells across the smallest feature (void height or diameter, tip radius) [-].
-        growth: neighbour ratio of cell sizes away from the features [-].
-        max_ratio: largest coarse-to-fine spacing ratio [-].
+    Parameters
+    ----------
+    layout : Layout
+        the field problem [-].
+    cells : tuple[int, int], optional
+        (nr, nz) numbers of cells; if None, the fine spacing is the smallest feature / resolution [-].
+    resolution : float, optional
+        cells across the smallest feature (void height or diameter, tip radius) [-].
+    growth : float, optional
+        neighbour ratio of cell sizes away from the features [-].
+    max_ratio : float, optional
+        largest coarse-to-fine spacing ratio [-].
+
+    Returns
+    -------
+    Grid
+        A grid refined around the layout's features.
     """
     if not isinstance(layout, Layout):
         raise InputError(f"layout must be a Layout; got {type(layout).__name__}")

@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from typing import Any
 
 import numpy as np
 
@@ -29,7 +30,10 @@ WHERE = ("all", "dielectric", "void", "solid")
 _ORDER = 3  # polynomial order of the one-sided surface-field fit (tested against a conducting sphere)
 
 
-def _end_fields(flux_density, dv, length, nu, omega, gas_a, gas_b, eps_a, eps_b):
+def _end_fields(
+    flux_density: np.ndarray, dv: np.ndarray, length: np.ndarray, nu: np.ndarray, omega: np.ndarray, gas_a: np.ndarray,
+    gas_b: np.ndarray, eps_a: np.ndarray, eps_b: np.ndarray,
+) -> tuple[np.ndarray, np.ndarray]:
     """Field along a link at its two end cells: εr·E/εr from the flux density in a single material; where the
     link crosses the void outline, the potential drop splits into a void and a solid part (fractions ω and ν
     of the drop and of the length), giving the field on each side."""
@@ -52,6 +56,21 @@ def field_components(potential: Potential) -> tuple[np.ndarray, np.ndarray]:
     crosses the void outline, the link's potential drop is split between gas and solid as in the assembly
     (series split for the field normal to the outline, length split for the tangential one). Cells inside
     conductors get zero.
+
+    Parameters
+    ----------
+    potential : Potential
+        A solved potential.
+
+    Returns
+    -------
+    tuple of numpy.ndarray
+        ``(E_r, E_z)``, each of shape (nr, nz) [V/m].
+
+    Raises
+    ------
+    InputError
+        Unless ``potential`` is a Potential.
     """
     if not isinstance(potential, Potential):
         raise InputError(f"potential must be a Potential; got {type(potential).__name__}")
@@ -102,15 +121,43 @@ def field_components(potential: Potential) -> tuple[np.ndarray, np.ndarray]:
 
 
 def field_magnitude(potential: Potential) -> np.ndarray:
-    """|E| at the cell centres, shape (nr, nz) [V/m]."""
+    """|E| at the cell centres, shape (nr, nz) [V/m].
+
+    Parameters
+    ----------
+    potential : Potential
+        A solved potential.
+
+    Returns
+    -------
+    numpy.ndarray
+        |E|, shape (nr, nz) [V/m].
+    """
     er, ez = field_components(potential)
     return np.hypot(er, ez)
 
 
-def region_mask(solver: FieldSolver, where: object = "dielectric") -> np.ndarray:
+def region_mask(solver: FieldSolver, where: str | np.ndarray = "dielectric") -> np.ndarray:
     """Boolean (nr, nz) mask of cells: "all", "dielectric" (outside conductors), "void" or "solid".
 
     A boolean array of shape (nr, nz) is passed through (after a shape check).
+
+    Parameters
+    ----------
+    solver : FieldSolver
+        The assembled solver.
+    where : str or numpy.ndarray, optional
+        ``"all"``, ``"dielectric"``, ``"void"``, ``"solid"`` or a boolean (nr, nz) mask.
+
+    Returns
+    -------
+    numpy.ndarray
+        Boolean mask of shape (nr, nz).
+
+    Raises
+    ------
+    InputError
+        For another ``where``, a mask of the wrong shape or type, or ``"void"`` without a void.
     """
     if not isinstance(solver, FieldSolver):
         raise InputError(f"solver must be a FieldSolver; got {type(solver).__name__}")
@@ -142,9 +189,12 @@ def region_mask(solver: FieldSolver, where: object = "dielectric") -> np.ndarray
 class SurfaceField:
     """Field on a conductor surface at the points where grid lines cross it.
 
-    Attributes:
-        r, z: crossing points [m].
-        magnitude: |E| at each point (the grid-line component divided by the cosine of the surface normal) [V/m].
+    Attributes
+    ----------
+    r, z : numpy.ndarray
+        crossing points [m].
+    magnitude : numpy.ndarray
+        |E| at each point (the grid-line component divided by the cosine of the surface normal) [V/m].
     """
 
     r: np.ndarray
@@ -163,7 +213,7 @@ class SurfaceField:
         return float(self.r[k]), float(self.z[k])
 
 
-def _conductor_id(solver: FieldSolver, conductor: object) -> tuple[int, object]:
+def _conductor_id(solver: FieldSolver, conductor: str | int) -> tuple[int, list[Any]]:
     lay = solver.layout
     if isinstance(conductor, str):
         e = ELECTRODES.index(check_choice("conductor", conductor, ELECTRODES))
@@ -179,7 +229,7 @@ def _conductor_id(solver: FieldSolver, conductor: object) -> tuple[int, object]:
 
 
 def _normal_cos(regions: list, r: np.ndarray, z: np.ndarray, axial: bool, h: float) -> np.ndarray:
-    def lev(rr, zz):
+    def lev(rr: np.ndarray, zz: np.ndarray) -> np.ndarray:
         return np.min([reg.level(rr, zz) for reg in regions], axis=0)
 
     gr = (lev(r + h, z) - lev(np.maximum(r - h, 0.0), z)) / (r + h - np.maximum(r - h, 0.0))
@@ -189,7 +239,10 @@ def _normal_cos(regions: list, r: np.ndarray, z: np.ndarray, axial: bool, h: flo
     return np.abs(gz if axial else gr) / norm
 
 
-def _surface_slope(vl, fr, xs, a, b, step, s1, vc, order):
+def _surface_slope(
+    vl: np.ndarray, fr: np.ndarray, xs: np.ndarray, a: np.ndarray, b: np.ndarray, step: int, s1: np.ndarray, vc: float,
+    order: int,
+) -> np.ndarray:
     """Slope at the surface of the polynomial through the surface potential and ``order`` free cells.
 
     The cell next to the surface is skipped: the symmetric cut-link scheme keeps the potential second-order
@@ -219,7 +272,7 @@ def _surface_slope(vl, fr, xs, a, b, step, s1, vc, order):
     return out
 
 
-def surface_field(potential: Potential, conductor: object, *, min_cosine: float = 0.5) -> SurfaceField:
+def surface_field(potential: Potential, conductor: str | int, *, min_cosine: float = 0.5) -> SurfaceField:
     """|E| on the surface of a shaped electrode part ("high"/"ground") or floating conductor (its index).
 
     Along every grid line that enters the conductor, the potential of the conductor surface and of the two
@@ -227,10 +280,19 @@ def surface_field(potential: Potential, conductor: object, *, min_cosine: float 
     (second-order one-sided difference). Dividing by the cosine between the line and the surface normal gives
     |E| (the field is normal to a conductor). Points where that cosine is below ``min_cosine`` are skipped.
 
-    Parameters:
-        potential: a solved potential [V].
-        conductor: "high", "ground" (their shaped parts) or the index of a floating conductor [-].
-        min_cosine: smallest accepted cosine between grid line and surface normal, in (0, 1] [-].
+    Parameters
+    ----------
+    potential : Potential
+        a solved potential [V].
+    conductor : str or int
+        "high", "ground" (their shaped parts) or the index of a floating conductor [-].
+    min_cosine : float, optional
+        smallest accepted cosine between grid line and surface normal, in (0, 1] [-].
+
+    Returns
+    -------
+    SurfaceField
+        Points on the surface and |E| there [m, V/m].
     """
     if not isinstance(potential, Potential):
         raise InputError(f"potential must be a Potential; got {type(potential).__name__}")
@@ -280,13 +342,22 @@ def surface_field(potential: Potential, conductor: object, *, min_cosine: float 
     return SurfaceField(np.concatenate(out_r), np.concatenate(out_z), np.concatenate(out_e))
 
 
-def critical_region(potential: Potential, critical_field: float, where: object = "dielectric") -> np.ndarray:
+def critical_region(potential: Potential, critical_field: float, where: str | np.ndarray = "dielectric") -> np.ndarray:
     """Boolean (nr, nz) mask of cells in ``where`` whose |E| exceeds ``critical_field``.
 
-    Parameters:
-        potential: a solved potential [V].
-        critical_field: field threshold [V/m].
-        where: "all", "dielectric", "void", "solid" or a boolean mask [-].
+    Parameters
+    ----------
+    potential : Potential
+        a solved potential [V].
+    critical_field : float
+        field threshold [V/m].
+    where : str or numpy.ndarray, optional
+        "all", "dielectric", "void", "solid" or a boolean mask [-].
+
+    Returns
+    -------
+    numpy.ndarray
+        Boolean mask of shape (nr, nz).
     """
     ec = check_positive("critical_field", critical_field, "V/m")
     mask = region_mask(potential.solver, where)
@@ -294,7 +365,7 @@ def critical_region(potential: Potential, critical_field: float, where: object =
 
 
 def lowest_voltage(
-    solver: FieldSolver, critical_field: float, where: object = "dielectric", *, include_surface: bool = True
+    solver: FieldSolver, critical_field: float, where: str | np.ndarray = "dielectric", *, include_surface: bool = True
 ) -> float:
     """Lowest voltage on the high-voltage electrode at which |E| somewhere in ``where`` exceeds the critical field.
 
@@ -303,13 +374,20 @@ def lowest_voltage(
     conductors are included (they are the maxima at a needle tip or on an inclusion); cell-centre values
     underestimate a surface maximum on coarse grids.
 
-    Parameters:
-        solver: the factorised field problem [-].
-        critical_field: field threshold [V/m].
-        where: "all", "dielectric", "void", "solid" or a boolean mask [-].
-        include_surface: include conductor surface fields [-].
+    Parameters
+    ----------
+    solver : FieldSolver
+        the factorised field problem [-].
+    critical_field : float
+        field threshold [V/m].
+    where : str or numpy.ndarray, optional
+        "all", "dielectric", "void", "solid" or a boolean mask [-].
+    include_surface : bool, optional
+        include conductor surface fields [-].
 
-    Returns:
+    Returns
+    -------
+    float
         Voltage magnitude [V].
     """
     ec = check_positive("critical_field", critical_field, "V/m")

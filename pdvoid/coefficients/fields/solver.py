@@ -28,10 +28,14 @@ __all__ = ["FieldSolver", "Potential"]
 class Potential:
     """A solved potential.
 
-    Attributes:
-        solver: the :class:`FieldSolver` that produced it.
-        unknowns: the solution vector (free cells, then floating conductors) [V].
-        voltages: (ground, high) electrode potentials [V].
+    Attributes
+    ----------
+    solver : FieldSolver
+        the :class:`FieldSolver` that produced it.
+    unknowns : numpy.ndarray
+        the solution vector (free cells, then floating conductors) [V].
+    voltages : tuple[float, float]
+        (ground, high) electrode potentials [V].
     """
 
     solver: FieldSolver
@@ -58,13 +62,30 @@ class Potential:
         return self.unknowns[self.solver.assembly.n_free :].copy()
 
     def electrode_charge(self, electrode: str) -> float:
-        """Charge on an electrode's surface, ε0 × outward flux of εr∇V into the dielectric [C]."""
+        """Charge on an electrode's surface, ε0 × outward flux of εr∇V into the dielectric [C].
+
+        Parameters
+        ----------
+        electrode : str
+            ``"ground"`` or ``"high"``.
+
+        Returns
+        -------
+        float
+            The charge [C].
+        """
         e = ELECTRODES.index(check_choice("electrode", electrode, ELECTRODES))
         u, c = self.solver.assembly.electrode_links[e]
         return float(EPSILON_0 * np.sum(c * (self.voltages[e] - self.unknowns[u])))
 
     def void_mean_field(self) -> float:
-        """Mean axial field component in the void, (1/Ω) ∫ E_z dΩ [V/m] (negative when pointing to ground)."""
+        """Mean axial field component in the void, (1/Ω) ∫ E_z dΩ [V/m] (negative when pointing to ground).
+
+        Returns
+        -------
+        float
+            The mean axial void field [V/m].
+        """
         asm = self.solver.assembly
         if asm.void_volume <= 0.0:
             raise InputError("the layout has no void (or the grid does not resolve it)")
@@ -91,9 +112,12 @@ class Potential:
 class FieldSolver:
     """Assemble and factorise a layout once; solve for many sources.
 
-    Parameters:
-        layout: the field problem [-].
-        grid: the grid; its extent must match the layout [-].
+    Parameters
+    ----------
+    layout : Layout
+        the field problem [-].
+    grid : Grid
+        the grid; its extent must match the layout [-].
     """
 
     def __init__(self, layout: Layout, grid: Grid, *, samples: int = 4) -> None:
@@ -115,10 +139,19 @@ class FieldSolver:
     ) -> Potential:
         """Potential for given electrode voltages, free charge per unknown and floating-conductor charges.
 
-        Parameters:
-            voltages: {"ground": V0, "high": V1}; missing electrodes are at 0 [V].
-            charge: free charge on each unknown (cells, then floating conductors) [C].
-            floating_charges: net charge of each floating conductor; default the layout's values [C].
+        Parameters
+        ----------
+        voltages : Mapping[str, float], optional
+            {"ground": V0, "high": V1}; missing electrodes are at 0 [V].
+        charge : numpy.ndarray, optional
+            free charge on each unknown (cells, then floating conductors) [C].
+        floating_charges : numpy.ndarray, optional
+            net charge of each floating conductor; default the layout's values [C].
+
+        Returns
+        -------
+        Potential
+            The solved potential.
         """
         asm = self.assembly
         v = np.zeros(2)
@@ -149,7 +182,18 @@ class FieldSolver:
         return Potential(self, x, (float(v[0]), float(v[1])))
 
     def apply_inverse(self, rhs: np.ndarray) -> np.ndarray:
-        """A⁻¹ rhs with the stored factorisation (raw unknown vector; rhs in the matrix's own units) [-]."""
+        """A⁻¹ rhs with the stored factorisation (raw unknown vector; rhs in the matrix's own units) [-].
+
+        Parameters
+        ----------
+        rhs : numpy.ndarray
+            Right-hand side, one value per unknown.
+
+        Returns
+        -------
+        numpy.ndarray
+            The solution vector.
+        """
         b = check_array("rhs", rhs)
         if b.size != self.assembly.n_unknowns:
             raise InputError(f"rhs must hold {self.assembly.n_unknowns} values; got {b.size}")
@@ -159,6 +203,16 @@ class FieldSolver:
         """Potential with 1 V on ``electrode``, 0 V on the other, and uncharged floating conductors [V].
 
         With ``electrode`` as the measuring electrode this is Pedersen's λ function (weighting potential).
+
+        Parameters
+        ----------
+        electrode : str
+            ``"ground"`` or ``"high"``: the electrode at 1 V.
+
+        Returns
+        -------
+        Potential
+            The unit potential (cached).
         """
         e = ELECTRODES.index(check_choice("electrode", electrode, ELECTRODES))
         if e not in self._unit:
@@ -168,10 +222,23 @@ class FieldSolver:
     def induced_charge(self, charge: np.ndarray, electrode: str = "high") -> float:
         """Charge induced on a grounded ``electrode`` by free charge on the unknowns: q = −Σ Q λ [C].
 
-        References:
-            Pedersen's λ-function concept (Green's reciprocity): A. Pedersen, G. C. Crichton, I. W. McAllister,
-            'The theory and measurement of partial discharge transients', IEEE Trans. Electr. Insul. 26(3)
-            (1991) 487-497 (from memory, bibliography key ``pedersen1991``).
+        Parameters
+        ----------
+        charge : numpy.ndarray
+            Free charge per unknown [C].
+        electrode : str, optional
+            The grounded electrode, ``"high"`` or ``"ground"``.
+
+        Returns
+        -------
+        float
+            The induced charge [C].
+
+        References
+        ----------
+        Pedersen's λ-function concept (Green's reciprocity): A. Pedersen, G. C. Crichton, I. W. McAllister,
+        'The theory and measurement of partial discharge transients', IEEE Trans. Electr. Insul. 26(3)
+        (1991) 487-497 (from memory, bibliography key ``pedersen1991``).
         """
         q = check_array("charge", charge)
         if q.size != self.assembly.n_unknowns:
@@ -179,5 +246,11 @@ class FieldSolver:
         return -float(self.unit(electrode).unknowns @ q)
 
     def capacitance(self) -> float:
-        """Capacitance between the two electrodes of the modelled disc (floating conductors uncharged) [F]."""
+        """Capacitance between the two electrodes of the modelled disc (floating conductors uncharged) [F].
+
+        Returns
+        -------
+        float
+            The capacitance [F].
+        """
         return self.unit("high").electrode_charge("high")

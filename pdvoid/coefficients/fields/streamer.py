@@ -28,11 +28,16 @@ __all__ = ["FieldLine", "trace_field_line", "StreamerInception", "streamer_incep
 class FieldLine:
     """A field line through a start point, ordered by arc length.
 
-    Attributes:
-        r, z: points of the line [m].
-        s: arc length from the first point [m].
-        field: |E| at the points for the traced potential [V/m].
-        start_index: index of the start point [-].
+    Attributes
+    ----------
+    r, z : numpy.ndarray
+        points of the line [m].
+    s : numpy.ndarray
+        arc length from the first point [m].
+    field : numpy.ndarray
+        |E| at the points for the traced potential [V/m].
+    start_index : int
+        index of the start point [-].
     """
 
     r: np.ndarray
@@ -132,12 +137,23 @@ def trace_field_line(
     The line stops at the electrodes, the outer radius, any conductor surface and, if ``inside`` is given, at
     that region's outline (crossings found by bisection).
 
-    Parameters:
-        potential: a solved potential [V].
-        start: (r, z) of the start point [m].
-        inside: keep the line inside this region (e.g. the void) [-].
-        max_length: longest length traced in each direction; default the electrode gap [m].
-        step_factor: step length as a fraction of the local cell size, in (0, 1] [-].
+    Parameters
+    ----------
+    potential : Potential
+        a solved potential [V].
+    start : tuple[float, float]
+        (r, z) of the start point [m].
+    inside : Region, optional
+        keep the line inside this region (e.g. the void) [-].
+    max_length : float, optional
+        longest length traced in each direction; default the electrode gap [m].
+    step_factor : float, optional
+        step length as a fraction of the local cell size, in (0, 1] [-].
+
+    Returns
+    -------
+    FieldLine
+        The traced line with positions [m] and |E| along it [V/m].
     """
     if not isinstance(potential, Potential):
         raise InputError(f"potential must be a Potential; got {type(potential).__name__}")
@@ -171,10 +187,14 @@ def trace_field_line(
 class StreamerInception:
     """Lowest voltage at which the ionisation integral along a field line reaches K.
 
-    Attributes:
-        voltage: voltage on the high-voltage electrode [V].
-        line: the field line of the 1 V solution used [-].
-        avalanche_length: length of the stretch with α_eff > 0 at that voltage [m].
+    Attributes
+    ----------
+    voltage : float
+        voltage on the high-voltage electrode [V].
+    line : FieldLine
+        the field line of the 1 V solution used [-].
+    avalanche_length : float
+        length of the stretch with α_eff > 0 at that voltage [m].
     """
 
     voltage: float
@@ -218,21 +238,32 @@ def streamer_inception_voltage(
     conductor surface field, else the largest cell field); the integral runs over the contiguous stretch
     around the start where α_eff > 0 (the avalanche region), with pdvoid.physics.inception.streamer_integral.
 
-    Parameters:
-        solver: the factorised field problem [-].
-        start: (r, z) of the start point [m].
-        inside: a Region, "void", or None: confine the line to it (a void's gas) [-].
-        k_streamer: threshold K of the criterion [-]; 9.15 (avalanche of 1e4) by default.
-        pressure: gas pressure [Pa].
-        temperature: gas temperature [K].
-        gas: "air" or "sf6" [-].
+    Parameters
+    ----------
+    solver : FieldSolver
+        the factorised field problem [-].
+    start : tuple[float, float], optional
+        (r, z) of the start point [m].
+    inside : Region or str, optional
+        a Region, "void", or None: confine the line to it (a void's gas) [-].
+    k_streamer : float, optional
+        threshold K of the criterion [-]; 9.15 (avalanche of 1e4) by default.
+    pressure : float, optional
+        gas pressure [Pa].
+    temperature : float, optional
+        gas temperature [K].
+    gas : str, optional
+        "air" or "sf6" [-].
 
-    Returns:
+    Returns
+    -------
+    StreamerInception
         :class:`StreamerInception`.
 
-    References:
-        morrow1997 (α_eff of air, via pdvoid.physics.inception); the streamer criterion itself as in the
-        physics brief §7 (Raether–Meek; K about 9.15-9.2 from mikropoulos2009, confirmed).
+    References
+    ----------
+    morrow1997 (α_eff of air, via pdvoid.physics.inception); the streamer criterion itself as in the
+    physics brief §7 (Raether–Meek; K about 9.15-9.2 from mikropoulos2009, confirmed).
     """
     from pdvoid.physics.ionization import effective_ionization_air, sf6_effective_ionization, streamer_integral
 

@@ -49,16 +49,26 @@ REFERENCES = ("illias2011", "pedersen1991")
 class TimeDomainResult:
     """Discharges of the time-domain reference model (one entry per discharge).
 
-    Attributes:
-        time: instant of inception [s].
-        phase_deg: phase of the supply at inception [deg], in [0, 360).
-        cycle: index of the supply cycle [-].
-        charge: apparent charge on the measuring electrode, signed [C].
-        field_before: mean axial in-void field at inception (signed) [V/m].
-        field_after: mean axial in-void field when the gas stops conducting [V/m].
-        voltage: supply voltage at inception [V].
-        steps: implicit time steps taken in all discharges [-].
-        references: bibliography keys [-].
+    Attributes
+    ----------
+    time : numpy.ndarray
+        instant of inception [s].
+    phase_deg : numpy.ndarray
+        phase of the supply at inception [deg], in [0, 360).
+    cycle : numpy.ndarray
+        index of the supply cycle [-].
+    charge : numpy.ndarray
+        apparent charge on the measuring electrode, signed [C].
+    field_before : numpy.ndarray
+        mean axial in-void field at inception (signed) [V/m].
+    field_after : numpy.ndarray
+        mean axial in-void field when the gas stops conducting [V/m].
+    voltage : numpy.ndarray
+        supply voltage at inception [V].
+    steps : int
+        implicit time steps taken in all discharges [-].
+    references : tuple[str, ...]
+        bibliography keys [-].
     """
 
     time: np.ndarray
@@ -127,19 +137,32 @@ def conductive_void_reference(
 ) -> TimeDomainResult:
     """Run the lag-free conductive-void reference model under U(t) = amplitude · sin(2π f t) on "high".
 
-    Parameters:
-        solver: a factorised :class:`~pdvoid.coefficients.fields.solver.FieldSolver` whose layout has a void [-].
-        amplitude: peak supply voltage on the high-voltage electrode [V].
-        frequency: supply frequency [Hz].
-        inception_field: mean in-void field magnitude at which the gas starts to conduct [V/m].
-        residual_field: mean in-void field magnitude at which it stops, 0 <= residual < inception [V/m].
-        cycles: supply cycles to simulate, starting at phase 0 with an uncharged void [-].
-        gas_conductivity: conductivity of the discharging gas [S/m].
-        steps_per_time_constant: implicit steps per ε0/σ (the shortest relaxation time of the void) [-].
-        measuring_electrode: electrode whose induced charge is the apparent charge [-].
-        max_discharges: safety limit on the number of discharges [-].
+    Parameters
+    ----------
+    solver : FieldSolver
+        a factorised :class:`~pdvoid.coefficients.fields.solver.FieldSolver` whose layout has a void [-].
+    amplitude : float
+        peak supply voltage on the high-voltage electrode [V].
+    frequency : float
+        supply frequency [Hz].
+    inception_field : float
+        mean in-void field magnitude at which the gas starts to conduct [V/m].
+    residual_field : float
+        mean in-void field magnitude at which it stops, 0 <= residual < inception [V/m].
+    cycles : int, optional
+        supply cycles to simulate, starting at phase 0 with an uncharged void [-].
+    gas_conductivity : float, optional
+        conductivity of the discharging gas [S/m].
+    steps_per_time_constant : float, optional
+        implicit steps per ε0/σ (the shortest relaxation time of the void) [-].
+    measuring_electrode : str, optional
+        electrode whose induced charge is the apparent charge [-].
+    max_discharges : int, optional
+        safety limit on the number of discharges [-].
 
-    Returns:
+    Returns
+    -------
+    TimeDomainResult
         :class:`TimeDomainResult`.
     """
     if not isinstance(solver, FieldSolver):
@@ -183,7 +206,7 @@ def conductive_void_reference(
     def volt_at(t: float) -> float:
         return amp * math.sin(2.0 * math.pi * freq * t)
 
-    out = {k: [] for k in ("time", "charge", "before", "after", "voltage")}
+    out: dict[str, list[float]] = {k: [] for k in ("time", "charge", "before", "after", "voltage")}
     total_steps = 0
     t = 0.0
     grid_t = np.linspace(0.0, period, 721)
