@@ -14,6 +14,7 @@ import numpy as np
 import pytest
 
 import pdvoid
+from pdvoid.core.errors import check_positive
 from pdvoid.inputs.model_parameters import model_class, model_kinds, register_model, unregister_model
 from pdvoid.models import FieldModel, KernelArguments, ModelParameters, kernel_arguments
 from pdvoid.simulation.simulate import VoidRunner
@@ -32,6 +33,10 @@ class ScaledFieldModel(FieldModel):
     field_units = {**FieldModel.field_units, "charge_scale": ("dimensionless", "")}
 
     charge_scale: float = 1.0
+
+    def __post_init__(self) -> None:
+        super().__post_init__()
+        object.__setattr__(self, "charge_scale", check_positive("model.charge_scale", self.charge_scale))
 
     def kernel_arguments(self, scenario, c):
         args = super().kernel_arguments(scenario, c)
@@ -118,6 +123,11 @@ def test_an_unknown_kind_names_the_registered_kinds(registered, tmp_path):
         assert repr(kind) in str(info.value)
     with pytest.raises(pdvoid.InputError, match="'field', 'network'"):
         model_class("nonesuch")
+
+
+def test_a_bad_scale_names_the_parameter(registered):
+    with pytest.raises(pdvoid.InputError, match="model.charge_scale"):
+        ScaledFieldModel(charge_scale=-1.0)
 
 
 def test_registering_a_second_model_of_the_same_kind_fails(registered):
