@@ -115,7 +115,8 @@ def _write_generated() -> None:
     out.mkdir(exist_ok=True)
     lines = []
     for key, ref in sorted(REFERENCES.items()):
-        lines += [f"``{key}``", f"   {ref.citation} *({ref.status})*", ""]
+        citation = "".join("\\" + ch if ch in "*`|_\\" else ch for ch in ref.citation)  # plain text in rST
+        lines += [f"- ``{key}``: {citation} *({ref.status})*", ""]
     _write_if_changed(out / "references.inc", "\n".join(lines))
 
     import os
