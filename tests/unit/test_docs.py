@@ -66,3 +66,12 @@ def test_the_committed_notebooks_are_the_gallery():
     gallery = (ROOT / "docs" / "gallery.rst").read_text(encoding="utf-8")
     for nb in sorted((ROOT / "notebooks").glob("*.ipynb")):
         assert f"gallery/{nb.stem}\n" in gallery, f"{nb.name} is missing from docs/gallery.rst"
+
+
+def test_every_page_that_shows_results_carries_the_safety_note():
+    docs = ROOT / "docs"
+    pages = [docs / "index.rst", docs / "getting_started.rst", docs / "gallery.rst", docs / "api" / "index.rst",
+             *sorted((docs / "guide").glob("*.rst"))]
+    assert [p.name for p in pages if ".. include:: /snippets/safety.txt" not in p.read_text(encoding="utf-8")] == []
+    note = (docs / "snippets" / "safety.txt").read_text(encoding="utf-8")
+    assert "High voltage can kill" in note and "applicable" in note and "licensed practice prevail" in note
