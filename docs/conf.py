@@ -138,3 +138,28 @@ def _write_if_changed(path: Path, text: str) -> None:
 
 _copy_notebooks()
 _write_generated()
+
+
+# A module page documents what the module defines. A name it re-exports from a sibling module (e.g.
+# pdvoid.physics.inception.density_equivalent_pressure, defined in pdvoid.physics.gas_density) is documented once,
+# on its own module's page: the same docstring on two pages would give duplicate citation labels.
+_current_module: list[str] = [""]
+
+
+def _remember_module(app, what, name, obj, options, lines) -> None:
+    if what == "module":
+        _current_module[0] = name
+
+
+def _skip_reexport(app, what, name, obj, skip, options):
+    here = _current_module[0]
+    defined = getattr(obj, "__module__", None)
+    if what == "module" and here.startswith("pdvoid.") and isinstance(defined, str) and defined.startswith("pdvoid.") \
+            and defined != here and callable(obj):
+        return True
+    return None
+
+
+def setup(app):
+    app.connect("autodoc-process-docstring", _remember_module)
+    app.connect("autodoc-skip-member", _skip_reexport)
