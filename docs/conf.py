@@ -35,7 +35,6 @@ extensions = [
 source_suffix = {".rst": "restructuredtext", ".md": "myst-nb", ".ipynb": "myst-nb"}
 exclude_patterns = ["_build", "Thumbs.db", ".DS_Store", "**.ipynb_checkpoints", "jupyter_execute"]
 templates_path = ["_templates"]
-html_static_path = ["_static"]
 html_theme = "pydata_sphinx_theme"
 html_title = f"pdvoid {release}"
 html_theme_options = {
@@ -75,8 +74,6 @@ _ABSOLUTE_VALUES = ("q", "E", "x", "V", "q_meas", "q_i", "q_m", "q_1", "E_v", "E
 rst_prolog = "\n".join(f".. |{n}| replace:: \\|{n}\\|" for n in _ABSOLUTE_VALUES) + "\n"
 
 suppress_warnings = [
-    # nbclient on ipykernel 7 logs connection notices through Sphinx's logger; they are not documentation faults
-    "mystnb.unknown_mime_type",
     # DEVELOPERS.md is included below the developer page's own title, so its sections start at H2
     "myst.header",
 ]
