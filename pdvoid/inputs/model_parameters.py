@@ -14,7 +14,7 @@ from typing import ClassVar, TypeVar
 
 from pdvoid.core.errors import InputError, check_bool, check_choice, check_nonnegative, check_range
 
-__all__ = ["ModelParameters", "register_model", "model_class", "model_kinds", "default_model"]
+__all__ = ["ModelParameters", "register_model", "unregister_model", "model_class", "model_kinds", "default_model"]
 
 INCEPTION_CRITERIA = ("streamer", "ionization_integral")
 
@@ -151,6 +151,29 @@ def register_model(cls: M) -> M:
     if kind in _REGISTRY and _REGISTRY[kind] is not cls:
         raise InputError(f"a model of kind {kind!r} is registered already ({_REGISTRY[kind].__name__})")
     _REGISTRY[kind] = cls
+    return cls
+
+
+def unregister_model(kind: str) -> type[ModelParameters]:
+    """Remove the model registered under ``kind`` from the registry (for tests and interactive sessions).
+
+    Parameters
+    ----------
+    kind : str
+        A registered kind (see :func:`model_kinds`).
+
+    Returns
+    -------
+    type
+        The class that was registered under ``kind``.
+
+    Raises
+    ------
+    pdvoid.InputError
+        For an unknown kind, naming the kinds there are.
+    """
+    cls = model_class(kind)
+    del _REGISTRY[kind]
     return cls
 
 
