@@ -65,7 +65,8 @@ def compute_coefficients(scenario) -> Coefficients:
         c_b = c_field / h
         k_eq = f * h / d
         c_c = c_b * (1.0 / k_eq - 1.0) if k_eq < 1.0 else math.nan
-        refs += ["crichton1989", "pedersen1991", "stratton1941", "gemant1932", "kreuger1989", "kuffel2000"]
+        refs += ["cylinder_table", "crichton1989", "pedersen1991", "stratton1941", "gemant1932", "kreuger1989",
+                 "kuffel2000"]
     if void.field_enhancement is None:
         warn_closed_form_limits(void.shape, D, h, d, er, void.position, n)
     if void.field_enhancement is not None:  # a numerical field solution replaces the closed forms

@@ -77,8 +77,9 @@ class Void:
         pressure: gas pressure [Pa], 100 Pa to 1 MPa.
         gas: "air", "nitrogen" or "sf6".
         temperature: gas temperature [K], 200 to 500 K.
-        shape: "spheroid" (closed-form field and induced charge) or "cylinder" (flat disc: three-capacitance
-            formulas; the field model then uses the layered-slab field, valid for diameter ≫ height).
+        shape: "spheroid" (closed-form field and induced charge) or "cylinder" (rim rounded with radius
+            min(diameter, height)/2, any aspect ratio: a field-solver table, pdvoid.coefficients.cylinder; the
+            layered-slab / three-capacitance formulas are its limit for a void much wider than the slab).
         inception_length: the length l in the streamer criterion [m]; defaults to ``height``.
         position: "centred" (far from both electrodes), or "high_voltage_electrode" / "ground_electrode" for a
             void whose flat side lies on that electrode (a half spheroid; closed forms by the image method).
