@@ -98,9 +98,9 @@ SLAB_WEIGHT_FIELD = (2.118, 1.835)
 #: (b, c) of the slab weight w_q for the charge per field, same runs, residual <= 2.5 % [-]
 SLAB_WEIGHT_CHARGE = (0.757, 2.332)
 #: envelope of the error of far-from-electrode formulas for compact voids: scale · (h/d)^a · (D/d)^b [-]
-PROXIMITY_SCALE = 0.63
-PROXIMITY_HEIGHT_EXPONENT = 1.85
-PROXIMITY_DIAMETER_EXPONENT = 1.09
+PROXIMITY_SCALE = 0.583
+PROXIMITY_HEIGHT_EXPONENT = 1.759
+PROXIMITY_DIAMETER_EXPONENT = 1.103
 
 
 class CylinderCoefficients(NamedTuple):
@@ -292,10 +292,11 @@ def electrode_proximity_error(diameter: float, height: float, thickness: float, 
     Two parts, the larger is returned:
 
     - compact voids near the electrodes (image multipoles, not captured by the slab weight):
-      ``0.63 (h/d)^1.85 (D/d)^1.09``, an envelope fitted to solver runs of spheroids with D/h = 0.3, 1 and 3 at
-      max(D, h)/d = 0.3 to 0.7 (the larger of the errors of f and of the charge per field; within a factor 1.5
-      of each run). For a sphere it gives 1 % at h/d = 0.25 (the demo void), 2 % at 0.31, 8 % at 0.5 (solver: f
-      2.5 % high, charge per field 7.4 % low) and 22 % at 0.7.
+      ``0.583 (h/d)^1.759 (D/d)^1.103``, a log least-squares envelope of the larger of the errors of f and of the
+      charge per field in 35 solver runs of spheroids (D/h = 0.3, 0.5, 1, 2, 3; max(D, h)/d = 0.3 to 0.7); it is
+      within a factor 0.6 to 1.8 of each run above the solver's noise. For a sphere it gives 1.1 % at h/d = 0.25
+      (the demo void; solver 1.0 %), 2 % at 0.31, 8 % at 0.5 (solver: f 2.5 % high, charge per field 7.4 % low)
+      and 21 % at 0.7 (solver 20 %).
     - only when ``depolarization`` is given (a formula that ignores the slab, such as the spheroid closed
       forms): the change the slab weights of :func:`slab_weights` make to f and to the charge per field,
       ``1/f`` shifted by ``(h/d) w_f (1 − 1/εr)`` and the charge by ``d/(d − h w_q)``.
@@ -321,7 +322,8 @@ def electrode_proximity_error(diameter: float, height: float, thickness: float, 
 
     References
     ----------
-    Derived here from solver runs (reference/cylinder_isolated/source.toml, section proximity).
+    Derived here from solver runs (reference/cylinder_isolated/source.toml, section proximity;
+    benchmarks/cylinder_slab_study.py).
     """
     dia = check_positive("diameter", diameter, "m")
     h = check_positive("height", height, "m")

@@ -26,6 +26,10 @@ ERROR_TOLERANCE = 0.02
 _ADVICE = "use pdvoid.fields.coefficients(scenario) for the numerical field solution"
 
 
+def _percent(x: float) -> str:
+    return f"{x * 100:.1f} %" if x < 0.1 else f"{x * 100:.0f} %"
+
+
 def _mm(x: float) -> str:
     return f"{x * 1e3:.3g} mm"
 
@@ -63,8 +67,8 @@ def warn_closed_form_limits(shape: str, diameter: float, height: float, thicknes
         messages.append(
             f"the void{where} is {_mm(height)} tall and {_mm(diameter)} wide in a {_mm(thickness)} slab: it is "
             f"not small against the slab, and the closed-form field enhancement and charge per field may be off "
-            f"by about {err:.0%} (they hold within {ERROR_TOLERANCE:.0%} for a void far from the electrodes); "
-            f"{_ADVICE}"
+            f"by about {_percent(err)} (they hold within {ERROR_TOLERANCE * 100:g} % for a void far from the "
+            f"electrodes); {_ADVICE}"
         )
     if shape == "cylinder":
         aspect = diameter / height

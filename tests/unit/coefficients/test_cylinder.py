@@ -171,7 +171,7 @@ def test_cylinder_on_an_electrode_is_half_of_its_mirror_image():
 # -- validity warnings -------------------------------------------------------------------------------------------
 def test_no_warning_for_the_demo_and_ordinary_voids(demo):
     # the demo (1.5 mm sphere in 6 mm): expected error about 1 % (below the 2 % threshold)
-    assert electrode_proximity_error(1.5e-3, 1.5e-3, 6e-3) == pytest.approx(0.0107, abs=5e-4)
+    assert electrode_proximity_error(1.5e-3, 1.5e-3, 6e-3) == pytest.approx(0.011, abs=5e-4)
     _quiet(demo)
     _quiet(_scenario(shape="cylinder", diameter=3e-3, height=0.2e-3))
     _quiet(_scenario(shape="cylinder", diameter=0.3e-3, height=1.5e-3))  # tall, inside the verified range
@@ -182,7 +182,7 @@ def test_no_warning_for_the_demo_and_ordinary_voids(demo):
 def test_warning_for_a_sphere_half_as_tall_as_the_slab():
     # solver (second method, reference/cylinder_isolated/slab_runs.txt): at h/d = 0.5 the sphere's closed-form
     # charge per field is 7.4 % low and f 2.5 % high; the envelope says about 8 %
-    with pytest.warns(ValidityWarning, match=r"3 mm tall and 3 mm wide in a 6 mm slab.*off by about 8%.*"
+    with pytest.warns(ValidityWarning, match=r"3 mm tall and 3 mm wide in a 6 mm slab.*off by about 8\.0 %.*"
                                              r"pdvoid\.fields\.coefficients\(scenario\)"):
         pdvoid.compute_coefficients(_scenario(diameter=3e-3, height=3e-3))
 
