@@ -5,8 +5,14 @@ Method
 A cylindrical void (diameter D across the field, height h along it, its rim rounded with radius min(D, h)/2, the
 shape :func:`pdvoid.fields.solve_scenario` models for ``Void(shape="cylinder")``) is not an ellipsoid: its field
 is not uniform and no closed form gives its mean field. The infinite-layer (layered-slab) formula
-``f = εr d/(εr h + d − h)`` is only its limit for D ≫ d; for a void far from the electrodes it overestimates f by
-40 % at D/h = 3.3, 16 % at 10 and 8 % at 20 (εr = 4).
+``f = εr d/(εr h + d − h)`` is only its limit for D ≫ d (within 3 % of the solver for D >= 8 d); for a void far
+from the electrodes it gives f → εr, against the solver's 1.84 at D/h = 3.3, 2.57 at 10 and 3.01 at 20
+(εr = 4).
+
+Validity range: D/h 0.1 to 1000 and εr 1.5 to 100 (verified most closely for εr 2 to 10), axis along the
+field, void centred in the slab (or lying on an electrode, by the image construction of
+:func:`pdvoid.compute_coefficients`), homogeneous linear host, gas permittivity 1, any D/d; voids whose height
+and diameter are both comparable with d are flagged (:func:`electrode_proximity_error`).
 
 Two dimensionless numbers describe a cylinder far from the electrodes (the reference case, slab thickness
 ≫ void size), both functions of D/h and εr only:
@@ -21,8 +27,9 @@ They were computed once with the project's axisymmetric finite-volume solver
 on 21 aspect ratios from 0.1 to 1000 (five per decade) and 9 permittivities from 1.5 to 100, and are shipped in
 ``pdvoid/coefficients/data/cylinder_isolated.npz``; ``reference/cylinder_isolated/source.toml`` records how. A
 table was chosen over a fitted closed form because the solver is the only independent method for this shape,
-and a table keeps its accuracy (grid-converged to about 0.2 % in f and 1 % in K_q) without a fitting error
-that would have to be validated separately. Between the nodes, logit(N∞) and log K_q∞ are interpolated with
+and a table keeps its accuracy (extrapolated to zero grid spacing; the extrapolation changes f by at most
+0.6 % and K_q by at most 2.4 % for εr <= 10) without a fitting error that would have to be validated
+separately. Between the nodes, logit(N∞) and log K_q∞ are interpolated with
 bicubic splines in (log D/h, log εr); both are smooth and nearly linear at the ends of the range.
 
 Outside the table: for εr < 1.5 the nodes at εr = 1.5 are used (f → 1 as εr → 1 whatever N, so the error in f
@@ -182,8 +189,10 @@ def isolated_cylinder_factors(aspect: float, permittivity: float) -> tuple[float
 
     Notes
     -----
-    Accuracy against the solver (reference/cylinder_isolated/source.toml): within 0.5 % in f and 2 % in K_q for
-    D/h 0.1 to 1000 and εr 2 to 10; within 1 % and 3 % for εr 1.5 to 100.
+    Accuracy against solver set-ups other than the table's, between its nodes
+    (reference/cylinder_isolated/accuracy.txt): D/h 0.13 to 1000 at εr 2.5 to 8 within 0.25 % in f and 2.6 %
+    in the charge per field; at εr 1.2 to 70 within 0.84 % and 3.3 %, except the slenderest (D/h 0.13) at
+    εr = 70, 5.9 % in the charge.
     """
     a = check_positive("aspect", aspect)
     er = check_range("permittivity", permittivity, 1.0, 100.0)
