@@ -6,6 +6,8 @@ from __future__ import annotations
 import math
 from typing import TYPE_CHECKING
 
+from pdvoid.coefficients.cylinder import cylinder_coefficients
+from pdvoid.coefficients.limits import warn_closed_form_limits
 from pdvoid.coefficients.record import Coefficients
 from pdvoid.core.errors import InputError
 from pdvoid.inputs.waveform import peak_value
@@ -14,7 +16,6 @@ from pdvoid.physics.geometry import (
     depolarization_spheroid,
     field_enhancement,
     induced_charge_per_field,
-    layered_field_enhancement,
     spheroid_volume,
 )
 from pdvoid.physics.inception import gas_inception_field
@@ -93,14 +94,20 @@ def compute_coefficients(scenario: Scenario) -> Coefficients:
         else:
             c_b = c_c = math.nan  # the field model does not need the network equivalent
         refs += ["dlmf19.33", "osborn1945", "stratton1941", "crichton1989", "pedersen1991"]
-    else:  # flat cylinder: layered-slab field, three-capacitance charge
-        f = float(layered_field_enhancement(er, h, d))
-        n = (er / f - er) / (1.0 - er) if er > 1.0 else 1.0
-        omega = math.pi * D * D / 4.0 * h
-        caps = flat_void_capacitances(D, h, d, er)
-        c_b, c_c = float(caps.b), float(caps.c)
-        c_field = c_b * h
-        refs += ["gemant1932", "kreuger1989", "kuffel2000"]
+    else:  # cylinder, any aspect ratio: solver table + slab weight (pdvoid.coefficients.cylinder)
+        # a void on an electrode: the same image construction as for the spheroid (mirrored void of height 2h
+        # centred in a slab 2d thick; same field, same charge per field)
+        mirror = 1.0 if void.position == "centred" else 2.0
+        cyl = cylinder_coefficients(D, mirror * h, mirror * d, er)
+        f, n, c_field = cyl.field_enhancement, cyl.depolarization, cyl.charge_per_field
+        omega = cyl.volume / mirror
+        c_b = c_field / h
+        k_eq = f * h / d
+        c_c = c_b * (1.0 / k_eq - 1.0) if k_eq < 1.0 else math.nan
+        refs += ["cylinder_table", "crichton1989", "pedersen1991", "stratton1941", "gemant1932", "kreuger1989",
+                 "kuffel2000"]
+    if void.field_enhancement is None:
+        warn_closed_form_limits(void.shape, D, h, d, er, void.position, n)
     # a numerical field solution replaces the closed forms (Void requires both values together)
     if void.field_enhancement is not None and void.charge_per_field is not None:
         f, c_field = void.field_enhancement, void.charge_per_field

@@ -125,6 +125,9 @@ REFERENCES: dict[str, Reference] = dict(
         _r("richardson1911", "L. F. Richardson, 'The approximate arithmetical solution by finite differences of "
            "physical problems involving differential equations', Phil. Trans. R. Soc. A 210 (1911) 307-357",
            "from memory"),
+        _r("cylinder_table", "pdvoid field-solver table of rounded-rim cylindrical voids, D/h 0.1-1000, er 1.5-100, "
+           "with slab weights fitted to solver runs (pdvoid/coefficients/data/cylinder_isolated.npz; provenance in "
+           "reference/cylinder_isolated/source.toml)", "derived"),
         _r("patankar1980", "S. V. Patankar, Numerical Heat Transfer and Fluid Flow, Hemisphere, New York 1980 "
            "(harmonic averaging of interface coefficients)", "from memory"),
         _r("mason1955", "J. H. Mason, 'Breakdown of solid dielectrics in divergent fields', Proc. IEE C 102 "

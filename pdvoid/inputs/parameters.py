@@ -89,8 +89,9 @@ class Void:
     temperature : float
         gas temperature [K], 200 to 500 K.
     shape : str
-        "spheroid" (closed-form field and induced charge) or "cylinder" (flat disc: three-capacitance
-        formulas; the field model then uses the layered-slab field, valid for diameter ≫ height).
+        "spheroid" (closed-form field and induced charge) or "cylinder" (rim rounded with radius
+        min(diameter, height)/2, any aspect ratio: a field-solver table, :mod:`pdvoid.coefficients.cylinder`;
+        the layered-slab / three-capacitance formulas are its limit for a void much wider than the slab).
     inception_length : float or None
         the length l in the streamer criterion [m]; defaults to ``height``.
     position : str

@@ -236,7 +236,10 @@ def layered_field_enhancement(
     Notes
     -----
     Validity: void wide compared with its height and with its distance to the electrodes (edge fields
-    neglected), plane electrodes, gas permittivity 1.
+    neglected), plane electrodes, gas permittivity 1. It is the D ≫ d limit of a flat void of diameter D: against
+    the field solver (εr = 4, D/h = 30 and 100) it is 2.5 % high at D = 8 d, 6 % at 4 d and 14 % at D = d, and
+    far from the electrodes (d ≫ D) it gives f → εr for any aspect ratio; finite voids use
+    :func:`pdvoid.coefficients.cylinder.cylinder_coefficients`, which has this formula as its thin limit.
 
     References
     ----------

@@ -18,6 +18,10 @@ from pdvoid.analysis.inception import inception  # noqa: E402
 from pdvoid.faces.cli.report import register  # noqa: E402
 from pdvoid.faces.report import SAFETY_NOTE, at_voltage, design_review, sensitivity  # noqa: E402
 
+# the review pack varies the demo (thickness -20 %: a 1.5 mm sphere in 4.8 mm; a void nearly as tall as the slab),
+# for which compute_coefficients rightly warns that the closed forms are about 2 % or more off (ValidityWarning)
+pytestmark = pytest.mark.filterwarnings("ignore::pdvoid.core.validity.ValidityWarning")
+
 SAFETY_WORDS = (
     "high voltage can kill",
     "engineering estimates",

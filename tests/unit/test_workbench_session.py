@@ -39,6 +39,9 @@ def test_every_control_has_a_label_with_a_unit_or_is_a_choice():
             assert spec.label.endswith("]"), f"{name}: {spec.label!r} names no unit"
 
 
+# explores or shows voids large against the slab (e.g. 3 mm in 6 mm), for which compute_coefficients
+# rightly warns that the closed forms are off (ValidityWarning)
+@pytest.mark.filterwarnings("ignore::pdvoid.core.validity.ValidityWarning")
 def test_larger_void_lowers_the_inception_voltage(session):
     base = session.run().summary[U_INC]
     session.set(diameter_mm=3.0, height_mm=3.0)

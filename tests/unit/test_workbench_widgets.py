@@ -39,6 +39,9 @@ def test_panel_opens_with_images_and_summary(wb):
     assert wb.outcome.ok and wb.outcome.result.cycles == 200
 
 
+# explores or shows voids large against the slab (e.g. 3 mm in 6 mm), for which compute_coefficients
+# rightly warns that the closed forms are off (ValidityWarning)
+@pytest.mark.filterwarnings("ignore::pdvoid.core.validity.ValidityWarning")
 def test_larger_void_redraws_and_lowers_inception(wb):
     before, images = wb.outcome.summary[U_INC], _images(wb)
     wb.widgets["diameter_mm"].value = 3.0

@@ -25,6 +25,9 @@ def measured():
     return pdvoid.read_events(demo_measured_path())
 
 
+# the fit explores void diameters up to about 2.8 mm (1.5 mm tall, 6 mm slab), where the closed forms are about 2 %
+# off (solver, derived) and compute_coefficients says so with a ValidityWarning; that is expected here
+@pytest.mark.filterwarnings("ignore::pdvoid.core.validity.ValidityWarning")
 def test_recovers_hidden_parameters_from_a_wrong_start(measured):
     truth = hidden_parameters(measured)
     vary = {"void.diameter": (0.5e-3, 3e-3), "model.residual_ratio": (0.05, 0.6),

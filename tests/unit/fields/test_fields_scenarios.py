@@ -31,14 +31,15 @@ def test_half_spheroid_on_an_electrode_matches_the_image_method(position):
 
 
 def test_a_solved_geometry_runs_through_simulate_with_its_own_coefficients():
-    # a flat delamination with rounded rims: the closed-form layered estimate is far off; the solution is used
+    # a flat delamination with rounded rims; the solution is used. The closed form (the solver table of
+    # pdvoid.coefficients.cylinder) agrees with it within 3 % (the infinite-layer formula used before was 0.6 high)
     flat = _demo(**{"void.shape": "cylinder", "void.diameter": 4e-3, "void.height": 0.3e-3,
                     "model.lag_free": True})
     fc = coefficients(flat, resolution=20, rim_radius=0.15e-3)
     solved = with_field_solution(flat, fc)
     c = pdvoid.compute_coefficients(solved)
     assert c.field_enhancement == fc.field_enhancement
-    assert abs(fc.field_enhancement - pdvoid.compute_coefficients(flat).field_enhancement) > 0.1
+    assert pdvoid.compute_coefficients(flat).field_enhancement == pytest.approx(fc.field_enhancement, rel=0.03)
     res = pdvoid.simulate(solved, cycles=20, seed=0)
     assert res.event_count > 0
     # lag-free: every charge is (E_inc − E_res)·charge_per_field of the solution

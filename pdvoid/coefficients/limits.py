@@ -1,0 +1,91 @@
+"""The limits the closed-form coefficients assume, checked for a scenario, with a warning for each one it leaves.
+
+:func:`warn_closed_form_limits` is called by :func:`pdvoid.compute_coefficients`. It issues a
+:class:`~pdvoid.core.validity.ValidityWarning` when
+
+- the void is close to an electrode or large against the slab, so that the expected error of the closed forms
+  (:func:`pdvoid.coefficients.cylinder.electrode_proximity_error`) exceeds :data:`ERROR_TOLERANCE` (2 %): for a
+  sphere centred in the slab that happens above h/d = 0.31 (the demo void, 1.5 mm in 6 mm, h/d = 0.25, is
+  about 1 % off and is not flagged); for a spheroid also when the slab shares the voltage (a flat spheroid whose
+  diameter is comparable with the slab thickness: the spheroid closed forms ignore the slab);
+- a cylinder's diameter/height ratio lies outside the range the shipped solver table verifies (0.1 to 1000).
+
+Nothing is checked when the scenario carries a numerical field solution (``void.field_enhancement``).
+"""
+
+from __future__ import annotations
+
+from pdvoid.coefficients.cylinder import TABLE_ASPECT_RANGE, electrode_proximity_error
+from pdvoid.core.validity import warn_validity
+
+__all__ = ["ERROR_TOLERANCE", "warn_closed_form_limits"]
+
+#: expected relative error of the closed forms above which compute_coefficients warns [-]
+ERROR_TOLERANCE = 0.02
+
+_ADVICE = "use pdvoid.fields.coefficients(scenario) for the numerical field solution"
+
+
+def _percent(x: float) -> str:
+    return f"{x * 100:.1f} %" if x < 0.1 else f"{x * 100:.0f} %"
+
+
+def _mm(x: float) -> str:
+    return f"{x * 1e3:.3g} mm"
+
+
+def warn_closed_form_limits(shape: str, diameter: float, height: float, thickness: float, permittivity: float,
+                            position: str = "centred", depolarization: float | None = None) -> list[str]:
+    """Warn (:class:`~pdvoid.core.validity.ValidityWarning`) for every closed-form limit the void leaves.
+
+    Parameters
+    ----------
+    shape : str
+        "spheroid" or "cylinder" [-].
+    diameter, height, thickness : float
+        Void diameter D, void height h and slab thickness d [m].
+    permittivity : float
+        Host relative permittivity [-].
+    position : str
+        "centred", "high_voltage_electrode" or "ground_electrode" (a void on an electrode is checked as its
+        mirrored whole, of height 2h in a slab 2d thick) [-].
+    depolarization : float, optional
+        N of the spheroid closed forms (they ignore the slab); not used for a cylinder, whose closed form
+        includes the slab [-].
+
+    Returns
+    -------
+    list of str
+        The warning messages issued (empty in the ordinary case) [-].
+    """
+    messages = []
+    mirror = 1.0 if position == "centred" else 2.0
+    where = "" if position == "centred" else " on the electrode"
+    err = electrode_proximity_error(diameter, mirror * height, mirror * thickness,
+                                    depolarization if shape == "spheroid" else None, permittivity)
+    if err > ERROR_TOLERANCE:
+        messages.append(
+            f"the void{where} is {_mm(height)} tall and {_mm(diameter)} wide in a {_mm(thickness)} slab: it is "
+            f"not small against the slab, and the closed-form field enhancement and charge per field may be off "
+            f"by about {_percent(err)} (they hold within {ERROR_TOLERANCE * 100:g} % for a void far from the "
+            f"electrodes); {_ADVICE}"
+        )
+    if shape == "cylinder":
+        aspect = diameter / height
+        lo, hi = TABLE_ASPECT_RANGE
+        if aspect < lo:
+            messages.append(
+                f"the cylindrical void is {_mm(height)} tall and only {_mm(diameter)} wide (diameter/height "
+                f"{aspect:.3g}): a tall narrow cylinder outside the verified range {lo:g} to {hi:g}; its field "
+                f"enhancement and charge per field are extrapolated towards the needle limit (f -> 1) and may be "
+                f"off by several %; {_ADVICE}"
+            )
+        elif aspect > hi:
+            messages.append(
+                f"the cylindrical void has diameter/height {aspect:.4g}, outside the verified range {lo:g} to "
+                f"{hi:g}; its coefficients are extrapolated with the flat-disc asymptote (1 - N proportional to "
+                f"height/diameter), probably within 1 %, but unverified; {_ADVICE}"
+            )
+    for m in messages:
+        warn_validity(m)
+    return messages
