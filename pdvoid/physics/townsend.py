@@ -23,7 +23,7 @@ import math
 import warnings
 from dataclasses import dataclass
 
-from pdvoid.core.errors import InputError, check_choice, check_range
+from pdvoid.core.errors import check_choice, check_range
 from pdvoid.core.units import T_ROOM
 from pdvoid.core.validity import ValidityWarning
 
