@@ -234,22 +234,26 @@ def paschen_floor_voltage(pressure: float, gap: float, *, minimum_voltage: float
     hvc_paschen (327 V at 7.5 µm, 1 atm; confirmed), naidu2013 (327 V at 0.567 Torr cm; from memory),
     bazelyan1998 (γ = 0.01 of air between metal electrodes).
     """
+    pd = _scalar("pressure", pressure, "Pa") * (T_ROOM / _scalar("temperature", temperature, "K")) * _scalar(
+        "gap", gap, "m")
+    v_fit, v_min_g, pd_min_g = _fit_through_minimum(pd, minimum_voltage, minimum_pd, reference_emission,
+                                                    secondary_emission)
+    return v_fit if pd < pd_min_g else v_min_g
+
+
+def _fit_through_minimum(pd: float, minimum_voltage: float, minimum_pd: float, reference_emission: float,
+                         secondary_emission: float) -> tuple[float, float, float]:
+    """(Paschen fit through the measured minimum at pd [V] or inf, its minimum V_min,γ [V], (pd)_min,γ [Pa m])."""
     v_min = _scalar("minimum_voltage", minimum_voltage, "V")
     pd_min = _scalar("minimum_pd", minimum_pd, "Pa m")
     g_ref = _gamma(reference_emission)
-    g = _gamma(secondary_emission)
-    pd = _scalar("pressure", pressure, "Pa") * (T_ROOM / _scalar("temperature", temperature, "K")) * _scalar(
-        "gap", gap, "m")
+    c = math.log1p(1.0 / _gamma(secondary_emission))
     b_m = v_min / pd_min
     a_m = math.e * math.log1p(1.0 / g_ref) / pd_min
-    c = math.log1p(1.0 / g)
     pd_min_g = math.e * c / a_m
-    if pd >= pd_min_g:
-        return b_m * pd_min_g
     x = a_m * pd / c
-    if x <= 1.0:
-        return math.inf
-    return b_m * pd / math.log(x)
+    v_fit = b_m * pd / math.log(x) if x > 1.0 else math.inf
+    return v_fit, b_m * pd_min_g, pd_min_g
 
 
 def combine_criteria(gas, pressure: float, length: float, temperature: float, streamer_field: float, *,
@@ -259,6 +263,12 @@ def combine_criteria(gas, pressure: float, length: float, temperature: float, st
     The rule (our own, documented choice):
 
         E_inc = max( E_floor, min(E_Townsend, E_streamer) )
+
+    - E_Townsend is Paschen's law with the wall's γ and the lower of two constant sets at each p·d: the
+      gas's A, B (air: 15 /(cm Torr), 365 V/(cm Torr), fitted for E/p = 100–800 V/(cm Torr), bazelyan1998) and
+      the fit through the measured minimum (:func:`paschen_floor_voltage`; high E/p). Each over-predicts
+      outside its range (the first near its asymptote, the second right of the minimum), so the lower one is
+      taken (derived; the two meet near 0.6 Torr cm for air).
 
     - ``min``: a self-sustained discharge starts by whichever mechanism needs the lower field — Townsend's
       (secondary emission from the cathode wall) or the streamer's (space-charge growth of one avalanche).
@@ -328,11 +338,12 @@ def combine_criteria(gas, pressure: float, length: float, temperature: float, st
                   "available)")
         return InceptionResult(e_s, e_s * l, "streamer", reason, pd, e_s, math.nan, math.nan)
     gamma = gas.secondary_emission if secondary_emission is None else _gamma(secondary_emission)
-    v_t = townsend_breakdown_voltage(p, l, a_coefficient=gas.paschen_a, b_coefficient=gas.paschen_b,
-                                     secondary_emission=gamma, temperature=t, check_validity=False)
-    v_f = paschen_floor_voltage(p, l, minimum_voltage=gas.paschen_minimum_voltage,
-                                minimum_pd=gas.paschen_minimum_pd, reference_emission=gas.secondary_emission,
-                                secondary_emission=gamma, temperature=t)
+    v_ab = townsend_breakdown_voltage(p, l, a_coefficient=gas.paschen_a, b_coefficient=gas.paschen_b,
+                                      secondary_emission=gamma, temperature=t, check_validity=False)
+    v_fit, v_min_g, pd_min_g = _fit_through_minimum(pd, gas.paschen_minimum_voltage, gas.paschen_minimum_pd,
+                                                    gas.secondary_emission, gamma)
+    v_t = min(v_ab, v_fit)  # the Townsend criterion: each Paschen fit where it is the lower (see above)
+    v_f = v_fit if pd < pd_min_g else v_min_g
     e_t, e_f = v_t / l, v_f / l
     torr_cm = pd / TORR_CM
     if math.isinf(e_f):
