@@ -13,6 +13,7 @@ few per cent.
 from __future__ import annotations
 
 import math
+from typing import TYPE_CHECKING
 
 import numpy as np
 
@@ -28,6 +29,9 @@ from pdvoid.physics.ionization import (
     sf6_ionization_integral_inception_field,
 )
 from pdvoid.physics.townsend import InceptionResult, combine_criteria
+
+if TYPE_CHECKING:
+    from pdvoid.inputs.materials import GasData
 
 __all__ = [
     "density_equivalent_pressure",
@@ -251,15 +255,19 @@ def _streamer_criterion(gas: object, pressure: float, length: float, temperature
         raise InputError(f"criterion='ionization_integral' needs an ionisation model; gas {data.name!r} has "
                          f"none. Built-in gases with one: {', '.join(available)}")
     k = data.k_streamer if k_streamer is None else k_streamer
+    if k is None:
+        raise InputError(f"gas {data.name!r} has an ionisation model but no k_streamer; give k_streamer")
     if data.ionization_model == "morrow_lowke_air":
         return ionization_integral_inception_field(length, pressure, temperature, k_streamer=k)
     return sf6_ionization_integral_inception_field(length, pressure, temperature, k_streamer=k)
 
 
-def _gas_data(gas: object):
+def _gas_data(gas: object) -> GasData:
     from pdvoid.inputs.materials import GasData, get_gas
 
-    return gas if isinstance(gas, GasData) else get_gas(gas)  # get_gas raises InputError for unknown names
+    if isinstance(gas, GasData):
+        return gas
+    return get_gas(gas)  # type: ignore[arg-type]  # get_gas raises InputError for unknown names and non-strings
 
 
 def inception_criterion(gas: object, pressure: float, length: float, temperature: float = T_ROOM, *,

@@ -22,10 +22,14 @@ from __future__ import annotations
 import math
 import warnings
 from dataclasses import dataclass
+from typing import TYPE_CHECKING
 
 from pdvoid.core.errors import check_choice, check_range
 from pdvoid.core.units import T_ROOM
 from pdvoid.core.validity import ValidityWarning
+
+if TYPE_CHECKING:
+    from pdvoid.inputs.materials import GasData
 
 __all__ = [
     "TORR_CM",
@@ -256,7 +260,7 @@ def _fit_through_minimum(pd: float, minimum_voltage: float, minimum_pd: float, r
     return v_fit, b_m * pd_min_g, pd_min_g
 
 
-def combine_criteria(gas, pressure: float, length: float, temperature: float, streamer_field: float, *,
+def combine_criteria(gas: GasData, pressure: float, length: float, temperature: float, streamer_field: float, *,
                      secondary_emission: float | None = None, criterion: str = "streamer") -> InceptionResult:
     """One inception field from a streamer criterion, the Townsend criterion and the Paschen-minimum floor.
 
@@ -324,8 +328,9 @@ def combine_criteria(gas, pressure: float, length: float, temperature: float, st
         warnings.warn(f"inception criterion: p*l = {pd:.4g} Pa m (density-equivalent) is above "
                       f"{STREAMER_PD_MAX:g} Pa m, outside the range the streamer criterion was checked over "
                       "(gaps up to about 10 cm at 1 atm)", ValidityWarning, stacklevel=3)
-    has_townsend = gas.paschen_a is not None and gas.paschen_minimum_voltage is not None
-    if not has_townsend:
+    a_ab, b_ab, g_ref = gas.paschen_a, gas.paschen_b, gas.secondary_emission
+    v_min_ref, pd_min_ref = gas.paschen_minimum_voltage, gas.paschen_minimum_pd
+    if a_ab is None or b_ab is None or g_ref is None or v_min_ref is None or pd_min_ref is None:
         # lower end of the streamer constants' range: p*l = 10 Pa m for the formula (common practice, see
         # streamer_inception_field); for a linear alpha fit (n = 1) B/(p l) <= 0.3 as well (SF6: 14.3 Pa m)
         b_range = max(STREAMER_PD_MIN, gas.b_constant / 0.3 if gas.exponent == 1.0 else 0.0)
@@ -337,18 +342,16 @@ def combine_criteria(gas, pressure: float, length: float, temperature: float, st
         reason = (f"{criterion} criterion ({gas.name} has no Townsend constants; the Townsend branch is not "
                   "available)")
         return InceptionResult(e_s, e_s * l, "streamer", reason, pd, e_s, math.nan, math.nan)
-    gamma = gas.secondary_emission if secondary_emission is None else _gamma(secondary_emission)
-    v_ab = townsend_breakdown_voltage(p, l, a_coefficient=gas.paschen_a, b_coefficient=gas.paschen_b,
+    gamma = g_ref if secondary_emission is None else _gamma(secondary_emission)
+    v_ab = townsend_breakdown_voltage(p, l, a_coefficient=a_ab, b_coefficient=b_ab,
                                       secondary_emission=gamma, temperature=t, check_validity=False)
-    v_fit, v_min_g, pd_min_g = _fit_through_minimum(pd, gas.paschen_minimum_voltage, gas.paschen_minimum_pd,
-                                                    gas.secondary_emission, gamma)
+    v_fit, v_min_g, pd_min_g = _fit_through_minimum(pd, v_min_ref, pd_min_ref, g_ref, gamma)
     v_t = min(v_ab, v_fit)  # the Townsend criterion: each Paschen fit where it is the lower (see above)
     v_f = v_fit if pd < pd_min_g else v_min_g
     e_t, e_f = v_t / l, v_f / l
     torr_cm = pd / TORR_CM
     if math.isinf(e_f):
-        asym = math.log1p(1.0 / gamma) / (math.e * math.log1p(1.0 / gas.secondary_emission)
-                                          / gas.paschen_minimum_pd)
+        asym = math.log1p(1.0 / gamma) / (math.e * math.log1p(1.0 / g_ref) / pd_min_ref)
         reason = (f"no self-sustained discharge: p*l = {pd:.4g} Pa m ({torr_cm:.3g} Torr cm) lies left of the "
                   f"Paschen asymptote {asym:.4g} Pa m of {gas.name} with wall gamma = {gamma:g}; an avalanche "
                   "cannot multiply enough to sustain itself at any voltage")
