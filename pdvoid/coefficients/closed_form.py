@@ -98,6 +98,8 @@ def compute_coefficients(scenario) -> Coefficients:
     e_inc = chosen.field
     if chosen.regime != "streamer":
         refs += ["bazelyan1998", "hvc_paschen"]
+    if void.sealed:
+        refs.append("massarczyk2017")  # breakdown follows the density (Paschen's law with the ideal gas law)
     e_res = model.residual_ratio * e_inc if math.isfinite(e_inc) else math.inf
 
     given = model.network_capacitances()

@@ -140,6 +140,10 @@ REFERENCES: dict[str, Reference] = dict(
         _r("naidu2013", "M. S. Naidu, V. Kamaraju, High Voltage Engineering, McGraw-Hill (5th ed. 2013), gas "
            "breakdown chapter, table of minimum sparking potentials: air 327 V at 0.567 Torr cm, N2 251 V at "
            "0.67 Torr cm (table, edition and page from memory)", "from memory"),
+        _r("massarczyk2017", "R. Massarczyk, P. Chu, C. Dugger, S. R. Elliott, K. Rielage, W. Xu, 'Paschen's law "
+           "studies in cold gases', arXiv:1612.07170 (2017), abstract: the shift of the breakdown curve with gas "
+           "temperature is explained by combining Paschen's law with the ideal gas law (density decides)",
+           "confirmed"),
     ]
 )
 
