@@ -273,7 +273,6 @@ def combine_criteria(gas: GasData, pressure: float, length: float, temperature: 
       the fit through the measured minimum (:func:`paschen_floor_voltage`; high E/p). Each over-predicts
       outside its range (the first near its asymptote, the second right of the minimum), so the lower one is
       taken (derived; the two meet near 0.6 Torr cm for air).
-
     - ``min``: a self-sustained discharge starts by whichever mechanism needs the lower field — Townsend's
       (secondary emission from the cathode wall) or the streamer's (space-charge growth of one avalanche).
       This is the textbook picture of a Townsend regime at small p·d and a streamer regime at large p·d
@@ -285,7 +284,9 @@ def combine_criteria(gas: GasData, pressure: float, length: float, temperature: 
     - ``max`` with the floor: neither fit knows the Paschen minimum (the streamer formula falls towards zero,
       A = 15 /(cm Torr) puts the minimum at 305 V instead of the measured 327 V), so no result may lie below
       the measured curve's lower envelope (:func:`paschen_floor_voltage`); left of its asymptote no
-      self-sustained discharge is possible and the field is infinite.
+      self-sustained discharge is possible and the field is infinite. For air the result is flat at 327 V
+      from 0.57 to about 1.3 Torr cm (7.5–17 µm at 1 atm), where the measured curve rises slowly; there it errs
+      low, the conservative side for a design margin.
 
     Validity: p·l from 0 (an infinite field is the answer there) up to :data:`STREAMER_PD_MAX` = 1e4 Pa m
     (about 10 cm at 1 atm); a :class:`~pdvoid.core.validity.ValidityWarning` above. A gas without Townsend
