@@ -46,6 +46,11 @@ class InceptionEstimate:
         [-].
     peak_factor : float
         peak/rms of the supply [-].
+    inception_regime : str
+        "streamer", "townsend" or "no self-sustained discharge" (then the voltages and fields are infinite: no
+        discharge at any voltage).
+    inception_reason : str
+        why, in one sentence.
     """
 
     inception_voltage: float
@@ -56,6 +61,8 @@ class InceptionEstimate:
     residual_field: float
     field_enhancement: float
     peak_factor: float
+    inception_regime: str = "streamer"
+    inception_reason: str = ""
 
 
 @dataclass(frozen=True)
@@ -143,6 +150,7 @@ def inception(scenario: Scenario, ramp: bool = False, **ramp_options: Any) -> In
         inception_voltage_integral=c.inception_voltage_integral, extinction_voltage=c.extinction_voltage,
         inception_field=c.inception_field, residual_field=c.residual_field,
         field_enhancement=c.field_enhancement, peak_factor=c.peak_factor,
+        inception_regime=c.inception_regime, inception_reason=c.inception_reason,
     )
 
 
@@ -225,6 +233,9 @@ def ramp_test(
     """
     est = inception(scenario)
     u_ref = est.inception_voltage
+    if not math.isfinite(u_ref) and (step is None or start is None or max_voltage is None):
+        raise InputError(f"ramp_test: the scenario has no finite inception voltage ({est.inception_reason}); "
+                         "give start, step and max_voltage to ramp it anyway")
     step = 0.02 * u_ref if step is None else check_positive("step", step, "V")
     start = math.floor(0.5 * u_ref / step) * step if start is None else check_nonnegative("start", start, "V")
     if start == 0.0:

@@ -18,7 +18,7 @@ from pdvoid.physics.geometry import (
     induced_charge_per_field,
     spheroid_volume,
 )
-from pdvoid.physics.inception import gas_inception_field
+from pdvoid.physics.inception import inception_criterion
 from pdvoid.physics.network import flat_void_capacitances, spheroid_network_equivalent, void_voltage_ratio
 
 if TYPE_CHECKING:
@@ -125,19 +125,30 @@ def compute_coefficients(scenario: Scenario) -> Coefficients:
         c_a = math.nan if c_parallel is None else float(c_parallel)  # never None: the area is given
 
     l_str = void.streamer_length
-    e_str = gas_inception_field(void.gas, void.pressure, l_str, void.temperature, criterion="streamer")
+    # the gas state: a sealed void keeps its density when heated (its pressure rises), a vented one its pressure
+    p_gas, t_gas, gamma = void.gas_pressure, void.temperature, void.secondary_emission
+    r_str = inception_criterion(void.gas, p_gas, l_str, t_gas, criterion="streamer", secondary_emission=gamma)
+    e_str = r_str.field
+    r_int = None
     try:
-        e_int = gas_inception_field(void.gas, void.pressure, l_str, void.temperature,
-                                    criterion="ionization_integral")
+        r_int = inception_criterion(void.gas, p_gas, l_str, t_gas, criterion="ionization_integral",
+                                    secondary_emission=gamma)
+        e_int = r_int.field
         refs.append("morrow1997" if void.gas == "air" else "pedersen1970")
     except InputError:
-        # the second estimate is unavailable (no ionisation data for this gas, or a gap in the Townsend
-        # region); that is only an error when the model relies on it
+        # the second estimate is unavailable (no ionisation data for this gas); that is only an error when the
+        # model relies on it
         if model.inception_criterion == "ionization_integral":
             raise
         e_int = math.nan
-    e_inc = e_str if model.inception_criterion == "streamer" else e_int
-    e_res = model.residual_ratio * e_inc
+    chosen = r_str if model.inception_criterion == "streamer" else r_int
+    assert chosen is not None
+    e_inc = chosen.field
+    if chosen.regime != "streamer":
+        refs += ["bazelyan1998", "hvc_paschen"]
+    if void.sealed:
+        refs.append("massarczyk2017")  # breakdown follows the density (Paschen's law with the ideal gas law)
+    e_res = model.residual_ratio * e_inc if math.isfinite(e_inc) else math.inf
 
     given = model.network_capacitances()
     if given is not None:  # a network model with capacitances of its own
@@ -152,9 +163,11 @@ def compute_coefficients(scenario: Scenario) -> Coefficients:
     pf = supply_peak_factor(scenario.supply)
 
     def u_inc(e: float) -> float:
+        if math.isinf(e):
+            return math.inf  # no self-sustained discharge at any voltage
         return e / (gain_field * pf) if math.isfinite(e) else math.nan
 
-    n_vol = float(volume_electron_rate(omega, void.pressure, void.temperature,
+    n_vol = float(volume_electron_rate(omega, p_gas, void.temperature,
                                        ionization_rate=model.ionization_rate, electron_yield=model.electron_yield))
     f_eff = gain_field * d if model.gain_from_network else f
     return Coefficients(
@@ -166,7 +179,7 @@ def compute_coefficients(scenario: Scenario) -> Coefficients:
         inception_field_integral=e_int,
         residual_field=e_res,
         charge_per_field=c_field,
-        charge_per_discharge=c_field * (e_inc - e_res),
+        charge_per_discharge=c_field * (e_inc - e_res) if math.isfinite(e_inc) else 0.0,
         inception_voltage=u_inc(e_inc),
         inception_voltage_streamer=u_inc(e_str),
         inception_voltage_integral=u_inc(e_int),
@@ -179,4 +192,6 @@ def compute_coefficients(scenario: Scenario) -> Coefficients:
         peak_factor=pf,
         references=tuple(dict.fromkeys(refs)),
         method="closed form" if void.field_enhancement is None else "field solver",
+        inception_regime=chosen.regime,
+        inception_reason=chosen.reason,
     )

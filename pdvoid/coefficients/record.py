@@ -28,11 +28,14 @@ class Coefficients:
     volume : float
         Void volume Ω [m³].
     inception_field : float
-        E_inc inside the void by the model's criterion [V/m].
+        E_inc inside the void by the model's criterion [V/m], joined with the Townsend branch and the
+        Paschen-minimum floor (:func:`pdvoid.physics.inception.inception_criterion`); ``inf`` where no
+        self-sustained discharge is possible (then no discharges are simulated).
     inception_field_streamer : float
-        E_inc by the streamer criterion [V/m].
+        E_inc by the streamer formula, joined with the Townsend branch likewise [V/m].
     inception_field_integral : float
-        E_inc by the ionisation-integral criterion [V/m] (NaN where it is not available).
+        E_inc by the ionisation integral, joined with the Townsend branch likewise [V/m] (NaN where the gas has
+        no ionisation model).
     residual_field : float
         E_res, the void field a discharge leaves [V/m].
     charge_per_field : float
@@ -40,7 +43,7 @@ class Coefficients:
     charge_per_discharge : float
         Apparent charge of a lag-free discharge, (E_inc − E_res)·charge_per_field [C].
     inception_voltage : float
-        Applied rms voltage at which the void field first reaches E_inc [V].
+        Applied rms voltage at which the void field first reaches E_inc [V]; ``inf`` with an infinite E_inc.
     inception_voltage_streamer : float
         The same by the streamer criterion [V].
     inception_voltage_integral : float
@@ -67,6 +70,10 @@ class Coefficients:
     solution : pdvoid.fields.FieldSolution or None
         The numerical field solution behind the geometry coefficients (grid, capacitance, polarisation
         responses), or None for closed forms.
+    inception_regime : str
+        What set ``inception_field``: ``"streamer"``, ``"townsend"`` or ``"no self-sustained discharge"``.
+    inception_reason : str
+        One sentence saying why (criterion, p·l, the competing values), for reports and warnings.
     """
 
     field_enhancement: float
@@ -91,6 +98,8 @@ class Coefficients:
     references: tuple[str, ...]
     method: str = "closed form"
     solution: Any = None
+    inception_regime: str = "streamer"
+    inception_reason: str = ""
 
     def as_dict(self) -> dict[str, Any]:
         """The numbers as a plain dictionary (the numerical solution, if any, left out).

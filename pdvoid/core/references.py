@@ -149,6 +149,17 @@ REFERENCES: dict[str, Reference] = dict(
            "ionization integral about 9.2)", "confirmed"),
         _r("nitrogen_breakdown_tf", "Taylor & Francis book chapter, doi:10.1201/9780203025260-14, abstract: "
            "uniform-field breakdown of nitrogen about 30.4 kV for a 1 cm gap at 101.3 kPa", "confirmed"),
+        _r("hvc_paschen", "High Voltage Connection, 'Paschen Curve: Voltage Breakdown vs Pressure' (web article, "
+           "www.highvoltageconnection.com/articles/paschen-curve.html): minimum breakdown of air 327 V at "
+           "standard atmospheric pressure, at a gap of 7.5 um (i.e. 0.570 Torr cm; temperature not stated)",
+           "confirmed"),
+        _r("naidu2013", "M. S. Naidu, V. Kamaraju, High Voltage Engineering, McGraw-Hill (5th ed. 2013), gas "
+           "breakdown chapter, table of minimum sparking potentials: air 327 V at 0.567 Torr cm, N2 251 V at "
+           "0.67 Torr cm (table, edition and page from memory)", "from memory"),
+        _r("massarczyk2017", "R. Massarczyk, P. Chu, C. Dugger, S. R. Elliott, K. Rielage, W. Xu, 'Paschen's law "
+           "studies in cold gases', arXiv:1612.07170 (2017), abstract: the shift of the breakdown curve with gas "
+           "temperature is explained by combining Paschen's law with the ideal gas law (density decides)",
+           "confirmed"),
     ]
 )
 

@@ -123,6 +123,10 @@ class GasData:
         γ of Paschen's law [-], or None.
     k_streamer : float or None
         ionisation-integral threshold K [-], or None.
+    paschen_minimum_voltage : float or None
+        measured minimum of the Paschen curve [V], or None.
+    paschen_minimum_pd : float or None
+        p·d of that minimum, p at 293.15 K [Pa m], or None.
     ionization_model : str or None
         "morrow_lowke_air", "sf6_linear" or None.
     references : tuple[str, ...]
@@ -144,6 +148,8 @@ class GasData:
     secondary_emission: float | None = None
     k_streamer: float | None = None
     ionization_model: str | None = None
+    paschen_minimum_voltage: float | None = None
+    paschen_minimum_pd: float | None = None
     references: tuple[str, ...] = ()
     notes: str = ""
     provenance: Mapping[str, Provenance] = field(default_factory=dict, compare=False, repr=False)
@@ -159,6 +165,8 @@ _GAS_QUANTITIES: dict[str, tuple[str, float, float, bool, bool]] = {
     "paschen_b": ("V/(Pa m)", 0.0, math.inf, True, False),
     "secondary_emission": ("1", 0.0, 1.0, True, False),
     "k_streamer": ("1", 0.0, 100.0, True, False),
+    "paschen_minimum_voltage": ("V", 0.0, math.inf, True, False),
+    "paschen_minimum_pd": ("Pa m", 0.0, math.inf, True, False),
 }
 _GAS_TEXT = {"description": True, "references": True, "notes": False, "ionization_model": False}
 _MATERIAL_KEYS = {"description", "permittivity", "permittivity_range", "source", "status", "note"}
@@ -329,6 +337,10 @@ def _gas(label: str, name: str, entry: dict[str, Any]) -> GasData:
     if paschen and len(paschen) != 3:
         raise InputError(f"{_where(label, name)}: paschen_a, paschen_b and secondary_emission go together; "
                          f"got only {', '.join(paschen)}")
+    minimum = [k for k in ("paschen_minimum_voltage", "paschen_minimum_pd") if values[k] is not None]
+    if minimum and (len(minimum) != 2 or len(paschen) != 3):
+        raise InputError(f"{_where(label, name)}: paschen_minimum_voltage and paschen_minimum_pd go together and "
+                         f"need paschen_a, paschen_b and secondary_emission; got {', '.join(minimum + paschen)}")
     refs = entry["references"]
     if not isinstance(refs, list) or not all(isinstance(r, str) and r for r in refs):
         raise InputError(f"{_where(label, name + '.references')}: must be a list of key strings; "
@@ -351,6 +363,8 @@ def _gas(label: str, name: str, entry: dict[str, Any]) -> GasData:
         secondary_emission=values["secondary_emission"],
         k_streamer=values["k_streamer"],
         ionization_model=model,
+        paschen_minimum_voltage=values["paschen_minimum_voltage"],
+        paschen_minimum_pd=values["paschen_minimum_pd"],
         references=tuple(refs),
         notes=_text(label, f"{name}.notes", entry.get("notes", ""), allow_empty=True),
         provenance=MappingProxyType(provenance),

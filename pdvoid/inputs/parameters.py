@@ -11,6 +11,7 @@ import numpy as np
 from pdvoid.core.errors import (
     InputError,
     check_array,
+    check_bool,
     check_choice,
     check_positive,
     check_range,
@@ -102,6 +103,18 @@ class Void:
         the closed form for geometries it does not cover; give it together with ``charge_per_field``.
     charge_per_field : float or None
         apparent charge per unit drop of the void field [C/(V/m)], likewise.
+    sealed : bool
+        False (default) for a vented void, whose gas keeps ``pressure`` at any ``temperature`` (its density
+        falls as it heats); True for a sealed void, which keeps the gas density it had when it was closed at
+        ``pressure`` and ``fill_temperature`` (its pressure rises in proportion to the absolute temperature,
+        ideal gas). The inception field depends on the density, so a sealed void keeps it when heated.
+    fill_temperature : float or None
+        gas temperature [K], 200 to 500 K, at which a sealed void held ``pressure``; defaults to
+        ``temperature`` (then sealed and vented agree). Only for ``sealed=True``.
+    secondary_emission : float or None
+        secondary-emission coefficient γ of the void wall as cathode [-], in (0, 1], for the Townsend branch of
+        the inception criterion; default: the gas's reference γ (0.01 for air, see
+        :data:`pdvoid.physics.townsend.WALL_SECONDARY_EMISSION`).
     """
 
     diameter: float
@@ -114,6 +127,9 @@ class Void:
     position: str = "centred"
     field_enhancement: float | None = None
     charge_per_field: float | None = None
+    sealed: bool = False
+    fill_temperature: float | None = None
+    secondary_emission: float | None = None
 
     def __post_init__(self) -> None:
         _set(self, "diameter", check_range("void.diameter", self.diameter, 1e-7, 1.0, unit="m"))
@@ -134,6 +150,24 @@ class Void:
                                                         low_open=True))
             _set(self, "charge_per_field", check_positive("void.charge_per_field", self.charge_per_field,
                                                           "C/(V/m)"))
+        _set(self, "sealed", check_bool("void.sealed", self.sealed))
+        if self.fill_temperature is not None:
+            if not self.sealed:
+                raise InputError(f"void.fill_temperature applies only to a sealed void (void.sealed = true); got "
+                                 f"{self.fill_temperature!r} with sealed = false")
+            _set(self, "fill_temperature", check_range("void.fill_temperature", self.fill_temperature, 200.0,
+                                                       500.0, unit="K"))
+        if self.secondary_emission is not None:
+            _set(self, "secondary_emission", check_range("void.secondary_emission", self.secondary_emission, 0.0,
+                                                         1.0, low_open=True))
+
+    @property
+    def gas_pressure(self) -> float:
+        """Pressure of the gas at ``temperature`` [Pa]: ``pressure`` when vented; for a sealed void the fill
+        pressure scaled by temperature / fill_temperature (constant density, ideal gas)."""
+        if not self.sealed or self.fill_temperature is None:
+            return float(self.pressure)
+        return float(self.pressure) * float(self.temperature) / float(self.fill_temperature)
 
     @property
     def streamer_length(self) -> float:

@@ -44,7 +44,9 @@ _DIMS: dict[str, dict[str, tuple[str | None, str]]] = {
     "void": {"diameter": ("length", "m"), "height": ("length", "m"), "pressure": ("pressure", "Pa"),
              "gas": (None, ""), "temperature": ("temperature", "K"), "shape": (None, ""),
              "inception_length": ("length", "m"), "position": (None, ""),
-             "field_enhancement": ("dimensionless", ""), "charge_per_field": ("charge per field", "C/(V/m)")},
+             "field_enhancement": ("dimensionless", ""), "charge_per_field": ("charge per field", "C/(V/m)"),
+             "sealed": (None, ""), "fill_temperature": ("temperature", "K"),
+             "secondary_emission": ("dimensionless", "")},
     "sine": {"rms": ("voltage", "V"), "frequency": ("frequency", "Hz"), "harmonics": (None, "")},
     "periodic": {"samples": (None, ""), "frequency": ("frequency", "Hz"), "max_harmonic": (None, "")},
 }

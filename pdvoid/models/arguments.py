@@ -97,6 +97,8 @@ class KernelArguments:
         """
         from pdvoid.inputs.waveform import evaluate
 
+        if not np.isfinite(self.x_inc):
+            return 1  # no self-sustained discharge is possible: the void never reaches an infinite x_inc
         v = scale * evaluate(self.seg_fracs, self.orders, self.a_coef, self.b_coef)
         swing = abs(self.gain) * float(np.sum(np.abs(np.diff(v))))
         vmax = abs(self.gain) * float(np.max(np.abs(v)))

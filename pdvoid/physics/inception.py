@@ -24,7 +24,12 @@ from pdvoid.physics.checks import broadcast as _broadcast
 from pdvoid.physics.checks import shape_out as _shape_out
 from pdvoid.physics.checks import values as _values
 from pdvoid.physics.gas_density import density_equivalent_pressure
-from pdvoid.physics.ionization import ionization_integral_inception_field, sf6_ionization_integral_inception_field
+from pdvoid.physics.ionization import (
+    critical_field_air,
+    ionization_integral_inception_field,
+    sf6_ionization_integral_inception_field,
+)
+from pdvoid.physics.townsend import InceptionResult, combine_criteria
 
 if TYPE_CHECKING:
     from pdvoid.inputs.materials import GasData
@@ -36,6 +41,7 @@ __all__ = [
     "paschen_minimum",
     "empirical_air_breakdown_voltage",
     "gas_inception_field",
+    "inception_criterion",
 ]
 
 
@@ -216,42 +222,59 @@ def empirical_air_breakdown_voltage(gap: npt.ArrayLike, pressure: npt.ArrayLike 
 
 
 def gas_inception_field(gas: str | GasData, pressure: float, length: float, temperature: float = T_ROOM,
-                        criterion: str = "streamer", k_streamer: float | None = None) -> float:
+                        criterion: str = "streamer", k_streamer: float | None = None, *,
+                        secondary_emission: float | None = None, combined: bool = True) -> float:
     """Inception field of a named gas (or a :class:`pdvoid.inputs.materials.GasData`) from its parameter set.
 
-    criterion "streamer" uses :func:`streamer_inception_field` with the gas's (E/p)_cr, B, n;
-    "ionization_integral" uses the gas's ionisation model: Morrow–Lowke for air
-    (:func:`ionization_integral_inception_field`) or the linear SF6 fit
-    (:func:`sf6_ionization_integral_inception_field`), with K from the parameter set unless ``k_streamer``
-    is given. Other gases (e.g. nitrogen) have no ionisation model here.
+    With ``combined=True`` (default) the value of :func:`inception_criterion`: the chosen streamer criterion
+    joined with the Townsend criterion and the Paschen-minimum floor (``math.inf`` where no self-sustained
+    discharge is possible; its ``reason`` says why). With ``combined=False`` the streamer criterion alone:
+    "streamer" uses :func:`streamer_inception_field` with the gas's (E/p)_cr, B, n; "ionization_integral"
+    uses the gas's ionisation model, Morrow–Lowke for air (:func:`ionization_integral_inception_field`) or the
+    linear SF6 fit (:func:`sf6_ionization_integral_inception_field`), with K from the parameter set unless
+    ``k_streamer`` is given. Other gases (e.g. nitrogen) have no ionisation model here.
+
+    Validity: see :func:`inception_criterion` (combined) and the criteria used.
 
     Parameters
     ----------
     gas : str or GasData
-        gas name in the built-in parameter set ("air", "nitrogen", "sf6") or a GasData.
+        Gas name in the built-in parameter set ("air", "nitrogen", "sf6") or a GasData.
     pressure : float
-        gas pressure p [Pa], > 0.
+        Gas pressure p [Pa], > 0.
     length : float
-        discharge length l [m], > 0.
-    temperature : float, optional
-        gas temperature T [K], > 0.
-    criterion : str, optional
+        Discharge length l [m], > 0.
+    temperature : float
+        Gas temperature T [K], > 0.
+    criterion : str
         "streamer" or "ionization_integral".
     k_streamer : float, optional
-        threshold K [-] overriding the parameter set (ionization_integral only).
+        Threshold K [-] overriding the parameter set (ionization_integral only).
+    secondary_emission : float, optional
+        γ of the cathode wall [-] for the Townsend branch (default: the gas's reference γ).
+    combined : bool
+        Join with the Townsend branch (True) or return the streamer criterion alone.
 
     Returns
     -------
     float
-        Inception field [V/m].
+        Inception field [V/m]; ``math.inf`` (combined only) where no self-sustained discharge is possible.
 
     References
     ----------
-    niemeyer1995, illias2011, morrow1997, pedersen1970 (see the functions used).
+    niemeyer1995, illias2011, morrow1997, pedersen1970, bazelyan1998, hvc_paschen (see the functions used).
     """
-    from pdvoid.inputs.materials import GasData, get_gas, list_gases
+    if combined:
+        return inception_criterion(gas, pressure, length, temperature, criterion=criterion, k_streamer=k_streamer,
+                                   secondary_emission=secondary_emission).field
+    if secondary_emission is not None:
+        raise InputError("secondary_emission applies only with combined=True (the Townsend branch)")
+    return _streamer_criterion(gas, pressure, length, temperature, criterion, k_streamer)
 
-    data = gas if isinstance(gas, GasData) else get_gas(gas)  # get_gas raises InputError for unknown names
+
+def _streamer_criterion(gas: object, pressure: float, length: float, temperature: float, criterion: str,
+                        k_streamer: float | None) -> float:
+    data = _gas_data(gas)
     check_choice("criterion", criterion, ("streamer", "ionization_integral"))
     if criterion == "streamer":
         if k_streamer is not None:
@@ -261,6 +284,8 @@ def gas_inception_field(gas: str | GasData, pressure: float, length: float, temp
             pressure, length, critical_reduced_field=data.critical_reduced_field, b_constant=data.b_constant,
             exponent=data.exponent, temperature=temperature))
     if data.ionization_model is None:
+        from pdvoid.inputs.materials import get_gas, list_gases
+
         available = [g for g in list_gases() if get_gas(g).ionization_model is not None]
         raise InputError(f"criterion='ionization_integral' needs an ionisation model; gas {data.name!r} has "
                          f"none. Built-in gases with one: {', '.join(available)}")
@@ -270,3 +295,71 @@ def gas_inception_field(gas: str | GasData, pressure: float, length: float, temp
     if data.ionization_model == "morrow_lowke_air":
         return ionization_integral_inception_field(length, pressure, temperature, k_streamer=k)
     return sf6_ionization_integral_inception_field(length, pressure, temperature, k_streamer=k)
+
+
+def _gas_data(gas: object) -> GasData:
+    from pdvoid.inputs.materials import GasData, get_gas
+
+    if isinstance(gas, GasData):
+        return gas
+    return get_gas(gas)  # type: ignore[arg-type]  # get_gas raises InputError for unknown names and non-strings
+
+
+def inception_criterion(gas: str | GasData, pressure: float, length: float, temperature: float = T_ROOM, *,
+                        criterion: str = "streamer", k_streamer: float | None = None,
+                        secondary_emission: float | None = None) -> InceptionResult:
+    """The gas-breakdown criterion valid from below the Paschen minimum to cm gaps, with its regime and reason.
+
+    The streamer criterion named by ``criterion`` (see :func:`gas_inception_field` with ``combined=False``) is
+    joined with the Townsend criterion and the Paschen-minimum floor of
+    :mod:`pdvoid.physics.townsend`:
+
+        E_inc = max(E_floor, min(E_Townsend, E_streamer))
+
+    i.e. the discharge starts by whichever mechanism needs the lower field, but never below the measured lower
+    envelope of the Paschen curve; left of the Paschen asymptote no self-sustained discharge exists and the
+    field is ``math.inf`` (regime "no self-sustained discharge"). Where the ionisation integral cannot reach K
+    at any field (gap too short for a streamer), its field counts as infinite and the Townsend branch decides.
+    The rule and its sources are given in :func:`pdvoid.physics.townsend.combine_criteria`.
+
+    Validity: p·l (density-equivalent pressure × length) from 0 to 1e4 Pa m (about 10 cm at 1 atm), with a
+    :class:`~pdvoid.core.validity.ValidityWarning` above; for gases without Townsend constants (SF6) the
+    streamer criterion alone, with a ValidityWarning below its range. Air with the streamer formula: within
+    5 % of the empirical uniform-field curve from 0.1 mm to 1 cm at 1 atm, 327 V minimum near 0.57 Torr cm.
+
+    Parameters
+    ----------
+    gas : str or GasData
+        Gas name ("air", "nitrogen", "sf6") or a GasData.
+    pressure : float
+        Gas pressure p [Pa], > 0.
+    length : float
+        Discharge length l along the field [m], > 0.
+    temperature : float
+        Gas temperature T [K], > 0.
+    criterion : str
+        "streamer" (formula) or "ionization_integral".
+    k_streamer : float, optional
+        Threshold K [-] of the ionisation integral (default: the parameter set's).
+    secondary_emission : float, optional
+        γ of the cathode wall [-], in (0, 1] (default: the gas's reference γ, 0.01 for air and nitrogen).
+
+    Returns
+    -------
+    pdvoid.physics.townsend.InceptionResult
+        ``field`` [V/m] (possibly ``math.inf``), ``voltage`` [V], ``regime``, ``reason`` and the parts.
+
+    References
+    ----------
+    niemeyer1995, illias2011, morrow1997, bazelyan1998, raizer1991, hvc_paschen, naidu2013, kuffel2000.
+    """
+    data = _gas_data(gas)
+    try:
+        e_s = _streamer_criterion(data, pressure, length, temperature, criterion, k_streamer)
+    except InputError:
+        if criterion != "ionization_integral" or data.ionization_model != "morrow_lowke_air":
+            raise
+        critical_field_air(pressure, temperature)  # re-raises when the density is outside the fits
+        e_s = math.inf  # the gap is too short for a streamer at any field
+    return combine_criteria(data, pressure, length, temperature, e_s, secondary_emission=secondary_emission,
+                            criterion=criterion)

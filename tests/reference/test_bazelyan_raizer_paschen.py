@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import math
 
+import numpy as np
 import pytest
 
 from pdvoid import InputError
@@ -127,3 +128,26 @@ def test_paschen_is_a_function_of_pd_only():
     v3 = paschen_voltage(20_000.0, 2e-3, temperature=2 * 293.15, **KW)
     assert v1 == pytest.approx(v2, rel=1e-12)
     assert v1 == pytest.approx(v3, rel=1e-12)
+
+
+# ------------------------------------------------------------------- the ionisation integral in the Townsend regime
+def test_ionisation_integral_not_above_townsend_in_townsend_regime():
+    # Source: bazelyan1998 Townsend constants (A = 15 /(cm Torr), B = 365 V/(cm Torr), gamma = 0.01, confirmed) and
+    # morrow1997 (alpha_eff, K = 9.15). A 50 um gap at 1 atm (3.8 Torr cm): the bare integral needs 912.6 V, 65 %
+    # above Townsend's 551.8 V (derived); the combined criterion returns the Townsend value, which is conservative.
+    from pdvoid.physics.inception import gas_inception_field, inception_criterion
+    from pdvoid.physics.townsend import townsend_breakdown_voltage
+
+    p, gap = 101325.0, 50e-6
+    v_t = townsend_breakdown_voltage(p, gap, **KW)
+    bare = gas_inception_field("air", p, gap, criterion="ionization_integral", combined=False) * gap
+    assert bare > 1.5 * v_t
+    r = inception_criterion("air", p, gap, criterion="ionization_integral")
+    assert r.regime == "townsend"
+    assert r.voltage == pytest.approx(v_t, rel=1e-12)
+    for g in np.geomspace(12e-6, 150e-6, 15):  # the Townsend regime at 1 atm (inside the A, B range <= 20 Pa m)
+        # never above the Townsend value (or the Paschen-minimum floor where that is higher), never below the floor
+        r = inception_criterion("air", p, g, criterion="ionization_integral")
+        floor = r.floor_field * g
+        assert r.voltage <= max(townsend_breakdown_voltage(p, g, **KW), floor) * (1 + 1e-12)
+        assert r.voltage >= floor * (1 - 1e-12)

@@ -84,8 +84,13 @@ def test_gas_values():
     assert sf6.paschen_a is None
     # Source: physics brief §11: air 1.000585 (thelen.us), N2 ~1.00055, SF6 ~1.002 (from memory)
     assert air.permittivity == 1.000585 and n2.permittivity == 1.00055 and sf6.permittivity == 1.002
-    # Source: physics brief §6: N2 breakdown 30.4 kV at 1 cm, 101.3 kPa vs air's empirical 30.29 kV -> 24.3
-    assert n2.critical_reduced_field == pytest.approx(24.2 * 30.4 / 30.293, rel=2e-3)
+    # Source: physics brief §6: N2 breakdown 30.4 kV at 1 cm, 101.3 kPa (confirmed), against the streamer formula's
+    # own air value at 1 cm and 1 atm, 31.145 kV (derived; the empirical curve's 30.29 kV gave 24.3 and 31.27 kV)
+    assert n2.critical_reduced_field == pytest.approx(24.2 * 30.4 / 31.1454, rel=1e-5)
+    # Source: hvc_paschen (confirmed) 327 V at 7.5 um, 1 atm; naidu2013 (from memory) N2 251 V at 0.67 Torr cm
+    assert air.paschen_minimum_voltage == 327.0 and air.paschen_minimum_pd == pytest.approx(7.5e-6 * 101325.0)
+    assert n2.paschen_minimum_voltage == 251.0 and n2.paschen_minimum_pd == pytest.approx(0.67 * 1.33322368, rel=1e-5)
+    assert sf6.paschen_minimum_voltage is None
 
 
 def test_builtin_files_only_use_valid_statuses():
@@ -248,3 +253,20 @@ def test_file_problems(tmp_path):
         load_materials(empty)
     with pytest.raises(InputError, match="path"):
         load_materials(42)  # type: ignore[arg-type]
+
+
+def test_user_gas_paschen_minimum_needs_its_pair_and_the_paschen_constants(tmp_path):
+    # Source: gases.toml schema: paschen_minimum_voltage and paschen_minimum_pd go together, with A, B, gamma.
+    path = tmp_path / "gas.toml"
+    v = 'paschen_minimum_voltage = {value = 251.0, unit = "V", status = "from memory", source = "naidu2013"}\n'
+    pd = 'paschen_minimum_pd = {value = 0.893, unit = "Pa m", status = "from memory", source = "naidu2013"}\n'
+    path.write_text(GAS_OK + v + pd, encoding="utf-8")
+    g = get_gas("dry_nitrogen", path=str(path))
+    assert (g.paschen_minimum_voltage, g.paschen_minimum_pd) == (251.0, 0.893)
+    path.write_text(GAS_OK + v, encoding="utf-8")
+    with pytest.raises(InputError, match="paschen_minimum_voltage and paschen_minimum_pd go together"):
+        get_gas("dry_nitrogen", path=str(path))
+    no_paschen = "\n".join(x for x in GAS_OK.splitlines() if not x.startswith(("paschen_", "secondary_")))
+    path.write_text(no_paschen + "\n" + v + pd, encoding="utf-8")
+    with pytest.raises(InputError, match="need paschen_a"):
+        get_gas("dry_nitrogen", path=str(path))
