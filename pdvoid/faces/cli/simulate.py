@@ -5,13 +5,17 @@ from __future__ import annotations
 import argparse
 import json
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 from pdvoid.coefficients import compute_coefficients
 from pdvoid.faces.cli.output import SAFETY
 from pdvoid.inputs.demo import DEMO_SERVICE_RMS, DEMO_TEST_RMS, demo_scenario
 
+if TYPE_CHECKING:
+    from pdvoid.simulation.results import Result
 
-def _run_summary(result) -> dict:
+
+def _run_summary(result: Result) -> dict[str, float]:
     from pdvoid.analysis.summary import run_summary
 
     return run_summary(result)
@@ -83,8 +87,14 @@ def _cmd_simulate(ns: argparse.Namespace) -> int:
 
 
 
-def register(sub) -> None:
-    """Add the ``demo`` and ``simulate`` commands to the sub-parsers ``sub``."""
+def register(sub: argparse._SubParsersAction[argparse.ArgumentParser]) -> None:
+    """Add the ``demo`` and ``simulate`` commands to the sub-parsers ``sub``.
+
+    Parameters
+    ----------
+    sub : argparse._SubParsersAction
+        The sub-parsers of the main parser (from ``ArgumentParser.add_subparsers``).
+    """
     d = sub.add_parser("demo", help="run the built-in demo scenario (an invented example)")
     d.add_argument("--cycles", type=int, default=2000, help="AC cycles to simulate (default 2000)")
     d.add_argument("--seed", type=int, default=1, help="random seed (default 1)")
