@@ -18,7 +18,7 @@ from pdvoid.simulation.results import Result
 __all__ = ["compare"]
 
 
-def _stored_events(obj: object, name: str) -> Events:
+def _stored_events(obj: Result | Events, name: str) -> Events:
     ev = as_events(obj)
     recorded = getattr(obj, "event_count", ev.count)
     if not isinstance(obj, Events) and int(recorded) != ev.count:

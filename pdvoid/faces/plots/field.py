@@ -107,7 +107,7 @@ def _stored(ev: Events) -> _StoredEvents:
     )
 
 
-def _result_parts(result: object) -> tuple[_StoredEvents, Scenario]:
+def _result_parts(result: Result) -> tuple[_StoredEvents, Scenario]:
     ev = getattr(result, "events", None)
     scenario = getattr(result, "scenario", None)
     if not isinstance(ev, Events) or not isinstance(scenario, Scenario):

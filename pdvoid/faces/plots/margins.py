@@ -54,7 +54,7 @@ _DISPLAY = {
 _TABLE_FIELDS = ("parameter", "unit", "values", "inception_voltage", "extinction_voltage")
 
 
-def _check_tables(tables: object) -> list[Any]:
+def _check_tables(tables: MarginTable | Iterable[MarginTable]) -> list[Any]:
     candidates: Any = [tables] if all(hasattr(tables, f) for f in _TABLE_FIELDS) else tables
     try:
         items = list(candidates)
@@ -264,7 +264,7 @@ def inception_chart(
     return ax
 
 
-def _check_rows(rows: object) -> list[tuple[str, float, float, float]]:
+def _check_rows(rows: Iterable[tuple[str, float, float, float]]) -> list[tuple[str, float, float, float]]:
     if isinstance(rows, (str, bytes)) or not isinstance(rows, Iterable):
         raise InputError(f"rows must be a list of (label, low_value, high_value, base_value); got {rows!r}")
     out = []

@@ -129,7 +129,7 @@ def pattern_mesh(
     return PatternMesh(x, y, np.asarray(z, dtype=float), charge_scale == "log", float(pat.cycles))
 
 
-def _supply_of(data: object, supply: Sine | Periodic | None) -> Sine | Periodic | None:
+def _supply_of(data: PhasePattern | Result | Events, supply: Sine | Periodic | None) -> Sine | Periodic | None:
     if supply is not None:
         if not hasattr(supply, "fourier"):
             raise InputError(f"supply must be a pdvoid Sine or Periodic supply; got {type(supply).__name__}")

@@ -224,14 +224,14 @@ def colour_cycle(n: int) -> list[tuple[float, float, float, float]]:
     return [cmap(x) for x in np.linspace(0.0, 0.72, n)]
 
 
-def plain_number(value: float, _pos: object = None) -> str:
+def plain_number(value: float, _pos: int | None = None) -> str:
     """A tick label without powers of ten: 0.002, 50, 1000 (a true minus sign).
 
     Parameters
     ----------
     value : float
         The tick value [display unit].
-    _pos : object, optional
+    _pos : int, optional
         The tick position matplotlib passes to a formatter (unused).
 
     Returns
@@ -262,7 +262,7 @@ def plain_log_ticks(axis: Axis, low: float, high: float) -> None:
         axis.set_major_formatter(FuncFormatter(plain_number))
         return
 
-    def minor(value: float, _pos: object = None) -> str:
+    def minor(value: float, _pos: int | None = None) -> str:
         if value <= 0.0:
             return ""
         lead = int(round(value / 10.0 ** np.floor(np.log10(value) + 1e-12)))
