@@ -232,7 +232,7 @@ def plain_number(value: float, _pos: int | None = None) -> str:
     value : float
         The tick value [display unit].
     _pos : int, optional
-        The tick position matplotlib passes to a formatter (unused).
+        The tick position matplotlib passes to a formatter (unused) [-].
 
     Returns
     -------
