@@ -23,7 +23,7 @@ from pdvoid.faces.workbench.session import Outcome, WorkbenchSession, describe
 from pdvoid.inputs.scenario import Scenario
 
 if TYPE_CHECKING:
-    import ipywidgets as widgets
+    import ipywidgets
 
 __all__ = ["Workbench", "open_workbench"]
 
@@ -95,7 +95,7 @@ class Workbench:
         self.update_now()
 
     # ---- public --------------------------------------------------------------------------------------------
-    def show(self) -> widgets.VBox:
+    def show(self) -> ipywidgets.VBox:
         """The panel widget (display it, or leave it as a cell's last expression).
 
         Returns
@@ -106,7 +106,7 @@ class Workbench:
         return self.panel.root
 
     @property
-    def widgets(self) -> dict[str, widgets.DOMWidget]:
+    def widgets(self) -> dict[str, ipywidgets.DOMWidget]:
         """The control widgets by control name (see :data:`pdvoid.faces.workbench.controls.SPECS`)."""
         return self.panel.controls
 
@@ -304,7 +304,7 @@ class Workbench:
         self.worker.request()
 
 
-def _put_image(widget: widgets.Image, png: bytes) -> None:
+def _put_image(widget: ipywidgets.Image, png: bytes) -> None:
     """Show ``png`` in an Image widget; an empty value hides it (no broken-image icon)."""
     widget.value = png
     widget.layout.display = "" if png else "none"
