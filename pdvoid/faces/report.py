@@ -17,7 +17,7 @@ import numpy as np
 
 from pdvoid._version import __version__
 from pdvoid.analysis.inception import InceptionEstimate, inception
-from pdvoid.analysis.margins import largest_pd_free_void, margin_table
+from pdvoid.analysis.margins import MarginTable, largest_pd_free_void, margin_table
 from pdvoid.analysis.summary import run_summary
 from pdvoid.coefficients import compute_coefficients
 from pdvoid.core.errors import InputError, check_int, check_positive
@@ -62,11 +62,16 @@ SENSITIVITY_INPUTS = (
 class SensitivityRow:
     """One input varied by ±change (values SI; NaN where the varied scenario is not valid).
 
-    Attributes:
-        parameter, label: scenario path and readable name.
-        low, high: the input at (1 − change) and (1 + change) times its value [SI].
-        inception_low, inception_high, inception_base: inception voltage [V rms].
-        charge_low, charge_high, charge_base: lag-free apparent charge per discharge [C].
+    Attributes
+    ----------
+    parameter, label : str
+        Scenario path and readable name [-].
+    low, high : float
+        The input at (1 − change) and (1 + change) times its value [SI].
+    inception_low, inception_high, inception_base : float
+        Inception voltage [V rms].
+    charge_low, charge_high, charge_base : float
+        Lag-free apparent charge per discharge [C].
     """
 
     parameter: str
@@ -83,8 +88,28 @@ class SensitivityRow:
 
 def sensitivity(scenario: Scenario, change: float = 0.2) -> list[SensitivityRow]:
     """Inception voltage and lag-free charge per discharge when each input of :data:`SENSITIVITY_INPUTS` is
-    lowered and raised by ``change`` (a fraction, 0 < change < 1) [-], all else kept. Recomputed from the
-    coefficients of ``scenario.replace(...)``; a variation that makes the scenario invalid gives NaN."""
+    lowered and raised by ``change``, all else kept.
+
+    Recomputed from the coefficients of ``scenario.replace(...)``; a variation that makes the scenario invalid
+    gives NaN.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The design [-].
+    change : float
+        The relative change, a fraction, 0 < change < 1 [-].
+
+    Returns
+    -------
+    list of SensitivityRow
+        One row per input of :data:`SENSITIVITY_INPUTS`, in that order.
+
+    Raises
+    ------
+    InputError
+        For anything but a Scenario, or a change outside (0, 1).
+    """
     if not isinstance(scenario, Scenario):
         raise InputError(f"scenario must be a pdvoid.Scenario; got {type(scenario).__name__}")
     change = check_positive("change", change)
@@ -120,7 +145,25 @@ def sensitivity(scenario: Scenario, change: float = 0.2) -> list[SensitivityRow]
 
 
 def at_voltage(scenario: Scenario, rms: float) -> Scenario:
-    """``scenario`` with its supply scaled to ``rms`` [V] (a sine's rms replaced; periodic samples scaled)."""
+    """``scenario`` with its supply scaled to ``rms`` (a sine's rms replaced; periodic samples scaled).
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The design [-].
+    rms : float
+        The new rms voltage [V].
+
+    Returns
+    -------
+    Scenario
+        The scaled scenario.
+
+    Raises
+    ------
+    InputError
+        For a voltage that is not positive.
+    """
     rms = check_positive("rms", rms, "V")
     if isinstance(scenario.supply, Periodic):
         s = scenario.supply
@@ -132,16 +175,26 @@ def at_voltage(scenario: Scenario, rms: float) -> Scenario:
 class ReviewPack:
     """What :func:`design_review` wrote.
 
-    Attributes:
-        path: the PDF.
-        pages: number of pages [-].
-        page_titles: title of each page.
-        page_texts: all text drawn on each page (for search and checks).
-        figures: PNG/SVG files written next to the PDF.
-        estimate: inception and extinction of the scenario (V rms).
-        result: the simulation at the test voltage.
-        test_voltage, service_voltage: [V rms] (service None when not given).
-        margin: inception voltage / test voltage [-].
+    Attributes
+    ----------
+    path : pathlib.Path
+        The PDF.
+    pages : int
+        Number of pages [-].
+    page_titles : tuple of str
+        Title of each page.
+    page_texts : tuple of str
+        All text drawn on each page (for search and checks).
+    figures : tuple of pathlib.Path
+        PNG/SVG files written next to the PDF.
+    estimate : InceptionEstimate
+        Inception and extinction of the scenario (V rms).
+    result : Result
+        The simulation at the test voltage.
+    test_voltage, service_voltage : float
+        Test and service level (service None when not given) [V rms].
+    margin : float
+        Inception voltage / test voltage [-].
     """
 
     path: Path
@@ -156,7 +209,7 @@ class ReviewPack:
     margin: float
 
 
-def _check_out(out: object, figures: object) -> tuple[Path, str | None]:
+def _check_out(out: str | os.PathLike[str], figures: str | None) -> tuple[Path, str | None]:
     if not isinstance(out, (str, os.PathLike)):
         raise InputError(f"out must be a file path ending in .pdf; got {out!r}")
     path = Path(out)
@@ -176,7 +229,7 @@ def design_review(
     service_voltage: float | None = None,
     cycles: int = 2000,
     seed: int = 1,
-    out: str | os.PathLike = "review.pdf",
+    out: str | os.PathLike[str] = "review.pdf",
     figures: str | None = None,
 ) -> ReviewPack:
     """Write the design-review pack of ``scenario`` as a multi-page PDF.
@@ -186,20 +239,32 @@ def design_review(
     (:func:`pdvoid.analysis.margins.margin_table`) for the scenario's pressure and half of it; the sensitivity
     chart varies each input by ±20 % (:func:`sensitivity`).
 
-    Parameters:
-        scenario: the design [-]
-        test_voltage: test level [V rms]
-        service_voltage: service level [V rms], optional
-        cycles: cycles simulated at the test voltage, 1 ... 1000000 [-]
-        seed: random seed, 0 ... 2**32 − 1 [-]
-        out: the PDF file (its folder must exist) [-]
-        figures: None, "png" or "svg": also write each chart as a file next to the PDF [-]
+    Parameters
+    ----------
+    scenario : Scenario
+        The design [-].
+    test_voltage : float
+        Test level [V rms].
+    service_voltage : float, optional
+        Service level [V rms].
+    cycles : int
+        Cycles simulated at the test voltage, 1 ... 1000000 [-].
+    seed : int
+        Random seed, 0 ... 2**32 − 1 [-].
+    out : str or os.PathLike
+        The PDF file (its folder must exist) [-].
+    figures : str, optional
+        None, "png" or "svg": also write each chart as a file next to the PDF [-].
 
-    Returns:
-        :class:`ReviewPack`.
+    Returns
+    -------
+    ReviewPack
+        What was written, with the estimate and the simulation.
 
-    Raises:
-        InputError: for a bad scenario, voltages, cycles, seed, path or figure format.
+    Raises
+    ------
+    InputError
+        For a bad scenario, voltages, cycles, seed, path or figure format.
     """
     from matplotlib.backends.backend_pdf import PdfPages
 
@@ -271,7 +336,7 @@ def design_review(
     )
 
 
-def _margin_tables(scenario: Scenario, test_voltage: float) -> list:
+def _margin_tables(scenario: Scenario, test_voltage: float) -> list[MarginTable]:
     """Inception against void size at the scenario's shape, for its pressure and half of it."""
     d, h, thick = scenario.void.diameter, scenario.void.height, scenario.insulation.thickness
     hi = min(5.0 * d, 0.5 * thick * d / h, 1.0)  # the closed forms need a void small against the thickness

@@ -4,12 +4,17 @@ from __future__ import annotations
 
 import argparse
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 import numpy as np
 
 from pdvoid.core.errors import InputError
 from pdvoid.core.units import parse_quantity
 from pdvoid.faces.cli.output import SAFETY, emit
+
+if TYPE_CHECKING:
+    from pdvoid.simulation.events import Events
+    from pdvoid.simulation.results import Result
 
 
 def _voltage(text: str) -> float:
@@ -28,7 +33,7 @@ def _time(text: str) -> float:
 
 
 
-def _load_events(path: str, cycles: int | None, frequency: float | None):
+def _load_events(path: str, cycles: int | None, frequency: float | None) -> Result | Events:
     p = Path(path)
     if p.suffix.lower() == ".npz":
         from pdvoid.simulation.results import load
@@ -43,11 +48,12 @@ def _cmd_pattern(ns: argparse.Namespace) -> int:
     from pdvoid.analysis.descriptors import fingerprint
     from pdvoid.analysis.patterns import pattern
     from pdvoid.analysis.quantities import iec60270
+    from pdvoid.simulation.events import as_events
 
     ev = _load_events(ns.file, ns.cycles, ns.frequency)
     pat = pattern(ev, phase_bins=ns.phase_bins, charge_bins=ns.charge_bins, charge_scale=ns.charge_scale)
     q = iec60270(ev)
-    events = getattr(ev, "events", ev)
+    events = as_events(ev)
     doc = {
         "file": ns.file,
         "cycles": events.cycles,
@@ -137,7 +143,14 @@ def _cmd_margin(ns: argparse.Namespace) -> int:
     return 0
 
 
-def register(sub) -> None:
+def register(sub: argparse._SubParsersAction[argparse.ArgumentParser]) -> None:
+    """Add the ``pattern``, ``inception`` and ``margin`` commands to the sub-parsers ``sub``.
+
+    Parameters
+    ----------
+    sub : argparse._SubParsersAction
+        The sub-parsers of the main parser (from ``ArgumentParser.add_subparsers``).
+    """
     p = sub.add_parser("pattern", help="phase-resolved pattern, IEC 60270 quantities and descriptors of a result "
                        "(.npz) or an events file")
     p.add_argument("file")

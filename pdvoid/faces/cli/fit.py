@@ -16,7 +16,24 @@ _DIMENSION = {"void.diameter": "length", "void.height": "length", "insulation.th
 
 
 def parse_vary(items: list[str]) -> dict[str, tuple[float, float]]:
-    """``["void.diameter=0.5mm:3mm", "model.residual_ratio=0.05:0.6"]`` → {name: (low, high)} in SI."""
+    """Parse ``--vary`` items: ``["void.diameter=0.5mm:3mm", "model.residual_ratio=0.05:0.6"]`` → {name: (low,
+    high)} in SI.
+
+    Parameters
+    ----------
+    items : list of str
+        ``NAME=LOW:HIGH`` with units [-].
+
+    Returns
+    -------
+    dict of str to tuple of float
+        The range of each name [SI].
+
+    Raises
+    ------
+    InputError
+        For an item without ``=`` and ``:`` or a value whose unit does not fit the name.
+    """
     out = {}
     for item in items:
         if "=" not in item or ":" not in item.split("=", 1)[1]:
@@ -67,7 +84,14 @@ def _cmd_fit(ns: argparse.Namespace) -> int:
     return 0
 
 
-def register(sub) -> None:
+def register(sub: argparse._SubParsersAction[argparse.ArgumentParser]) -> None:
+    """Add the ``fit`` command to the sub-parsers ``sub``.
+
+    Parameters
+    ----------
+    sub : argparse._SubParsersAction
+        The sub-parsers of the main parser (from ``ArgumentParser.add_subparsers``).
+    """
     f = sub.add_parser("fit", help="fit a void's parameters to a measured pattern file")
     f.add_argument("measured", help="events file (e.g. header 'phase [deg],charge [pC]')")
     f.add_argument("--scenario", required=True, help="starting scenario TOML")

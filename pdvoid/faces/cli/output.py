@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import json
 import math
+from typing import Any
 
 import numpy as np
 
@@ -15,8 +16,19 @@ SAFETY = (
 )
 
 
-def json_safe(obj):
-    """JSON-safe: NaN/inf → None, numpy → Python."""
+def json_safe(obj: object) -> object:
+    """A JSON-safe copy of ``obj``: NaN/inf → None, numpy → Python, dict keys as text.
+
+    Parameters
+    ----------
+    obj : object
+        A dict, list, tuple, numpy array or scalar, nested in any way.
+
+    Returns
+    -------
+    object
+        The same structure of dicts, lists and Python scalars.
+    """
     if isinstance(obj, dict):
         return {str(k): json_safe(v) for k, v in obj.items()}
     if isinstance(obj, (list, tuple)):
@@ -31,7 +43,18 @@ def json_safe(obj):
     return obj
 
 
-def emit(doc: dict, as_json: bool, text_lines: list[str]) -> None:
+def emit(doc: dict[str, Any], as_json: bool, text_lines: list[str]) -> None:
+    """Print a command's outcome: ``doc`` as strict JSON, or ``text_lines`` followed by the safety note.
+
+    Parameters
+    ----------
+    doc : dict
+        The outcome, for ``--json`` [-].
+    as_json : bool
+        Print JSON instead of text [-].
+    text_lines : list of str
+        The text report [-].
+    """
     if as_json:
         print(json.dumps(json_safe(doc), indent=2))
     else:
@@ -39,7 +62,25 @@ def emit(doc: dict, as_json: bool, text_lines: list[str]) -> None:
         print(SAFETY)
 
 
-def fmt(value: float, unit: str, scale: float = 1.0, digits: int = 4) -> str:
+def fmt(value: float | None, unit: str, scale: float = 1.0, digits: int = 4) -> str:
+    """A number with its unit, "n/a" for None or a non-finite value.
+
+    Parameters
+    ----------
+    value : float or None
+        The value [SI].
+    unit : str
+        The display unit written after the number [-].
+    scale : float
+        SI value per display unit [SI unit per display unit].
+    digits : int
+        Significant digits [-].
+
+    Returns
+    -------
+    str
+        E.g. "12.5 kV".
+    """
     if value is None or (isinstance(value, float) and not math.isfinite(value)):
         return "n/a"
     return f"{value / scale:.{digits}g} {unit}"

@@ -13,9 +13,20 @@ import argparse
 __all__ = ["register"]
 
 
-def register(subparsers: argparse._SubParsersAction) -> argparse.ArgumentParser:
-    """Add the ``report`` command to ``subparsers`` (from ``ArgumentParser.add_subparsers``); return its
-    parser. The command's function is stored as ``func`` and returns the exit code."""
+def register(subparsers: argparse._SubParsersAction[argparse.ArgumentParser]) -> argparse.ArgumentParser:
+    """Add the ``report`` command to ``subparsers``. The command's function is stored as ``func`` and returns
+    the exit code.
+
+    Parameters
+    ----------
+    subparsers : argparse._SubParsersAction
+        The sub-parsers of the main parser (from ``ArgumentParser.add_subparsers``).
+
+    Returns
+    -------
+    argparse.ArgumentParser
+        The parser of the ``report`` command.
+    """
     p = subparsers.add_parser(
         "report",
         help="write a design-review pack (multi-page PDF, optional PNG/SVG figures) for a scenario file",

@@ -95,8 +95,14 @@ def _cmd_simulate(ns: argparse.Namespace) -> int:
 
 
 
-def register(sub) -> None:
-    """Add the ``demo`` and ``simulate`` commands to the sub-parsers ``sub``."""
+def register(sub: argparse._SubParsersAction[argparse.ArgumentParser]) -> None:
+    """Add the ``demo`` and ``simulate`` commands to the sub-parsers ``sub``.
+
+    Parameters
+    ----------
+    sub : argparse._SubParsersAction
+        The sub-parsers of the main parser (from ``ArgumentParser.add_subparsers``).
+    """
     d = sub.add_parser("demo", help="run the built-in demo scenario (an invented example)")
     d.add_argument("--cycles", type=int, default=2000, help="AC cycles to simulate (default 2000)")
     d.add_argument("--seed", type=int, default=1, help="random seed (default 1)")

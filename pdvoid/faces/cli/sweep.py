@@ -16,8 +16,19 @@ from pdvoid.faces.cli.output import SAFETY
 __all__ = ["register", "run"]
 
 
-def register(subparsers) -> argparse.ArgumentParser:
-    """Add the ``sweep`` command to an argparse sub-parser collection; returns its parser."""
+def register(subparsers: argparse._SubParsersAction[argparse.ArgumentParser]) -> argparse.ArgumentParser:
+    """Add the ``sweep`` command to an argparse sub-parser collection.
+
+    Parameters
+    ----------
+    subparsers : argparse._SubParsersAction
+        The sub-parsers of the main parser (from ``ArgumentParser.add_subparsers``).
+
+    Returns
+    -------
+    argparse.ArgumentParser
+        The parser of the ``sweep`` command.
+    """
     p = subparsers.add_parser(
         "sweep",
         help="run a parameter sweep file (grid, random or Latin hypercube) and write a NetCDF file",
@@ -48,7 +59,24 @@ def register(subparsers) -> argparse.ArgumentParser:
 
 
 def run(ns: argparse.Namespace) -> int:
-    """Execute the parsed ``sweep`` command; InputError propagates to the caller (``pdvoid.faces.cli.command.main``)."""
+    """Execute the parsed ``sweep`` command.
+
+    Parameters
+    ----------
+    ns : argparse.Namespace
+        The parsed arguments of ``pdvoid sweep``.
+
+    Returns
+    -------
+    int
+        The exit status, 0.
+
+    Raises
+    ------
+    InputError
+        For a bad output path, sweep file or missing optional packages; it propagates to the caller
+        (``pdvoid.faces.cli.command.main``).
+    """
     from pdvoid.core.optional import MissingDependencyError
     from pdvoid.sweeps import sweep, write_netcdf
     from pdvoid.sweeps.files import read_sweep_file

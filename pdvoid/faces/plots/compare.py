@@ -3,19 +3,22 @@ overlaid."""
 
 from __future__ import annotations
 
+from collections.abc import Sequence
+
 import numpy as np
 from matplotlib.axes import Axes
 
 from pdvoid.analysis.patterns import half_cycle_distributions, pattern
 from pdvoid.core.errors import InputError, check_int
 from pdvoid.faces.plots.patterns import phase_pattern, rate_colorbar
-from pdvoid.faces.plots.style import NEGATIVE, POSITIVE, check_axes, finish_axes, new_figure
+from pdvoid.faces.plots.style import MESH, NEGATIVE, POSITIVE, attached, check_axes, finish_axes, new_figure
 from pdvoid.simulation.events import Events, as_events
+from pdvoid.simulation.results import Result
 
 __all__ = ["compare"]
 
 
-def _stored_events(obj: object, name: str) -> Events:
+def _stored_events(obj: Result | Events, name: str) -> Events:
     ev = as_events(obj)
     recorded = getattr(obj, "event_count", ev.count)
     if not isinstance(obj, Events) and int(recorded) != ev.count:
@@ -27,9 +30,9 @@ def _stored_events(obj: object, name: str) -> Events:
 
 
 def compare(
-    simulated: object,
-    measured: object,
-    axes: object | None = None,
+    simulated: Result | Events,
+    measured: Result | Events,
+    axes: Sequence[Axes] | None = None,
     *,
     phase_bins: int = 72,
     charge_bins: int = 60,
@@ -39,18 +42,29 @@ def compare(
     """Simulated and measured phase-resolved patterns side by side (same bins, same colour scale) and their
     per-half-cycle pulse counts (H_n per cycle) overlaid.
 
-    Parameters:
-        simulated, measured: discharge events or Results that stored them [-]
-        axes: three Axes (simulated pattern, measured pattern, overlay); None creates a figure [-]
-        phase_bins, charge_bins: pattern bins (the charge range spans both data sets) [-]
-        phase_windows: windows per half cycle of the overlay, 1 ... 3600 [-]
-        labels: names of the two data sets [-]
+    Parameters
+    ----------
+    simulated, measured : Result or Events
+        Discharge events or Results that stored them [-].
+    axes : sequence of matplotlib.axes.Axes, optional
+        Three Axes (simulated pattern, measured pattern, overlay); None creates a figure [-].
+    phase_bins, charge_bins : int
+        Pattern bins (the charge range spans both data sets) [-].
+    phase_windows : int
+        Windows per half cycle of the overlay, 1 ... 3600 [-].
+    labels : tuple of str
+        Names of the two data sets [-].
 
-    Returns:
-        [simulated pattern Axes, measured pattern Axes, overlay Axes].
+    Returns
+    -------
+    list of matplotlib.axes.Axes
+        [simulated pattern Axes, measured pattern Axes, overlay Axes]: the given ``axes``, or those of a new
+        figure when ``axes`` is None.
 
-    Raises:
-        InputError: for inputs without events, when neither holds a discharge, or bad axes/labels.
+    Raises
+    ------
+    InputError
+        For inputs without events, when neither holds a discharge, or bad axes/labels.
     """
     sim = _stored_events(simulated, "simulated")
     meas = _stored_events(measured, "measured")
@@ -93,7 +107,7 @@ def compare(
             colorbar=False,
         )
         ax.set_title(f"{title}: {int(p.total)} discharges in {p.cycles:g} cycles", fontsize=10)
-    rate_colorbar(ax_sim.pdvoid_mesh, [ax_sim, ax_meas])
+    rate_colorbar(attached(ax_sim, MESH), [ax_sim, ax_meas])
 
     finish_axes(ax_over)
     for ev, ls, name in ((sim, "-", labels[0]), (meas, "--", labels[1])):

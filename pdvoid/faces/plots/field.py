@@ -18,10 +18,22 @@ from matplotlib.lines import Line2D
 
 from pdvoid.coefficients import compute_coefficients
 from pdvoid.core.errors import InputError, check_int
-from pdvoid.faces.plots.style import FIGSIZE, LEVEL, NEGATIVE, POSITIVE, RESIDUAL, VOLTAGE, finish_axes, new_axes
+from pdvoid.faces.plots.style import (
+    FIGSIZE,
+    LEVEL,
+    NEGATIVE,
+    POSITIVE,
+    RESIDUAL,
+    TWIN,
+    VOLTAGE,
+    attach,
+    finish_axes,
+    new_axes,
+)
 from pdvoid.inputs.scenario import Scenario
 from pdvoid.inputs.waveform import evaluate
 from pdvoid.simulation.events import Events
+from pdvoid.simulation.results import Result
 
 __all__ = ["FieldTrace", "void_field_trace", "field_time"]
 
@@ -33,14 +45,22 @@ _KV_PER_MM = 1e6  # V/m per kV/mm
 class FieldTrace:
     """The void field over a time window, rebuilt from a result's events.
 
-    Attributes:
-        time: sample times [s]; every discharge time appears twice (field just before, then just after).
-        field: void field at ``time`` [V/m].
-        voltage: applied voltage at ``time`` [V].
-        gain: void field per applied volt, f/d [1/m].
-        inception_field, residual_field: E_inc and E_res in the void [V/m].
-        event_index: indices (into the result's events) of the discharges inside the window [-].
-        start, stop: the window [s].
+    Attributes
+    ----------
+    time : numpy.ndarray
+        Sample times; every discharge time appears twice (field just before, then just after) [s].
+    field : numpy.ndarray
+        Void field at ``time`` [V/m].
+    voltage : numpy.ndarray
+        Applied voltage at ``time`` [V].
+    gain : float
+        Void field per applied volt, f/d [1/m].
+    inception_field, residual_field : float
+        E_inc and E_res in the void [V/m].
+    event_index : numpy.ndarray
+        Indices (into the result's events) of the discharges inside the window [-].
+    start, stop : float
+        The window [s].
     """
 
     time: np.ndarray
@@ -54,7 +74,40 @@ class FieldTrace:
     stop: float
 
 
-def _result_parts(result: object) -> tuple[Events, object]:
+@dataclass(frozen=True, eq=False)
+class _StoredEvents:
+    """The event arrays of a Result that the trace reads, each a float array (Events fills a value it does not
+    know with NaN, so none is missing)."""
+
+    time: np.ndarray
+    cycle: np.ndarray
+    charge: np.ndarray
+    voltage: np.ndarray
+    field_before: np.ndarray
+    field_after: np.ndarray
+    count: int
+    cycles: float
+    frequency: float
+
+
+def _stored(ev: Events) -> _StoredEvents:
+    def arr(values: np.ndarray | None) -> np.ndarray:
+        return np.asarray(values, dtype=float)
+
+    return _StoredEvents(
+        arr(ev.time),
+        arr(ev.cycle),
+        ev.charge,
+        arr(ev.voltage),
+        arr(ev.field_before),
+        arr(ev.field_after),
+        ev.count,
+        ev.cycles,
+        ev.frequency,
+    )
+
+
+def _result_parts(result: Result) -> tuple[_StoredEvents, Scenario]:
     ev = getattr(result, "events", None)
     scenario = getattr(result, "scenario", None)
     if not isinstance(ev, Events) or not isinstance(scenario, Scenario):
@@ -69,18 +122,19 @@ def _result_parts(result: object) -> tuple[Events, object]:
             "run); "
             "the field-versus-time plot needs every event (simulate(..., histogram=False))"
         )
+    stored = _stored(ev)
     if ev.count and not (
-        np.all(np.isfinite(ev.time))
-        and np.all(np.isfinite(ev.voltage))
-        and np.all(np.isfinite(ev.field_after))
-        and np.all(np.isfinite(ev.field_before))
+        np.all(np.isfinite(stored.time))
+        and np.all(np.isfinite(stored.voltage))
+        and np.all(np.isfinite(stored.field_after))
+        and np.all(np.isfinite(stored.field_before))
     ):
         raise InputError("the field-versus-time plot needs the time, voltage and void fields of every event")
-    return ev, scenario
+    return stored, scenario
 
 
 def void_field_trace(
-    result: object, start_cycle: int = 0, cycles: int = 3, points_per_cycle: int = 720
+    result: Result, start_cycle: int = 0, cycles: int = 3, points_per_cycle: int = 720
 ) -> FieldTrace:
     """Rebuild the void field of a simulation over ``cycles`` whole cycles from ``start_cycle``.
 
@@ -88,14 +142,26 @@ def void_field_trace(
     E_q(t) = (field_after_k − g·voltage_k)·exp(−(t − t_k)/τ_q) (τ_q = model.charge_decay_time, inf for none);
     before the first discharge of the run E_q = 0 (the simulation starts from an uncharged void).
 
-    Parameters:
-        result: a simulation Result that stored its events [-]
-        start_cycle: first cycle shown, 0 ... result.cycles - 1 [-]
-        cycles: number of whole cycles, 1 ... 100 [-]
-        points_per_cycle: samples per cycle between discharges, 16 ... 100000 [-]
+    Parameters
+    ----------
+    result : Result
+        A simulation Result that stored its events [-].
+    start_cycle : int
+        First cycle shown, 0 ... result.cycles - 1 [-].
+    cycles : int
+        Number of whole cycles, 1 ... 100 [-].
+    points_per_cycle : int
+        Samples per cycle between discharges, 16 ... 100000 [-].
 
-    Returns:
-        :class:`FieldTrace`.
+    Returns
+    -------
+    FieldTrace
+        The rebuilt trace.
+
+    Raises
+    ------
+    InputError
+        For anything but a Result with stored events, or bad cycle numbers.
     """
     ev, scenario = _result_parts(result)
     total = int(round(ev.cycles))
@@ -153,7 +219,7 @@ def void_field_trace(
     )
 
 
-def _first_active_cycle(ev: Events, cycles: int) -> int:
+def _first_active_cycle(ev: _StoredEvents, cycles: int) -> int:
     total = int(round(ev.cycles))
     if ev.count == 0:
         return 0
@@ -162,7 +228,7 @@ def _first_active_cycle(ev: Events, cycles: int) -> int:
 
 
 def field_time(
-    result: object,
+    result: Result,
     cycles: int = 3,
     start_cycle: int | None = None,
     ax: Axes | None = None,
@@ -177,19 +243,31 @@ def field_time(
     so the voltage curve is also the field an uncharged void would see; the distance between the two curves is
     the field of the deposited charge.
 
-    Parameters:
-        result: a simulation Result that stored its events [-]
-        cycles: number of whole cycles shown, 1 ... 100 [-]
-        start_cycle: first cycle shown [-]; None: the first cycle with a discharge (or 0 without discharges)
-        ax: axes to draw into; None creates a figure [-]
-        points_per_cycle: samples per cycle of the trace, 16 ... 100000 [-]
-        legend: draw the legend below the axes [-]
+    Parameters
+    ----------
+    result : Result
+        A simulation Result that stored its events [-].
+    cycles : int
+        Number of whole cycles shown, 1 ... 100 [-].
+    start_cycle : int, optional
+        First cycle shown; None: the first cycle with a discharge (or 0 without discharges) [-].
+    ax : matplotlib.axes.Axes, optional
+        Axes to draw into; None creates a figure [-].
+    points_per_cycle : int
+        Samples per cycle of the trace, 16 ... 100000 [-].
+    legend : bool
+        Draw the legend below the axes [-].
 
-    Returns:
-        The Axes of the void field (the voltage axis is its twin).
+    Returns
+    -------
+    matplotlib.axes.Axes
+        ``ax``, or the Axes of a new figure when ``ax`` is None: the Axes of the void field (the voltage axis
+        is its twin, kept as ``ax.pdvoid_twin``).
 
-    Raises:
-        InputError: for anything but a Result with stored events, or bad cycle numbers.
+    Raises
+    ------
+    InputError
+        For anything but a Result with stored events, or bad cycle numbers.
     """
     ev, _ = _result_parts(result)
     cycles = check_int("cycles", cycles, 1, 100)
@@ -212,7 +290,7 @@ def field_time(
         fb = ev.field_before[idx] / _KV_PER_MM
         fa = ev.field_after[idx] / _KV_PER_MM
         colours = np.where(ev.charge[idx] >= 0.0, POSITIVE, NEGATIVE)
-        ax.vlines(t, fa, fb, colors=colours, lw=2.2, zorder=4)
+        ax.vlines(t, fa, fb, colors=list(colours), lw=2.2, zorder=4)
         ax.scatter(t, fb, s=14, c=colours, zorder=5, edgecolors="white", linewidths=0.4)
     else:
         ax.text(
@@ -241,7 +319,7 @@ def field_time(
         vax.spines[side].set_visible(False)
     ax.set_zorder(vax.get_zorder() + 1)
     ax.patch.set_visible(False)
-    ax.pdvoid_twin = vax  # the voltage axis, for callers that want to restyle it
+    attach(ax, TWIN, vax)  # the voltage axis, for callers that want to restyle it
 
     if legend:
         handles = [

@@ -4,12 +4,14 @@ chart."""
 from __future__ import annotations
 
 import math
-from collections.abc import Sequence
+from collections.abc import Iterable, Sequence
+from typing import Any
 
 import numpy as np
 from matplotlib.axes import Axes
 from matplotlib.lines import Line2D
 
+from pdvoid.analysis.margins import MarginTable
 from pdvoid.core.errors import InputError, check_positive, check_real
 from pdvoid.faces.plots.style import (
     FIGSIZE,
@@ -52,10 +54,10 @@ _DISPLAY = {
 _TABLE_FIELDS = ("parameter", "unit", "values", "inception_voltage", "extinction_voltage")
 
 
-def _check_tables(tables: object) -> list:
-    items = [tables] if all(hasattr(tables, f) for f in _TABLE_FIELDS) else tables
+def _check_tables(tables: MarginTable | Iterable[MarginTable]) -> list[Any]:
+    candidates: Any = [tables] if all(hasattr(tables, f) for f in _TABLE_FIELDS) else tables
     try:
-        items = list(items)  # type: ignore[arg-type]
+        items = list(candidates)
     except TypeError:
         raise InputError(
             f"tables must be a MarginTable or a list of them; got {type(tables).__name__}"
@@ -90,9 +92,26 @@ def _check_tables(tables: object) -> list:
 
 
 def crossings(x: np.ndarray, y: np.ndarray, level: float, *, log_x: bool = False) -> list[tuple[float, bool]]:
-    """Where the sampled curve y(x) crosses ``level``: (x, falling) pairs, by linear interpolation between
-    neighbouring finite samples (in log x when ``log_x``). ``falling`` is True where y drops below the level
-    as x grows [same units as x]."""
+    """Where the sampled curve y(x) crosses ``level``, by linear interpolation between neighbouring finite
+    samples (in log x when ``log_x``).
+
+    Parameters
+    ----------
+    x : numpy.ndarray
+        Sample positions [any unit].
+    y : numpy.ndarray
+        Curve values at ``x``; non-finite samples are skipped [any unit].
+    level : float
+        The level crossed [same unit as y].
+    log_x : bool
+        Interpolate in log x (where both neighbours are > 0) [-].
+
+    Returns
+    -------
+    list of tuple of (float, bool)
+        (x, falling) pairs: x of each crossing [same unit as x]; ``falling`` is True where y drops below the
+        level as x grows.
+    """
     x = np.asarray(x, dtype=float)
     y = np.asarray(y, dtype=float)
     out: list[tuple[float, bool]] = []
@@ -115,7 +134,7 @@ def crossings(x: np.ndarray, y: np.ndarray, level: float, *, log_x: bool = False
 
 
 def inception_chart(
-    tables: object,
+    tables: MarginTable | Iterable[MarginTable],
     service_voltage: float | None = None,
     test_voltage: float | None = None,
     ax: Axes | None = None,
@@ -127,21 +146,31 @@ def inception_chart(
     margin tables, with the service and test levels and the largest (or smallest) discharge-free value marked
     where an inception curve crosses the test level.
 
-    Parameters:
-        tables: a MarginTable (pdvoid.analysis.margins.margin_table) or a list of them over the same
-            parameter [-]
-        service_voltage: service level [V rms]; None: not drawn
-        test_voltage: test level [V rms]; None: the tables' own test_voltage, if any
-        ax: axes to draw into; None creates a figure [-]
-        labels: one legend label per table [-]; default: the tables' ``label`` attribute or "curve i"
-        extinction: draw the extinction voltages [-]
+    Parameters
+    ----------
+    tables : MarginTable or iterable of MarginTable
+        A MarginTable (pdvoid.analysis.margins.margin_table) or a list of them over the same parameter [-].
+    service_voltage : float, optional
+        Service level; None: not drawn [V rms].
+    test_voltage : float, optional
+        Test level; None: the tables' own test_voltage, if any [V rms].
+    ax : matplotlib.axes.Axes, optional
+        Axes to draw into; None creates a figure [-].
+    labels : sequence of str, optional
+        One legend label per table; default: the tables' ``label`` attribute or "curve i" [-].
+    extinction : bool
+        Draw the extinction voltages [-].
 
-    Returns:
-        The Axes.
+    Returns
+    -------
+    matplotlib.axes.Axes
+        ``ax``, or the Axes of a new figure when ``ax`` is None.
 
-    Raises:
-        InputError: for tables that are not MarginTables, sweep different parameters or hold no valid value,
-        and for non-positive voltages.
+    Raises
+    ------
+    InputError
+        For tables that are not MarginTables, sweep different parameters or hold no valid value, and for
+        non-positive voltages.
     """
     items = _check_tables(tables)
     if labels is not None:
@@ -193,21 +222,22 @@ def inception_chart(
     for level, text, style in ((service_voltage, "service", (0, (6, 2, 1, 2))), (test_voltage, "test", "-")):
         if level is None:
             continue
-        colour = LEVEL if text == "test" else VOLTAGE
-        ax.axhline(level / 1e3, color=colour, lw=1.2, ls=style, zorder=2)
+        level_colour = LEVEL if text == "test" else VOLTAGE
+        ax.axhline(level / 1e3, color=level_colour, lw=1.2, ls=style, zorder=2)
         handles.append(
-            Line2D([], [], color=colour, lw=1.2, ls=style, label=f"{text} voltage {level / 1e3:.3g} kV")
+            Line2D([], [], color=level_colour, lw=1.2, ls=style, label=f"{text} voltage {level / 1e3:.3g} kV")
         )
+    test_kv = math.nan if test_voltage is None else test_voltage / 1e3  # marks exist only with a test level
     for i, (xc, falling, colour) in enumerate(sorted(marks)):
         ax.plot(
-            [xc / factor], [test_voltage / 1e3], marker="o", ms=7, mfc="white", mec=colour, mew=2, zorder=5
+            [xc / factor], [test_kv], marker="o", ms=7, mfc="white", mec=colour, mew=2, zorder=5
         )
         ax.axvline(xc / factor, color=colour, lw=0.9, ls=":", zorder=2)
         word = "largest" if falling else "smallest"
         above = i % 2 == 0  # alternate above and below the test level so that neighbours do not collide
         ax.annotate(
             f"{word} discharge-free: {xc / factor:.3g} {dunit}",
-            (xc / factor, test_voltage / 1e3),
+            (xc / factor, test_kv),
             xytext=(7, 9 if above else -9),
             textcoords="offset points",
             va="bottom" if above else "top",
@@ -234,11 +264,11 @@ def inception_chart(
     return ax
 
 
-def _check_rows(rows: object) -> list[tuple[str, float, float, float]]:
-    if isinstance(rows, (str, bytes)) or not hasattr(rows, "__iter__"):
+def _check_rows(rows: Iterable[tuple[str, float, float, float]]) -> list[tuple[str, float, float, float]]:
+    if isinstance(rows, (str, bytes)) or not isinstance(rows, Iterable):
         raise InputError(f"rows must be a list of (label, low_value, high_value, base_value); got {rows!r}")
     out = []
-    for i, row in enumerate(rows):  # type: ignore[union-attr]
+    for i, row in enumerate(rows):
         if isinstance(row, (str, bytes)) or not hasattr(row, "__len__") or len(row) != 4:
             raise InputError(f"rows[{i}] must be (label, low_value, high_value, base_value); got {row!r}")
         label, low, high, base = row
@@ -258,7 +288,7 @@ def _check_rows(rows: object) -> list[tuple[str, float, float, float]]:
 
 
 def sensitivity_chart(
-    rows: object,
+    rows: Iterable[tuple[str, float, float, float]],
     ax: Axes | None = None,
     *,
     quantity: str = "inception voltage, rms",
@@ -268,19 +298,29 @@ def sensitivity_chart(
 ) -> Axes:
     """Tornado chart: how a result moves when each input is lowered or raised, largest swing on top.
 
-    Parameters:
-        rows: (label, low_value, high_value, base_value) per input, values in SI (e.g. V, C); a NaN low or
-            high value marks a variation outside the valid range and is labelled so [-]
-        ax: axes to draw into; None creates a figure [-]
-        quantity: what the values are (x-axis label) [-]
-        unit: display unit of the values, a key of pdvoid.core.units.UNITS (e.g. "kV", "pC") [-]
-        low_label, high_label: legend labels of the two variations [-]
+    Parameters
+    ----------
+    rows : iterable of tuple of (str, float, float, float)
+        (label, low_value, high_value, base_value) per input, values in SI (e.g. V, C); a NaN low or high
+        value marks a variation outside the valid range and is labelled so [-].
+    ax : matplotlib.axes.Axes, optional
+        Axes to draw into; None creates a figure [-].
+    quantity : str
+        What the values are (x-axis label) [-].
+    unit : str
+        Display unit of the values, a key of pdvoid.core.units.UNITS (e.g. "kV", "pC") [-].
+    low_label, high_label : str
+        Legend labels of the two variations [-].
 
-    Returns:
-        The Axes.
+    Returns
+    -------
+    matplotlib.axes.Axes
+        ``ax``, or the Axes of a new figure when ``ax`` is None.
 
-    Raises:
-        InputError: for malformed rows, non-finite base values or an unknown unit.
+    Raises
+    ------
+    InputError
+        For malformed rows, non-finite base values or an unknown unit.
     """
     items = _check_rows(rows)
     factor = display_factor(unit)

@@ -12,6 +12,8 @@ from functools import lru_cache
 
 from matplotlib.figure import Figure, SubFigure
 from matplotlib.font_manager import FontProperties
+from matplotlib.layout_engine import ConstrainedLayoutEngine
+from matplotlib.lines import Line2D
 from matplotlib.patches import FancyBboxPatch
 from matplotlib.text import Text
 from matplotlib.textpath import TextToPath
@@ -34,16 +36,48 @@ def _word_width(word: str, size: float, weight: str) -> float:
 
 
 def text_width(text: str, size: float, weight: str = "normal") -> float:
-    """Width of ``text`` in the default sans-serif font of ``size`` [in] (sum of word widths and spaces;
-    kerning across words is ignored)."""
+    """Width of ``text`` in the default sans-serif font (sum of word widths and spaces; kerning across words is
+    ignored).
+
+    Parameters
+    ----------
+    text : str
+        One line of text [-].
+    size : float
+        Font size [pt].
+    weight : str
+        Font weight, e.g. "normal" or "bold" [-].
+
+    Returns
+    -------
+    float
+        The width [in].
+    """
     words = text.split(" ")
     space = _word_width("a a", size, weight) - 2.0 * _word_width("a", size, weight)
     return sum(_word_width(w, size, weight) for w in words if w) + (len(words) - 1) * space
 
 
 def wrap(text: str, width: float, size: float, weight: str = "normal") -> list[str]:
-    """Greedy word wrap of ``text`` to ``width`` [in]; explicit newlines are kept; a word longer than the
-    width is cut."""
+    """Greedy word wrap of ``text`` to ``width``; explicit newlines are kept; a word longer than the width is
+    cut.
+
+    Parameters
+    ----------
+    text : str
+        The text [-].
+    width : float
+        Line width [in].
+    size : float
+        Font size [pt].
+    weight : str
+        Font weight, e.g. "normal" or "bold" [-].
+
+    Returns
+    -------
+    list of str
+        The lines.
+    """
     lines: list[str] = []
     for para in text.split("\n"):
         words = para.split()
@@ -72,7 +106,18 @@ def wrap(text: str, width: float, size: float, weight: str = "normal") -> list[s
 
 
 def figure_text(fig: Figure) -> str:
-    """All text drawn on a figure (titles, labels, tick labels, tables), one item per line."""
+    """All text drawn on a figure (titles, labels, tick labels, tables), one item per line.
+
+    Parameters
+    ----------
+    fig : matplotlib.figure.Figure
+        The figure.
+
+    Returns
+    -------
+    str
+        Every non-empty text of the figure, joined by newlines.
+    """
     return "\n".join(t.get_text() for t in fig.findobj(Text) if t.get_text())
 
 
@@ -80,9 +125,21 @@ def figure_text(fig: Figure) -> str:
 class PageWriter:
     """Lay out text and charts on A4 portrait pages, top to bottom.
 
-    Args:
-        footer: called as footer(page_number, page_count) for the line at the bottom of every page.
-        margin: left/right margin [in]; top and bottom margins are 0.75 in.
+    Parameters
+    ----------
+    footer : callable
+        Called as footer(page_number, page_count) for the line at the bottom of every page.
+    margin : float
+        Left/right margin; top and bottom margins are 0.75 in [in].
+
+    Attributes
+    ----------
+    pages : list of matplotlib.figure.Figure
+        The pages so far.
+    titles : list of str
+        The title of each page.
+    y : float
+        Cursor from the top of the current page [in].
     """
 
     footer: Callable[[int, int], str] = lambda i, n: f"page {i} of {n}"
@@ -104,7 +161,18 @@ class PageWriter:
 
     # ---------------------------------------------------------------------------------------- text pages
     def new_page(self, title: str) -> Figure:
-        """Start a text page with ``title`` as its heading."""
+        """Start a text page with ``title`` as its heading.
+
+        Parameters
+        ----------
+        title : str
+            The page's heading [-].
+
+        Returns
+        -------
+        matplotlib.figure.Figure
+            The new page.
+        """
         fig = Figure(figsize=A4, facecolor="white")
         self.pages.append(fig)
         self.titles.append(title)
@@ -149,7 +217,20 @@ class PageWriter:
         return self.pages[-1]
 
     def heading(self, text: str, size: float = 11.5) -> None:
-        """A section heading (kept together with at least three lines after it)."""
+        """A section heading (kept together with at least three lines after it).
+
+        Parameters
+        ----------
+        text : str
+            The heading [-].
+        size : float
+            Font size [pt].
+
+        Raises
+        ------
+        InputError
+            When no page has been started.
+        """
         fig = self._room(size * 1.55 * _PT + 4 * 9.0 * 1.55 * _PT)
         self.y += 0.1
         self._put(fig, text, 0.0, size, "bold", "#1b2a49")
@@ -165,14 +246,48 @@ class PageWriter:
         style: str = "normal",
         space_after: float = 0.06,
     ) -> None:
-        """A wrapped paragraph (continues on the next page when needed)."""
+        """A wrapped paragraph (continues on the next page when needed).
+
+        Parameters
+        ----------
+        text : str
+            The paragraph [-].
+        size : float
+            Font size [pt].
+        indent : float
+            Left indent [in].
+        weight, style : str
+            Font weight and style [-].
+        colour : str
+            Text colour [-].
+        space_after : float
+            Space below the paragraph [in].
+
+        Raises
+        ------
+        InputError
+            When no page has been started.
+        """
         for line in wrap(text, self.width - indent, size, weight):
             fig = self._room(size * 1.55 * _PT)
             self._put(fig, line, indent, size, weight, colour, style)
         self.y += space_after
 
     def bullets(self, items: Sequence[str], size: float = 9.0) -> None:
-        """A bullet list; each item wrapped with a hanging indent."""
+        """A bullet list; each item wrapped with a hanging indent.
+
+        Parameters
+        ----------
+        items : sequence of str
+            One text per bullet [-].
+        size : float
+            Font size [pt].
+
+        Raises
+        ------
+        InputError
+            When no page has been started.
+        """
         for item in items:
             lines = wrap(item, self.width - 0.22, size)
             for i, line in enumerate(lines):
@@ -192,7 +307,24 @@ class PageWriter:
         self.y += 0.04
 
     def box(self, text: str, size: float = 9.0, *, colour: str = "#7a1f1f", face: str = "#fbf3f3") -> None:
-        """A framed paragraph (for the verdict and the safety note)."""
+        """A framed paragraph (for the verdict and the safety note).
+
+        Parameters
+        ----------
+        text : str
+            The paragraph (set in bold) [-].
+        size : float
+            Font size [pt].
+        colour : str
+            Text and frame colour [-].
+        face : str
+            Background colour [-].
+
+        Raises
+        ------
+        InputError
+            When no page has been started.
+        """
         pad = 0.1
         lines = wrap(text, self.width - 2 * pad, size, "bold")
         height = len(lines) * size * 1.55 * _PT + 2 * pad
@@ -218,8 +350,25 @@ class PageWriter:
     def table(
         self, header: Sequence[str], rows: Sequence[Sequence[str]], widths: Sequence[float], size: float = 8.0
     ) -> None:
-        """A table with wrapped cells; ``widths`` are fractions of the text width, one per column. A row that
-        does not fit starts a continuation page, where the header is repeated."""
+        """A table with wrapped cells. A row that does not fit starts a continuation page, where the header is
+        repeated.
+
+        Parameters
+        ----------
+        header : sequence of str
+            Column headings [-].
+        rows : sequence of sequence of str
+            The cells, one sequence per row [-].
+        widths : sequence of float
+            Relative column widths, one per column (scaled to the text width) [-].
+        size : float
+            Font size [pt].
+
+        Raises
+        ------
+        InputError
+            When a row's length differs from the number of widths, or no page has been started.
+        """
         if len(header) != len(widths) or any(len(r) != len(widths) for r in rows):
             raise InputError("every table row needs one cell per column width")
         total = sum(widths)
@@ -264,17 +413,44 @@ class PageWriter:
         self.y += 0.08
 
     def space(self, height: float) -> None:
-        """Vertical space [in]."""
+        """Vertical space.
+
+        Parameters
+        ----------
+        height : float
+            The space [in].
+        """
         self.y += height
 
     # ---------------------------------------------------------------------------------------- chart pages
     def chart_page(
         self, title: str, caption: str, *, chart_height: float = 6.2, caption_size: float = 9.0
     ) -> SubFigure:
-        """A page with ``title``, a chart area of ``chart_height`` [in] and a wrapped caption below it.
-        Returns the chart area (a SubFigure with constrained layout) for the caller's axes."""
-        fig = Figure(figsize=A4, facecolor="white", layout="constrained")
-        fig.get_layout_engine().set(w_pad=self.margin * 0.6, h_pad=0.1, hspace=0.0, wspace=0.0)
+        """A page with ``title``, a chart area of ``chart_height`` and a wrapped caption below it.
+
+        Parameters
+        ----------
+        title : str
+            The page's title [-].
+        caption : str
+            The caption below the chart [-].
+        chart_height : float
+            Height of the chart area [in].
+        caption_size : float
+            Font size of the caption [pt].
+
+        Returns
+        -------
+        matplotlib.figure.SubFigure
+            The chart area (with constrained layout) for the caller's axes.
+
+        Raises
+        ------
+        InputError
+            When the chart leaves no room for title and caption, or the caption is too long.
+        """
+        layout = ConstrainedLayoutEngine(w_pad=self.margin * 0.6, h_pad=0.1, hspace=0.0, wspace=0.0)
+        fig = Figure(figsize=A4, facecolor="white", layout=layout)
         self.pages.append(fig)
         self.titles.append(title)
         self._title = title
@@ -284,7 +460,7 @@ class PageWriter:
             raise InputError(
                 f"chart_height must leave room for the title and caption; got {chart_height!r} in"
             )
-        top, chart, bottom = fig.subfigures(3, 1, height_ratios=[head, chart_height, rest])
+        top, chart, bottom = fig.subfigures(3, 1, squeeze=False, height_ratios=[head, chart_height, rest])[:, 0]
         top.text(
             self.margin / A4[0],
             0.35,
@@ -316,7 +492,13 @@ class PageWriter:
 
     # ---------------------------------------------------------------------------------------- finishing
     def finish(self) -> list[Figure]:
-        """Add the footer to every page and return the pages."""
+        """Add the footer to every page and return the pages.
+
+        Returns
+        -------
+        list of matplotlib.figure.Figure
+            The pages, in order.
+        """
         n = len(self.pages)
         for i, fig in enumerate(self.pages, start=1):
             fig.text(
@@ -332,8 +514,6 @@ class PageWriter:
         return self.pages
 
 
-def _rule(fig: Figure, x: float, width: float, y_from_top: float, colour: str):
-    from matplotlib.lines import Line2D
-
+def _rule(fig: Figure, x: float, width: float, y_from_top: float, colour: str) -> Line2D:
     yy = 1.0 - y_from_top / A4[1]
     return Line2D([x / A4[0], (x + width) / A4[0]], [yy, yy], transform=fig.transFigure, color=colour, lw=0.6)

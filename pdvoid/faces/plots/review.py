@@ -5,8 +5,9 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from typing import Any
+from typing import TYPE_CHECKING
 
+from matplotlib.axes import Axes
 from matplotlib.figure import Figure
 
 from pdvoid.core.errors import InputError
@@ -16,6 +17,13 @@ from pdvoid.faces.plots.pages import PageWriter, figure_text
 from pdvoid.faces.plots.patterns import phase_pattern
 from pdvoid.faces.plots.style import new_figure
 
+if TYPE_CHECKING:
+    from pdvoid.analysis.inception import InceptionEstimate
+    from pdvoid.analysis.margins import LargestVoid, MarginTable
+    from pdvoid.faces.report import SensitivityRow
+    from pdvoid.inputs.scenario import Scenario
+    from pdvoid.simulation.results import Result
+
 __all__ = ["Context", "Pages", "build_pages", "standalone_chart", "CHART_NAMES"]
 
 CHART_NAMES = ("margin", "field_time", "pattern", "sensitivity")
@@ -23,21 +31,55 @@ CHART_NAMES = ("margin", "field_time", "pattern", "sensitivity")
 
 @dataclass(frozen=True, eq=False)
 class Context:
-    """Everything the pack shows, computed by :func:`pdvoid.faces.report.design_review` (voltages V rms, SI)."""
+    """Everything the pack shows, computed by :func:`pdvoid.faces.report.design_review` (voltages V rms, SI).
 
-    scenario: Any
-    estimate: Any
-    result: Any
+    Attributes
+    ----------
+    scenario : Scenario
+        The design.
+    estimate : InceptionEstimate
+        Analytic inception and extinction of the design (V rms).
+    result : Result
+        The simulation at the test voltage.
+    test_voltage : float
+        Test level [V rms].
+    service_voltage : float or None
+        Service level; None when not given [V rms].
+    sensitivity : list of SensitivityRow
+        The inputs varied by the sensitivity chart.
+    summary : dict of str to float
+        Numbers of the simulated run, ``{"name [unit]": value}``.
+    largest, largest_service : LargestVoid or None
+        Largest discharge-free void at the test and at the service level (None without a service level).
+    tables : list of MarginTable
+        Inception against void size for the margin chart.
+    material, gas, inputs : list of list of str
+        Table rows of the material and gas data and of the scenario's inputs.
+    references : str
+        The references of the run, one per line.
+    safety : str
+        The safety note.
+    version : str
+        The pdvoid version.
+    cycles : int
+        Cycles simulated [-].
+    seed : int
+        Random seed [-].
+    """
+
+    scenario: Scenario
+    estimate: InceptionEstimate
+    result: Result
     test_voltage: float
     service_voltage: float | None
-    sensitivity: list
-    summary: dict
-    largest: Any
-    largest_service: Any
-    tables: list
-    material: list
-    gas: list
-    inputs: list
+    sensitivity: list[SensitivityRow]
+    summary: dict[str, float]
+    largest: LargestVoid
+    largest_service: LargestVoid | None
+    tables: list[MarginTable]
+    material: list[list[str]]
+    gas: list[list[str]]
+    inputs: list[list[str]]
     references: str
     safety: str
     version: str
@@ -47,12 +89,24 @@ class Context:
 
 @dataclass(frozen=True)
 class Pages:
+    """The pages of the pack.
+
+    Attributes
+    ----------
+    figures : list of matplotlib.figure.Figure
+        One figure per A4 page, in order.
+    titles : list of str
+        The title of each page.
+    texts : list of str
+        All text drawn on each page.
+    """
+
     figures: list[Figure]
     titles: list[str]
     texts: list[str]
 
 
-def _kv(v: float) -> str:
+def _kv(v: float | None) -> str:
     return "n/a" if v is None or not math.isfinite(v) else f"{v / 1e3:.3g}"
 
 
@@ -64,7 +118,9 @@ def _margin(u_inc: float, level: float, what: str) -> str:
     return f"{ratio:.2f}: inception {pct:.0f} % below the {what} voltage, discharges expected"
 
 
-def _void_text(lv: Any) -> str:
+def _void_text(lv: LargestVoid | None) -> str:
+    if lv is None:  # no level, no search (Context.largest_service without a service voltage)
+        return "n/a"
     size = f"{lv.diameter * 1e3:.3g} mm × {lv.height * 1e3:.3g} mm (diameter × height)"
     if lv.limited_by == "insulation":
         return f"at least {size}: every void up to half the insulation thickness stays discharge-free"
@@ -170,7 +226,16 @@ def _summary_page(w: PageWriter, ctx: Context) -> None:
     )
 
 
-def draw_margin(ctx: Context, ax) -> None:
+def draw_margin(ctx: Context, ax: Axes) -> None:
+    """Draw the margin chart of the pack (inception against void size, the design's size marked).
+
+    Parameters
+    ----------
+    ctx : Context
+        What the pack shows.
+    ax : matplotlib.axes.Axes
+        Axes to draw into.
+    """
     p = ctx.scenario.void.pressure
     labels = [f"gas at {p / 1e3:.4g} kPa (design)", f"gas at {p / 2e3:.4g} kPa"][: len(ctx.tables)]
     inception_chart(ctx.tables, ctx.service_voltage, ctx.test_voltage, ax=ax, labels=labels)
@@ -191,15 +256,44 @@ def draw_margin(ctx: Context, ax) -> None:
     )
 
 
-def draw_field(ctx: Context, ax) -> None:
+def draw_field(ctx: Context, ax: Axes) -> None:
+    """Draw the void field against time of the simulation at the test voltage.
+
+    Parameters
+    ----------
+    ctx : Context
+        What the pack shows.
+    ax : matplotlib.axes.Axes
+        Axes to draw into.
+    """
     field_time(ctx.result, cycles=3, ax=ax)
 
 
-def draw_pattern(ctx: Context, ax) -> None:
+def draw_pattern(ctx: Context, ax: Axes) -> None:
+    """Draw the phase-resolved pattern of the simulation at the test voltage.
+
+    Parameters
+    ----------
+    ctx : Context
+        What the pack shows.
+    ax : matplotlib.axes.Axes
+        Axes to draw into.
+    """
     phase_pattern(ctx.result, ax=ax)
 
 
-def draw_sensitivity(ctx: Context, ax_u, ax_q) -> None:
+def draw_sensitivity(ctx: Context, ax_u: Axes, ax_q: Axes) -> None:
+    """Draw the two sensitivity charts: inception voltage and lag-free apparent charge.
+
+    Parameters
+    ----------
+    ctx : Context
+        What the pack shows.
+    ax_u : matplotlib.axes.Axes
+        Axes of the inception-voltage chart.
+    ax_q : matplotlib.axes.Axes
+        Axes of the apparent-charge chart.
+    """
     rows_u = [(r.label, r.inception_low, r.inception_high, r.inception_base) for r in ctx.sensitivity]
     rows_q = [(r.label, r.charge_low, r.charge_high, r.charge_base) for r in ctx.sensitivity]
     sensitivity_chart(rows_u, ax=ax_u, quantity="inception voltage, rms", unit="kV")
@@ -207,7 +301,25 @@ def draw_sensitivity(ctx: Context, ax_u, ax_q) -> None:
 
 
 def standalone_chart(ctx: Context, name: str) -> Figure:
-    """One chart of the pack as its own figure (for PNG/SVG export)."""
+    """One chart of the pack as its own figure (for PNG/SVG export).
+
+    Parameters
+    ----------
+    ctx : Context
+        What the pack shows.
+    name : str
+        One of :data:`CHART_NAMES` [-].
+
+    Returns
+    -------
+    matplotlib.figure.Figure
+        The chart.
+
+    Raises
+    ------
+    InputError
+        For an unknown chart name.
+    """
     if name not in CHART_NAMES:
         raise InputError(f"chart name must be one of {CHART_NAMES}; got {name!r}")
     if name == "sensitivity":
@@ -250,9 +362,10 @@ def _assumptions_page(w: PageWriter, ctx: Context) -> None:
     a, b = est.inception_voltage_streamer, est.inception_voltage_integral
     spread = abs(a - b) / min(a, b) * 100.0 if math.isfinite(b) else math.nan
     w.new_page("Assumptions and validity limits")
+    h_d = sc.void.height / sc.insulation.thickness
     values = {
         "shape": "spheroid" if sc.void.shape == "spheroid" else "flat cylinder (disc)",
-        "h_d": sc.void.height / sc.insulation.thickness,
+        "h_d": h_d,
         "l_mm": sc.void.streamer_length * 1e3,
         "spread": spread,
         "rr": sc.model.residual_ratio,
@@ -262,7 +375,7 @@ def _assumptions_page(w: PageWriter, ctx: Context) -> None:
     w.bullets([t.format(**values) for t in _ASSUMPTIONS])
     if not math.isfinite(spread):
         w.paragraph("The ionisation-integral estimate is not available for this gas and length.", size=8.5)
-    if values["h_d"] > 0.3:
+    if h_d > 0.3:
         w.box(
             "Validity warning: the void is not small compared with the insulation thickness; the closed-form "
             "field and charge are outside their validity range. Use the numerical field solver.",
@@ -281,7 +394,18 @@ def _references_page(w: PageWriter, ctx: Context) -> None:
 
 
 def build_pages(ctx: Context) -> Pages:
-    """All pages of the pack, in order."""
+    """All pages of the pack, in order.
+
+    Parameters
+    ----------
+    ctx : Context
+        What the pack shows.
+
+    Returns
+    -------
+    Pages
+        The page figures with their titles and texts.
+    """
     w = PageWriter(
         footer=lambda i, n: (
             f"pdvoid {ctx.version} design-review pack · engineering estimates, not "

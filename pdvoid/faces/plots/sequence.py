@@ -8,6 +8,8 @@ from matplotlib.axes import Axes
 from pdvoid.analysis.sequence import pulse_sequence
 from pdvoid.core.errors import check_choice
 from pdvoid.faces.plots.style import FIGSIZE, NEGATIVE, POSITIVE, finish_axes, new_axes
+from pdvoid.simulation.events import Events
+from pdvoid.simulation.results import Result
 
 __all__ = ["pulse_sequence_plot", "SEQUENCE_KINDS"]
 
@@ -19,24 +21,36 @@ SEQUENCE_KINDS = {
 }
 
 
-def pulse_sequence_plot(events: object, kind: str = "du", ax: Axes | None = None) -> Axes:
+def pulse_sequence_plot(events: Result | Events, kind: str = "du", ax: Axes | None = None) -> Axes:
     """Pulse-sequence plot of consecutive discharges (:func:`pdvoid.analysis.sequence.pulse_sequence`).
 
     kind "du": Δu(n) against Δu(n−1), the changes of the applied voltage between consecutive pulses;
     "q_du": the charge q(n) against Δu(n); "dphi": Δφ(n) against Δφ(n−1). Points are coloured by the
     polarity of pulse n.
 
-    Parameters:
-        events: discharge events (with time, applied voltage and cycle) or a Result that stored them [-]
-        kind: "du", "q_du" or "dphi" [-]
-        ax: axes to draw into; None creates a figure [-]
+    Parameters
+    ----------
+    events : Result or Events
+        Discharge events (with time, applied voltage and cycle) or a Result that stored them [-].
+    kind : str
+        "du", "q_du" or "dphi" [-].
+    ax : matplotlib.axes.Axes, optional
+        Axes to draw into; None creates a figure [-].
 
-    Returns:
-        The Axes.
+    Returns
+    -------
+    matplotlib.axes.Axes
+        ``ax``, or the Axes of a new figure when ``ax`` is None.
 
-    References:
-        hoof1995: M. Hoof, R. Patsch, 'Pulse-sequence analysis: a new method for investigating the physics of
-        PD-induced ageing', IEE Proc.-Sci. Meas. Technol. 142(1) (1995) 95-101 (from memory).
+    Raises
+    ------
+    InputError
+        For an unknown ``kind`` or events without the times and voltages a sequence needs.
+
+    References
+    ----------
+    hoof1995: M. Hoof, R. Patsch, 'Pulse-sequence analysis: a new method for investigating the physics of
+    PD-induced ageing', IEE Proc.-Sci. Meas. Technol. 142(1) (1995) 95-101 (from memory).
     """
     kind = check_choice("kind", kind, tuple(SEQUENCE_KINDS))
     ps = pulse_sequence(events)

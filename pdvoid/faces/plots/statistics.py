@@ -10,6 +10,8 @@ from pdvoid.analysis.magnitudes import weibull_fit, weibull_probability_points
 from pdvoid.analysis.patterns import half_cycle_distributions
 from pdvoid.core.errors import InputError, check_choice, check_int
 from pdvoid.faces.plots.style import FIGSIZE, NEGATIVE, POSITIVE, finish_axes, new_axes, plain_log_ticks
+from pdvoid.simulation.events import Events
+from pdvoid.simulation.results import Result
 
 __all__ = ["half_cycle", "weibull_plot", "HALF_CYCLE_LABELS"]
 
@@ -25,21 +27,33 @@ _HALF_NAMES = {"+": "positive half cycle (0–180 deg)", "-": "negative half cyc
 
 
 def half_cycle(
-    events: object, quantity: str = "H_n", ax: Axes | None = None, *, phase_windows: int = 36
+    events: Result | Events, quantity: str = "H_n", ax: Axes | None = None, *, phase_windows: int = 36
 ) -> Axes:
     """One phase-resolved distribution per voltage half cycle, the negative half re-referenced to 0–180 deg.
 
     H_n is shown per cycle (pulses per cycle in each window) so that runs of different length compare;
     H_qn and H_qmax in pC. Definitions: :func:`pdvoid.analysis.patterns.half_cycle_distributions`.
 
-    Parameters:
-        events: discharge events or a Result that stored them [-]
-        quantity: "H_n", "H_qn" or "H_qmax" [-]
-        ax: axes to draw into; None creates a figure [-]
-        phase_windows: windows per half cycle, 1 ... 3600 [-]
+    Parameters
+    ----------
+    events : Result or Events
+        Discharge events or a Result that stored them [-].
+    quantity : str
+        "H_n", "H_qn" or "H_qmax" [-].
+    ax : matplotlib.axes.Axes, optional
+        Axes to draw into; None creates a figure [-].
+    phase_windows : int
+        Windows per half cycle, 1 ... 3600 [-].
 
-    Returns:
-        The Axes.
+    Returns
+    -------
+    matplotlib.axes.Axes
+        ``ax``, or the Axes of a new figure when ``ax`` is None.
+
+    Raises
+    ------
+    InputError
+        For an unknown ``quantity``, a bad ``phase_windows`` or input without events.
     """
     quantity = check_choice("quantity", quantity, tuple(HALF_CYCLE_LABELS))
     phase_windows = check_int("phase_windows", phase_windows, 1, 3600)
@@ -63,13 +77,13 @@ def half_cycle(
 _PROBABILITY_TICKS = (0.1, 1.0, 5.0, 10.0, 20.0, 40.0, 63.2, 80.0, 95.0, 99.0, 99.9)  # [%]
 
 
-def _weibull_y(f: np.ndarray) -> np.ndarray:
+def _weibull_y(f: np.ndarray | float) -> np.ndarray:
     """ln(−ln(1 − F)): the Weibull-paper ordinate [-]."""
     return np.log(-np.log1p(-np.asarray(f, dtype=float)))
 
 
 def weibull_plot(
-    events: object,
+    events: Result | Events,
     ax: Axes | None = None,
     *,
     polarities: tuple[str, ...] = ("+", "-"),
@@ -84,18 +98,28 @@ def weibull_plot(
     (3-parameter) magnitudes. More than ``max_points`` points per polarity are thinned evenly by rank for
     drawing only (the fit uses all).
 
-    Parameters:
-        events: discharge events or a Result that stored them [-]
-        ax: axes to draw into; None creates a figure [-]
-        polarities: any of "+", "-", "both" [-]
-        parameters: 2 or 3 (Weibull parameters of the fit) [-]
-        max_points: points drawn per polarity, 10 ... 1000000 [-]
+    Parameters
+    ----------
+    events : Result or Events
+        Discharge events or a Result that stored them [-].
+    ax : matplotlib.axes.Axes, optional
+        Axes to draw into; None creates a figure [-].
+    polarities : tuple of str
+        Any of "+", "-", "both" [-].
+    parameters : int
+        2 or 3 (Weibull parameters of the fit) [-].
+    max_points : int
+        Points drawn per polarity, 10 ... 1000000 [-].
 
-    Returns:
-        The Axes.
+    Returns
+    -------
+    matplotlib.axes.Axes
+        ``ax``, or the Axes of a new figure when ``ax`` is None.
 
-    Raises:
-        InputError: when no polarity has a magnitude, or for bad options.
+    Raises
+    ------
+    InputError
+        When no polarity has a magnitude, or for bad options.
     """
     if isinstance(polarities, str) or not isinstance(polarities, (tuple, list)) or not polarities:
         raise InputError(f"polarities must be a non-empty tuple of '+', '-', 'both'; got {polarities!r}")
@@ -149,7 +173,7 @@ def weibull_plot(
     ticks = np.array(_PROBABILITY_TICKS)
     ax.set_yticks(_weibull_y(ticks / 100.0))
     ax.set_yticklabels([f"{t:g}" for t in ticks])
-    ax.set_ylim(min(_weibull_y(0.0005), y_lo - 0.3), max(_weibull_y(0.9995), y_hi + 0.2))
+    ax.set_ylim(min(float(_weibull_y(0.0005)), y_lo - 0.3), max(float(_weibull_y(0.9995)), y_hi + 0.2))
     ax.set_xlabel("apparent charge |q| [pC]")
     ax.set_ylabel("cumulative probability [%]")
     handles, _ = ax.get_legend_handles_labels()

@@ -8,10 +8,14 @@ alone.
 from __future__ import annotations
 
 import math
+from collections.abc import Iterable
+from typing import Any
 
 import matplotlib as mpl
 import numpy as np
+from matplotlib.artist import Artist
 from matplotlib.axes import Axes
+from matplotlib.axis import Axis
 from matplotlib.figure import Figure
 from matplotlib.ticker import FuncFormatter, MaxNLocator, NullLocator
 
@@ -35,6 +39,10 @@ __all__ = [
     "colour_cycle",
     "plain_log_ticks",
     "plain_number",
+    "attach",
+    "attached",
+    "TWIN",
+    "MESH",
 ]
 
 #: default size of a single plot [in]: fits the text width of an A4 page with 2 cm margins
@@ -54,15 +62,51 @@ LEVEL = "#b2182b"  # thresholds: inception, test level
 RESIDUAL = "#2c7fb8"  # residual field level
 GRID = "#e3e3e3"
 
+#: attribute of an Axes that holds its twin voltage axis (set by the pattern and field plots)
+TWIN = "pdvoid_twin"
+#: attribute of a pattern's Axes that holds its QuadMesh
+MESH = "pdvoid_mesh"
 
-def new_figure(figsize: tuple[float, float] = FIGSIZE, **kwargs) -> Figure:
-    """A white figure with constrained layout (not registered with pyplot) [in]."""
+
+def new_figure(figsize: tuple[float, float] = FIGSIZE, **kwargs: Any) -> Figure:
+    """A white figure with constrained layout, not registered with pyplot.
+
+    Parameters
+    ----------
+    figsize : tuple of float
+        Width and height [in].
+    **kwargs
+        Further arguments of :class:`matplotlib.figure.Figure`.
+
+    Returns
+    -------
+    matplotlib.figure.Figure
+        The new figure.
+    """
     fig = Figure(figsize=figsize, layout="constrained", facecolor="white", **kwargs)
     return fig
 
 
 def new_axes(ax: Axes | None, figsize: tuple[float, float] = FIGSIZE) -> Axes:
-    """``ax`` itself, or the axes of a new white figure with constrained layout when ``ax`` is None."""
+    """``ax`` itself, or the axes of a new white figure with constrained layout when ``ax`` is None.
+
+    Parameters
+    ----------
+    ax : matplotlib.axes.Axes or None
+        Axes to draw into; None creates a figure.
+    figsize : tuple of float
+        Size of the new figure [in].
+
+    Returns
+    -------
+    matplotlib.axes.Axes
+        ``ax``, or the Axes of the new figure.
+
+    Raises
+    ------
+    InputError
+        When ``ax`` is neither None nor a matplotlib Axes.
+    """
     if ax is None:
         return new_figure(figsize).add_subplot()
     if not isinstance(ax, Axes):
@@ -71,7 +115,20 @@ def new_axes(ax: Axes | None, figsize: tuple[float, float] = FIGSIZE) -> Axes:
 
 
 def finish_axes(ax: Axes, *, grid: bool = True) -> Axes:
-    """Apply the house style to ``ax``: white face, light grid behind the data, no top/right frame."""
+    """Apply the house style to ``ax``: white face, light grid behind the data, no top/right frame.
+
+    Parameters
+    ----------
+    ax : matplotlib.axes.Axes
+        The Axes to style.
+    grid : bool
+        Draw the light grid [-].
+
+    Returns
+    -------
+    matplotlib.axes.Axes
+        ``ax``.
+    """
     ax.set_facecolor("white")
     if grid:
         ax.grid(True, color=GRID, linewidth=0.6, zorder=0)
@@ -79,15 +136,35 @@ def finish_axes(ax: Axes, *, grid: bool = True) -> Axes:
     for side in ("top", "right"):
         ax.spines[side].set_visible(False)
     ax.tick_params(labelsize=9)
-    ax.xaxis.label.set_size(10)
-    ax.yaxis.label.set_size(10)
+    ax.xaxis.label.set_fontsize(10)
+    ax.yaxis.label.set_fontsize(10)
     return ax
 
 
-def check_axes(axes: object, count: int, name: str = "axes") -> list[Axes]:
-    """``count`` matplotlib Axes from a sequence, or InputError."""
+def check_axes(axes: Iterable[Axes], count: int, name: str = "axes") -> list[Axes]:
+    """``count`` matplotlib Axes from a sequence.
+
+    Parameters
+    ----------
+    axes : iterable of matplotlib.axes.Axes
+        The Axes given by the caller.
+    count : int
+        How many are needed [-].
+    name : str
+        The parameter's name, for the error message [-].
+
+    Returns
+    -------
+    list of matplotlib.axes.Axes
+        The Axes, in order.
+
+    Raises
+    ------
+    InputError
+        When ``axes`` is not a sequence of ``count`` Axes.
+    """
     try:
-        items = list(axes)  # type: ignore[call-overload]
+        items = list(axes)
     except TypeError:
         raise InputError(
             f"{name} must be a sequence of {count} matplotlib Axes; got {type(axes).__name__}"
@@ -98,7 +175,23 @@ def check_axes(axes: object, count: int, name: str = "axes") -> list[Axes]:
 
 
 def display_factor(unit: str) -> float:
-    """SI value per display unit, e.g. 1e3 for "kV" and 1e-12 for "pC" (pdvoid.core.units.UNITS)."""
+    """SI value per display unit, e.g. 1e3 for "kV" and 1e-12 for "pC".
+
+    Parameters
+    ----------
+    unit : str
+        A key of :data:`pdvoid.core.units.UNITS` [-].
+
+    Returns
+    -------
+    float
+        SI value of one display unit [SI unit per display unit].
+
+    Raises
+    ------
+    InputError
+        For a unit that is not in the table.
+    """
     if not isinstance(unit, str) or unit not in UNITS:
         raise InputError(
             f"unit must be one of pdvoid.core.units.UNITS ({', '.join(u for u in UNITS if u)}); got {unit!r}"
@@ -110,22 +203,58 @@ def display_factor(unit: str) -> float:
 
 
 def colour_cycle(n: int) -> list[tuple[float, float, float, float]]:
-    """``n`` distinguishable colours from the perceptual map viridis (dark to green; the pale yellow end is
-    left out so that every line stays readable on white)."""
+    """``n`` distinguishable colours from the perceptual map viridis.
+
+    The colours run from dark to green; the pale yellow end is left out so that every line stays readable on
+    white.
+
+    Parameters
+    ----------
+    n : int
+        Number of colours [-]; 1 or less gives one colour.
+
+    Returns
+    -------
+    list of tuple of float
+        RGBA colours, each component 0 ... 1 [-].
+    """
     cmap = mpl.colormaps[PATTERN_CMAP]
     if n <= 1:
         return [cmap(0.2)]
     return [cmap(x) for x in np.linspace(0.0, 0.72, n)]
 
 
-def plain_number(value: float, _pos: object = None) -> str:
-    """A tick label without powers of ten: 0.002, 50, 1000 (a true minus sign)."""
+def plain_number(value: float, _pos: int | None = None) -> str:
+    """A tick label without powers of ten: 0.002, 50, 1000 (a true minus sign).
+
+    Parameters
+    ----------
+    value : float
+        The tick value [display unit].
+    _pos : int, optional
+        The tick position matplotlib passes to a formatter (unused) [-].
+
+    Returns
+    -------
+    str
+        The label.
+    """
     return f"{value:g}".replace("-", "\u2212")
 
 
-def plain_log_ticks(axis: object, low: float, high: float) -> None:
-    """Plain-number tick labels on a logarithmic axis whose data span ``low`` ... ``high`` (> 0): evenly
-    spaced ticks within one decade, 0.2, 0.5, 1, 2, 5 ... labels over wider spans (not powers of ten)."""
+def plain_log_ticks(axis: Axis, low: float, high: float) -> None:
+    """Plain-number tick labels on a logarithmic axis whose data span ``low`` ... ``high`` (> 0).
+
+    Within one decade the ticks are evenly spaced; over wider spans the labels read 0.2, 0.5, 1, 2, 5 ...
+    (never powers of ten).
+
+    Parameters
+    ----------
+    axis : matplotlib.axis.Axis
+        The axis to label (``ax.xaxis`` or ``ax.yaxis``).
+    low, high : float
+        Smallest and largest data value on the axis [display unit].
+    """
     span = high / low if low > 0.0 else np.inf
     if span < 10.0:
         axis.set_major_locator(MaxNLocator(7))
@@ -133,7 +262,7 @@ def plain_log_ticks(axis: object, low: float, high: float) -> None:
         axis.set_major_formatter(FuncFormatter(plain_number))
         return
 
-    def minor(value: float, _pos: object = None) -> str:
+    def minor(value: float, _pos: int | None = None) -> str:
         if value <= 0.0:
             return ""
         lead = int(round(value / 10.0 ** np.floor(np.log10(value) + 1e-12)))
@@ -142,3 +271,42 @@ def plain_log_ticks(axis: object, low: float, high: float) -> None:
 
     axis.set_major_formatter(FuncFormatter(plain_number))
     axis.set_minor_formatter(FuncFormatter(minor))
+
+
+def attach(ax: Axes, name: str, artist: Artist) -> None:
+    """Keep ``artist`` on ``ax`` as the attribute ``name`` (:data:`TWIN` or :data:`MESH`), for callers that
+    want to restyle it.
+
+    Parameters
+    ----------
+    ax : matplotlib.axes.Axes
+        The Axes that carries the artist.
+    name : str
+        The attribute name, :data:`TWIN` or :data:`MESH` [-].
+    artist : matplotlib.artist.Artist
+        The twin Axes or the mesh.
+    """
+    setattr(ax, name, artist)
+
+
+def attached(ax: Axes, name: str) -> Any:
+    """The artist :func:`attach` kept on ``ax`` as ``name``.
+
+    Parameters
+    ----------
+    ax : matplotlib.axes.Axes
+        The Axes that carries the artist.
+    name : str
+        The attribute name, :data:`TWIN` or :data:`MESH` [-].
+
+    Returns
+    -------
+    Any
+        The artist (a twin Axes for :data:`TWIN`, a QuadMesh for :data:`MESH`).
+
+    Raises
+    ------
+    AttributeError
+        When ``ax`` carries no such artist (it was not drawn by the plot that sets it).
+    """
+    return getattr(ax, name)

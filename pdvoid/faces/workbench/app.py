@@ -11,7 +11,9 @@ import tempfile
 import threading
 import time
 import traceback
+from collections.abc import Callable
 from pathlib import Path
+from typing import TYPE_CHECKING, Any
 
 from pdvoid.core.errors import InputError
 from pdvoid.faces.workbench.layout import build_panel, message_html, summary_html
@@ -20,19 +22,47 @@ from pdvoid.faces.workbench.scheduler import DebouncedWorker
 from pdvoid.faces.workbench.session import Outcome, WorkbenchSession, describe
 from pdvoid.inputs.scenario import Scenario
 
+if TYPE_CHECKING:
+    import ipywidgets
+
 __all__ = ["Workbench", "open_workbench"]
 
 
 class Workbench:
     """An interactive panel for one void scenario (ipywidgets; JupyterLab and the classic notebook).
 
-    Args:
-        scenario: the starting scenario (default: the built-in demo, an invented example).
-        cycles, seed: run settings [-].
-        test_voltage: test level for the margin [V rms]; default the demo's test level or the applied voltage.
-        delay: quiet time after the last change before a run starts [s].
-
     ``show()`` returns the panel widget; :func:`open_workbench` displays it in one call.
+
+    Parameters
+    ----------
+    scenario : Scenario, optional
+        The starting scenario (default: the built-in demo, an invented example).
+    cycles, seed : int
+        Run settings [-].
+    test_voltage : float, optional
+        Test level for the margin; default the demo's test level or the applied voltage [V rms].
+    delay : float
+        Quiet time after the last change before a run starts [s].
+
+    Attributes
+    ----------
+    session : WorkbenchSession
+        Control values, the last outcome and the measured pattern.
+    panel : Panel
+        The widgets.
+    worker : DebouncedWorker
+        Runs the updates in the background.
+    last_latency : float
+        Seconds from the last change to its redrawn panel [s].
+    runs : int
+        Completed updates [-].
+
+    Raises
+    ------
+    WorkbenchDependencyError
+        When ipywidgets is not installed.
+    InputError
+        For a bad scenario or run settings.
     """
 
     def __init__(
@@ -65,26 +95,50 @@ class Workbench:
         self.update_now()
 
     # ---- public --------------------------------------------------------------------------------------------
-    def show(self):
-        """The panel widget (display it, or leave it as a cell's last expression)."""
+    def show(self) -> ipywidgets.VBox:
+        """The panel widget (display it, or leave it as a cell's last expression).
+
+        Returns
+        -------
+        ipywidgets.VBox
+            The panel.
+        """
         return self.panel.root
 
     @property
-    def widgets(self) -> dict:
+    def widgets(self) -> dict[str, ipywidgets.DOMWidget]:
         """The control widgets by control name (see :data:`pdvoid.faces.workbench.controls.SPECS`)."""
         return self.panel.controls
 
     @property
     def outcome(self) -> Outcome | None:
+        """The last update (None before the first)."""
         return self.session.outcome
 
     def update_now(self) -> Outcome:
-        """Run and redraw in the calling thread (no debounce)."""
+        """Run and redraw in the calling thread (no debounce).
+
+        Returns
+        -------
+        Outcome
+            What the run produced.
+        """
         self.worker.last_request_time = time.perf_counter()
         return self._job(lambda: False)
 
     def wait(self, timeout: float = 60.0) -> bool:
-        """Block until pending updates are drawn; False on timeout [s]."""
+        """Block until pending updates are drawn.
+
+        Parameters
+        ----------
+        timeout : float
+            Longest wait [s].
+
+        Returns
+        -------
+        bool
+            True when everything is drawn, False on timeout.
+        """
         return self.worker.wait(timeout)
 
     def close(self) -> None:
@@ -93,8 +147,19 @@ class Workbench:
         self.panel.root.close()
 
     def export(self, folder: str | Path | None = None) -> list[Path]:
-        """Write figures, scenario and result into ``folder`` (default: the panel's folder field). Errors are
-        shown in the panel and return an empty list."""
+        """Write figures, scenario and result into ``folder``. Errors are shown in the panel and return an
+        empty list.
+
+        Parameters
+        ----------
+        folder : str or pathlib.Path, optional
+            Where to write; default: the panel's folder field [-].
+
+        Returns
+        -------
+        list of pathlib.Path
+            The paths written.
+        """
         from pdvoid.faces.workbench.views import export
 
         e = self.panel.export
@@ -118,8 +183,8 @@ class Workbench:
         return f"<pdvoid Workbench: {describe(self.session.controls)}>"
 
     # ---- callbacks -----------------------------------------------------------------------------------------
-    def _on_change(self, name: str):
-        def handler(change) -> None:
+    def _on_change(self, name: str) -> Callable[[dict[str, Any]], None]:
+        def handler(change: dict[str, Any]) -> None:
             if self._syncing:
                 return
             try:
@@ -153,7 +218,7 @@ class Workbench:
         p.max = max(int(total), 1)
         p.value = int(done)
 
-    def _job(self, should_stop) -> Outcome:
+    def _job(self, should_stop: Callable[[], bool]) -> Outcome:
         requested = self.worker.last_request_time
         controls = self.session.controls
         self.panel.status.value = message_html(f"running: {describe(controls)}", "")
@@ -173,14 +238,14 @@ class Workbench:
         from pdvoid.faces.workbench.views import render_comparison, render_views
 
         p = self.panel
-        if not outcome.ok:
+        r = outcome.result
+        if not outcome.ok or r is None:
             p.error.value = message_html(outcome.error, "error")
             p.status.value = message_html(f"not run (input error): {describe(outcome.controls)}", "error")
             return
         note = outcome.comparison_error and f"comparison: {outcome.comparison_error}"
         p.summary.value = summary_html(outcome.summary, outcome.comparison, note)
         p.error.value = ""
-        r = outcome.result
         p.progress.max = max(int(r.requested_cycles), 1)
         p.progress.value = int(r.cycles)
         t0 = time.perf_counter()
@@ -239,19 +304,27 @@ class Workbench:
         self.worker.request()
 
 
-def _put_image(widget, png: bytes) -> None:
+def _put_image(widget: ipywidgets.Image, png: bytes) -> None:
     """Show ``png`` in an Image widget; an empty value hides it (no broken-image icon)."""
     widget.value = png
     widget.layout.display = "" if png else "none"
 
 
-def open_workbench(scenario: Scenario | None = None, **options) -> Workbench:
+def open_workbench(scenario: Scenario | None = None, **options: Any) -> Workbench:
     """Open the workbench in a notebook in one call: builds :class:`Workbench`, displays its panel and returns
     it.
 
-    Args:
-        scenario: the starting scenario (default: the built-in demo, an invented example).
-        options: cycles, seed, test_voltage [V rms], delay [s] (see :class:`Workbench`).
+    Parameters
+    ----------
+    scenario : Scenario, optional
+        The starting scenario (default: the built-in demo, an invented example).
+    **options
+        cycles, seed, test_voltage [V rms], delay [s] (see :class:`Workbench`).
+
+    Returns
+    -------
+    Workbench
+        The displayed workbench.
     """
     wb = Workbench(scenario, **options)
     from IPython.display import display

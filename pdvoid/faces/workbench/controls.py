@@ -7,6 +7,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, fields, replace
+from typing import Any
 
 from pdvoid.core.errors import InputError, check_choice, check_int, check_real
 from pdvoid.inputs.materials import get_material, list_materials
@@ -27,7 +28,18 @@ class ControlSpec:
     """How one control is shown: label with unit, widget kind, for sliders range and step, and a longer
     explanation shown when the pointer rests on it.
 
-    kind: "slider" (float), "number" (free float entry), "int", "choice" or "bool".
+    Attributes
+    ----------
+    label : str
+        The label, with the display unit in brackets [-].
+    kind : str
+        "slider" (float), "number" (free float entry), "int", "choice" or "bool" [-].
+    low, high, step : float or None
+        Range and step of a slider [display unit]; None for other kinds.
+    choices : tuple of str
+        The options of a "choice" [-].
+    tooltip : str
+        The longer explanation [-].
     """
 
     label: str
@@ -101,6 +113,45 @@ class Controls:
     raising :class:`pdvoid.InputError` for impossible values or combinations (e.g. a void taller than the
     insulation). Inputs the panel does not show (temperature, shape, harmonics, charge decay, ...) are kept
     from the base scenario.
+
+    Attributes
+    ----------
+    diameter_mm, height_mm : float
+        Void diameter (across the field) and height (along the field) [mm].
+    gas : str
+        Gas in the void, one of :data:`pdvoid.inputs.parameters.GASES` [-].
+    pressure_kPa : float
+        Gas pressure [kPa].
+    material : str
+        Host material, or :data:`CUSTOM_MATERIAL` for a typed permittivity [-].
+    permittivity : float
+        Relative permittivity of the host [-].
+    thickness_mm : float
+        Insulation thickness [mm].
+    voltage_kV : float
+        Applied voltage [kV rms].
+    frequency_Hz : float
+        Supply frequency [Hz].
+    model : str
+        Void model kind [-].
+    residual_ratio : float
+        Residual field / inception field [-].
+    ionization_rate : float
+        Volume ionisation rate [1/(m³ s)].
+    surface_rate_same, surface_rate_reversed : float
+        Surface emission rates for the same and the reversed polarity [1/s].
+    surface_decay_time_ms : float
+        Decay time of the surface emission [ms].
+    field_assisted : bool
+        Field-assisted surface emission [-].
+    lag_free : bool
+        No statistical time lag [-].
+    cycles : int
+        Cycles per run [-].
+    seed : int
+        Random seed [-].
+    test_voltage_kV : float
+        Test level for the margin [kV rms].
     """
 
     diameter_mm: float = 1.5
@@ -128,10 +179,34 @@ class Controls:
     def from_scenario(
         cls, scenario: Scenario, *, cycles: int = 200, seed: int = 1, test_voltage: float | None = None
     ) -> Controls:
-        """The controls showing ``scenario``; ``test_voltage`` [V rms] defaults to the applied voltage."""
+        """The controls showing ``scenario``.
+
+        Parameters
+        ----------
+        scenario : Scenario
+            The scenario shown [-].
+        cycles : int
+            Cycles per run [-].
+        seed : int
+            Random seed [-].
+        test_voltage : float, optional
+            Test level; None: the applied voltage [V rms].
+
+        Returns
+        -------
+        Controls
+            The control values.
+
+        Raises
+        ------
+        InputError
+            For anything but a Scenario.
+        """
         if not isinstance(scenario, Scenario):
             raise InputError(f"scenario must be a pdvoid.Scenario; got {type(scenario).__name__}")
         ins, void, sup, mod = scenario.insulation, scenario.void, scenario.supply, scenario.model
+        if ins.permittivity is None:  # Insulation always sets it (from its material when not given)
+            raise InputError("scenario.insulation.permittivity is not set")
         material = ins.material if ins.material in SPECS["material"].choices else CUSTOM_MATERIAL
         return cls(
             diameter_mm=void.diameter / _MM,
@@ -156,8 +231,24 @@ class Controls:
             test_voltage_kV=(sup.rms if test_voltage is None else test_voltage) / _KV,
         )
 
-    def changed(self, **values) -> Controls:
-        """A copy with some values changed (names as the fields); unknown names raise InputError."""
+    def changed(self, **values: Any) -> Controls:
+        """A copy with some values changed.
+
+        Parameters
+        ----------
+        **values : float, str or bool
+            New values, named as the fields [display unit of each field].
+
+        Returns
+        -------
+        Controls
+            The changed copy.
+
+        Raises
+        ------
+        InputError
+            For unknown names.
+        """
         known = {f.name for f in fields(self)}
         unknown = sorted(set(values) - known)
         if unknown:
@@ -165,7 +256,13 @@ class Controls:
         return replace(self, **values)
 
     def material_permittivity(self) -> float | None:
-        """The permittivity of the chosen host material [-], or None for a custom permittivity."""
+        """The permittivity of the chosen host material, or None for a custom permittivity.
+
+        Returns
+        -------
+        float or None
+            Relative permittivity [-].
+        """
         if self.material == CUSTOM_MATERIAL:
             return None
         return float(get_material(self.material).permittivity)
@@ -174,8 +271,20 @@ class Controls:
         """The scenario these controls describe, starting from ``base`` for everything the panel does not
         show.
 
-        Raises:
-            InputError: naming the control and the value for anything impossible.
+        Parameters
+        ----------
+        base : Scenario
+            Where the inputs the panel does not show come from [-].
+
+        Returns
+        -------
+        Scenario
+            The scenario (SI).
+
+        Raises
+        ------
+        InputError
+            Naming the control and the value for anything impossible.
         """
         check_choice("gas", self.gas, GASES)
         check_choice("model", self.model, model_kinds())
@@ -197,6 +306,7 @@ class Controls:
         )
         rms = check_real("applied voltage", self.voltage_kV) * _KV
         freq = check_real("frequency", self.frequency_Hz)
+        supply: Sine | Periodic
         if isinstance(base.supply, Periodic):
             scale = rms / base.supply.rms if base.supply.rms > 0 else math.nan
             supply = Periodic(base.supply.samples * scale, freq, base.supply.max_harmonic)
@@ -221,7 +331,18 @@ class Controls:
         return Scenario(insulation=ins, void=void, supply=supply, model=model, name=base.name)
 
     def run_settings(self) -> tuple[int, int, float]:
-        """(cycles, seed, test voltage [V rms]), checked."""
+        """The run settings, checked.
+
+        Returns
+        -------
+        tuple of (int, int, float)
+            (cycles [-], seed [-], test voltage [V rms]).
+
+        Raises
+        ------
+        InputError
+            For cycles outside 1 ... :data:`MAX_CYCLES`, a bad seed or a test level that is not positive.
+        """
         cycles = check_int("cycles", self.cycles, 1, MAX_CYCLES)
         seed = check_seed(self.seed)
         test = check_real("test level", self.test_voltage_kV)

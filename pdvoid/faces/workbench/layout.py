@@ -10,9 +10,16 @@ from __future__ import annotations
 import html
 import math
 from dataclasses import dataclass
+from typing import TYPE_CHECKING, TypeVar
 
+from pdvoid.core.errors import InputError
 from pdvoid.faces.workbench.controls import GROUPS, SPECS, Controls
 from pdvoid.faces.workbench.optional import require
+
+if TYPE_CHECKING:
+    import ipywidgets as widgets
+
+    from pdvoid.analysis.compare import Comparison
 
 __all__ = ["Panel", "build_panel", "control_widget", "summary_html", "message_html"]
 
@@ -20,19 +27,41 @@ _LABEL_WIDTH = "190px"
 _CONTROL_WIDTH = "370px"
 _VIEW_WIDTH = "704px"
 
+_W = TypeVar("_W", bound="widgets.DOMWidget")
 
-def _style():
+
+def _style() -> dict[str, str]:
     return {"description_width": _LABEL_WIDTH}
 
 
-def control_widget(name: str, value: object):
+def control_widget(name: str, value: float | str | bool) -> widgets.DOMWidget:
     """The widget of one control (see :data:`pdvoid.faces.workbench.controls.SPECS`), showing ``value``.
 
-    A slider's range is widened to hold ``value`` (a slider would otherwise move the value silently)."""
+    A slider's range is widened to hold ``value`` (a slider would otherwise move the value silently).
+
+    Parameters
+    ----------
+    name : str
+        A key of :data:`pdvoid.faces.workbench.controls.SPECS` [-].
+    value : float, str or bool
+        The value shown [the display unit in the control's label].
+
+    Returns
+    -------
+    ipywidgets.DOMWidget
+        A FloatSlider, FloatText, IntText, Dropdown or Checkbox with the CSS class ``pdvoid-<name>``.
+
+    Raises
+    ------
+    InputError
+        For a slider whose spec lacks its range or step.
+    """
     w = require("ipywidgets")
     spec = SPECS[name]
     common = {"description": spec.label, "style": _style(), "layout": w.Layout(width=_CONTROL_WIDTH)}
     if spec.kind == "slider":
+        if spec.low is None or spec.high is None or spec.step is None:
+            raise InputError(f"control {name!r}: a slider needs low, high and step; got {spec!r}")
         low = min(spec.low, float(value))
         high = max(spec.high, float(value))
         digits = max(0, -math.floor(math.log10(spec.step))) if spec.step < 1 else 0
@@ -63,26 +92,47 @@ def control_widget(name: str, value: object):
 
 @dataclass
 class Panel:
-    """The widgets of one workbench (attributes are ipywidgets)."""
+    """The widgets of one workbench (attributes are ipywidgets).
 
-    root: object
-    controls: dict
-    images: dict
-    summary: object
-    status: object
-    error: object
-    progress: object
-    stop: object
-    measured: dict
-    export: dict
+    Attributes
+    ----------
+    root : ipywidgets.VBox
+        The whole panel.
+    controls : dict of str to ipywidgets.DOMWidget
+        One widget per control, by control name (see :data:`pdvoid.faces.workbench.controls.SPECS`).
+    images : dict of str to ipywidgets.Image
+        The "field", "pattern" and "sequence" views.
+    summary, status, error : ipywidgets.HTML
+        The summary table, the status line and the error message.
+    progress : ipywidgets.IntProgress
+        Cycles run.
+    stop : ipywidgets.Button
+        The Stop button.
+    measured : dict of str to ipywidgets.DOMWidget
+        The measured-pattern section: "upload", "path", "cycles", "frequency", "load", "clear", "message",
+        "image".
+    export : dict of str to ipywidgets.DOMWidget
+        The export section: "folder", "png", "svg", "button", "message".
+    """
+
+    root: widgets.VBox
+    controls: dict[str, widgets.DOMWidget]
+    images: dict[str, widgets.Image]
+    summary: widgets.HTML
+    status: widgets.HTML
+    error: widgets.HTML
+    progress: widgets.IntProgress
+    stop: widgets.Button
+    measured: dict[str, widgets.DOMWidget]
+    export: dict[str, widgets.DOMWidget]
 
 
-def _heading(text: str):
+def _heading(text: str) -> widgets.HTML:
     w = require("ipywidgets")
     return w.HTML(f"<b>{html.escape(text)}</b>")
 
 
-def _image(name: str):
+def _image(name: str) -> widgets.Image:
     w = require("ipywidgets")
     hidden = w.Layout(max_width=_VIEW_WIDTH, height="auto", border="0", display="none")
     img = w.Image(format="png", layout=hidden)
@@ -90,14 +140,27 @@ def _image(name: str):
     return img
 
 
-def _labelled(widget, cls: str):
+def _labelled(widget: _W, cls: str) -> _W:
     widget.add_class(cls)
     return widget
 
 
 def build_panel(controls: Controls, title: str) -> Panel:
     """All widgets of the workbench, arranged: controls on the left, views and summary on the right, the
-    measured-pattern and export sections folded below."""
+    measured-pattern and export sections folded below.
+
+    Parameters
+    ----------
+    controls : Controls
+        The values the controls show.
+    title : str
+        The scenario's name, shown in the header [-].
+
+    Returns
+    -------
+    Panel
+        The widgets.
+    """
     w = require("ipywidgets")
     values = controls.__dict__
     ctl = {name: control_widget(name, values[name]) for name in SPECS}
@@ -261,8 +324,23 @@ def _fmt(value: float) -> str:
     return f"{value:.4g}"
 
 
-def summary_html(summary: dict[str, float], comparison: object | None = None, note: str = "") -> str:
-    """The summary numbers as an HTML table ("name [unit]" keys split into name and unit columns)."""
+def summary_html(summary: dict[str, float], comparison: Comparison | None = None, note: str = "") -> str:
+    """The summary numbers as an HTML table ("name [unit]" keys split into name and unit columns).
+
+    Parameters
+    ----------
+    summary : dict of str to float
+        {"name [unit]": value}.
+    comparison : Comparison, optional
+        Adds its score as the last row.
+    note : str
+        A remark below the table [-].
+
+    Returns
+    -------
+    str
+        The HTML.
+    """
     rows = []
     items = list(summary.items())
     if comparison is not None:
@@ -287,7 +365,22 @@ def summary_html(summary: dict[str, float], comparison: object | None = None, no
 
 
 def message_html(text: str, kind: str = "info", compact: bool = False) -> str:
-    """A short message box: kind "info", "error" or "" (neutral); ``compact`` for long lists."""
+    """A short message box.
+
+    Parameters
+    ----------
+    text : str
+        The message; "" gives "" [-].
+    kind : str
+        "info", "error" or "" (neutral) [-].
+    compact : bool
+        Smaller, tighter text for long lists [-].
+
+    Returns
+    -------
+    str
+        The HTML.
+    """
     if not text:
         return ""
     colour = {"info": "#1f4e79", "error": "#8a1c1c"}.get(kind, "#333333")

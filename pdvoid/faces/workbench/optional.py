@@ -14,5 +14,21 @@ WorkbenchDependencyError = MissingDependencyError
 
 
 def require(module: str = "ipywidgets") -> ModuleType:
-    """Import ``module`` or raise :class:`pdvoid.core.optional.MissingDependencyError` naming ``pdvoid[workbench]``."""
+    """Import ``module`` for the workbench.
+
+    Parameters
+    ----------
+    module : str
+        The module's import name [-].
+
+    Returns
+    -------
+    types.ModuleType
+        The imported module.
+
+    Raises
+    ------
+    MissingDependencyError
+        When it is not installed; the message names ``pdvoid[workbench]``.
+    """
     return _require(module, feature="the workbench")

@@ -19,15 +19,31 @@ class DebouncedWorker:
     a job that polls it (``pdvoid.simulate(..., should_stop=...)``) ends early; :meth:`superseded` tells the
     two apart. An exception escaping the job is passed to ``on_error`` (the thread goes on).
 
-    Args:
-        job: called as job(should_stop) in the background thread.
-        delay: quiet time after the last request before the job starts [s], 0 to 10.
-        on_error: called with the exception when the job raises.
+    Parameters
+    ----------
+    job : callable
+        Called as job(should_stop) in the background thread; what it returns is ignored.
+    delay : float
+        Quiet time after the last request before the job starts, 0 to 10 [s].
+    on_error : callable, optional
+        Called with the exception when the job raises.
+
+    Attributes
+    ----------
+    delay : float
+        The quiet time [s].
+    last_request_time : float
+        ``time.perf_counter()`` at the last :meth:`request` [s].
+
+    Raises
+    ------
+    InputError
+        For a delay outside 0 ... 10 s.
     """
 
     def __init__(
         self,
-        job: Callable[[Callable[[], bool]], None],
+        job: Callable[[Callable[[], bool]], object],
         delay: float = 0.1,
         on_error: Callable[[BaseException], None] | None = None,
     ) -> None:
@@ -73,7 +89,18 @@ class DebouncedWorker:
             self._cond.notify_all()
 
     def wait(self, timeout: float = 60.0) -> bool:
-        """Block until no request is pending and no job runs; False on timeout [s]."""
+        """Block until no request is pending and no job runs.
+
+        Parameters
+        ----------
+        timeout : float
+            Longest wait [s].
+
+        Returns
+        -------
+        bool
+            True when idle, False on timeout.
+        """
         end = time.monotonic() + timeout
         with self._cond:
             while self._requested_at is not None or self._busy:
@@ -85,15 +112,30 @@ class DebouncedWorker:
 
     @property
     def busy(self) -> bool:
+        """True while a request is pending or a job runs."""
         with self._cond:
             return self._busy or self._requested_at is not None
 
     # ---- called from the job -------------------------------------------------------------------------------
     def superseded(self) -> bool:
-        """True when a newer request arrived after the running job started."""
+        """True when a newer request arrived after the running job started.
+
+        Returns
+        -------
+        bool
+            Whether the running job is out of date.
+        """
         return self._generation != self._running_generation
 
     def should_stop(self) -> bool:
+        """True when the running job should end early: Stop was pressed, the worker closed or a newer request
+        arrived.
+
+        Returns
+        -------
+        bool
+            Whether to stop.
+        """
         return self._stop_pressed or self._closed or self.superseded()
 
     # ---- the thread
@@ -105,7 +147,10 @@ class DebouncedWorker:
                 if self._closed:
                     return
                 while True:  # debounce: wait until the requests pause for `delay`
-                    left = self._requested_at + self.delay - time.monotonic()
+                    requested = self._requested_at
+                    if requested is None:  # only this thread clears it, so it cannot happen here
+                        break
+                    left = requested + self.delay - time.monotonic()
                     if left <= 0.0 or self._closed:
                         break
                     self._cond.wait(left)

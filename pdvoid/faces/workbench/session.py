@@ -10,6 +10,7 @@ import time
 from collections.abc import Callable
 from dataclasses import dataclass, field
 from pathlib import Path
+from typing import TYPE_CHECKING, Any
 
 from pdvoid.analysis.inception import inception
 from pdvoid.analysis.summary import run_summary
@@ -21,6 +22,9 @@ from pdvoid.simulation.events import Events
 from pdvoid.simulation.results import Result
 from pdvoid.simulation.simulate import simulate
 
+if TYPE_CHECKING:
+    from pdvoid.analysis.compare import Comparison
+
 __all__ = ["Outcome", "WorkbenchSession", "summary_numbers", "describe"]
 
 
@@ -28,16 +32,26 @@ __all__ = ["Outcome", "WorkbenchSession", "summary_numbers", "describe"]
 class Outcome:
     """What one update of the workbench produced.
 
-    Attributes:
-        controls: the control values it ran with.
-        scenario: the scenario (None when the controls were invalid).
-        result: the simulation (None when invalid); partial when ``stopped``.
-        summary: {"name [unit]": value} (empty when invalid).
-        error: the InputError message ("" when fine).
-        stopped: True when the run was stopped before all cycles ran.
-        seconds: wall time of simulation and summary [s].
-        comparison: the comparison with the measured pattern (pdvoid.analysis.compare.Comparison) or None.
-        comparison_error: why no comparison could be made ("" when fine or no measured pattern).
+    Attributes
+    ----------
+    controls : Controls
+        The control values it ran with.
+    scenario : Scenario or None
+        The scenario (None when the controls were invalid).
+    result : Result or None
+        The simulation (None when invalid); partial when ``stopped``.
+    summary : dict of str to float
+        {"name [unit]": value} (empty when invalid).
+    error : str
+        The InputError message ("" when fine).
+    stopped : bool
+        True when the run was stopped before all cycles ran.
+    seconds : float
+        Wall time of simulation and summary [s].
+    comparison : Comparison or None
+        The comparison with the measured pattern (pdvoid.analysis.compare.Comparison) or None.
+    comparison_error : str
+        Why no comparison could be made ("" when fine or no measured pattern).
     """
 
     controls: Controls
@@ -47,18 +61,34 @@ class Outcome:
     error: str = ""
     stopped: bool = False
     seconds: float = 0.0
-    comparison: object | None = None
+    comparison: Comparison | None = None
     comparison_error: str = ""
 
     @property
     def ok(self) -> bool:
+        """True when the controls were valid (no error)."""
         return not self.error
 
 
 def summary_numbers(scenario: Scenario, result: Result, test_voltage: float) -> dict[str, float]:
     """The summary table: analytic inception and extinction, the margin to ``test_voltage`` [V rms] and the
     numbers of the simulated run (:func:`pdvoid.analysis.run_summary` in the display units of
-    :mod:`pdvoid.faces.summary_table`), with units in the keys."""
+    :mod:`pdvoid.faces.summary_table`), with units in the keys.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The scenario that ran [-].
+    result : Result
+        Its simulation [-].
+    test_voltage : float
+        Test level for the margin [V rms].
+
+    Returns
+    -------
+    dict of str to float
+        {"name [unit]": value}.
+    """
     est = inception(scenario)
     out = {
         "inception voltage [kV rms]": est.inception_voltage / 1e3,
@@ -75,7 +105,18 @@ def summary_numbers(scenario: Scenario, result: Result, test_voltage: float) -> 
 
 
 def describe(controls: Controls) -> str:
-    """A one-line description of the controls that matter most (the panel's status marker)."""
+    """A one-line description of the controls that matter most (the panel's status marker).
+
+    Parameters
+    ----------
+    controls : Controls
+        The control values.
+
+    Returns
+    -------
+    str
+        The description, in display units.
+    """
     return (
         f"void {controls.diameter_mm:g} mm × {controls.height_mm:g} mm, {controls.gas} at "
         f"{controls.pressure_kPa:g} kPa, εr {controls.permittivity:g}, {controls.thickness_mm:g} mm, "
@@ -86,10 +127,32 @@ def describe(controls: Controls) -> str:
 class WorkbenchSession:
     """Control values, the last outcome and an optional measured pattern.
 
-    Args:
-        scenario: the starting scenario (default: the built-in demo, an invented example).
-        cycles, seed: run settings [-].
-        test_voltage: test level for the margin [V rms]; default the scenario's applied voltage.
+    Parameters
+    ----------
+    scenario : Scenario, optional
+        The starting scenario (default: the built-in demo, an invented example).
+    cycles, seed : int
+        Run settings [-].
+    test_voltage : float, optional
+        Test level for the margin; default the scenario's applied voltage [V rms].
+
+    Attributes
+    ----------
+    base : Scenario
+        The starting scenario; inputs the panel does not show come from it.
+    controls : Controls
+        The current control values.
+    outcome : Outcome or None
+        The last update (None before the first run).
+    measured : Events or None
+        The measured pattern to compare with.
+    measured_name : str
+        File name of the measured pattern ("" without one).
+
+    Raises
+    ------
+    InputError
+        For a bad scenario or run settings.
     """
 
     def __init__(
@@ -113,9 +176,25 @@ class WorkbenchSession:
         self.measured_name = ""
 
     # ---- controls ------------------------------------------------------------------------------------------
-    def set(self, **values) -> Controls:
+    def set(self, **values: Any) -> Controls:
         """Change control values. Choosing a host material sets its permittivity; typing a permittivity that
-        is not the material's switches the material to the custom choice."""
+        is not the material's switches the material to the custom choice.
+
+        Parameters
+        ----------
+        **values : float, str or bool
+            New values, named as the fields of :class:`Controls` [display unit of each field].
+
+        Returns
+        -------
+        Controls
+            The new control values.
+
+        Raises
+        ------
+        InputError
+            For unknown control names.
+        """
         new = self.controls.changed(**values)
         if "material" in values and new.material != CUSTOM_MATERIAL and "permittivity" not in values:
             new = new.changed(permittivity=new.material_permittivity())
@@ -125,7 +204,18 @@ class WorkbenchSession:
         return new
 
     def scenario(self) -> Scenario:
-        """The scenario of the current controls (raises InputError when they are impossible)."""
+        """The scenario of the current controls.
+
+        Returns
+        -------
+        Scenario
+            The scenario (SI).
+
+        Raises
+        ------
+        InputError
+            When the controls are impossible.
+        """
         return self.controls.to_scenario(self.base)
 
     # ---- running -------------------------------------------------------------------------------------------
@@ -136,7 +226,22 @@ class WorkbenchSession:
         chunk_cycles: int | None = None,
     ) -> Outcome:
         """Simulate the current controls. Invalid input gives an Outcome with ``error`` set, never an
-        exception."""
+        exception.
+
+        Parameters
+        ----------
+        progress : callable, optional
+            Called as progress(cycles_done, cycles_total) after each chunk.
+        should_stop : callable, optional
+            Polled after each chunk; True ends the run early (the outcome is then ``stopped``).
+        chunk_cycles : int, optional
+            Cycles per chunk [-]; None: about 1/50 of the run, 10 ... 5000.
+
+        Returns
+        -------
+        Outcome
+            What the run produced (also kept as :attr:`outcome`).
+        """
         controls = self.controls
         t0 = time.perf_counter()
         try:
@@ -177,13 +282,24 @@ class WorkbenchSession:
         """Read a measured event list (:func:`pdvoid.io.read_events`; a ``.npz`` file written by
         :meth:`pdvoid.Result.save` is read with :func:`pdvoid.load`) and keep it for comparison.
 
-        Args:
-            path: the file [-].
-            cycles: AC cycles observed [-]; None: from the file.
-            frequency: supply frequency [Hz]; None: from the file's ``# frequency = ...`` line.
+        Parameters
+        ----------
+        path : str or pathlib.Path
+            The file [-].
+        cycles : float, optional
+            AC cycles observed; None: from the file [-].
+        frequency : float, optional
+            Supply frequency; None: from the file's ``# frequency = ...`` line [Hz].
 
-        Returns:
-            A one-line description. Raises InputError for unreadable files (the panel shows the message).
+        Returns
+        -------
+        str
+            A one-line description.
+
+        Raises
+        ------
+        InputError
+            For unreadable files (the panel shows the message).
         """
         p = Path(path)
         if p.suffix.lower() == ".npz":
@@ -199,10 +315,11 @@ class WorkbenchSession:
         return f"{p.name}: {events.count} discharges in {events.cycles:g} cycles at {events.frequency:g} Hz"
 
     def clear_measured(self) -> None:
+        """Forget the measured pattern."""
         self.measured = None
         self.measured_name = ""
 
-    def _compare(self, result: Result) -> tuple[object | None, str]:
+    def _compare(self, result: Result) -> tuple[Comparison | None, str]:
         if self.measured is None:
             return None, ""
         try:

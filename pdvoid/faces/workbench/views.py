@@ -9,10 +9,18 @@ from __future__ import annotations
 import io
 import math
 import textwrap
+from collections.abc import Iterator
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 from pdvoid.core.errors import InputError
 from pdvoid.faces.workbench.session import Outcome
+from pdvoid.simulation.events import Events
+from pdvoid.simulation.results import Result
+
+if TYPE_CHECKING:
+    from matplotlib.axes import Axes
+    from matplotlib.figure import Figure
 
 __all__ = [
     "VIEW_NAMES",
@@ -39,7 +47,7 @@ _MARGINS = {
 _COLORBAR = (1.0, 0.14)  # pattern colour bar: distance of its left edge from the right edge, width [in]
 
 
-def _figure(name: str):
+def _figure(name: str) -> Figure:
     from matplotlib.figure import Figure
 
     from pdvoid.faces.plots import new_figure
@@ -53,22 +61,22 @@ def _figure(name: str):
     return fig
 
 
-def _pattern_colorbar(fig, ax) -> None:
+def _pattern_colorbar(fig: Figure, ax: Axes) -> None:
     from matplotlib.ticker import FuncFormatter
 
-    from pdvoid.faces.plots.style import plain_number
+    from pdvoid.faces.plots.style import MESH, attached, plain_number
 
     w, h = _SIZES["pattern"]
     _, _, bottom, top = _MARGINS["pattern"]
     cax = fig.add_axes((1.0 - _COLORBAR[0] / w, bottom / h, _COLORBAR[1] / w, 1.0 - (bottom + top) / h))
-    cb = fig.colorbar(ax.pdvoid_mesh, cax=cax)
+    cb = fig.colorbar(attached(ax, MESH), cax=cax)
     cb.set_label("discharges per cycle per cell [1/cycle]", size=9)
     cb.ax.tick_params(labelsize=8, which="both")
     cb.ax.yaxis.set_major_formatter(FuncFormatter(plain_number))
     cb.ax.yaxis.set_minor_formatter(FuncFormatter(_minor_label))
 
 
-def _minor_label(value: float, _pos: object = None) -> str:
+def _minor_label(value: float, _pos: int | None = None) -> str:
     """Minor colour-bar labels at 2 and 5 times a power of ten only, as plain numbers."""
     from pdvoid.faces.plots.style import plain_number
 
@@ -78,7 +86,7 @@ def _minor_label(value: float, _pos: object = None) -> str:
     return plain_number(value) if lead in (2, 5) else ""
 
 
-def _message_figure(name: str, message: str):
+def _message_figure(name: str, message: str) -> Figure:
     fig = _figure(name)
     ax = fig.add_subplot()
     ax.set_axis_off()
@@ -95,9 +103,29 @@ def _message_figure(name: str, message: str):
     return fig
 
 
-def view_figure(name: str, result, measured=None):
-    """The matplotlib Figure of one view: "field", "pattern", "sequence" or "comparison" (needs ``measured``).
-    A view that cannot be drawn for this result shows its InputError message instead."""
+def view_figure(name: str, result: Result, measured: Result | Events | None = None) -> Figure:
+    """The matplotlib Figure of one view. A view that cannot be drawn for this result shows its InputError
+    message instead.
+
+    Parameters
+    ----------
+    name : str
+        "field", "pattern", "sequence" or "comparison" (needs ``measured``) [-].
+    result : Result
+        The simulation [-].
+    measured : Result or Events, optional
+        The measured pattern of the comparison view [-].
+
+    Returns
+    -------
+    matplotlib.figure.Figure
+        The view (never registered with pyplot).
+
+    Raises
+    ------
+    InputError
+        For an unknown view name.
+    """
     from pdvoid.faces import plots
 
     if name not in _SIZES:
@@ -111,9 +139,11 @@ def view_figure(name: str, result, measured=None):
             _pattern_colorbar(fig, ax)
         elif name == "sequence":
             ax = plots.pulse_sequence_plot(result, "du", ax=fig.add_subplot())
-            ax.xaxis.label.set_size(9)
-            ax.yaxis.label.set_size(9)
+            ax.xaxis.label.set_fontsize(9)
+            ax.yaxis.label.set_fontsize(9)
         else:
+            if measured is None:
+                raise InputError("the comparison needs a measured pattern; load one first")
             mosaic = fig.subplot_mosaic([["sim", "meas"], ["overlay", "overlay"]], height_ratios=[1.15, 1.0])
             plots.compare(result, measured, [mosaic["sim"], mosaic["meas"], mosaic["overlay"]])
     except InputError as exc:
@@ -121,23 +151,70 @@ def view_figure(name: str, result, measured=None):
     return fig
 
 
-def figure_png(fig, dpi: float = SCREEN_DPI) -> bytes:
-    """PNG bytes of a Figure (fast compression: the panel redraws often)."""
+def figure_png(fig: Figure, dpi: float = SCREEN_DPI) -> bytes:
+    """PNG bytes of a Figure (fast compression: the panel redraws often).
+
+    Parameters
+    ----------
+    fig : matplotlib.figure.Figure
+        The figure.
+    dpi : float
+        Resolution [1/in].
+
+    Returns
+    -------
+    bytes
+        The PNG file.
+    """
     buf = io.BytesIO()
     fig.savefig(buf, format="png", dpi=dpi, facecolor="white", pil_kwargs={"compress_level": 1})
     return buf.getvalue()
 
 
-def render_views(outcome: Outcome):
-    """(name, PNG bytes) of the field, pattern and pulse-sequence views of a successful outcome, one at a time
-    (a generator, so the panel can show each picture as soon as it is drawn)."""
+def render_views(outcome: Outcome) -> Iterator[tuple[str, bytes]]:
+    """The field, pattern and pulse-sequence views of a successful outcome, one at a time (a generator, so
+    the panel can show each picture as soon as it is drawn).
+
+    Parameters
+    ----------
+    outcome : Outcome
+        A workbench update with a result.
+
+    Returns
+    -------
+    iterator of tuple of (str, bytes)
+        (view name, PNG bytes) for each of :data:`VIEW_NAMES`.
+
+    Raises
+    ------
+    InputError
+        When the outcome has no result.
+    """
     if outcome.result is None:
         raise InputError(f"there is nothing to draw: {outcome.error or 'no result'}")
     return ((name, figure_png(view_figure(name, outcome.result))) for name in VIEW_NAMES)
 
 
-def render_comparison(outcome: Outcome, measured) -> bytes:
-    """PNG bytes of the simulated-against-measured view."""
+def render_comparison(outcome: Outcome, measured: Result | Events) -> bytes:
+    """PNG bytes of the simulated-against-measured view.
+
+    Parameters
+    ----------
+    outcome : Outcome
+        A workbench update with a result.
+    measured : Result or Events
+        The measured pattern.
+
+    Returns
+    -------
+    bytes
+        The PNG file.
+
+    Raises
+    ------
+    InputError
+        When the outcome has no result.
+    """
     if outcome.result is None:
         raise InputError(f"there is nothing to compare: {outcome.error or 'no result'}")
     return figure_png(view_figure("comparison", outcome.result, measured))
@@ -145,18 +222,39 @@ def render_comparison(outcome: Outcome, measured) -> bytes:
 
 def export(
     folder: str | Path,
-    outcome: Outcome,
-    measured=None,
+    outcome: Outcome | None,
+    measured: Result | Events | None = None,
     formats: tuple[str, ...] = ("png", "svg"),
     stem: str = "pdvoid",
 ) -> list[Path]:
     """Write the figures (``formats`` from png, svg, pdf), the scenario (TOML, :meth:`Scenario.to_file`) and
     the result (:meth:`Result.save`, NPZ) of ``outcome`` into ``folder`` (created if missing).
 
-    Returns:
-        The paths written. Raises InputError when there is no result or a format is unknown.
+    Parameters
+    ----------
+    folder : str or pathlib.Path
+        Where to write (created if missing) [-].
+    outcome : Outcome or None
+        The workbench update to export (None before the first one).
+    measured : Result or Events, optional
+        The measured pattern; adds the comparison view [-].
+    formats : tuple of str
+        Figure formats, from "png", "svg", "pdf" [-].
+    stem : str
+        File-name prefix [-].
+
+    Returns
+    -------
+    list of pathlib.Path
+        The paths written.
+
+    Raises
+    ------
+    InputError
+        When there is no result, a format is unknown, the stem is not a plain prefix or the folder cannot be
+        created.
     """
-    if outcome is None or outcome.result is None:
+    if outcome is None or outcome.result is None or outcome.scenario is None:
         raise InputError(
             "nothing to export yet: the last update has no result"
             + (f" ({outcome.error})" if outcome is not None and outcome.error else "")
