@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import sys
 import warnings
+from types import FrameType
 
 __all__ = ["ValidityWarning", "warn_validity"]
 
@@ -21,7 +22,7 @@ class ValidityWarning(UserWarning):
 def _caller_level() -> int:
     """Stack level of the first frame outside pdvoid (at least 2), so the warning points at the user's code."""
     level = 2
-    frame = sys._getframe(2)  # the caller of warn_validity's caller
+    frame: FrameType | None = sys._getframe(2)  # the caller of warn_validity's caller
     while frame is not None and frame.f_globals.get("__name__", "").startswith("pdvoid."):
         frame = frame.f_back
         level += 1

@@ -16,7 +16,9 @@ forms of :mod:`pdvoid.coefficients.cylinder` interpolate:
 from __future__ import annotations
 
 import time
+from collections.abc import Callable
 from pathlib import Path
+from typing import Any
 
 import numpy as np
 
@@ -126,8 +128,8 @@ def build_cylinder_table(
     permittivities: tuple[float, ...] = TABLE_PERMITTIVITIES,
     resolution: float = 48.0,
     slab_factor: float = 8.0,
-    log=print,
-) -> dict:
+    log: Callable[[str], object] = print,
+) -> dict[str, Any]:
     """Compute the isolated-cylinder table with :func:`isolated_cylinder` and write it as ``.npz``.
 
     Parameters
@@ -164,7 +166,7 @@ def build_cylinder_table(
             kq_raw[i, j] = sol.charge_per_field * sol.thickness / (er * EPSILON_0 * sol.void_volume)
             log(f"D/h = {a:10.4g}  er = {er:6.3g}  f = {f[i, j]:.6f}  K_q = {kq[i, j]:.6f}  "
                 f"({sol.unknowns} unknowns, {time.perf_counter() - t0:.2f} s)")
-    out = {
+    out: dict[str, Any] = {
         "aspect": np.asarray(aspects, float),
         "permittivity": np.asarray(permittivities, float),
         "field_enhancement": f,
