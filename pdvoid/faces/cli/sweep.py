@@ -127,6 +127,6 @@ def run(ns: argparse.Namespace) -> int:
     if failed:
         first = next(str(e) for e in ds["error"].values.ravel() if e)
         print(f"  first failure: {first}")
-    print(f"wrote {out} (variables: {', '.join(metrics)})")
+    print(f"wrote {out} (variables: {', '.join(map(str, metrics))})")
     print(SAFETY)
     return 0
