@@ -21,6 +21,7 @@ from pdvoid._version import __version__
 from pdvoid.coefficients import Coefficients, compute_coefficients
 from pdvoid.core.errors import InputError
 from pdvoid.core.references import cite
+from pdvoid.core.validity import ValidityWarning
 from pdvoid.core.versions import show_versions
 from pdvoid.inputs.parameters import Insulation, Periodic, Sine, Void
 from pdvoid.inputs.scenario import Scenario
@@ -58,7 +59,7 @@ _SUBPACKAGES = {
 }
 
 __all__ = [
-    "__version__", "InputError", "cite", "show_versions", "Insulation", "Void", "Sine", "Periodic", "FieldModel",
+    "__version__", "InputError", "ValidityWarning", "cite", "show_versions", "Insulation", "Void", "Sine", "Periodic", "FieldModel",
     "NetworkModel", "Scenario", "Coefficients", "compute_coefficients", "Events", "simulate", "Result", "load",
     *_LAZY,
 ]

@@ -7,14 +7,16 @@ All from the analytic coefficients (no simulation), so a table of hundreds of po
 from __future__ import annotations
 
 import math
+import warnings
 from dataclasses import dataclass, fields
 
 import numpy as np
 from numpy.typing import ArrayLike
 from scipy.optimize import brentq
 
-from pdvoid.coefficients import compute_coefficients
+from pdvoid.coefficients import Coefficients, compute_coefficients
 from pdvoid.core.errors import InputError, check_array, check_positive
+from pdvoid.core.validity import ValidityWarning, warn_validity
 from pdvoid.inputs.scenario import Scenario
 
 __all__ = ["MarginTable", "margin_table", "LargestVoid", "largest_pd_free_void", "DesignMargin", "design_margin",
@@ -49,6 +51,9 @@ class MarginTable:
         inception_voltage / test_voltage [-] (None without a test level).
     errors : tuple[str, ...]
         the InputError message per value ("" where fine).
+    notes : tuple[str, ...]
+        per value, the validity warnings of its closed-form coefficients joined by "; " ("" where none). The
+        table issues one :class:`~pdvoid.core.validity.ValidityWarning` naming how many rows have notes.
     """
 
     parameter: str
@@ -59,6 +64,7 @@ class MarginTable:
     test_voltage: float | None
     margin: np.ndarray | None
     errors: tuple[str, ...]
+    notes: tuple[str, ...] = ()
 
     def as_rows(self) -> list[dict[str, float]]:
         """The table as rows with SI units in the keys (for printing, JSON or a DataFrame).
@@ -94,6 +100,21 @@ def _changed(scenario: Scenario, parameter: str, value: float) -> Scenario:
         aspect = scenario.void.height / scenario.void.diameter
         return scenario.replace(**{"void.diameter": value, "void.height": value * aspect})
     return scenario.replace(**{parameter: value})
+
+
+def _noted_coefficients(scenario: Scenario) -> tuple[Coefficients, tuple[str, ...]]:
+    """Coefficients of ``scenario`` with the validity warnings they raise collected rather than issued (the
+    searches below try voids outside the closed forms' range that are not part of the answer)."""
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always", ValidityWarning)
+        c = compute_coefficients(scenario)
+    notes = []
+    for w in caught:
+        if issubclass(w.category, ValidityWarning):
+            notes.append(str(w.message))
+        else:  # anything else is passed on unchanged
+            warnings.warn_explicit(w.message, w.category, w.filename, w.lineno)
+    return c, tuple(dict.fromkeys(notes))
 
 
 def margin_table(scenario: Scenario, parameter: str = "void.size", values: ArrayLike | None = None,
@@ -136,17 +157,25 @@ def margin_table(scenario: Scenario, parameter: str = "void.size", values: Array
     inc = np.full(vals.size, np.nan)
     ext = np.full(vals.size, np.nan)
     errors = []
+    notes = []
     for i, v in enumerate(vals):
         try:
-            c = compute_coefficients(_changed(scenario, parameter, float(v)))
+            c, row_notes = _noted_coefficients(_changed(scenario, parameter, float(v)))
         except InputError as exc:  # an impossible combination (e.g. a void taller than the insulation)
             errors.append(str(exc))
+            notes.append("")
             continue
+        notes.append("; ".join(row_notes))
         inc[i], ext[i] = c.inception_voltage, c.extinction_voltage
         errors.append("")
     margin = inc / test_voltage if test_voltage is not None else None
+    flagged = sum(1 for n in notes if n)
+    if flagged:
+        warn_validity(f"{flagged} of {vals.size} rows of the margin table rest on closed forms outside their "
+                      "verified range (MarginTable.notes says which and why)")
     return MarginTable(parameter=parameter, unit=_UNITS.get(parameter, "SI"), values=vals, inception_voltage=inc,
-                       extinction_voltage=ext, test_voltage=test_voltage, margin=margin, errors=tuple(errors))
+                       extinction_voltage=ext, test_voltage=test_voltage, margin=margin, errors=tuple(errors),
+                       notes=tuple(notes))
 
 
 @dataclass(frozen=True)
@@ -163,20 +192,26 @@ class LargestVoid:
         "" when the inception voltage equals the test voltage; "insulation" when even a void half as
         tall as the insulation stays discharge-free (the closed forms are not valid beyond); "smallest" when
         even a 1 µm void would discharge.
+    notes : tuple[str, ...]
+        validity warnings of the closed-form coefficients of that void (also issued as a
+        :class:`~pdvoid.core.validity.ValidityWarning`); the trial voids of the search issue none.
     """
 
     diameter: float
     height: float
     inception_voltage: float
     limited_by: str
+    notes: tuple[str, ...] = ()
 
 
 def largest_pd_free_void(scenario: Scenario, test_voltage: float) -> LargestVoid:
     """The void diameter (at the scenario's aspect ratio) whose analytic inception voltage equals
     ``test_voltage``: every smaller void of that shape stays discharge-free at the test level.
 
-    The inception voltage falls monotonically with size at fixed shape (the streamer term B/(p·l)^n shrinks,
-    the field enhancement stays), so the root is unique; Brent's method on log(size).
+    The inception voltage falls monotonically with size at fixed shape (the breakdown field of the gas falls
+    with the gap length in the streamer and the Townsend regime alike, and the field enhancement stays), so the
+    root is unique; Brent's method on log(size). Voids too small for a self-sustained discharge (infinite
+    inception voltage) count as discharge-free.
 
     Parameters
     ----------
@@ -203,17 +238,26 @@ def largest_pd_free_void(scenario: Scenario, test_voltage: float) -> LargestVoid
     d_min = max(1e-6, 1e-7 / min(aspect, 1.0)) * (1.0 + 1e-9)
 
     def u_inc(d: float) -> float:
-        return compute_coefficients(_changed(scenario, "void.size", d)).inception_voltage
+        return _noted_coefficients(_changed(scenario, "void.size", d))[0].inception_voltage
+
+    def answer(d: float, limited_by: str) -> LargestVoid:
+        c, notes = _noted_coefficients(_changed(scenario, "void.size", d))
+        for note in notes:
+            warn_validity(note)
+        return LargestVoid(d, d * aspect, c.inception_voltage, limited_by, notes)
 
     hi_u, lo_u = u_inc(d_min), u_inc(d_max)
     if lo_u >= test_voltage:
-        return LargestVoid(d_max, d_max * aspect, lo_u, "insulation")
+        return answer(d_max, "insulation")
     if hi_u <= test_voltage:
-        return LargestVoid(d_min, d_min * aspect, hi_u, "smallest")
-    x = brentq(lambda lx: u_inc(math.exp(lx)) - test_voltage, math.log(d_min), math.log(d_max), xtol=1e-12,
-               rtol=1e-13)
-    d = math.exp(x)
-    return LargestVoid(d, d * aspect, u_inc(d), "")
+        return answer(d_min, "smallest")
+    big = 1e6 * test_voltage  # stands in for an infinite inception voltage, so that Brent's steps stay finite
+
+    def excess(lx: float) -> float:
+        return min(u_inc(math.exp(lx)), big) - test_voltage
+
+    x = brentq(excess, math.log(d_min), math.log(d_max), xtol=1e-12, rtol=1e-13)
+    return answer(math.exp(x), "")
 
 
 @dataclass(frozen=True)

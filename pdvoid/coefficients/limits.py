@@ -73,14 +73,15 @@ def warn_closed_form_limits(shape: str, diameter: float, height: float, thicknes
     if shape == "cylinder":
         aspect = diameter / height
         lo, hi = TABLE_ASPECT_RANGE
-        if aspect < lo:
+        # a relative slack of 1e-9 keeps the ends of the range (e.g. 1000:1 built as d and d/1000) inside it
+        if aspect < lo * (1.0 - 1e-9):
             messages.append(
                 f"the cylindrical void is {_mm(height)} tall and only {_mm(diameter)} wide (diameter/height "
                 f"{aspect:.3g}): a tall narrow cylinder outside the verified range {lo:g} to {hi:g}; its field "
                 f"enhancement and charge per field are extrapolated towards the needle limit (f -> 1) and may be "
                 f"off by several %; {_ADVICE}"
             )
-        elif aspect > hi:
+        elif aspect > hi * (1.0 + 1e-9):
             messages.append(
                 f"the cylindrical void has diameter/height {aspect:.4g}, outside the verified range {lo:g} to "
                 f"{hi:g}; its coefficients are extrapolated with the flat-disc asymptote (1 - N proportional to "
