@@ -26,11 +26,13 @@ from collections.abc import Mapping, Sequence
 from dataclasses import dataclass
 
 from pdvoid.core.errors import InputError
-from pdvoid.core.units import UNITS
+from pdvoid.core.units import parse_quantity
 
 __all__ = [
     "Column",
+    "COLUMN_DIMENSIONS",
     "COLUMN_UNITS",
+    "unit_factor",
     "checked_column",
     "parse_column",
     "resolve_columns",
@@ -38,7 +40,17 @@ __all__ = [
     "SI_UNITS",
 ]
 
-#: column name -> units accepted (the conversion factors come from :data:`pdvoid.core.units.UNITS`)
+#: column name -> the dimension its unit must have; any unit pint knows of that dimension is accepted
+#: (:func:`pdvoid.core.units.parse_quantity`), e.g. "pC", "nC" or "uC" for a charge, "us" or "min" for a time
+COLUMN_DIMENSIONS: dict[str, str] = {
+    "phase": "angle",
+    "charge": "charge",
+    "time": "time",
+    "voltage": "voltage",
+    "field_before": "field",
+    "field_after": "field",
+}
+#: column name -> the usual units, shown as examples in messages (any unit of the column's dimension is accepted)
 COLUMN_UNITS: dict[str, tuple[str, ...]] = {
     "phase": ("deg", "rad"),
     "charge": ("C", "nC", "pC", "fC"),
@@ -95,7 +107,37 @@ class Column:
         """Factor from the column's unit to SI [-]; 1 for cycle and skip, NaN while the unit is unknown."""
         if self.name == "cycle" or self.name == "skip":
             return 1.0
-        return UNITS[self.unit][1] if self.unit is not None else float("nan")
+        return unit_factor(self.name, self.unit) if self.unit is not None else float("nan")
+
+
+def unit_factor(name: str, unit: str, where: str = "column") -> float:
+    """Factor from ``unit`` to the SI unit of column ``name`` (degrees for the phase) [-].
+
+    Parameters
+    ----------
+    name : str
+        Canonical column name with a dimension (:data:`COLUMN_DIMENSIONS`) [-].
+    unit : str
+        Any unit of that dimension pint knows, e.g. ``"pC"`` [-].
+    where : str
+        Prefix of error messages (file and line) [-].
+
+    Returns
+    -------
+    float
+        The factor: a value in ``unit`` times it is the value in SI.
+
+    Raises
+    ------
+    InputError
+        For a unit of another dimension or one pint does not know.
+    """
+    dim = COLUMN_DIMENSIONS[name]
+    try:
+        return parse_quantity(f"1 {unit}", dim, name=f"unit of column {name!r}")
+    except InputError:
+        raise InputError(f"{where}: unit {unit!r} is not accepted for column {name!r}: it needs a unit of {dim} "
+                         f"(for example {', '.join(COLUMN_UNITS[name])})") from None
 
 
 def column_label(name: str, unit: str | None = None) -> str:
@@ -126,11 +168,7 @@ def _unit(name: str, unit: str | None, where: str) -> str | None:
         raise InputError(f"{where}: the cycle column is a whole number without unit ('-'); got unit {unit!r}")
     if u == "":
         return None
-    if u not in COLUMN_UNITS[name]:
-        raise InputError(
-            f"{where}: unit {unit!r} is not accepted for column {name!r}; accepted: "
-            f"{', '.join(COLUMN_UNITS[name])}"
-        )
+    unit_factor(name, u, where)  # raises InputError for a unit of the wrong dimension
     return u
 
 
@@ -142,7 +180,7 @@ def checked_column(name: str, unit: str, where: str) -> Column:
     name : str
         Canonical column name [-].
     unit : str
-        Its unit (one of :data:`COLUMN_UNITS` for the name) [-].
+        Its unit (any unit of the column's dimension, :data:`COLUMN_DIMENSIONS`) [-].
     where : str
         Prefix of error messages (file and line) [-].
 
