@@ -60,7 +60,8 @@ _SUBPACKAGES = {
 
 __all__ = [
     "__version__", "InputError", "ValidityWarning", "cite", "show_versions", "Insulation", "Void", "Sine", "Periodic",
-    "FieldModel", "NetworkModel", "Scenario", "Coefficients", "compute_coefficients", "Events", "simulate", "Result", "load",
+    "FieldModel", "NetworkModel", "Scenario", "Coefficients", "compute_coefficients", "Events", "simulate", "Result",
+    "load",
     *_LAZY,
 ]
 
