@@ -85,7 +85,8 @@ def test_every_void_is_above_the_floor_or_has_no_discharge(criterion):
     # thickened to hold a 10 mm void), 50 Hz sine. Each inception voltage is finite and not below the floor
     # V_min / (l x void field per applied peak volt x peak factor), or infinite with a reason.
     model = pdvoid.FieldModel(inception_criterion=criterion)
-    ins = pdvoid.Insulation(thickness=30e-3, permittivity=4.2)
+    # a slab 6 times the largest void keeps the closed-form geometry within its verified range (no ValidityWarning)
+    ins = pdvoid.Insulation(thickness=60e-3, permittivity=4.2)
     gas = get_gas("air")
     for size in SIZES:
         for p in PRESSURES:
