@@ -25,6 +25,7 @@ from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
 from pdvoid.core.errors import InputError
+from pdvoid.core.files import atomic_write
 from pdvoid.core.units import parse_quantity
 from pdvoid.inputs.model_parameters import model_class, model_kinds
 from pdvoid.inputs.parameters import Insulation, Periodic, Sine, Void
@@ -271,6 +272,6 @@ def write_scenario_file(s: Scenario, path: str | os.PathLike[str]) -> Path:
     import tomli_w
 
     p = Path(path)
-    with open(p, "wb") as fh:
+    with atomic_write(p, "wb") as fh:
         tomli_w.dump(scenario_to_dict(s), fh)
     return p

@@ -9,6 +9,7 @@ from pathlib import Path
 import numpy as np
 
 from pdvoid.core.errors import InputError, check_choice
+from pdvoid.core.files import atomic_write
 from pdvoid.io import lines as L
 from pdvoid.io.columns import SI_UNITS, checked_column, column_label
 from pdvoid.simulation.events import Events
@@ -97,7 +98,7 @@ def write_events(
             raise InputError(f"metadata key {k!r} or value {v!r} cannot be written as a '# key = value' line")
         head.append(f"# {k} = {v}")
     header = delimiter.join(column_label(n, u) for n, _, _, u in cols)
-    with open(p, "w", encoding="utf-8", newline="\n") as fh:
+    with atomic_write(p, "w", encoding="utf-8", newline="\n") as fh:
         fh.write("\n".join(head) + "\n" + header + "\n")
         if events.count and cols:
             np.savetxt(

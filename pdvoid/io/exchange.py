@@ -48,6 +48,7 @@ from typing import Literal, overload
 import numpy as np
 
 from pdvoid.core.errors import InputError
+from pdvoid.core.files import atomic_write
 from pdvoid.io import lines as L
 from pdvoid.io.columns import SI_UNITS, column_label, parse_column
 from pdvoid.io.matrix import PatternMatrix
@@ -157,7 +158,7 @@ def write_exchange(
     if len(text) > MAX_HEADER_CHARS:
         raise InputError(f"the header would exceed {MAX_HEADER_CHARS} characters (provenance too large)")
     p = Path(path)
-    with open(p, "w", encoding="utf-8", newline="\n") as fh:
+    with atomic_write(p, "w", encoding="utf-8", newline="\n") as fh:
         fh.write(f"{EXCHANGE_FORMAT} {EXCHANGE_VERSION}\n{text}\n---\n")
         if names is not None:
             fh.write(",".join(header["columns"]) + "\n")

@@ -33,6 +33,7 @@ from numpy.typing import ArrayLike
 
 from pdvoid.core.arrays import frozen_array as _frozen
 from pdvoid.core.errors import InputError, check_array, check_choice, check_positive
+from pdvoid.core.files import atomic_write
 from pdvoid.io import lines as L
 from pdvoid.io.columns import checked_column
 from pdvoid.io.options import CommentKeys, check_layout_options, quantity_option
@@ -410,7 +411,7 @@ def write_pattern_matrix(
         return delimiter.join([label] + [f"{x:.17g}" for x in values])
 
     p = Path(path)
-    with open(p, "w", encoding="utf-8", newline="\n") as fh:
+    with atomic_write(p, "w", encoding="utf-8", newline="\n") as fh:
         fh.write("\n".join(head) + "\n")
         fh.write(row(f"phase edges [{pc.unit}]", matrix.phase_edges_deg / pc.factor) + "\n")
         fh.write(row(f"charge edges [{qc.unit}]", matrix.charge_edges / qc.factor) + "\n")

@@ -27,6 +27,7 @@ import numpy as np
 
 from pdvoid._version import __version__
 from pdvoid.core.errors import InputError
+from pdvoid.core.files import atomic_write
 from pdvoid.core.optional import require
 from pdvoid.inputs.scenario import Scenario, scenario_from_dict
 from pdvoid.inputs.scenario_files import scenario_to_dict
@@ -226,7 +227,10 @@ def write_netcdf(ds: xarray.Dataset, path: str | os.PathLike, *, engine: str = "
         raise InputError(f"ds must be an xarray.Dataset; got {type(ds).__name__}")
     p = Path(path)
     try:
-        ds.to_netcdf(p, engine=engine)
+        # written whole to a temporary file beside the target and renamed into place: a full disk or a kill
+        # leaves the previous file as it was, never a partial one
+        with atomic_write(p) as fh:
+            fh.write(ds.to_netcdf(engine=engine))
     except OSError as exc:
         raise InputError(f"{p}: cannot write NetCDF file ({exc.strerror or exc})") from None
     return p
