@@ -7,7 +7,7 @@ import math
 from typing import TYPE_CHECKING
 
 from pdvoid.coefficients.cylinder import cylinder_coefficients
-from pdvoid.coefficients.limits import warn_closed_form_limits
+from pdvoid.coefficients.limits import warn_closed_form_limits, warn_criteria_disagree
 from pdvoid.coefficients.record import Coefficients
 from pdvoid.core.errors import InputError
 from pdvoid.inputs.waveform import peak_value
@@ -141,6 +141,7 @@ def compute_coefficients(scenario: Scenario) -> Coefficients:
         if model.inception_criterion == "ionization_integral":
             raise
         e_int = math.nan
+    warn_criteria_disagree(e_str, e_int)
     chosen = r_str if model.inception_criterion == "streamer" else r_int
     assert chosen is not None
     e_inc = chosen.field

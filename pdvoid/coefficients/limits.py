@@ -15,13 +15,18 @@ Nothing is checked when the scenario carries a numerical field solution (``void.
 
 from __future__ import annotations
 
+import math
+
 from pdvoid.coefficients.cylinder import TABLE_ASPECT_RANGE, electrode_proximity_error
 from pdvoid.core.validity import warn_validity
 
-__all__ = ["ERROR_TOLERANCE", "warn_closed_form_limits"]
+__all__ = ["ERROR_TOLERANCE", "CRITERIA_TOLERANCE", "warn_closed_form_limits", "warn_criteria_disagree"]
 
 #: expected relative error of the closed forms above which compute_coefficients warns [-]
 ERROR_TOLERANCE = 0.02
+#: relative difference of the two inception criteria above which compute_coefficients warns [-]; for mm voids in
+#: air at 1 atm they agree within about 3 % (physics brief §3.1: within 5-9 % of the empirical curve)
+CRITERIA_TOLERANCE = 0.10
 
 _ADVICE = "use pdvoid.fields.coefficients(scenario) for the numerical field solution"
 
@@ -90,3 +95,33 @@ def warn_closed_form_limits(shape: str, diameter: float, height: float, thicknes
     for m in messages:
         warn_validity(m)
     return messages
+
+
+def warn_criteria_disagree(streamer_field: float, integral_field: float) -> str | None:
+    """Warn (:class:`~pdvoid.core.validity.ValidityWarning`) when the two inception criteria differ by more than
+    :data:`CRITERIA_TOLERANCE` (10 %): the inception voltage is then uncertain by that much, and a verdict
+    against a test level may depend on the criterion.
+
+    Parameters
+    ----------
+    streamer_field, integral_field : float
+        Inception field by the streamer formula and by the ionisation integral [V/m]; nothing is checked when
+        either is not finite (a criterion unavailable for the gas, or no self-sustained discharge).
+
+    Returns
+    -------
+    str or None
+        The message issued, or None.
+    """
+    if not (math.isfinite(streamer_field) and math.isfinite(integral_field)):
+        return None
+    low, high = sorted((streamer_field, integral_field))
+    if high <= low * (1.0 + CRITERIA_TOLERANCE):
+        return None
+    message = (
+        f"the two inception criteria disagree by {_percent(high / low - 1.0)}: the streamer formula gives "
+        f"{streamer_field / 1e6:.4g} kV/mm, the ionisation integral {integral_field / 1e6:.4g} kV/mm in the void; "
+        "the inception voltage is uncertain by that much (compare both against a test level)"
+    )
+    warn_validity(message)
+    return message
