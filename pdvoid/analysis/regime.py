@@ -55,8 +55,9 @@ class DischargeRegime:
         supply, electrode emission where it applies, the field-assisted factor when the model uses it); NaN when
         the void never reaches inception; inf for a lag-free model.
     mean_wait : float
-        Expected time to the first start electron, counting whole periods (period / hazard per cycle) [s]; 0 for
-        a lag-free model; inf when it never comes (below inception or no start electrons).
+        Expected time to the first start electron, including the parts of each period below inception (period
+        divided by the hazard accumulated per cycle) [s]; 0 for a lag-free model; inf when it never comes (below
+        inception or no start electrons).
     mean_wait_cycles : float
         The same in supply cycles [-].
     cycles_for_95_percent : float
@@ -207,11 +208,14 @@ def discharge_regime(scenario: Scenario, result: Result | None = None) -> Discha
     args = model.kernel_arguments(scenario, c)
     frac, ratio, hazard = _hazard_per_cycle(args, f)
     if frac == 0.0:
-        text = (f"below inception: the applied voltage is {100.0 * ratio:.3g} % of the inception voltage; no "
-                "discharge is expected")
-        if result is not None and result.event_count:
-            text += f" (the run nevertheless discharged, first after {_number(result.first_discharge_time)} s)"
-        state = "discharging" if result is not None and result.event_count else "below inception"
+        if result is not None and result.event_count:  # e.g. a deposited charge the uncharged void lacks
+            state = "discharging"
+            text = (f"discharging: first discharge after {_number(result.first_discharge_time)} s, although the "
+                    f"applied voltage is only {100.0 * ratio:.3g} % of the inception voltage of the uncharged void")
+        else:
+            state = "below inception"
+            text = (f"below inception: the applied voltage is {100.0 * ratio:.3g} % of the inception voltage; no "
+                    "discharge is expected")
         return DischargeRegime(state, text, ratio, 0.0, math.nan, math.inf, math.inf, math.inf, f, **extra)
 
     if args.lag_free:
