@@ -11,6 +11,7 @@ from pdvoid.analysis.magnitudes import weibull_fit
 from pdvoid.analysis.margins import design_margin, largest_pd_free_void, margin_table
 from pdvoid.analysis.patterns import half_cycle_distributions, magnitude_distribution, pattern
 from pdvoid.analysis.quantities import iec60270, largest_repeated_magnitude
+from pdvoid.analysis.regime import DischargeRegime, discharge_regime
 from pdvoid.analysis.sequence import pulse_sequence
 from pdvoid.analysis.summary import RunSummary, run_summary
 
@@ -18,4 +19,5 @@ __all__ = [
     "pattern", "half_cycle_distributions", "magnitude_distribution", "fingerprint", "weibull_fit",
     "pulse_sequence", "iec60270", "largest_repeated_magnitude", "inception", "ramp_test", "probability_of_missing",
     "margin_table", "largest_pd_free_void", "design_margin", "RunSummary", "run_summary", "compare", "fit",
+    "DischargeRegime", "discharge_regime",
 ]

@@ -50,6 +50,16 @@ class RunSummary:
         Discharge power P = Σq·u / T, u the applied voltage at each discharge [W].
     pulse_repetition_rate : float
         Pulse repetition rate n = count / T [1/s].
+    first_discharge_time : float
+        Time of the first discharge from the start of the run [s]; NaN when the run had none (or an old
+        histogram-only result file does not know it).
+    discharges_per_cycle_after_first : float
+        The recurrent rate once discharging: the discharges from the first one on (all of them) divided by the
+        cycles from the first discharge's cycle to the end of the run [1/cycle]; NaN without a first discharge.
+        Differs from ``discharges_per_cycle`` when the void waited long for its first start electron.
+    pulse_repetition_rate_after_first : float
+        The same count divided by the time from the start of the first discharge's cycle to the end [1/s]; NaN
+        without a first discharge.
     """
 
     #: SI unit of each attribute ("1" for a pure number)
@@ -64,6 +74,9 @@ class RunSummary:
         "quadratic_rate": "C^2/s",
         "discharge_power": "W",
         "pulse_repetition_rate": "1/s",
+        "first_discharge_time": "s",
+        "discharges_per_cycle_after_first": "1",
+        "pulse_repetition_rate_after_first": "1/s",
     })
 
     cycles: int
@@ -76,6 +89,9 @@ class RunSummary:
     quadratic_rate: float
     discharge_power: float
     pulse_repetition_rate: float
+    first_discharge_time: float = math.nan
+    discharges_per_cycle_after_first: float = math.nan
+    pulse_repetition_rate_after_first: float = math.nan
 
 
 def run_summary(result: Result) -> RunSummary:
@@ -103,6 +119,14 @@ def run_summary(result: Result) -> RunSummary:
     t_ref = result.duration
     n = int(result.event_count)
     q = np.abs(result.charge)
+    f = result.frequency
+    t_first = float(result.first_discharge_time)
+    per_cycle_after = rate_after = math.nan
+    if n and not math.isnan(t_first):
+        first_cycle = min(math.floor(t_first * f), result.cycles - 1)  # the cycle holding the first discharge
+        cycles_after = result.cycles - first_cycle
+        per_cycle_after = n / cycles_after
+        rate_after = n / (cycles_after / f)
     return RunSummary(
         cycles=int(result.cycles),
         duration=float(t_ref),
@@ -114,4 +138,7 @@ def run_summary(result: Result) -> RunSummary:
         quadratic_rate=float(result.sum_charge_squared / t_ref),
         discharge_power=float(result.sum_charge_voltage / t_ref),
         pulse_repetition_rate=n / t_ref,
+        first_discharge_time=t_first if n else math.nan,
+        discharges_per_cycle_after_first=per_cycle_after,
+        pulse_repetition_rate_after_first=rate_after,
     )

@@ -18,6 +18,7 @@ import numpy as np
 from pdvoid._version import __version__
 from pdvoid.analysis.inception import InceptionEstimate, inception
 from pdvoid.analysis.margins import MarginTable, largest_pd_free_void, margin_table
+from pdvoid.analysis.regime import discharge_regime
 from pdvoid.analysis.summary import run_summary
 from pdvoid.coefficients import compute_coefficients
 from pdvoid.core.errors import InputError, check_int, check_positive
@@ -303,6 +304,7 @@ def design_review(
         version=__version__,
         cycles=cycles,
         seed=seed,
+        regime=discharge_regime(result.scenario, result).text,
     )
     pages = rp.build_pages(ctx)
     meta = {

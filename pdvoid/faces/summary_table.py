@@ -13,13 +13,16 @@ __all__ = ["SUMMARY_ROWS", "summary_rows", "summary_dict"]
 
 #: (label with display unit, RunSummary attribute, factor from SI to the display unit), in display order
 SUMMARY_ROWS: tuple[tuple[str, str, float], ...] = (
+    ("first discharge after [s]", "first_discharge_time", 1.0),
     ("discharges per cycle [-]", "discharges_per_cycle", 1.0),
+    ("discharges per cycle from the first discharge on [-]", "discharges_per_cycle_after_first", 1.0),
     ("mean apparent charge [pC]", "mean_apparent_charge", 1e12),
     ("largest apparent charge [pC]", "largest_apparent_charge", 1e12),
     ("average discharge current I [nA]", "average_discharge_current", 1e9),
     ("quadratic rate D [pC²/s]", "quadratic_rate", 1e24),
     ("discharge power P [mW]", "discharge_power", 1e3),
     ("pulse repetition rate n [1/s]", "pulse_repetition_rate", 1.0),
+    ("pulse repetition rate from the first discharge on [1/s]", "pulse_repetition_rate_after_first", 1.0),
 )
 
 

@@ -43,13 +43,15 @@ S_REMAIN = 4  # remaining exponential hazard of the current wait
 S_COUNT = 5  # events so far (all, including histogram mode)
 STATE_SIZE = 8
 
-# totals vector layout (histogram mode and always): count, sum|q|, sum q^2, sum q*u, below edges, above edges
+# totals vector layout (histogram mode and always): count, sum|q|, sum q^2, sum q*u, below edges, above edges,
+# time of the first discharge [s] (the caller initialises it to NaN; written when the count is still zero)
 T_COUNT = 0
 T_ABS = 1
 T_SQ = 2
 T_QU = 3
 T_LOW = 4
 T_HIGH = 5
+T_FIRST = 6
 TOTALS_SIZE = 8
 
 @njit_cached
@@ -568,6 +570,8 @@ def run_cycles(
                 state[S_COUNT] += 1.0
                 if not lag_free:
                     state[S_REMAIN] = np.random.exponential(1.0)
+                if totals[T_COUNT] == 0.0:
+                    totals[T_FIRST] = t_d
                 totals[T_COUNT] += 1.0
                 totals[T_ABS] += abs(q)
                 totals[T_SQ] += q * q

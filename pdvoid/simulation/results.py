@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import json
+import math
 import os
 import zipfile
 from dataclasses import dataclass
@@ -88,6 +89,9 @@ class Result:
         Σ q² over all discharges [C²].
     sum_charge_voltage : float
         Σ q·u over all discharges (signed), u the applied voltage at the discharge [C·V].
+    first_discharge_time : float
+        Time of the first discharge from the start of the run [s], also in histogram-only runs; NaN when the run
+        had none (or, for a histogram-only file written before this field existed, when it is unknown).
     """
 
     events: Events
@@ -102,6 +106,7 @@ class Result:
     sum_abs_charge: float
     sum_charge_squared: float
     sum_charge_voltage: float
+    first_discharge_time: float = math.nan
 
     # event arrays, straight from the events
     @property
@@ -193,6 +198,8 @@ class Result:
             "version": self.version, "references": list(self.references), "event_count": self.event_count,
             "sum_abs_charge": self.sum_abs_charge.hex(), "sum_charge_squared": self.sum_charge_squared.hex(),
             "sum_charge_voltage": self.sum_charge_voltage.hex(), "label": self.events.label,
+            "first_discharge_time": (None if math.isnan(self.first_discharge_time)
+                                     else float(self.first_discharge_time).hex()),
             "histogram": None if self.histogram is None else {"below": self.histogram.below,
                                                               "above": self.histogram.above},
         }
@@ -287,13 +294,18 @@ def load(path: str | os.PathLike[str]) -> Result:
             hist = Histogram(counts=data["hist_counts"], phase_edges_deg=data["hist_phase_edges_deg"],
                              charge_edges=data["hist_charge_edges"], below=int(meta["histogram"]["below"]),
                              above=int(meta["histogram"]["above"]))
+        if "first_discharge_time" in meta:  # written since the field exists; None: no discharge
+            first = meta["first_discharge_time"]
+            first_time = math.nan if first is None else float.fromhex(first)
+        else:  # older file: the first stored event, else unknown
+            first_time = float(ev.time[0]) if ev.time is not None and ev.time.size else math.nan
         return Result(
             events=ev, scenario=scenario, seed=int(meta["seed"]), cycles=int(meta["cycles"]),
             requested_cycles=int(meta["requested_cycles"]), version=str(meta["version"]),
             references=tuple(meta["references"]), histogram=hist, event_count=int(meta["event_count"]),
             sum_abs_charge=float.fromhex(meta["sum_abs_charge"]),
             sum_charge_squared=float.fromhex(meta["sum_charge_squared"]),
-            sum_charge_voltage=float.fromhex(meta["sum_charge_voltage"]),
+            sum_charge_voltage=float.fromhex(meta["sum_charge_voltage"]), first_discharge_time=first_time,
         )
     except (KeyError, TypeError, ValueError) as exc:
         if isinstance(exc, InputError):

@@ -56,6 +56,7 @@ class VoidRunner:
         self.state = np.zeros(K.STATE_SIZE)
         self.state[K.S_TLAST] = -np.inf
         self.totals = np.zeros(K.TOTALS_SIZE)
+        self.totals[K.T_FIRST] = np.nan
         self.cycle = 0
         K.seed_generator(self.seed)
         if not self.args.lag_free:
@@ -237,5 +238,5 @@ def simulate(
         events=events, scenario=scenario, seed=seed, cycles=done, requested_cycles=cycles, version=__version__,
         references=args.references, histogram=hist, event_count=int(totals[K.T_COUNT]),
         sum_abs_charge=float(totals[K.T_ABS]), sum_charge_squared=float(totals[K.T_SQ]),
-        sum_charge_voltage=float(totals[K.T_QU]),
+        sum_charge_voltage=float(totals[K.T_QU]), first_discharge_time=float(totals[K.T_FIRST]),
     )

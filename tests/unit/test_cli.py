@@ -65,3 +65,35 @@ def test_bad_input_gives_a_message_and_exit_code_2(tmp_path, capsys):
 def test_unknown_command_exits():
     with pytest.raises(SystemExit):
         main(["fly"])
+
+
+def test_demo_states_the_regime(capsys):
+    assert main(["demo", "--cycles", "300", "--seed", "1", "--json"]) == 0
+    out = json.loads(capsys.readouterr().out, parse_constant=_refuse)
+    service, test = out["regimes"].values()
+    assert service["state"] == "below inception" and service["text"].startswith("below inception")
+    assert test["state"] == "discharging"
+    res = pdvoid.simulate(demo_scenario().replace(**{"supply.rms": DEMO_TEST_RMS}), 300, 1)
+    assert test["first discharge after [s]"] == res.time[0]
+    assert main(["demo", "--cycles", "100"]) == 0
+    assert "regime: below inception" in capsys.readouterr().out
+
+
+def test_simulate_says_waiting_for_a_start_electron(tmp_path, capsys):
+    # a 1.5 mm void 37 % above inception at natural background ionisation: a mean wait of thousands of cycles
+    # (tests/unit/analysis/test_regime.py), so 40 cycles are empty although the void is above inception
+    sc = pdvoid.Scenario(
+        insulation=pdvoid.Insulation(thickness=6e-3, permittivity=4.2),
+        void=pdvoid.Void(diameter=1.5e-3, height=1.5e-3), supply=pdvoid.Sine(rms=18e3, frequency=50.0),
+        model=pdvoid.FieldModel(),
+    )
+    path = tmp_path / "waiting.toml"
+    sc.to_file(path)
+    assert main(["simulate", str(path), "--cycles", "40", "--out", str(tmp_path / "a"), "--json"]) == 0
+    doc = json.loads(capsys.readouterr().out, parse_constant=_refuse)
+    assert doc["summary"]["discharges per cycle [-]"] == 0.0
+    assert doc["regime"]["state"] == "waiting for a start electron"
+    assert doc["regime"]["first discharge after [s]"] is None
+    assert doc["regime"]["mean wait for a first start electron [cycles]"] > 1000
+    assert main(["simulate", str(path), "--cycles", "40", "--out", str(tmp_path / "b")]) == 0
+    assert "regime: above inception" in capsys.readouterr().out

@@ -259,3 +259,27 @@ def test_cli_main_when_hooked(tmp_path, capsys):
         ["report", str(demo_scenario_path()), "--out", str(tmp_path / "m.pdf"), "--test-voltage=-5kV"]
     )
     assert code == 2 and "test_voltage" in capsys.readouterr().err
+
+
+def test_simulated_run_states_its_regime_and_first_discharge(demo_pack):
+    # the summary page, read back by pypdf: the regime sentence and the first-discharge time of the run
+    res = demo_pack.result
+    assert res.event_count > 0
+    texts = _pdf_page_texts(demo_pack.path)
+    page = texts[0] + " " + texts[1]
+    assert "simulated run at the test voltage: discharging: first discharge after" in page
+    assert f"{res.time[0]:.3g}" in page  # the first event's time in s (hand calculation from the array)
+
+
+def test_pack_above_inception_but_waiting_says_so(tmp_path, scenario_factory):
+    # natural background ionisation, 37 % above inception: a mean wait of thousands of cycles, so a short run is
+    # empty (tests/unit/analysis/test_regime.py); the pack must not read like "below inception"
+    sc = scenario_factory()
+    u_inc = pdvoid.compute_coefficients(sc).inception_voltage
+    pack = design_review(sc, test_voltage=18e3, cycles=20, out=tmp_path / "wait.pdf")
+    assert u_inc < 18e3 and pack.result.event_count == 0
+    texts = _pdf_page_texts(pack.path)
+    page = texts[0] + " " + texts[1]
+    assert "but waiting for a start electron" in page
+    assert "95 % chance of a first discharge within" in page
+    assert "first discharge after none" in page

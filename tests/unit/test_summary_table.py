@@ -10,7 +10,8 @@ from pdvoid.analysis.summary import RunSummary
 from pdvoid.core.errors import InputError
 from pdvoid.faces.summary_table import SUMMARY_ROWS, summary_dict, summary_rows
 
-# an invented run: 100 cycles at 50 Hz (T = 2 s), 250 discharges of mean 20 pC
+# an invented run: 100 cycles at 50 Hz (T = 2 s), 250 discharges of mean 20 pC, the first at 0.5 s (cycle 25:
+# 250 / 80 cycles = 3.125 per cycle, 250 / 1.6 s = 156.25 /s afterwards; hand calculation)
 SUMMARY = RunSummary(
     cycles=100,
     duration=2.0,
@@ -22,6 +23,9 @@ SUMMARY = RunSummary(
     quadratic_rate=6e-22,
     discharge_power=4e-5,
     pulse_repetition_rate=125.0,
+    first_discharge_time=0.5,
+    discharges_per_cycle_after_first=3.125,
+    pulse_repetition_rate_after_first=156.25,
 )
 
 
@@ -34,6 +38,9 @@ def test_rows_in_display_units():
     assert rows["quadratic rate D [pC²/s]"] == pytest.approx(600.0, rel=1e-15)
     assert rows["discharge power P [mW]"] == pytest.approx(0.04, rel=1e-15)
     assert rows["pulse repetition rate n [1/s]"] == 125.0
+    assert rows["first discharge after [s]"] == 0.5
+    assert rows["discharges per cycle from the first discharge on [-]"] == 3.125
+    assert rows["pulse repetition rate from the first discharge on [1/s]"] == 156.25
     assert math.isnan(rows["largest apparent charge [pC]"])  # a missing number stays missing, never 0
 
 

@@ -215,3 +215,28 @@ def test_unreadable_measured_file_raises_input_error(session, tmp_path):
     assert session.measured is None
     session.load_measured(bad, cycles=10, frequency=50.0)
     assert session.measured.count == 1 and math.isclose(session.measured.cycles, 10.0)
+
+
+def test_the_regime_is_stated_in_words_and_numbers(session):
+    # the demo at its test voltage discharges; its first discharge time comes from the run's events
+    out = session.run()
+    assert out.result.event_count > 0
+    assert out.regime.startswith("discharging: first discharge after")
+    assert out.summary["first discharge after [s]"] == out.result.time[0]
+    # a natural background ionisation of 1e7 /(m³ s) starves the demo void of start electrons: above inception
+    # but no discharge in 200 cycles (mean wait thousands of cycles; pdvoid.analysis.regime, hand calculation
+    # N_vol = G·Ω with Ω of a mm void ≈ 1e-9 m³ gives ≈ 1e-2 /s)
+    session.set(ionization_rate=1e7)
+    out = session.run()
+    assert out.result.event_count == 0 and out.summary[PER_CYCLE] == 0.0
+    assert out.summary[U_INC] < out.summary["applied voltage [kV rms]"]
+    assert "but waiting for a start electron" in out.regime
+    regime = pdvoid.analysis.discharge_regime(out.scenario, out.result)
+    assert out.summary["mean wait for a first start electron [s]"] == regime.mean_wait > 200 / 50.0
+    assert out.summary["cycles for a first discharge with 95 % probability [-]"] == pytest.approx(
+        -math.log(0.05) * regime.mean_wait_cycles, rel=1e-12)  # exponential law (hand calculation)
+    # below inception: said so, and the wait is infinite
+    session.set(voltage_kV=5.0)
+    out = session.run()
+    assert out.regime.startswith("below inception")
+    assert out.summary["mean wait for a first start electron [s]"] == math.inf

@@ -37,6 +37,9 @@ def test_panel_opens_with_images_and_summary(wb):
     assert "inception voltage" in wb.panel.summary.value and "kV rms" in wb.panel.summary.value
     assert wb.panel.status.value and "updated" in wb.panel.status.value
     assert wb.outcome.ok and wb.outcome.result.cycles == 200
+    # the regime in words, in the status line and below the summary table
+    assert wb.outcome.regime and "first discharge after" in wb.outcome.regime
+    assert "first discharge after" in wb.panel.status.value and "first discharge after" in wb.panel.summary.value
 
 
 # explores or shows voids large against the slab (e.g. 3 mm in 6 mm), for which compute_coefficients

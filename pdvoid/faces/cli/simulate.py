@@ -24,6 +24,20 @@ def _run_summary(result: Result) -> dict[str, float]:
     return summary_dict(run_summary(result))
 
 
+def _regime(result: Result) -> dict[str, object]:
+    """The run's regime in words and its expected first wait, with display units in the keys."""
+    from pdvoid.analysis.regime import discharge_regime
+
+    r = discharge_regime(result.scenario, result)
+    return {
+        "state": r.state, "text": r.text, "first discharge after [s]": r.first_discharge_time,
+        "mean wait for a first start electron [s]": r.mean_wait,
+        "mean wait for a first start electron [cycles]": r.mean_wait_cycles,
+        "cycles for a first discharge with 95 % probability [cycles]": r.cycles_for_95_percent,
+        "fraction of the period above inception [-]": r.fraction_above_inception,
+    }
+
+
 def _value(v: float) -> str:
     return f"{v:10.4g}" if math.isfinite(v) else f"{'n/a':>10s}"
 
@@ -45,11 +59,14 @@ def _cmd_demo(ns: argparse.Namespace) -> int:
         "apparent charge per discharge (E_inc to E_res) [pC]": c.charge_per_discharge * 1e12,
     }
     runs = {}
+    regimes = {}
     for label, rms in (("service", DEMO_SERVICE_RMS), ("test", DEMO_TEST_RMS)):
         s2 = sc.replace(**{"supply.rms": rms})
         res = simulate(s2, cycles=ns.cycles, seed=ns.seed)
         runs[f"{label} voltage {rms / 1e3:g} kV rms"] = _run_summary(res)
-    out = {"demo": rows, "simulations": runs, "cycles": ns.cycles, "seed": ns.seed, "safety": SAFETY}
+        regimes[f"{label} voltage {rms / 1e3:g} kV rms"] = _regime(res)
+    out = {"demo": rows, "simulations": runs, "regimes": regimes, "cycles": ns.cycles, "seed": ns.seed,
+           "safety": SAFETY}
     if ns.json:
         print(json.dumps(json_safe(out), indent=2, allow_nan=False))
         return 0
@@ -62,6 +79,7 @@ def _cmd_demo(ns: argparse.Namespace) -> int:
             print(f"  {k:<55s} {v:10.4g}")
     for label, summ in runs.items():
         print(f"\n  simulation at {label}, {ns.cycles} cycles, seed {ns.seed}:")
+        print(f"    regime: {regimes[label]['text']}")
         for k, v in summ.items():
             print(f"    {k:<53s} {_value(v)}")
     print("\n" + SAFETY)
@@ -79,7 +97,8 @@ def _cmd_simulate(ns: argparse.Namespace) -> int:
     res.save(out / "result.npz")
     res.to_csv(out / "events.csv")
     summ = _run_summary(res)
-    doc = {"scenario": str(ns.scenario), "cycles": ns.cycles, "seed": ns.seed, "summary": summ,
+    regime = _regime(res)
+    doc = {"scenario": str(ns.scenario), "cycles": ns.cycles, "seed": ns.seed, "summary": summ, "regime": regime,
            "files": [str(out / "result.npz"), str(out / "events.csv"), str(out / "summary.json")],
            "references": list(res.references), "safety": SAFETY}
     text = json.dumps(json_safe(doc), indent=2, allow_nan=False)
@@ -87,6 +106,7 @@ def _cmd_simulate(ns: argparse.Namespace) -> int:
     if ns.json:
         print(text)
     else:
+        print(f"regime: {regime['text']}")
         for k, v in summ.items():
             print(f"{k:<53s} {_value(v)}")
         print(f"wrote {', '.join(doc['files'])}")

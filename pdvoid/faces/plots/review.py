@@ -65,6 +65,9 @@ class Context:
         Cycles simulated [-].
     seed : int
         Random seed [-].
+    regime : str
+        The regime of the simulated run in words (:func:`pdvoid.analysis.regime.discharge_regime`); empty for
+        none.
     """
 
     scenario: Scenario
@@ -85,6 +88,7 @@ class Context:
     version: str
     cycles: int
     seed: int
+    regime: str = ""
 
 
 @dataclass(frozen=True)
@@ -104,6 +108,10 @@ class Pages:
     figures: list[Figure]
     titles: list[str]
     texts: list[str]
+
+
+def _number(v: float) -> str:
+    return f"{v:.3g}" if math.isfinite(v) else "none"
 
 
 def _kv(v: float | None) -> str:
@@ -207,8 +215,16 @@ def _summary_page(w: PageWriter, ctx: Context) -> None:
             f"{s['mean apparent charge [pC]']:.3g} / {s.get('largest apparent charge [pC]', math.nan):.3g}",
             "pC",
         ],
+        ["simulated: first discharge after", _number(s.get("first discharge after [s]", math.nan)), "s"],
+        [
+            "simulated: discharges per cycle from the first discharge on",
+            _number(s.get("discharges per cycle from the first discharge on [-]", math.nan)),
+            "1/cycle",
+        ],
     ]
     w.table(["quantity", "value", "unit"], rows, [0.52, 0.36, 0.12])
+    if ctx.regime:
+        w.paragraph(f"Simulated run at the test voltage: {ctx.regime}.", size=8.5)
     w.heading("Scenario")
     w.table(["input", "value", "unit", "origin"], ctx.inputs, [0.42, 0.2, 0.12, 0.26])
     w.heading("Material and gas data: source and status")

@@ -243,7 +243,8 @@ class Workbench:
             p.error.value = message_html(outcome.error, "error")
             p.status.value = message_html(f"not run (input error): {describe(outcome.controls)}", "error")
             return
-        note = outcome.comparison_error and f"comparison: {outcome.comparison_error}"
+        note = "; ".join(x for x in (outcome.regime,
+                                     outcome.comparison_error and f"comparison: {outcome.comparison_error}") if x)
         p.summary.value = summary_html(outcome.summary, outcome.comparison, note)
         p.error.value = ""
         p.progress.max = max(int(r.requested_cycles), 1)
@@ -254,8 +255,8 @@ class Workbench:
                 _put_image(p.images[name], png)
         state = f"stopped after {r.cycles} of {r.requested_cycles} cycles" if outcome.stopped else "updated"
         p.status.value = message_html(
-            f"{state}: {describe(outcome.controls)}; {r.cycles} cycles, {r.event_count} discharges; "
-            f"simulated in {outcome.seconds:.2f} s, drawn in {time.perf_counter() - t0:.2f} s",
+            f"{state}: {describe(outcome.controls)}; {r.cycles} cycles, {r.event_count} discharges "
+            f"({outcome.regime}); simulated in {outcome.seconds:.2f} s, drawn in {time.perf_counter() - t0:.2f} s",
             "info",
         )
         if self.session.measured is not None:  # after the status: the main views come first

@@ -13,6 +13,7 @@ from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
 from pdvoid.analysis.inception import inception
+from pdvoid.analysis.regime import discharge_regime
 from pdvoid.analysis.summary import run_summary
 from pdvoid.core.errors import InputError
 from pdvoid.faces.summary_table import summary_dict
@@ -52,6 +53,9 @@ class Outcome:
         The comparison with the measured pattern (pdvoid.analysis.compare.Comparison) or None.
     comparison_error : str
         Why no comparison could be made ("" when fine or no measured pattern).
+    regime : str
+        The run's regime in words (:func:`pdvoid.analysis.regime.discharge_regime`: below inception, waiting for
+        a start electron, discharging); "" when invalid.
     """
 
     controls: Controls
@@ -63,6 +67,7 @@ class Outcome:
     seconds: float = 0.0
     comparison: Comparison | None = None
     comparison_error: str = ""
+    regime: str = ""
 
     @property
     def ok(self) -> bool:
@@ -73,7 +78,8 @@ class Outcome:
 def summary_numbers(scenario: Scenario, result: Result, test_voltage: float) -> dict[str, float]:
     """The summary table: analytic inception and extinction, the margin to ``test_voltage`` [V rms] and the
     numbers of the simulated run (:func:`pdvoid.analysis.run_summary` in the display units of
-    :mod:`pdvoid.faces.summary_table`), with units in the keys.
+    :mod:`pdvoid.faces.summary_table`) and the expected wait for the first start electron
+    (:func:`pdvoid.analysis.regime.discharge_regime`; inf below inception), with units in the keys.
 
     Parameters
     ----------
@@ -101,6 +107,9 @@ def summary_numbers(scenario: Scenario, result: Result, test_voltage: float) -> 
         "cycles run [-]": float(result.cycles),
     }
     out.update(summary_dict(run_summary(result)))
+    regime = discharge_regime(scenario, result)
+    out["mean wait for a first start electron [s]"] = regime.mean_wait
+    out["cycles for a first discharge with 95 % probability [-]"] = regime.cycles_for_95_percent
     return out
 
 
@@ -258,6 +267,7 @@ class WorkbenchSession:
                 chunk_cycles=chunk_cycles,
             )
             summary = summary_numbers(scenario, result, test)
+            regime = discharge_regime(scenario, result).text
         except InputError as exc:
             outcome = Outcome(controls=controls, error=str(exc), seconds=time.perf_counter() - t0)
         else:
@@ -271,6 +281,7 @@ class WorkbenchSession:
                 seconds=time.perf_counter() - t0,
                 comparison=comp,
                 comparison_error=comp_err,
+                regime=regime,
             )
         self.outcome = outcome
         return outcome

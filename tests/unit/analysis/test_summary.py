@@ -103,3 +103,45 @@ def test_a_run_of_no_cycle_is_an_input_error(test_level_run):
     stopped = dataclasses.replace(test_level_run, cycles=0)  # a run stopped before its first cycle
     with pytest.raises(pdvoid.InputError, match="cycles=0"):
         run_summary(stopped)
+
+
+@pytest.fixture(scope="module")
+def waiting_run():
+    """A 1.5 mm void at 18 kV with a weak volume supply (invented case): it waits about 100 cycles, then recurs."""
+    sc = pdvoid.Scenario(
+        insulation=pdvoid.Insulation(thickness=6e-3, permittivity=4.2),
+        void=pdvoid.Void(diameter=1.5e-3, height=1.5e-3),
+        supply=pdvoid.Sine(rms=18e3, frequency=50.0),
+        model=pdvoid.FieldModel(ionization_rate=3e8),
+    )
+    return pdvoid.simulate(sc, CYCLES, 0)
+
+
+def test_rates_after_the_first_discharge_leave_out_the_wait(waiting_run):
+    res = waiting_run
+    s = run_summary(res)
+    # hand calculation from the event arrays: the first event's cycle, the count from it on, the cycles left
+    first_cycle = int(res.cycle[0])
+    assert first_cycle > 20  # the run really waited
+    count_after = int(np.count_nonzero(res.cycle >= first_cycle))
+    assert s.first_discharge_time == res.time[0]
+    assert s.discharges_per_cycle_after_first == pytest.approx(count_after / (CYCLES - first_cycle), rel=1e-15)
+    assert s.pulse_repetition_rate_after_first == pytest.approx(count_after / ((CYCLES - first_cycle) / 50.0),
+                                                                rel=1e-12)
+    # the whole-run average still counts the waiting cycles
+    assert s.discharges_per_cycle == pytest.approx(res.charge.size / CYCLES, rel=1e-15)
+    assert s.discharges_per_cycle_after_first > 1.2 * s.discharges_per_cycle
+
+
+def test_histogram_run_gives_the_same_rates_after_the_first(waiting_run):
+    hist = pdvoid.simulate(waiting_run.scenario, CYCLES, 0, histogram=True)
+    a, b = run_summary(waiting_run), run_summary(hist)
+    assert b.first_discharge_time == a.first_discharge_time
+    assert b.discharges_per_cycle_after_first == a.discharges_per_cycle_after_first
+
+
+def test_no_first_discharge_gives_nan_rates():
+    res = pdvoid.simulate(demo_scenario().replace(**{"supply.rms": DEMO_SERVICE_RMS}), 20, 1)
+    s = run_summary(res)
+    assert math.isnan(s.first_discharge_time)
+    assert math.isnan(s.discharges_per_cycle_after_first) and math.isnan(s.pulse_repetition_rate_after_first)
