@@ -10,6 +10,8 @@ from __future__ import annotations
 
 import argparse
 
+from pdvoid.faces.cli import options
+
 __all__ = ["register"]
 
 
@@ -38,10 +40,12 @@ def register(subparsers: argparse._SubParsersAction[argparse.ArgumentParser]) ->
     p.add_argument("--out", default="review.pdf", help="PDF file to write (default review.pdf)")
     p.add_argument(
         "--test-voltage",
+        type=options.voltage,
         required=True,
-        help="test voltage, rms, with a unit (e.g. 18kV or '18 kV'); a bare number is in V",
+        help="test voltage, rms, with a unit, e.g. 18kV or '18 kV' (a bare number is refused)",
     )
-    p.add_argument("--service-voltage", default=None, help="service voltage, rms, with a unit (e.g. 8kV)")
+    p.add_argument("--service-voltage", type=options.voltage, default=None,
+                   help="service voltage, rms, with a unit, e.g. 8kV")
     p.add_argument(
         "--figures",
         choices=("png", "svg"),
@@ -49,25 +53,19 @@ def register(subparsers: argparse._SubParsersAction[argparse.ArgumentParser]) ->
         help="also write each chart as PNG or SVG next to the PDF",
     )
     p.add_argument(
-        "--cycles", type=int, default=2000, help="cycles simulated at the test voltage (default 2000)"
+        "--cycles", type=options.integer(1), default=2000, help="cycles simulated at the test voltage (default 2000)"
     )
-    p.add_argument("--seed", type=int, default=1, help="random seed (default 1)")
+    p.add_argument("--seed", type=options.integer(0), default=1, help="random seed (default 1)")
     p.set_defaults(func=_cmd_report)
     return p
-
-
-def _voltage(text: str, name: str) -> float:
-    from pdvoid.core.units import parse_quantity
-
-    return parse_quantity(text, "voltage", name=name)  # "18kV", "18 kV" or a bare number in V
 
 
 def _cmd_report(ns: argparse.Namespace) -> int:
     from pdvoid.faces.report import SAFETY_NOTE, design_review
     from pdvoid.inputs.scenario import Scenario
 
-    test = _voltage(ns.test_voltage, "--test-voltage")
-    service = None if ns.service_voltage is None else _voltage(ns.service_voltage, "--service-voltage")
+    test = ns.test_voltage
+    service = ns.service_voltage
     scenario = Scenario.from_file(ns.scenario)
     pack = design_review(
         scenario,
