@@ -140,11 +140,11 @@ def _cmd_margin(ns: argparse.Namespace) -> int:
         dm = None
         if ns.nominal_voltage is not None:
             dm = design_margin(sc, ns.nominal_voltage, ns.test_voltage / ns.nominal_voltage)
-    all_notes = list(dict.fromkeys([*band.notes, *notes, *(n for n in table.notes if n), *lv.notes]))
+    all_notes = list(dict.fromkeys([*band.notes, *notes]))
     outcome = verdict(band, ns.test_voltage)
     doc: dict[str, object] = {
         "scenario": ns.scenario, "test voltage [V rms]": ns.test_voltage, "verdict": outcome,
-        **_band_doc(band), "table": table.as_rows(),
+        **_band_doc(band), "table": table.as_rows(), "table validity notes": list(table.notes),
         "largest discharge-free void": {"diameter [m]": lv.diameter, "height [m]": lv.height,
                                         "inception voltage [V rms]": lv.inception_voltage,
                                         "limited by": lv.limited_by or "none"}}
@@ -155,8 +155,11 @@ def _cmd_margin(ns: argparse.Namespace) -> int:
     rows = table.as_rows()
     keys = list(rows[0].keys())
     lines.append("  " + " | ".join(keys))
-    for row in rows:
-        lines.append("  " + " | ".join(f"{row[k]:.4g}" for k in keys))
+    row_notes = list(table.notes) if len(table.notes) == len(rows) else [""] * len(rows)
+    for row, note in zip(rows, row_notes, strict=True):
+        lines.append("  " + " | ".join(f"{row[k]:.4g}" for k in keys) + (" *" if note else ""))
+    if any(row_notes):
+        lines.append("  * closed forms outside their verified range for this row (--json lists why)")
     lines.append(f"  largest discharge-free void at this shape: diameter {lv.diameter * 1e3:.4g} mm, height "
                  f"{lv.height * 1e3:.4g} mm" + (f" (limited by {lv.limited_by})" if lv.limited_by else ""))
     if dm is not None:

@@ -77,11 +77,21 @@ def _cmd_report(ns: argparse.Namespace) -> int:
         figures=ns.figures,
     )
     est = pack.estimate
-    print(
-        f"inception voltage {est.inception_voltage / 1e3:.4g} kV rms, extinction estimate "
-        f"{est.extinction_voltage / 1e3:.4g} kV rms, test voltage {test / 1e3:.4g} kV rms, "
-        f"margin {pack.margin:.3g}"
-    )
+    if pack.band is not None:
+        print(f"verdict at the test voltage {test / 1e3:.4g} kV rms: {pack.verdict}")
+        print(pack.band.describe())
+    if est.inception_regime == "no self-sustained discharge":
+        print(f"no self-sustained discharge: {est.inception_reason}")
+    else:
+        print(
+            f"inception voltage {est.inception_voltage / 1e3:.4g} kV rms ({est.inception_regime} regime), "
+            f"extinction estimate {est.extinction_voltage / 1e3:.4g} kV rms, margin {pack.margin:.3g}"
+        )
+    notes = list(pack.validity_notes) + list(pack.variation_notes)
+    if notes:
+        print("Validity notes (results outside the verified range of the closed forms; listed in the pack):")
+        for n in notes:
+            print(f"  - {n}")
     print(f"wrote {pack.path} ({pack.pages} pages)")
     for f in pack.figures:
         print(f"wrote {f}")
