@@ -17,7 +17,7 @@ from pdvoid.core.errors import check_positive
 from pdvoid.core.validity import ValidityWarning
 from pdvoid.inputs.scenario import Scenario
 
-__all__ = ["InceptionBand", "inception_band", "band_from_criteria", "verdict", "DISCHARGE_FREE",
+__all__ = ["InceptionBand", "inception_band", "regime_words", "band_from_criteria", "verdict", "DISCHARGE_FREE",
            "DISCHARGES_EXPECTED", "INCONCLUSIVE"]
 
 #: the whole band lies above the test level
@@ -26,6 +26,26 @@ DISCHARGE_FREE = "discharge-free at the test level"
 DISCHARGES_EXPECTED = "discharges expected"
 #: the test level lies inside the band
 INCONCLUSIVE = "inconclusive: the criteria disagree"
+
+
+def regime_words(regime: str, reason: str) -> str:
+    """The regime and its reason as one phrase, e.g. "no self-sustained discharge: p*l = ... ".
+
+    Parameters
+    ----------
+    regime : str
+        "streamer", "townsend" or "no self-sustained discharge" [-].
+    reason : str
+        Why, in one sentence (may already start with the regime) [-].
+
+    Returns
+    -------
+    str
+        The phrase [-].
+    """
+    if not reason:
+        return regime
+    return reason if reason.startswith(regime) else f"{regime}: {reason}"
 
 
 @dataclass(frozen=True)
@@ -83,7 +103,7 @@ class InceptionBand:
             E.g. "inception band 9.1 to 10.8 kV rms (streamer 10.8 kV, ionisation integral 9.1 kV)".
         """
         if self.regime == "no self-sustained discharge":
-            return f"no self-sustained discharge: {self.reason}" if self.reason else "no self-sustained discharge"
+            return regime_words(self.regime, self.reason)
         if not self.criteria:
             return "no inception criterion available"
         if self.single_criterion:

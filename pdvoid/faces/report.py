@@ -308,10 +308,7 @@ def design_review(
             largest_pd_free_void(scenario, service_voltage) if service_voltage is not None else None
         )
         tables = _margin_tables(scenario, test_voltage)
-    noted = [str(w.message) for w in caught if issubclass(w.category, ValidityWarning)]
-    for w in caught:  # anything else goes on as it came
-        if not issubclass(w.category, ValidityWarning):
-            warnings.warn_explicit(w.message, w.category, w.filename, w.lineno)
+    noted = _validity_messages(caught)
     own = band.notes
     variations = tuple(n for n in dict.fromkeys(noted) if n not in own)
     outcome = verdict(band, test_voltage)
@@ -339,7 +336,11 @@ def design_review(
         validity_notes=own,
         variation_notes=variations,
     )
-    pages = rp.build_pages(ctx)
+    # the pages recompute coefficients of designs computed above, whose notes ctx already holds
+    with warnings.catch_warnings(record=True) as again:
+        warnings.simplefilter("always", ValidityWarning)
+        pages = rp.build_pages(ctx)
+    _validity_messages(again)
     meta = {
         "Title": f"Design review: {scenario.name or 'void in solid insulation'}",
         "Author": "pdvoid",
@@ -353,7 +354,10 @@ def design_review(
     written = []
     if fmt is not None:
         for name in rp.CHART_NAMES:
-            fig = rp.standalone_chart(ctx, name)
+            with warnings.catch_warnings(record=True) as again:
+                warnings.simplefilter("always", ValidityWarning)
+                fig = rp.standalone_chart(ctx, name)
+            _validity_messages(again)
             target = path.with_name(f"{path.stem}_{name}.{fmt}")
             fig.savefig(target, format=fmt, dpi=200)
             written.append(target)
@@ -373,6 +377,14 @@ def design_review(
         validity_notes=own,
         variation_notes=variations,
     )
+
+
+def _validity_messages(caught: list[warnings.WarningMessage]) -> list[str]:
+    """The messages of the validity warnings in ``caught``; any other warning is issued again as it came."""
+    for w in caught:
+        if not issubclass(w.category, ValidityWarning):
+            warnings.warn_explicit(w.message, w.category, w.filename, w.lineno)
+    return [str(w.message) for w in caught if issubclass(w.category, ValidityWarning)]
 
 
 def _margin_tables(scenario: Scenario, test_voltage: float) -> list[MarginTable]:

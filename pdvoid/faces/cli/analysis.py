@@ -65,8 +65,10 @@ def _cmd_pattern(ns: argparse.Namespace) -> int:
 
 def _inception_text(regime: str, reason: str, voltage: float) -> str:
     """The inception voltage in words: a number in kV rms, or the regime and its reason when there is none."""
+    from pdvoid.analysis.verdict import regime_words
+
     if regime == "no self-sustained discharge" or not np.isfinite(voltage):
-        return f"no self-sustained discharge: {reason}" if reason else "no self-sustained discharge"
+        return regime_words("no self-sustained discharge", reason)
     return f"{voltage / 1e3:.5g} kV rms ({regime} regime)"
 
 
@@ -103,7 +105,8 @@ def _cmd_inception(ns: argparse.Namespace) -> int:
     lines = [f"{ns.scenario}: analytic", f"  inception voltage: {said}"]
     if est.inception_reason and est.inception_regime != "no self-sustained discharge":
         lines.append(f"    why: {est.inception_reason}")
-    lines.append(f"  {band.describe()}")
+    if est.inception_regime != "no self-sustained discharge":
+        lines.append(f"  {band.describe()}")
     lines += [f"  {k:<48s} {fmt(v, '', digits=5).rstrip()}" for k, v in analytic.items()]
     if r is not None:
         doc["ramp test"] = {

@@ -16,8 +16,8 @@ from collections.abc import Callable
 from pdvoid.core.errors import InputError
 from pdvoid.core.units import parse_quantity
 
-__all__ = ["QUANTITY_EXAMPLES", "quantity", "list_quantity", "voltage", "charge", "time", "frequency", "angle", "integer",
-           "number", "QuantityConverter"]
+__all__ = ["QUANTITY_EXAMPLES", "quantity", "list_quantity", "voltage", "charge", "time", "frequency", "angle",
+           "integer", "number", "QuantityConverter"]
 
 #: dimension → (a unit, another unit, the number in the second per one of the first, the SI unit): the
 #: suggestion of a refusal, e.g. 18 → "18kV or 18000V"

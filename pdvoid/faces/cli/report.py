@@ -77,12 +77,10 @@ def _cmd_report(ns: argparse.Namespace) -> int:
         figures=ns.figures,
     )
     est = pack.estimate
-    if pack.band is not None:
+    if pack.band is not None:  # always set by design_review
         print(f"verdict at the test voltage {test / 1e3:.4g} kV rms: {pack.verdict}")
         print(pack.band.describe())
-    if est.inception_regime == "no self-sustained discharge":
-        print(f"no self-sustained discharge: {est.inception_reason}")
-    else:
+    if est.inception_regime != "no self-sustained discharge":  # otherwise the band's words above say it
         print(
             f"inception voltage {est.inception_voltage / 1e3:.4g} kV rms ({est.inception_regime} regime), "
             f"extinction estimate {est.extinction_voltage / 1e3:.4g} kV rms, margin {pack.margin:.3g}"

@@ -162,8 +162,7 @@ def _verdict(ctx: Context) -> str:
         return (f"Inception voltage {_kv(u)} kV rms lies {word} the test voltage {_kv(ut)} kV rms (margin "
                 f"{u / ut:.2f}, one criterion).")
     if band.regime == "no self-sustained discharge":
-        return (f"Verdict at the test voltage {_kv4(ut)} kV rms: {ctx.verdict}. No self-sustained discharge: "
-                f"{band.reason}")
+        return f"Verdict at the test voltage {_kv4(ut)} kV rms: {ctx.verdict}. {band.describe()}."
     if band.single_criterion and band.criteria:
         missing = "ionisation integral" if band.criteria == ("streamer",) else "streamer criterion"
         where = (f"Inception voltage {_kv4(band.low)} kV rms by the {band.criteria[0]} criterion only (the "
