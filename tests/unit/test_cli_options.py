@@ -189,3 +189,20 @@ def test_validity_notes_instead_of_warnings(command, tmp_path, capsys):
     assert "ValidityWarning" not in out.err + out.out
     doc = json.loads(capsys.readouterr().out, parse_constant=_refuse)
     assert any("not small against the slab" in n for n in doc["validity_notes"])
+
+
+def test_fit_gives_validity_notes_not_warnings(capsys):
+    from pdvoid.inputs.demo import demo_measured_path
+
+    # the README's fit with units, cut short: trial voids up to 3 mm wide in the 6 mm wall leave the closed
+    # forms' verified range (pdvoid.coefficients.limits), which must come back as notes
+    argv = ["fit", str(demo_measured_path()), "--scenario", str(demo_scenario_path()), "--vary",
+            "void.diameter=0.5mm:3mm", "--threshold", "10pC", "--noise", "2pC", "--relative-noise", "0.03",
+            "--phase-resolution", "1deg", "--cycles", "50", "--popsize", "4", "--maxiter", "1", "--json"]
+    with warnings.catch_warnings():
+        warnings.simplefilter("error")
+        assert main(argv) == 0
+    doc = json.loads(capsys.readouterr().out, parse_constant=_refuse)
+    assert isinstance(doc["validity_notes"], list) and doc["validity_notes"]
+    assert all("not small against the slab" in n or "range" in n for n in doc["validity_notes"])
+    assert 0.5e-3 <= doc["best"]["void.diameter"] <= 3e-3

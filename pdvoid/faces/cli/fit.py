@@ -7,7 +7,7 @@ import json
 
 from pdvoid.core.errors import InputError
 from pdvoid.faces.cli import options
-from pdvoid.faces.cli.output import SAFETY, json_safe
+from pdvoid.faces.cli.output import SAFETY, json_safe, notes_lines, validity_notes
 
 _DIMENSION = {"void.diameter": "length", "void.height": "length", "insulation.thickness": "length",
               "void.pressure": "pressure", "void.temperature": "temperature", "model.surface_rate_same": "rate",
@@ -61,8 +61,9 @@ def _cmd_fit(ns: argparse.Namespace) -> int:
         detector = {"noise": 0.0 if ns.noise is None else ns.noise,
                     "relative_noise": ns.relative_noise,
                     "phase_resolution_deg": 0.0 if ns.phase_resolution is None else ns.phase_resolution}
-    r = fit(measured, sc, vary, threshold=threshold, cycles=ns.cycles, seed=ns.seed, detector=detector,
-            popsize=ns.popsize, maxiter=ns.maxiter, workers=ns.workers)
+    with validity_notes() as notes:  # trial designs outside the closed forms' range: notes, not raw warnings
+        r = fit(measured, sc, vary, threshold=threshold, cycles=ns.cycles, seed=ns.seed, detector=detector,
+                popsize=ns.popsize, maxiter=ns.maxiter, workers=ns.workers)
     truth = None
     try:
         hidden = hidden_parameters(measured)
@@ -71,13 +72,15 @@ def _cmd_fit(ns: argparse.Namespace) -> int:
         truth = None
     doc = {"measured": ns.measured, "best": r.best, "ranges": r.ranges, "identified": r.identified,
            "score": r.score, "score noise": r.noise, "start": r.start, "start score": r.start_score,
-           "simulations": r.runs, "elapsed [s]": r.elapsed, "safety": SAFETY}
+           "simulations": r.runs, "elapsed [s]": r.elapsed, "validity_notes": notes, "safety": SAFETY}
     if truth and len(truth) == len(vary):
         doc["hidden (synthetic data)"] = truth
     if ns.json:
         print(json.dumps(json_safe(doc), indent=2))
     else:
         print(r.table(truth if truth and len(truth) == len(vary) else None))
+        for line in notes_lines(notes):
+            print(line)
         print(SAFETY)
     if ns.out:
         r.scenario.to_file(ns.out)
