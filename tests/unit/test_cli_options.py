@@ -206,3 +206,24 @@ def test_fit_gives_validity_notes_not_warnings(capsys):
     assert isinstance(doc["validity_notes"], list) and doc["validity_notes"]
     assert all("not small against the slab" in n or "range" in n for n in doc["validity_notes"])
     assert 0.5e-3 <= doc["best"]["void.diameter"] <= 3e-3
+
+
+def test_margin_with_one_criterion_says_so(tmp_path, capsys):
+    import math
+
+    import pdvoid
+
+    n2 = demo_scenario().replace(**{"void.gas": "nitrogen"})
+    c = pdvoid.compute_coefficients(n2)
+    assert math.isnan(c.inception_voltage_integral)  # no ionisation data for nitrogen (gases.toml)
+    path = tmp_path / "n2.toml"
+    n2.to_file(path)
+    below = f"{0.9 * c.inception_voltage_streamer:.6f}V"  # 10 % under the streamer inception voltage
+    assert main(["margin", str(path), "--test-voltage", below]) == 0
+    out = capsys.readouterr().out
+    assert "verdict: discharge-free at the test level" in out
+    assert "by the streamer criterion only" in out and "rests on one criterion only" in out
+    assert main(["margin", str(path), "--test-voltage", below, "--json"]) == 0
+    doc = json.loads(capsys.readouterr().out, parse_constant=_refuse)
+    assert doc["criteria in the band"] == ["streamer"]
+    assert doc["inception voltage, ionisation integral [V rms]"] is None  # NaN → null, strict JSON
