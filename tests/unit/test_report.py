@@ -282,5 +282,7 @@ def test_verdict_band_and_validity_notes_in_the_pdf(tmp_path, capsys):
     assert "inconclusive: the criteria disagree" in page
     assert f"inception band {lo / 1e3:.4g} to {hi / 1e3:.4g} kv rms" in page
     assert "validity notes on these numbers" in page and "not small against the slab" in page
+    assumptions = next(t for t in _pdf_page_texts(out) if "assumptions and validity limits" in t)
+    assert "validity notes: (1)" in assumptions and "not small against the slab" in assumptions
     assert inception_band(sc).notes  # the same note the analysis stage gives for this design
     assert "discharge-free at the test level" not in page and "expected to stay" not in page

@@ -417,7 +417,10 @@ def _assumptions_page(w: PageWriter, ctx: Context) -> None:
     w.bullets([t.format(**values) for t in _ASSUMPTIONS])
     if not math.isfinite(spread):
         w.paragraph("The ionisation-integral estimate is not available for this gas and length.", size=8.5)
-    if h_d > 0.3:
+    if ctx.validity_notes:  # the checks of pdvoid.coefficients.limits for this design (also on the summary page)
+        w.box("Validity notes: " + " ".join(f"({i}) {n}." for i, n in enumerate(ctx.validity_notes, start=1)),
+              size=8.5)
+    elif ctx.band is None and h_d > 0.3:  # a context built without the analysis' notes: the rough rule
         w.box(
             "Validity warning: the void is not small compared with the insulation thickness; the closed-form "
             "field and charge are outside their validity range. Use the numerical field solver.",
