@@ -14,10 +14,12 @@ from pdvoid.analysis.quantities import iec60270, largest_repeated_magnitude
 from pdvoid.analysis.regime import DischargeRegime, discharge_regime
 from pdvoid.analysis.sequence import pulse_sequence
 from pdvoid.analysis.summary import RunSummary, run_summary
+from pdvoid.analysis.verdict import InceptionBand, inception_band, verdict
 
 __all__ = [
     "pattern", "half_cycle_distributions", "magnitude_distribution", "fingerprint", "weibull_fit",
     "pulse_sequence", "iec60270", "largest_repeated_magnitude", "inception", "ramp_test", "probability_of_missing",
     "margin_table", "largest_pd_free_void", "design_margin", "RunSummary", "run_summary", "compare", "fit",
     "DischargeRegime", "discharge_regime",
+    "InceptionBand", "inception_band", "verdict",
 ]

@@ -10,6 +10,7 @@ from __future__ import annotations
 
 import math
 import os
+import warnings
 from dataclasses import dataclass, fields, replace
 from pathlib import Path
 
@@ -20,9 +21,11 @@ from pdvoid.analysis.inception import InceptionEstimate, inception
 from pdvoid.analysis.margins import MarginTable, largest_pd_free_void, margin_table
 from pdvoid.analysis.regime import discharge_regime
 from pdvoid.analysis.summary import run_summary
+from pdvoid.analysis.verdict import InceptionBand, inception_band, verdict
 from pdvoid.coefficients import compute_coefficients
 from pdvoid.core.errors import InputError, check_int, check_positive
 from pdvoid.core.references import cite
+from pdvoid.core.validity import ValidityWarning
 from pdvoid.faces.summary_table import summary_dict
 from pdvoid.inputs.materials import get_gas, get_material
 from pdvoid.inputs.parameters import Periodic, check_seed
@@ -196,6 +199,14 @@ class ReviewPack:
         Test and service level (service None when not given) [V rms].
     margin : float
         Inception voltage / test voltage [-].
+    band : InceptionBand or None
+        Inception voltages of both criteria and their band [V rms].
+    verdict : str
+        The band's verdict at the test level (:func:`pdvoid.analysis.verdict.verdict`) [-].
+    validity_notes : tuple of str
+        Validity notes of the design's own coefficients [-].
+    variation_notes : tuple of str
+        Validity notes of the varied designs (margin chart, sensitivity, void searches) [-].
     """
 
     path: Path
@@ -208,6 +219,10 @@ class ReviewPack:
     test_voltage: float
     service_voltage: float | None
     margin: float
+    band: InceptionBand | None = None
+    verdict: str = ""
+    validity_notes: tuple[str, ...] = ()
+    variation_notes: tuple[str, ...] = ()
 
 
 def _check_out(out: str | os.PathLike[str], figures: str | None) -> tuple[Path, str | None]:
@@ -238,7 +253,10 @@ def design_review(
     The simulation runs at the test voltage (the supply scaled to ``test_voltage``) for ``cycles`` cycles
     from an uncharged void with ``seed``. The margin chart sweeps the void size at the scenario's shape
     (:func:`pdvoid.analysis.margins.margin_table`) for the scenario's pressure and half of it; the sensitivity
-    chart varies each input by ±20 % (:func:`sensitivity`).
+    chart varies each input by ±20 % (:func:`sensitivity`). The verdict uses the band of both inception criteria
+    (:func:`pdvoid.analysis.verdict.inception_band`). Validity warnings raised while computing are not issued:
+    the summary page lists them next to the numbers they qualify, and the pack returns them
+    (``validity_notes`` for the design itself, ``variation_notes`` for the varied designs).
 
     Parameters
     ----------
@@ -280,9 +298,21 @@ def design_review(
     seed = check_seed(seed)
     path, fmt = _check_out(out, figures)
 
-    est = inception(scenario)
-    result = simulate(at_voltage(scenario, test_voltage), cycles, seed)
-    rows = sensitivity(scenario)
+    band = inception_band(scenario)  # the design's own validity notes come back in band.notes
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always", ValidityWarning)
+        est = inception(scenario)
+        result = simulate(at_voltage(scenario, test_voltage), cycles, seed)
+        rows = sensitivity(scenario)
+        largest = largest_pd_free_void(scenario, test_voltage)
+        largest_service = (
+            largest_pd_free_void(scenario, service_voltage) if service_voltage is not None else None
+        )
+        tables = _margin_tables(scenario, test_voltage)
+    noted = _validity_messages(caught)
+    own = band.notes
+    variations = tuple(n for n in dict.fromkeys(noted) if n not in own)
+    outcome = verdict(band, test_voltage)
     ctx = rp.Context(
         scenario=scenario,
         estimate=est,
@@ -291,11 +321,9 @@ def design_review(
         service_voltage=service_voltage,
         sensitivity=rows,
         summary=summary_dict(run_summary(result)),
-        largest=largest_pd_free_void(scenario, test_voltage),
-        largest_service=(
-            largest_pd_free_void(scenario, service_voltage) if service_voltage is not None else None
-        ),
-        tables=_margin_tables(scenario, test_voltage),
+        largest=largest,
+        largest_service=largest_service,
+        tables=tables,
         material=_material_rows(scenario),
         gas=_gas_rows(scenario),
         inputs=_input_rows(scenario),
@@ -305,8 +333,16 @@ def design_review(
         cycles=cycles,
         seed=seed,
         regime=discharge_regime(result.scenario, result).text,
+        band=band,
+        verdict=outcome,
+        validity_notes=own,
+        variation_notes=variations,
     )
-    pages = rp.build_pages(ctx)
+    # the pages recompute coefficients of designs computed above, whose notes ctx already holds
+    with warnings.catch_warnings(record=True) as again:
+        warnings.simplefilter("always", ValidityWarning)
+        pages = rp.build_pages(ctx)
+    _validity_messages(again)
     meta = {
         "Title": f"Design review: {scenario.name or 'void in solid insulation'}",
         "Author": "pdvoid",
@@ -320,7 +356,10 @@ def design_review(
     written = []
     if fmt is not None:
         for name in rp.CHART_NAMES:
-            fig = rp.standalone_chart(ctx, name)
+            with warnings.catch_warnings(record=True) as again:
+                warnings.simplefilter("always", ValidityWarning)
+                fig = rp.standalone_chart(ctx, name)
+            _validity_messages(again)
             target = path.with_name(f"{path.stem}_{name}.{fmt}")
             fig.savefig(target, format=fmt, dpi=200)
             written.append(target)
@@ -335,7 +374,19 @@ def design_review(
         test_voltage=test_voltage,
         service_voltage=service_voltage,
         margin=est.inception_voltage / test_voltage,
+        band=band,
+        verdict=outcome,
+        validity_notes=own,
+        variation_notes=variations,
     )
+
+
+def _validity_messages(caught: list[warnings.WarningMessage]) -> list[str]:
+    """The messages of the validity warnings in ``caught``; any other warning is issued again as it came."""
+    for w in caught:
+        if not issubclass(w.category, ValidityWarning):
+            warnings.warn_explicit(w.message, w.category, w.filename, w.lineno)
+    return [str(w.message) for w in caught if issubclass(w.category, ValidityWarning)]
 
 
 def _margin_tables(scenario: Scenario, test_voltage: float) -> list[MarginTable]:

@@ -141,7 +141,8 @@ def test_pack_below_inception_svg_without_service(tmp_path, scenario_factory):
     assert _pdf_pages(pack.path) == pack.pages
     assert pack.result.event_count == 0  # below inception nothing discharges (lag-free or not)
     assert pack.margin == pytest.approx(1.25)
-    assert "expected to stay discharge-free" in _flat(pack.page_texts[0])
+    assert pack.verdict == "discharge-free at the test level"
+    assert "discharge-free at the test level" in _flat(pack.page_texts[0])
     assert "service voltage" not in pack.page_texts[0]
     assert all(p.suffix == ".svg" and p.read_bytes().lstrip().startswith(b"<?xml") for p in pack.figures)
 
@@ -231,21 +232,16 @@ def test_cli_report(tmp_path, capsys):
     assert (tmp_path / "cli_margin.png").exists()
 
 
-def test_cli_report_bad_voltage(tmp_path):
+@pytest.mark.parametrize("value", ["18 furlong", "18", "-5kV"])
+def test_cli_report_bad_voltage(tmp_path, value, capsys):
     from pdvoid.inputs.demo import demo_scenario_path
 
-    ns = _parser().parse_args(
-        [
-            "report",
-            str(demo_scenario_path()),
-            "--out",
-            str(tmp_path / "x.pdf"),
-            "--test-voltage",
-            "18 furlong",
-        ]
-    )
-    with pytest.raises(InputError, match="--test-voltage"):
-        ns.func(ns)
+    # refused while parsing: a wrong unit, a bare number (no silent volts) and a negative level
+    with pytest.raises(SystemExit) as exc:
+        _parser().parse_args(["report", str(demo_scenario_path()), "--out", str(tmp_path / "x.pdf"),
+                              f"--test-voltage={value}"])
+    assert exc.value.code == 2 and "argument --test-voltage" in capsys.readouterr().err
+    assert not (tmp_path / "x.pdf").exists()
     with pytest.raises(SystemExit):
         _parser().parse_args(["report", "x.toml"])  # --test-voltage is required
 
@@ -255,10 +251,9 @@ def test_cli_main_when_hooked(tmp_path, capsys):
     from pdvoid.inputs.demo import demo_scenario_path
 
     assert "report" in cli.build_parser().format_help()
-    code = cli.main(
-        ["report", str(demo_scenario_path()), "--out", str(tmp_path / "m.pdf"), "--test-voltage=-5kV"]
-    )
-    assert code == 2 and "test_voltage" in capsys.readouterr().err
+    with pytest.raises(SystemExit) as exc:
+        cli.main(["report", str(demo_scenario_path()), "--out", str(tmp_path / "m.pdf"), "--test-voltage=-5kV"])
+    assert exc.value.code == 2 and "argument --test-voltage" in capsys.readouterr().err
 
 
 def test_simulated_run_states_its_regime_and_first_discharge(demo_pack):
@@ -283,3 +278,35 @@ def test_pack_above_inception_but_waiting_says_so(tmp_path, scenario_factory):
     assert "but waiting for a start electron" in page
     assert "95 % chance of a first discharge within" in page
     assert "first discharge after none" in page
+
+
+def test_verdict_band_and_validity_notes_in_the_pdf(tmp_path, capsys):
+    import warnings
+
+    from pdvoid.analysis.verdict import inception_band
+    from pdvoid.faces import cli
+    from pdvoid.inputs.demo import demo_scenario
+
+    # a 2.5 mm void in the demo's 6 mm wall: the closed forms warn that it is not small against the slab
+    sc = demo_scenario().replace(**{"void.diameter": 2.5e-3, "void.height": 2.5e-3})
+    c = pdvoid.compute_coefficients(sc)  # the two criteria, independently of the pack
+    lo, hi = sorted((c.inception_voltage_streamer, c.inception_voltage_integral))
+    assert lo < hi
+    test = 0.5 * (lo + hi)  # between the criteria: the verdict cannot be a clear one
+    path = tmp_path / "big.toml"
+    sc.to_file(path)
+    out = tmp_path / "band.pdf"
+    with warnings.catch_warnings():
+        warnings.simplefilter("error")  # validity warnings are notes in the pack, not raw warnings
+        code = cli.main(["report", str(path), "--out", str(out), f"--test-voltage={test:.6f} V", "--cycles", "20"])
+    assert code == 0
+    printed = capsys.readouterr().out
+    assert "inconclusive: the criteria disagree" in printed and "Validity notes" in printed
+    page = _pdf_page_texts(out)[0]
+    assert "inconclusive: the criteria disagree" in page
+    assert f"inception band {lo / 1e3:.4g} to {hi / 1e3:.4g} kv rms" in page
+    assert "validity notes on these numbers" in page and "not small against the slab" in page
+    assumptions = next(t for t in _pdf_page_texts(out) if "assumptions and validity limits" in t)
+    assert "validity notes: (1)" in assumptions and "not small against the slab" in assumptions
+    assert inception_band(sc).notes  # the same note the analysis stage gives for this design
+    assert "discharge-free at the test level" not in page and "expected to stay" not in page

@@ -9,28 +9,13 @@ from typing import TYPE_CHECKING
 import numpy as np
 
 from pdvoid.core.errors import InputError
-from pdvoid.core.units import parse_quantity
-from pdvoid.faces.cli.output import SAFETY, emit
+from pdvoid.faces.cli import options
+from pdvoid.faces.cli.output import SAFETY, emit, fmt, notes_lines, validity_notes
 
 if TYPE_CHECKING:
+    from pdvoid.analysis.verdict import InceptionBand
     from pdvoid.simulation.events import Events
     from pdvoid.simulation.results import Result
-
-
-def _voltage(text: str) -> float:
-    return parse_quantity(text, "voltage", name="voltage")
-
-
-def _charge(text: str) -> float:
-    return parse_quantity(text, "charge", name="charge")
-
-
-def _time(text: str) -> float:
-    return parse_quantity(text, "time", name="time")
-
-
-
-
 
 
 def _load_events(path: str, cycles: int | None, frequency: float | None) -> Result | Events:
@@ -78,23 +63,52 @@ def _cmd_pattern(ns: argparse.Namespace) -> int:
     return 0
 
 
+def _inception_text(regime: str, reason: str, voltage: float) -> str:
+    """The inception voltage in words: a number in kV rms, or the regime and its reason when there is none."""
+    from pdvoid.analysis.verdict import regime_words
+
+    if regime == "no self-sustained discharge" or not np.isfinite(voltage):
+        return regime_words("no self-sustained discharge", reason)
+    return f"{voltage / 1e3:.5g} kV rms ({regime} regime)"
+
+
+def _band_doc(band: InceptionBand) -> dict[str, object]:
+    return {"inception band [V rms]": [band.low, band.high], "criteria in the band": list(band.criteria),
+            "inception voltage, streamer criterion [V rms]": band.streamer,
+            "inception voltage, ionisation integral [V rms]": band.integral,
+            "inception regime": band.regime, "inception reason": band.reason, "band": band.describe()}
+
+
 def _cmd_inception(ns: argparse.Namespace) -> int:
     from pdvoid.analysis.inception import inception
+    from pdvoid.analysis.verdict import band_from_criteria
     from pdvoid.inputs.scenario import Scenario
 
-    sc = Scenario.from_file(ns.scenario)
-    est = inception(sc)
-    doc = {"scenario": ns.scenario, "analytic": {
+    with validity_notes() as notes:
+        sc = Scenario.from_file(ns.scenario)
+        est = inception(sc)
+        band = band_from_criteria(est.inception_voltage_streamer, est.inception_voltage_integral,
+                                  est.inception_regime, est.inception_reason)
+        r = None
+        if ns.ramp:
+            r = inception(sc, ramp=True, step=ns.step, dwell=ns.dwell, threshold=ns.threshold,
+                          repeat_count=ns.repeat_count, seeds=range(ns.seeds))
+    analytic = {
         "inception voltage [V rms]": est.inception_voltage,
         "inception voltage, streamer criterion [V rms]": est.inception_voltage_streamer,
         "inception voltage, ionisation integral [V rms]": est.inception_voltage_integral,
         "extinction voltage estimate [V rms]": est.extinction_voltage,
         "inception field [V/m]": est.inception_field, "residual field [V/m]": est.residual_field,
-        "field enhancement [-]": est.field_enhancement}, "safety": SAFETY}
-    lines = [f"{ns.scenario}: analytic"] + [f"  {k:<48s} {v:.5g}" for k, v in doc["analytic"].items()]
-    if ns.ramp:
-        r = inception(sc, ramp=True, step=ns.step, dwell=ns.dwell, threshold=ns.threshold,
-                      repeat_count=ns.repeat_count, seeds=range(ns.seeds))
+        "field enhancement [-]": est.field_enhancement}
+    doc: dict[str, object] = {"scenario": ns.scenario, "analytic": {**analytic, **_band_doc(band)}}
+    said = _inception_text(est.inception_regime, est.inception_reason, est.inception_voltage)
+    lines = [f"{ns.scenario}: analytic", f"  inception voltage: {said}"]
+    if est.inception_reason and est.inception_regime != "no self-sustained discharge":
+        lines.append(f"    why: {est.inception_reason}")
+    if est.inception_regime != "no self-sustained discharge":
+        lines.append(f"  {band.describe()}")
+    lines += [f"  {k:<48s} {fmt(v, '', digits=5).rstrip()}" for k, v in analytic.items()]
+    if r is not None:
         doc["ramp test"] = {
             "inception voltage [V rms]": r.inception_voltage, "inception voltage std [V rms]":
             r.inception_voltage_std, "extinction voltage [V rms]": r.extinction_voltage,
@@ -104,42 +118,62 @@ def _cmd_inception(ns: argparse.Namespace) -> int:
         lines.append(f"simulated stepped test ({ns.seeds} seeds, step {r.step:.4g} V, dwell {r.dwell:.4g} s):")
         lines.append(f"  inception voltage [V rms]  {r.inception_voltage:.5g} ± {r.inception_voltage_std:.3g}")
         lines.append(f"  extinction voltage [V rms] {r.extinction_voltage:.5g} ± {r.extinction_voltage_std:.3g}")
-    emit(doc, ns.json, lines)
+    doc["validity_notes"] = notes
+    doc["safety"] = SAFETY
+    emit(doc, ns.json, lines + notes_lines(notes))
     return 0
 
 
 def _cmd_margin(ns: argparse.Namespace) -> int:
     from pdvoid.analysis.margins import design_margin, largest_pd_free_void, margin_table
+    from pdvoid.analysis.verdict import inception_band, verdict
     from pdvoid.inputs.scenario import Scenario
 
-    sc = Scenario.from_file(ns.scenario)
-    values = None
-    if ns.values:
-        unit_dim = {"void.size": "length", "void.diameter": "length", "void.height": "length",
-                    "void.pressure": "pressure", "insulation.thickness": "length"}.get(ns.parameter, "dimensionless")
-        values = [parse_quantity(v, unit_dim, name=f"--values {v!r}") for v in ns.values.split(",")]
-    table = margin_table(sc, ns.parameter, values, test_voltage=ns.test_voltage)
-    lv = largest_pd_free_void(sc, ns.test_voltage)
-    doc = {"scenario": ns.scenario, "test voltage [V rms]": ns.test_voltage, "table": table.as_rows(),
-           "largest discharge-free void": {"diameter [m]": lv.diameter, "height [m]": lv.height,
-                                           "inception voltage [V rms]": lv.inception_voltage,
-                                           "limited by": lv.limited_by or "none"},
-           "safety": SAFETY}
-    lines = [f"{ns.scenario}: margin against a test at {ns.test_voltage / 1e3:.4g} kV rms"]
-    keys = list(doc["table"][0].keys())
+    with validity_notes() as notes:
+        sc = Scenario.from_file(ns.scenario)
+        values = None
+        if ns.values:
+            unit_dim = {"void.size": "length", "void.diameter": "length", "void.height": "length",
+                        "void.pressure": "pressure",
+                        "insulation.thickness": "length"}.get(ns.parameter, "dimensionless")
+            values = [options.list_quantity(v, unit_dim, "--values") for v in ns.values.split(",")]
+        band = inception_band(sc)
+        table = margin_table(sc, ns.parameter, values, test_voltage=ns.test_voltage)
+        lv = largest_pd_free_void(sc, ns.test_voltage)
+        dm = None
+        if ns.nominal_voltage is not None:
+            dm = design_margin(sc, ns.nominal_voltage, ns.test_voltage / ns.nominal_voltage)
+    all_notes = list(dict.fromkeys([*band.notes, *notes]))
+    outcome = verdict(band, ns.test_voltage)
+    doc: dict[str, object] = {
+        "scenario": ns.scenario, "test voltage [V rms]": ns.test_voltage, "verdict": outcome,
+        **_band_doc(band), "table": table.as_rows(), "table validity notes": list(table.notes),
+        "largest discharge-free void": {"diameter [m]": lv.diameter, "height [m]": lv.height,
+                                        "inception voltage [V rms]": lv.inception_voltage,
+                                        "limited by": lv.limited_by or "none"}}
+    lines = [f"{ns.scenario}: margin against a test at {ns.test_voltage / 1e3:.4g} kV rms",
+             f"  verdict: {outcome}", f"  {band.describe()}"]
+    if band.single_criterion and band.criteria:
+        lines.append("  (the verdict rests on one criterion only)")
+    rows = table.as_rows()
+    keys = list(rows[0].keys())
     lines.append("  " + " | ".join(keys))
-    for row in doc["table"]:
-        lines.append("  " + " | ".join(f"{row[k]:.4g}" for k in keys))
+    row_notes = list(table.notes) if len(table.notes) == len(rows) else [""] * len(rows)
+    for row, note in zip(rows, row_notes, strict=True):
+        lines.append("  " + " | ".join(f"{row[k]:.4g}" for k in keys) + (" *" if note else ""))
+    if any(row_notes):
+        lines.append("  * closed forms outside their verified range for this row (--json lists why)")
     lines.append(f"  largest discharge-free void at this shape: diameter {lv.diameter * 1e3:.4g} mm, height "
                  f"{lv.height * 1e3:.4g} mm" + (f" (limited by {lv.limited_by})" if lv.limited_by else ""))
-    if ns.nominal_voltage is not None:
-        dm = design_margin(sc, ns.nominal_voltage, ns.test_voltage / ns.nominal_voltage)
+    if dm is not None:
         doc["design"] = {"nominal voltage [V rms]": dm.nominal_voltage, "test factor [-]": dm.test_factor,
                          "inception margin to test level [-]": dm.margin,
                          "extinction margin to nominal voltage [-]": dm.extinction_margin}
         lines.append(f"  this void: inception/test = {dm.margin:.3g}, extinction/nominal = "
                      f"{dm.extinction_margin:.3g}")
-    emit(doc, ns.json, lines)
+    doc["validity_notes"] = all_notes
+    doc["safety"] = SAFETY
+    emit(doc, ns.json, lines + notes_lines(all_notes))
     return 0
 
 
@@ -154,10 +188,12 @@ def register(sub: argparse._SubParsersAction[argparse.ArgumentParser]) -> None:
     p = sub.add_parser("pattern", help="phase-resolved pattern, IEC 60270 quantities and descriptors of a result "
                        "(.npz) or an events file")
     p.add_argument("file")
-    p.add_argument("--cycles", type=int, default=None, help="observed cycles, for event files without time")
-    p.add_argument("--frequency", type=float, default=None, help="supply frequency [Hz] for event files")
-    p.add_argument("--phase-bins", type=int, default=72)
-    p.add_argument("--charge-bins", type=int, default=50)
+    p.add_argument("--cycles", type=options.integer(1), default=None,
+                   help="observed cycles, for event files without time (a count, e.g. 500)")
+    p.add_argument("--frequency", type=options.frequency, default=None,
+                   help="supply frequency for event files, e.g. 50Hz")
+    p.add_argument("--phase-bins", type=options.integer(1, 3600), default=72, help="phase bins (default 72)")
+    p.add_argument("--charge-bins", type=options.integer(1, 10000), default=50, help="charge bins (default 50)")
     p.add_argument("--charge-scale", choices=("log", "linear"), default="log")
     p.add_argument("--json", action="store_true")
     p.set_defaults(func=_cmd_pattern)
@@ -166,18 +202,21 @@ def register(sub: argparse._SubParsersAction[argparse.ArgumentParser]) -> None:
                        "stepped-voltage test with --ramp")
     i.add_argument("scenario")
     i.add_argument("--ramp", action="store_true")
-    i.add_argument("--step", type=_voltage, default=None, help="voltage step, e.g. 0.2kV")
-    i.add_argument("--dwell", type=_time, default=1.0, help="time per step, e.g. 1s")
-    i.add_argument("--threshold", type=_charge, default=0.0, help="detection threshold, e.g. 5pC")
-    i.add_argument("--repeat-count", type=int, default=10, help="pulses per dwell that count as repetitive")
-    i.add_argument("--seeds", type=int, default=5, help="number of repeated tests")
+    i.add_argument("--step", type=options.voltage, default=None, help="voltage step, e.g. 0.2kV")
+    i.add_argument("--dwell", type=options.time, default=1.0, help="time per step, e.g. 1s (default 1s)")
+    i.add_argument("--threshold", type=options.charge, default=0.0, help="detection threshold, e.g. 5pC")
+    i.add_argument("--repeat-count", type=options.integer(1), default=10,
+                   help="pulses per dwell that count as repetitive (default 10)")
+    i.add_argument("--seeds", type=options.integer(1), default=5, help="number of repeated tests (default 5)")
     i.add_argument("--json", action="store_true")
     i.set_defaults(func=_cmd_inception)
 
     m = sub.add_parser("margin", help="inception margin against a test level, and the largest discharge-free void")
     m.add_argument("scenario")
-    m.add_argument("--test-voltage", type=_voltage, required=True, help="e.g. 18kV (rms)")
-    m.add_argument("--nominal-voltage", type=_voltage, default=None, help="e.g. 10kV (rms)")
+    m.add_argument("--test-voltage", type=options.voltage, required=True,
+                   help="test voltage, rms, with a unit, e.g. 18kV")
+    m.add_argument("--nominal-voltage", type=options.voltage, default=None,
+                   help="nominal voltage, rms, with a unit, e.g. 10kV")
     m.add_argument("--parameter", default="void.size", help="swept input (default void.size)")
     m.add_argument("--values", default=None, help="comma-separated values with units, e.g. 0.2mm,0.5mm,1mm")
     m.add_argument("--json", action="store_true")

@@ -6,8 +6,8 @@ import argparse
 import json
 
 from pdvoid.core.errors import InputError
-from pdvoid.core.units import parse_quantity
-from pdvoid.faces.cli.output import SAFETY, json_safe
+from pdvoid.faces.cli import options
+from pdvoid.faces.cli.output import SAFETY, json_safe, notes_lines, validity_notes
 
 _DIMENSION = {"void.diameter": "length", "void.height": "length", "insulation.thickness": "length",
               "void.pressure": "pressure", "void.temperature": "temperature", "model.surface_rate_same": "rate",
@@ -41,8 +41,8 @@ def parse_vary(items: list[str]) -> dict[str, tuple[float, float]]:
         name, rng = item.split("=", 1)
         lo, hi = rng.split(":", 1)
         dim = _DIMENSION.get(name.strip(), "dimensionless")
-        out[name.strip()] = (parse_quantity(lo, dim, name=f"--vary {name} low"),
-                             parse_quantity(hi, dim, name=f"--vary {name} high"))
+        out[name.strip()] = (options.list_quantity(lo, dim, f"--vary {name} low"),
+                             options.list_quantity(hi, dim, f"--vary {name} high"))
     return out
 
 
@@ -55,14 +55,15 @@ def _cmd_fit(ns: argparse.Namespace) -> int:
     measured = read_events(ns.measured, cycles=ns.cycles_measured, frequency=ns.frequency)
     sc = Scenario.from_file(ns.scenario)
     vary = parse_vary(ns.vary)
-    threshold = parse_quantity(ns.threshold, "charge", name="--threshold")
+    threshold = ns.threshold
     detector = None
     if ns.noise is not None or ns.phase_resolution is not None:
-        detector = {"noise": parse_quantity(ns.noise or "0 C", "charge", name="--noise"),
+        detector = {"noise": 0.0 if ns.noise is None else ns.noise,
                     "relative_noise": ns.relative_noise,
-                    "phase_resolution_deg": float(ns.phase_resolution or 0.0)}
-    r = fit(measured, sc, vary, threshold=threshold, cycles=ns.cycles, seed=ns.seed, detector=detector,
-            popsize=ns.popsize, maxiter=ns.maxiter, workers=ns.workers)
+                    "phase_resolution_deg": 0.0 if ns.phase_resolution is None else ns.phase_resolution}
+    with validity_notes() as notes:  # trial designs outside the closed forms' range: notes, not raw warnings
+        r = fit(measured, sc, vary, threshold=threshold, cycles=ns.cycles, seed=ns.seed, detector=detector,
+                popsize=ns.popsize, maxiter=ns.maxiter, workers=ns.workers)
     truth = None
     try:
         hidden = hidden_parameters(measured)
@@ -71,13 +72,15 @@ def _cmd_fit(ns: argparse.Namespace) -> int:
         truth = None
     doc = {"measured": ns.measured, "best": r.best, "ranges": r.ranges, "identified": r.identified,
            "score": r.score, "score noise": r.noise, "start": r.start, "start score": r.start_score,
-           "simulations": r.runs, "elapsed [s]": r.elapsed, "safety": SAFETY}
+           "simulations": r.runs, "elapsed [s]": r.elapsed, "validity_notes": notes, "safety": SAFETY}
     if truth and len(truth) == len(vary):
         doc["hidden (synthetic data)"] = truth
     if ns.json:
         print(json.dumps(json_safe(doc), indent=2))
     else:
         print(r.table(truth if truth and len(truth) == len(vary) else None))
+        for line in notes_lines(notes):
+            print(line)
         print(SAFETY)
     if ns.out:
         r.scenario.to_file(ns.out)
@@ -96,17 +99,23 @@ def register(sub: argparse._SubParsersAction[argparse.ArgumentParser]) -> None:
     f.add_argument("measured", help="events file (e.g. header 'phase [deg],charge [pC]')")
     f.add_argument("--scenario", required=True, help="starting scenario TOML")
     f.add_argument("--vary", action="append", required=True, help="NAME=LOW:HIGH with units; repeat")
-    f.add_argument("--threshold", default="0 C", help="detection threshold of the measurement, e.g. 5pC")
-    f.add_argument("--noise", default=None, help="charge noise of the detector model, e.g. 2pC")
-    f.add_argument("--relative-noise", type=float, default=0.0)
-    f.add_argument("--phase-resolution", default=None, help="phase resolution of the detector model [deg]")
-    f.add_argument("--cycles", type=int, default=1000, help="simulated cycles per evaluation")
-    f.add_argument("--cycles-measured", type=int, default=None, help="cycles of a phase-only measured file")
-    f.add_argument("--frequency", type=float, default=None, help="supply frequency of the measured file [Hz]")
-    f.add_argument("--seed", type=int, default=0)
-    f.add_argument("--popsize", type=int, default=8)
-    f.add_argument("--maxiter", type=int, default=30)
-    f.add_argument("--workers", type=int, default=1, help="worker processes (default 1)")
+    f.add_argument("--threshold", type=options.charge, default="0C",
+                   help="detection threshold of the measurement, e.g. 5pC (default 0C)")
+    f.add_argument("--noise", type=options.charge, default=None, help="charge noise of the detector model, e.g. 2pC")
+    f.add_argument("--relative-noise", type=options.number(0.0, 10.0), default=0.0,
+                   help="relative charge noise of the detector model, a ratio, e.g. 0.05 (default 0)")
+    f.add_argument("--phase-resolution", type=options.angle, default=None,
+                   help="phase resolution of the detector model, e.g. 2deg")
+    f.add_argument("--cycles", type=options.integer(1), default=1000,
+                   help="simulated cycles per evaluation (default 1000)")
+    f.add_argument("--cycles-measured", type=options.integer(1), default=None,
+                   help="cycles of a phase-only measured file (a count, e.g. 500)")
+    f.add_argument("--frequency", type=options.frequency, default=None,
+                   help="supply frequency of the measured file, e.g. 50Hz")
+    f.add_argument("--seed", type=options.integer(0), default=0, help="random seed (default 0)")
+    f.add_argument("--popsize", type=options.integer(1), default=8, help="population size per parameter (default 8)")
+    f.add_argument("--maxiter", type=options.integer(1), default=30, help="generations (default 30)")
+    f.add_argument("--workers", type=options.integer(1), default=1, help="worker processes (default 1)")
     f.add_argument("--out", default=None, help="write the fitted scenario (TOML) here")
     f.add_argument("--json", action="store_true")
     f.set_defaults(func=_cmd_fit)

@@ -4,11 +4,16 @@ from __future__ import annotations
 
 import json
 import math
+import warnings
+from collections.abc import Iterator
+from contextlib import contextmanager
 from typing import Any
 
 import numpy as np
 
-__all__ = ["SAFETY", "json_safe", "emit", "fmt"]
+from pdvoid.core.validity import ValidityWarning
+
+__all__ = ["SAFETY", "json_safe", "emit", "fmt", "validity_notes", "notes_lines"]
 
 SAFETY = (
     "SAFETY: high voltage can kill. These results are engineering estimates from idealised models. Test and "
@@ -84,3 +89,46 @@ def fmt(value: float | None, unit: str, scale: float = 1.0, digits: int = 4) -> 
     if value is None or (isinstance(value, float) and not math.isfinite(value)):
         return "n/a"
     return f"{value / scale:.{digits}g} {unit}"
+
+
+@contextmanager
+def validity_notes() -> Iterator[list[str]]:
+    """Collect the :class:`~pdvoid.ValidityWarning` messages issued inside the ``with`` block.
+
+    The list yielded is filled, without repeats, when the block ends; other warnings are issued again as they
+    came. A command prints the notes under "Validity notes" (text) or as ``validity_notes`` (JSON) instead of a
+    raw Python warning line.
+
+    Yields
+    ------
+    list of str
+        The notes [-].
+    """
+    notes: list[str] = []
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always", ValidityWarning)
+        yield notes
+    notes.extend(dict.fromkeys(str(w.message) for w in caught if issubclass(w.category, ValidityWarning)))
+    for w in caught:
+        if not issubclass(w.category, ValidityWarning):
+            warnings.warn_explicit(w.message, w.category, w.filename, w.lineno)
+
+
+def notes_lines(notes: list[str] | tuple[str, ...]) -> list[str]:
+    """The text lines of validity notes: a "Validity notes" heading and one line per note (none if no notes).
+
+    Parameters
+    ----------
+    notes : sequence of str
+        The notes [-].
+
+    Returns
+    -------
+    list of str
+        The lines [-].
+    """
+    unique = list(dict.fromkeys(n for n in notes if n))
+    if not unique:
+        return []
+    return ["Validity notes (results outside the verified range of the closed forms):"] + [f"  - {n}"
+                                                                                            for n in unique]

@@ -10,6 +10,8 @@ from __future__ import annotations
 
 import argparse
 
+from pdvoid.faces.cli import options
+
 __all__ = ["register"]
 
 
@@ -38,10 +40,12 @@ def register(subparsers: argparse._SubParsersAction[argparse.ArgumentParser]) ->
     p.add_argument("--out", default="review.pdf", help="PDF file to write (default review.pdf)")
     p.add_argument(
         "--test-voltage",
+        type=options.voltage,
         required=True,
-        help="test voltage, rms, with a unit (e.g. 18kV or '18 kV'); a bare number is in V",
+        help="test voltage, rms, with a unit, e.g. 18kV or '18 kV' (a bare number is refused)",
     )
-    p.add_argument("--service-voltage", default=None, help="service voltage, rms, with a unit (e.g. 8kV)")
+    p.add_argument("--service-voltage", type=options.voltage, default=None,
+                   help="service voltage, rms, with a unit, e.g. 8kV")
     p.add_argument(
         "--figures",
         choices=("png", "svg"),
@@ -49,25 +53,19 @@ def register(subparsers: argparse._SubParsersAction[argparse.ArgumentParser]) ->
         help="also write each chart as PNG or SVG next to the PDF",
     )
     p.add_argument(
-        "--cycles", type=int, default=2000, help="cycles simulated at the test voltage (default 2000)"
+        "--cycles", type=options.integer(1), default=2000, help="cycles simulated at the test voltage (default 2000)"
     )
-    p.add_argument("--seed", type=int, default=1, help="random seed (default 1)")
+    p.add_argument("--seed", type=options.integer(0), default=1, help="random seed (default 1)")
     p.set_defaults(func=_cmd_report)
     return p
-
-
-def _voltage(text: str, name: str) -> float:
-    from pdvoid.core.units import parse_quantity
-
-    return parse_quantity(text, "voltage", name=name)  # "18kV", "18 kV" or a bare number in V
 
 
 def _cmd_report(ns: argparse.Namespace) -> int:
     from pdvoid.faces.report import SAFETY_NOTE, design_review
     from pdvoid.inputs.scenario import Scenario
 
-    test = _voltage(ns.test_voltage, "--test-voltage")
-    service = None if ns.service_voltage is None else _voltage(ns.service_voltage, "--service-voltage")
+    test = ns.test_voltage
+    service = ns.service_voltage
     scenario = Scenario.from_file(ns.scenario)
     pack = design_review(
         scenario,
@@ -79,11 +77,19 @@ def _cmd_report(ns: argparse.Namespace) -> int:
         figures=ns.figures,
     )
     est = pack.estimate
-    print(
-        f"inception voltage {est.inception_voltage / 1e3:.4g} kV rms, extinction estimate "
-        f"{est.extinction_voltage / 1e3:.4g} kV rms, test voltage {test / 1e3:.4g} kV rms, "
-        f"margin {pack.margin:.3g}"
-    )
+    if pack.band is not None:  # always set by design_review
+        print(f"verdict at the test voltage {test / 1e3:.4g} kV rms: {pack.verdict}")
+        print(pack.band.describe())
+    if est.inception_regime != "no self-sustained discharge":  # otherwise the band's words above say it
+        print(
+            f"inception voltage {est.inception_voltage / 1e3:.4g} kV rms ({est.inception_regime} regime), "
+            f"extinction estimate {est.extinction_voltage / 1e3:.4g} kV rms, margin {pack.margin:.3g}"
+        )
+    notes = list(pack.validity_notes) + list(pack.variation_notes)
+    if notes:
+        print("Validity notes (results outside the verified range of the closed forms; listed in the pack):")
+        for n in notes:
+            print(f"  - {n}")
     print(f"wrote {pack.path} ({pack.pages} pages)")
     for f in pack.figures:
         print(f"wrote {f}")

@@ -11,6 +11,7 @@ import time
 from pathlib import Path
 
 from pdvoid.core.errors import InputError
+from pdvoid.faces.cli import options
 from pdvoid.faces.cli.output import SAFETY
 
 __all__ = ["register", "run"]
@@ -47,7 +48,7 @@ def register(subparsers: argparse._SubParsersAction[argparse.ArgumentParser]) ->
     )
     where.add_argument(
         "--workers",
-        type=int,
+        type=options.integer(1),
         default=None,
         metavar="N",
         help="local worker processes (default: every core; 1 = serial)",

@@ -20,6 +20,7 @@ from pdvoid.faces.plots.style import new_figure
 if TYPE_CHECKING:
     from pdvoid.analysis.inception import InceptionEstimate
     from pdvoid.analysis.margins import LargestVoid, MarginTable
+    from pdvoid.analysis.verdict import InceptionBand
     from pdvoid.faces.report import SensitivityRow
     from pdvoid.inputs.scenario import Scenario
     from pdvoid.simulation.results import Result
@@ -68,6 +69,14 @@ class Context:
     regime : str
         The regime of the simulated run in words (:func:`pdvoid.analysis.regime.discharge_regime`); empty for
         none.
+    band : InceptionBand or None
+        Inception voltages of both criteria and their band (None: the verdict uses ``estimate`` alone) [V rms].
+    verdict : str
+        The band's verdict at the test level (:func:`pdvoid.analysis.verdict.verdict`); empty without a band.
+    validity_notes : tuple of str
+        Validity notes of the design's own coefficients (the numbers on the summary page).
+    variation_notes : tuple of str
+        Validity notes of the varied designs of the margin chart, the sensitivity chart and the void searches.
     """
 
     scenario: Scenario
@@ -89,6 +98,10 @@ class Context:
     cycles: int
     seed: int
     regime: str = ""
+    band: InceptionBand | None = None
+    verdict: str = ""
+    validity_notes: tuple[str, ...] = ()
+    variation_notes: tuple[str, ...] = ()
 
 
 @dataclass(frozen=True)
@@ -123,7 +136,19 @@ def _margin(u_inc: float, level: float, what: str) -> str:
     pct = abs(ratio - 1.0) * 100.0
     if ratio >= 1.0:
         return f"{ratio:.2f}: inception {pct:.0f} % above the {what} voltage"
-    return f"{ratio:.2f}: inception {pct:.0f} % below the {what} voltage, discharges expected"
+    return f"{ratio:.2f}: inception {pct:.0f} % below the {what} voltage"
+
+
+def _band_margin(ctx: Context, level: float, what: str) -> str:
+    text = _margin(ctx.estimate.inception_voltage, level, what) + " (criterion used)"
+    band = ctx.band
+    if band is not None and not band.single_criterion and math.isfinite(band.high):
+        text += f"; both criteria: {band.low / level:.2f} to {band.high / level:.2f}"
+    return text
+
+
+def _kv4(v: float) -> str:
+    return "n/a" if not math.isfinite(v) else f"{v / 1e3:.4g}"
 
 
 def _void_text(lv: LargestVoid | None) -> str:
@@ -139,15 +164,30 @@ def _void_text(lv: LargestVoid | None) -> str:
 
 def _verdict(ctx: Context) -> str:
     u, ut = ctx.estimate.inception_voltage, ctx.test_voltage
-    if u >= ut:
-        return (
-            f"Inception voltage {_kv(u)} kV rms lies above the test voltage {_kv(ut)} kV rms (margin "
-            f"{u / ut:.2f}): a void of this size and gas is expected to stay discharge-free in the test."
-        )
-    return (
-        f"Inception voltage {_kv(u)} kV rms lies below the test voltage {_kv(ut)} kV rms (margin "
-        f"{u / ut:.2f}): a void of this size and gas is expected to discharge during the test."
-    )
+    band = ctx.band
+    if band is None:
+        word = "above" if u >= ut else "below"
+        return (f"Inception voltage {_kv(u)} kV rms lies {word} the test voltage {_kv(ut)} kV rms (margin "
+                f"{u / ut:.2f}, one criterion).")
+    if band.regime == "no self-sustained discharge":
+        return f"Verdict at the test voltage {_kv4(ut)} kV rms: {ctx.verdict}. {band.describe()}."
+    if band.single_criterion and band.criteria:
+        missing = "ionisation integral" if band.criteria == ("streamer",) else "streamer criterion"
+        where = (f"Inception voltage {_kv4(band.low)} kV rms by the {band.criteria[0]} criterion only (the "
+                 f"{missing} is not available for this gas)")
+    else:
+        where = (f"Inception band {_kv4(band.low)} to {_kv4(band.high)} kV rms (streamer criterion "
+                 f"{_kv4(band.streamer)} kV, ionisation integral {_kv4(band.integral)} kV)")
+    return f"Verdict at the test voltage {_kv4(ut)} kV rms: {ctx.verdict}. {where}; {band.regime} regime."
+
+
+def _notes_section(w: PageWriter, ctx: Context) -> None:
+    if ctx.validity_notes:
+        w.heading("Validity notes on these numbers")
+        w.bullets(list(ctx.validity_notes), size=8.0)
+    if ctx.variation_notes:
+        w.heading("Validity notes on the varied designs (margin chart, sensitivity, void searches)", size=10)
+        w.bullets(list(ctx.variation_notes), size=7.5)
 
 
 def _summary_page(w: PageWriter, ctx: Context) -> None:
@@ -161,6 +201,7 @@ def _summary_page(w: PageWriter, ctx: Context) -> None:
     )
     w.box(ctx.safety, size=8.5)
     w.box(_verdict(ctx), size=9.5, colour="#1b2a49", face="#f1f4fa")
+    _notes_section(w, ctx)
     w.heading("Inception, extinction and margins")
     rows = [
         ["inception voltage, streamer criterion", _kv(est.inception_voltage_streamer), "kV rms"],
@@ -170,6 +211,7 @@ def _summary_page(w: PageWriter, ctx: Context) -> None:
             _kv(est.inception_voltage),
             "kV rms",
         ],
+        ["inception regime", est.inception_reason or est.inception_regime, "-"],
         ["extinction voltage estimate, (E_inc + E_res)/2", _kv(est.extinction_voltage), "kV rms"],
         [
             "inception field in the void, streamer / integral",
@@ -182,7 +224,7 @@ def _summary_page(w: PageWriter, ctx: Context) -> None:
         ["test voltage", _kv(ctx.test_voltage), "kV rms"],
         [
             "margin to the test voltage, U_inc / U_test",
-            _margin(est.inception_voltage, ctx.test_voltage, "test"),
+            _band_margin(ctx, ctx.test_voltage, "test"),
             "-",
         ],
         ["largest discharge-free void at the test voltage (this shape)", _void_text(ctx.largest), "-"],
@@ -193,7 +235,7 @@ def _summary_page(w: PageWriter, ctx: Context) -> None:
             ["service voltage", _kv(us), "kV rms"],
             [
                 "margin to the service voltage, U_inc / U_service",
-                _margin(est.inception_voltage, us, "service"),
+                _band_margin(ctx, us, "service"),
                 "-",
             ],
             [
@@ -391,7 +433,10 @@ def _assumptions_page(w: PageWriter, ctx: Context) -> None:
     w.bullets([t.format(**values) for t in _ASSUMPTIONS])
     if not math.isfinite(spread):
         w.paragraph("The ionisation-integral estimate is not available for this gas and length.", size=8.5)
-    if h_d > 0.3:
+    if ctx.validity_notes:  # the checks of pdvoid.coefficients.limits for this design (also on the summary page)
+        w.box("Validity notes: " + " ".join(f"({i}) {n}." for i, n in enumerate(ctx.validity_notes, start=1)),
+              size=8.5)
+    elif ctx.band is None and h_d > 0.3:  # a context built without the analysis' notes: the rough rule
         w.box(
             "Validity warning: the void is not small compared with the insulation thickness; the closed-form "
             "field and charge are outside their validity range. Use the numerical field solver.",

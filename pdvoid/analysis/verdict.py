@@ -1,0 +1,203 @@
+"""The inception band of a void (both inception criteria) and the verdict it gives against a test level.
+
+The streamer criterion and the ionisation-integral criterion give two inception voltages that may differ by tens
+of percent for a flat void. A verdict drawn from one of them alone can flip when the other is used; the band
+[min, max] of the two makes the disagreement visible, and :func:`verdict` says "inconclusive" when the test level
+falls inside it.
+"""
+
+from __future__ import annotations
+
+import math
+import warnings
+from dataclasses import dataclass
+
+from pdvoid.coefficients import compute_coefficients
+from pdvoid.core.errors import check_positive
+from pdvoid.core.validity import ValidityWarning
+from pdvoid.inputs.scenario import Scenario
+
+__all__ = ["InceptionBand", "inception_band", "regime_words", "band_from_criteria", "verdict", "DISCHARGE_FREE",
+           "DISCHARGES_EXPECTED", "INCONCLUSIVE"]
+
+#: the whole band lies above the test level
+DISCHARGE_FREE = "discharge-free at the test level"
+#: the whole band lies at or below the test level
+DISCHARGES_EXPECTED = "discharges expected"
+#: the test level lies inside the band
+INCONCLUSIVE = "inconclusive: the criteria disagree"
+
+
+def regime_words(regime: str, reason: str) -> str:
+    """The regime and its reason as one phrase, e.g. "no self-sustained discharge: p*l = ... ".
+
+    Parameters
+    ----------
+    regime : str
+        "streamer", "townsend" or "no self-sustained discharge" [-].
+    reason : str
+        Why, in one sentence (may already start with the regime) [-].
+
+    Returns
+    -------
+    str
+        The phrase [-].
+    """
+    if not reason:
+        return regime
+    return reason if reason.startswith(regime) else f"{regime}: {reason}"
+
+
+@dataclass(frozen=True)
+class InceptionBand:
+    """The inception voltages of the two criteria and the band they span (applied voltages in V rms).
+
+    Attributes
+    ----------
+    low, high : float
+        The smaller and the larger inception voltage of the available criteria [V]; infinite when no
+        self-sustained discharge is possible.
+    streamer : float
+        Inception voltage by the streamer criterion [V] (NaN if unavailable).
+    integral : float
+        Inception voltage by the ionisation-integral criterion [V] (NaN if unavailable, e.g. a gas without
+        ionisation data).
+    criteria : tuple of str
+        The criteria the band is made of: ``("streamer", "ionisation integral")`` or one of them.
+    regime : str
+        The inception regime of the scenario's own criterion ("streamer", "townsend" or "no self-sustained
+        discharge").
+    reason : str
+        Why that regime, in one sentence.
+    notes : tuple of str
+        Validity notes (the messages of the :class:`~pdvoid.core.validity.ValidityWarning` issued while computing).
+    """
+
+    low: float
+    high: float
+    streamer: float
+    integral: float
+    criteria: tuple[str, ...]
+    regime: str = "streamer"
+    reason: str = ""
+    notes: tuple[str, ...] = ()
+
+    @property
+    def single_criterion(self) -> bool:
+        """Whether only one criterion was available [-]."""
+        return len(self.criteria) < 2
+
+    @property
+    def spread(self) -> float:
+        """Relative width of the band, (high - low) / low [-] (NaN if undefined)."""
+        if not (math.isfinite(self.low) and math.isfinite(self.high)) or self.low <= 0:
+            return math.nan
+        return (self.high - self.low) / self.low
+
+    def describe(self) -> str:
+        """The band in words, with the inception voltages in kV rms.
+
+        Returns
+        -------
+        str
+            E.g. "inception band 9.1 to 10.8 kV rms (streamer 10.8 kV, ionisation integral 9.1 kV)".
+        """
+        if self.regime == "no self-sustained discharge":
+            return regime_words(self.regime, self.reason)
+        if not self.criteria:
+            return "no inception criterion available"
+        if self.single_criterion:
+            missing = "ionisation integral" if self.criteria == ("streamer",) else "streamer criterion"
+            return (f"inception voltage {self.low / 1e3:.4g} kV rms by the {self.criteria[0]} criterion only "
+                    f"(the {missing} is not available for this gas)")
+        return (f"inception band {self.low / 1e3:.4g} to {self.high / 1e3:.4g} kV rms (streamer "
+                f"{self.streamer / 1e3:.4g} kV, ionisation integral {self.integral / 1e3:.4g} kV)")
+
+
+def band_from_criteria(streamer: float, integral: float, regime: str = "streamer", reason: str = "",
+                       notes: tuple[str, ...] = ()) -> InceptionBand:
+    """The band of two criteria's inception voltages; a NaN one is left out.
+
+    Parameters
+    ----------
+    streamer : float
+        Inception voltage by the streamer criterion [V] (NaN if unavailable).
+    integral : float
+        Inception voltage by the ionisation-integral criterion [V] (NaN if unavailable).
+    regime : str
+        The inception regime [-].
+    reason : str
+        Why that regime [-].
+    notes : tuple of str
+        Validity notes [-].
+
+    Returns
+    -------
+    InceptionBand
+        The band; ``low`` and ``high`` are NaN when neither criterion is available.
+    """
+    named = [(n, float(v)) for n, v in (("streamer", streamer), ("ionisation integral", integral))
+             if not math.isnan(float(v))]
+    values = [v for _, v in named]
+    low = min(values) if values else math.nan
+    high = max(values) if values else math.nan
+    return InceptionBand(low, high, float(streamer), float(integral), tuple(n for n, _ in named), regime, reason,
+                         tuple(notes))
+
+
+def inception_band(scenario: Scenario) -> InceptionBand:
+    """The inception band of ``scenario``: both criteria from its coefficients.
+
+    Validity warnings issued while computing are not re-issued: they are returned in ``notes``.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The scenario.
+
+    Returns
+    -------
+    InceptionBand
+        Both criteria's inception voltages [V rms], the band, the regime and the validity notes.
+    """
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always", ValidityWarning)
+        c = compute_coefficients(scenario)
+    notes = tuple(dict.fromkeys(str(w.message) for w in caught if issubclass(w.category, ValidityWarning)))
+    for w in caught:  # anything else goes on as it came
+        if not issubclass(w.category, ValidityWarning):
+            warnings.warn_explicit(w.message, w.category, w.filename, w.lineno)
+    return band_from_criteria(c.inception_voltage_streamer, c.inception_voltage_integral, c.inception_regime,
+                              c.inception_reason, notes)
+
+
+def verdict(band: InceptionBand, test_voltage: float) -> str:
+    """The verdict of the band against a test level.
+
+    Parameters
+    ----------
+    band : InceptionBand
+        The inception band [V rms].
+    test_voltage : float
+        The test voltage [V rms].
+
+    Returns
+    -------
+    str
+        :data:`DISCHARGE_FREE` when the whole band lies above the test level, :data:`DISCHARGES_EXPECTED` when
+        it lies at or below it, :data:`INCONCLUSIVE` when the test level is inside the band (or no criterion is
+        available).
+
+    Raises
+    ------
+    pdvoid.InputError
+        For a test voltage that is not positive and finite.
+    """
+    check_positive("test_voltage", test_voltage, "V")
+    if math.isnan(band.low) or math.isnan(band.high):
+        return INCONCLUSIVE
+    if band.low > test_voltage:
+        return DISCHARGE_FREE
+    if band.high <= test_voltage:
+        return DISCHARGES_EXPECTED
+    return INCONCLUSIVE
