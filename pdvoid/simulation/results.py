@@ -14,6 +14,7 @@ import numpy as np
 
 from pdvoid.coefficients import Coefficients, compute_coefficients
 from pdvoid.core.errors import InputError
+from pdvoid.core.files import atomic_write
 from pdvoid.inputs.scenario import Scenario
 from pdvoid.simulation.events import Events
 
@@ -209,12 +210,14 @@ class Result:
             arrays["hist_phase_edges_deg"] = self.histogram.phase_edges_deg
             arrays["hist_charge_edges"] = self.histogram.charge_edges
         arrays["metadata"] = np.frombuffer(json.dumps(meta).encode("utf-8"), dtype=np.uint8)
-        with open(p, "wb") as fh:
+        with atomic_write(p) as fh:
             np.savez_compressed(fh, **arrays)
         return p
 
     def to_csv(self, path: str | os.PathLike[str]) -> Path:
-        """Events as CSV with units in the column headers (full double precision).
+        """Events as CSV with units in the column headers (full double precision), preceded by comment lines
+        with the supply frequency and the number of cycles observed, so that :func:`pdvoid.read_events` gives
+        the same reference time (cycles / frequency) and hence the same IEC 60270 quantities as the result.
 
         Parameters
         ----------
@@ -229,8 +232,11 @@ class Result:
         p = Path(path)
         cols = np.column_stack([getattr(self.events, n) for n in _EVENT_FIELDS]) if self.events.count else None
         header = ",".join(_CSV_HEADER[n] for n in _EVENT_FIELDS)
-        with open(p, "w", encoding="utf-8", newline="\n") as fh:
-            fh.write(header + "\n")
+        comments = (f"# events of a pdvoid {self.version} simulation (seed {self.seed})\n"
+                    f"# frequency = {self.events.frequency!r} Hz\n"
+                    f"# cycles = {int(self.cycles)}\n")
+        with atomic_write(p, "w", encoding="utf-8", newline="\n") as fh:
+            fh.write(comments + header + "\n")
             if cols is not None:
                 np.savetxt(fh, cols, delimiter=",", fmt="%.17g")
         return p

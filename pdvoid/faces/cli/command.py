@@ -7,6 +7,7 @@ standards; local codes and licensed practice prevail.
 from __future__ import annotations
 
 import argparse
+import os
 import sys
 from collections.abc import Sequence
 
@@ -57,6 +58,11 @@ def main(argv: Sequence[str] | None = None) -> int:
     except InputError as exc:
         print(f"pdvoid: error: {exc}", file=sys.stderr)
         return 2
+    except BrokenPipeError:
+        # the reader of our output went away (e.g. ``pdvoid demo | head``): stop quietly, as a filter would
+        devnull = os.open(os.devnull, os.O_WRONLY)
+        os.dup2(devnull, sys.stdout.fileno())
+        return 0
 
 
 if __name__ == "__main__":  # pragma: no cover

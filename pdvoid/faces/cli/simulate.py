@@ -9,7 +9,8 @@ from pathlib import Path
 from typing import TYPE_CHECKING
 
 from pdvoid.coefficients import compute_coefficients
-from pdvoid.faces.cli.output import SAFETY, json_safe
+from pdvoid.core.files import atomic_write
+from pdvoid.faces.cli.output import SAFETY, json_safe, notes_lines, validity_notes
 from pdvoid.inputs.demo import DEMO_SERVICE_RMS, DEMO_TEST_RMS, demo_scenario
 
 if TYPE_CHECKING:
@@ -46,7 +47,8 @@ def _cmd_demo(ns: argparse.Namespace) -> int:
     from pdvoid.simulation.simulate import simulate
 
     sc = demo_scenario()
-    c = compute_coefficients(sc)
+    with validity_notes() as notes:
+        c = compute_coefficients(sc)
     rows = {
         "scenario": sc.name,
         "void field per kV applied [kV/mm per kV]": c.field_enhancement / sc.insulation.thickness * 1e3 / 1e6,
@@ -60,13 +62,16 @@ def _cmd_demo(ns: argparse.Namespace) -> int:
     }
     runs = {}
     regimes = {}
-    for label, rms in (("service", DEMO_SERVICE_RMS), ("test", DEMO_TEST_RMS)):
-        s2 = sc.replace(**{"supply.rms": rms})
-        res = simulate(s2, cycles=ns.cycles, seed=ns.seed)
-        runs[f"{label} voltage {rms / 1e3:g} kV rms"] = _run_summary(res)
-        regimes[f"{label} voltage {rms / 1e3:g} kV rms"] = _regime(res)
-    out = {"demo": rows, "simulations": runs, "regimes": regimes, "cycles": ns.cycles, "seed": ns.seed,
-           "safety": SAFETY}
+    with validity_notes() as run_notes:
+        for label, rms in (("service", DEMO_SERVICE_RMS), ("test", DEMO_TEST_RMS)):
+            s2 = sc.replace(**{"supply.rms": rms})
+            res = simulate(s2, cycles=ns.cycles, seed=ns.seed)
+            runs[f"{label} voltage {rms / 1e3:g} kV rms"] = _run_summary(res)
+            regimes[f"{label} voltage {rms / 1e3:g} kV rms"] = _regime(res)
+    all_notes = list(dict.fromkeys(notes + run_notes))
+    out = {"demo": rows, "inception regime": c.inception_regime, "inception reason": c.inception_reason,
+           "simulations": runs, "regimes": regimes, "validity_notes": all_notes, "cycles": ns.cycles,
+           "seed": ns.seed, "safety": SAFETY}
     if ns.json:
         print(json.dumps(json_safe(out), indent=2, allow_nan=False))
         return 0
@@ -75,13 +80,16 @@ def _cmd_demo(ns: argparse.Namespace) -> int:
           f"{sc.void.diameter * 1e3:g} mm × {sc.void.height * 1e3:g} mm {sc.void.gas} at "
           f"{sc.void.pressure / 1e3:g} kPa")
     for k, v in rows.items():
-        if k != "scenario":
-            print(f"  {k:<55s} {v:10.4g}")
+        if k != "scenario" and isinstance(v, float):
+            print(f"  {k:<55s} {_value(v)}")
+    print(f"  inception regime: {c.inception_regime} ({c.inception_reason})")
     for label, summ in runs.items():
         print(f"\n  simulation at {label}, {ns.cycles} cycles, seed {ns.seed}:")
         print(f"    regime: {regimes[label]['text']}")
         for k, v in summ.items():
             print(f"    {k:<53s} {_value(v)}")
+    for line in notes_lines(all_notes):
+        print("\n" + line if line.startswith("Validity") else line)
     print("\n" + SAFETY)
     return 0
 
@@ -91,7 +99,9 @@ def _cmd_simulate(ns: argparse.Namespace) -> int:
     from pdvoid.simulation.simulate import simulate
 
     sc = Scenario.from_file(ns.scenario)
-    res = simulate(sc, cycles=ns.cycles, seed=ns.seed)
+    with validity_notes() as notes:
+        res = simulate(sc, cycles=ns.cycles, seed=ns.seed)
+        c = compute_coefficients(sc)
     out = Path(ns.out)
     out.mkdir(parents=True, exist_ok=True)
     res.save(out / "result.npz")
@@ -99,16 +109,23 @@ def _cmd_simulate(ns: argparse.Namespace) -> int:
     summ = _run_summary(res)
     regime = _regime(res)
     doc = {"scenario": str(ns.scenario), "cycles": ns.cycles, "seed": ns.seed, "summary": summ, "regime": regime,
+           "inception regime": c.inception_regime, "inception reason": c.inception_reason,
+           "validity_notes": notes,
            "files": [str(out / "result.npz"), str(out / "events.csv"), str(out / "summary.json")],
            "references": list(res.references), "safety": SAFETY}
     text = json.dumps(json_safe(doc), indent=2, allow_nan=False)
-    (out / "summary.json").write_text(text, encoding="utf-8")
+    with atomic_write(out / "summary.json", "w", encoding="utf-8", newline="\n") as fh:
+        fh.write(text)
     if ns.json:
         print(text)
     else:
         print(f"regime: {regime['text']}")
+        if c.inception_regime != "streamer":
+            print(f"inception: {c.inception_regime} ({c.inception_reason})")
         for k, v in summ.items():
             print(f"{k:<53s} {_value(v)}")
+        for line in notes_lines(notes):
+            print(line)
         print(f"wrote {', '.join(doc['files'])}")
         print(SAFETY)
     return 0

@@ -102,10 +102,11 @@ def test_result_round_trip_is_exact(tmp_path, demo):
 def test_csv_has_units_in_headers(tmp_path, demo):
     res = pdvoid.simulate(demo, cycles=50, seed=2)
     p = res.to_csv(tmp_path / "e.csv")
-    lines = p.read_text().splitlines()
+    lines = [line for line in p.read_text().splitlines() if not line.startswith("#")]
     assert lines[0] == ("time [s],phase [deg],cycle [-],charge [C],voltage [V],field_before [V/m],"
                         "field_after [V/m]")
-    data = np.loadtxt(p, delimiter=",", skiprows=1, ndmin=2)
+    n_comments = sum(1 for line in p.read_text().splitlines() if line.startswith("#"))
+    data = np.loadtxt(p, delimiter=",", skiprows=n_comments + 1, ndmin=2)
     assert np.array_equal(data[:, 3], res.charge)
 
 
