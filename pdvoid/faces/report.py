@@ -309,6 +309,7 @@ def design_review(
             largest_pd_free_void(scenario, service_voltage) if service_voltage is not None else None
         )
         tables = _margin_tables(scenario, test_voltage)
+        regime = discharge_regime(result.scenario, result).text
     noted = _validity_messages(caught)
     own = band.notes
     variations = tuple(n for n in dict.fromkeys(noted) if n not in own)
@@ -332,7 +333,7 @@ def design_review(
         version=__version__,
         cycles=cycles,
         seed=seed,
-        regime=discharge_regime(result.scenario, result).text,
+        regime=regime,
         band=band,
         verdict=outcome,
         validity_notes=own,
