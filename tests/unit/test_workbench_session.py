@@ -240,3 +240,17 @@ def test_the_regime_is_stated_in_words_and_numbers(session):
     out = session.run()
     assert out.regime.startswith("below inception")
     assert out.summary["mean wait for a first start electron [s]"] == math.inf
+
+
+def test_validity_notes_are_collected_not_raised(session):
+    # a 3 mm sphere in the demo's 6 mm wall is not small against the slab: the closed forms say so
+    # (pdvoid.coefficients.limits); the workbench shows the note in words instead of a raw warning
+    import warnings
+
+    session.set(diameter_mm=3.0, height_mm=3.0)
+    with warnings.catch_warnings():
+        warnings.simplefilter("error")  # any warning escaping the session would fail here
+        out = session.run()
+    assert out.ok and any("not small against the slab" in n for n in out.validity_notes)
+    session.set(diameter_mm=1.5, height_mm=1.5)  # the demo void: inside the verified range
+    assert session.run().validity_notes == ()

@@ -243,7 +243,9 @@ class Workbench:
             p.error.value = message_html(outcome.error, "error")
             p.status.value = message_html(f"not run (input error): {describe(outcome.controls)}", "error")
             return
+        validity = "; ".join(outcome.validity_notes)
         note = "; ".join(x for x in (outcome.regime,
+                                     validity and f"validity notes: {validity}",
                                      outcome.comparison_error and f"comparison: {outcome.comparison_error}") if x)
         p.summary.value = summary_html(outcome.summary, outcome.comparison, note)
         p.error.value = ""

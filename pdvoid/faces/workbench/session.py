@@ -7,6 +7,7 @@ from __future__ import annotations
 
 import math
 import time
+import warnings
 from collections.abc import Callable
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -16,6 +17,7 @@ from pdvoid.analysis.inception import inception
 from pdvoid.analysis.regime import discharge_regime
 from pdvoid.analysis.summary import run_summary
 from pdvoid.core.errors import InputError
+from pdvoid.core.validity import ValidityWarning
 from pdvoid.faces.summary_table import summary_dict
 from pdvoid.faces.workbench.controls import CUSTOM_MATERIAL, Controls
 from pdvoid.inputs.scenario import Scenario
@@ -53,6 +55,9 @@ class Outcome:
         The comparison with the measured pattern (pdvoid.analysis.compare.Comparison) or None.
     comparison_error : str
         Why no comparison could be made ("" when fine or no measured pattern).
+    validity_notes : tuple of str
+        The :class:`~pdvoid.ValidityWarning` messages of this run's numbers (closed forms outside their verified
+        range), collected rather than issued; the panel shows them in words next to the summary.
     regime : str
         The run's regime in words (:func:`pdvoid.analysis.regime.discharge_regime`: below inception, waiting for
         a start electron, discharging); "" when invalid.
@@ -68,6 +73,7 @@ class Outcome:
     comparison: Comparison | None = None
     comparison_error: str = ""
     regime: str = ""
+    validity_notes: tuple[str, ...] = ()
 
     @property
     def ok(self) -> bool:
@@ -253,24 +259,34 @@ class WorkbenchSession:
         """
         controls = self.controls
         t0 = time.perf_counter()
-        try:
-            scenario = controls.to_scenario(self.base)
-            cycles, seed, test = controls.run_settings()
-            if chunk_cycles is None:
-                chunk_cycles = min(max(cycles // 50, 10), 5000)
-            result = simulate(
-                scenario,
-                cycles=cycles,
-                seed=seed,
-                progress=progress,
-                should_stop=should_stop,
-                chunk_cycles=chunk_cycles,
-            )
-            summary = summary_numbers(scenario, result, test)
-            regime = discharge_regime(scenario, result).text
-        except InputError as exc:
-            outcome = Outcome(controls=controls, error=str(exc), seconds=time.perf_counter() - t0)
+        with warnings.catch_warnings(record=True) as caught:
+            warnings.simplefilter("always", ValidityWarning)
+            try:
+                scenario = controls.to_scenario(self.base)
+                cycles, seed, test = controls.run_settings()
+                if chunk_cycles is None:
+                    chunk_cycles = min(max(cycles // 50, 10), 5000)
+                result = simulate(
+                    scenario,
+                    cycles=cycles,
+                    seed=seed,
+                    progress=progress,
+                    should_stop=should_stop,
+                    chunk_cycles=chunk_cycles,
+                )
+                summary = summary_numbers(scenario, result, test)
+                regime = discharge_regime(scenario, result).text
+            except InputError as exc:
+                error: str | None = str(exc)
+            else:
+                error = None
+        if error is not None:
+            outcome = Outcome(controls=controls, error=error, seconds=time.perf_counter() - t0)
         else:
+            notes = tuple(dict.fromkeys(str(w.message) for w in caught if issubclass(w.category, ValidityWarning)))
+            for w in caught:  # anything else is passed on as it came
+                if not issubclass(w.category, ValidityWarning):
+                    warnings.warn_explicit(w.message, w.category, w.filename, w.lineno)
             comp, comp_err = self._compare(result)
             outcome = Outcome(
                 controls=controls,
@@ -282,6 +298,7 @@ class WorkbenchSession:
                 comparison=comp,
                 comparison_error=comp_err,
                 regime=regime,
+                validity_notes=notes,
             )
         self.outcome = outcome
         return outcome
