@@ -70,7 +70,7 @@ nb_execution_excludepatterns: list[str] = []
 # Docstrings write absolute values as |q|, |E| ...: in reStructuredText these are substitution references, so
 # each one used in the code is defined to print itself.
 _ABSOLUTE_VALUES = ("q", "E", "x", "V", "q_meas", "q_i", "q_m", "q_1", "E_v", "E_void", "E_1V", "V_c", "E(x)", "inf",
-                    "a", "b", "U", "I", "Q")
+                    "a", "b", "U", "I", "Q", "sin")
 rst_prolog = "\n".join(f".. |{n}| replace:: \\|{n}\\|" for n in _ABSOLUTE_VALUES) + "\n"
 
 suppress_warnings = [

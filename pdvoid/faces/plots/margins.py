@@ -277,8 +277,9 @@ def _check_rows(rows: Iterable[tuple[str, float, float, float]]) -> list[tuple[s
         b = check_real(f"rows[{i}] base_value", base)
         vals = []
         for what, v in (("low_value", low), ("high_value", high)):
-            if isinstance(v, float) and math.isnan(v):
-                vals.append(math.nan)  # a variation outside the valid range: shown as such
+            if isinstance(v, float) and (math.isnan(v) or v == math.inf):
+                # NaN: a variation outside the valid range; +inf: no self-sustained discharge at any voltage
+                vals.append(v)
             else:
                 vals.append(check_real(f"rows[{i}] {what}", v))
         out.append((label, vals[0], vals[1], b))
@@ -302,7 +303,8 @@ def sensitivity_chart(
     ----------
     rows : iterable of tuple of (str, float, float, float)
         (label, low_value, high_value, base_value) per input, values in SI (e.g. V, C); a NaN low or high
-        value marks a variation outside the valid range and is labelled so [-].
+        value marks a variation outside the valid range, +inf one with no self-sustained discharge at any voltage
+        (an infinite inception voltage); both are labelled so [-].
     ax : matplotlib.axes.Axes, optional
         Axes to draw into; None creates a figure [-].
     quantity : str
@@ -331,7 +333,7 @@ def sensitivity_chart(
     base = items[0][3] / factor
 
     def swing(r: tuple[str, float, float, float]) -> float:
-        s = np.nanmax([abs(r[1] - r[3]), abs(r[2] - r[3]), 0.0])
+        s = np.nanmax([abs(v - r[3]) if math.isfinite(v) else math.nan for v in r[1:3]] + [0.0])
         return float(s)
 
     items = sorted(items, key=swing)  # barh draws from the bottom: largest swing ends on top
@@ -349,7 +351,7 @@ def sensitivity_chart(
                 ax.text(
                     base + 0.02 * span,
                     y + dy,
-                    "outside the valid range",
+                    "no self-sustained discharge" if value == math.inf else "outside the valid range",
                     va="center",
                     ha="left",
                     fontsize=7,

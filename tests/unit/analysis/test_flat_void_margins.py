@@ -29,3 +29,15 @@ def test_margin_command_on_a_1000_to_1_delamination(demo, tmp_path, capsys):
     demo.replace(**{"void.shape": "cylinder", "void.diameter": 3e-3, "void.height": 3e-6}).to_file(path)
     assert main(["margin", str(path), "--test-voltage", "18kV", "--nominal-voltage", "10kV"]) == 0
     assert "SAFETY" in capsys.readouterr().out
+
+
+@pytest.mark.slow
+@pytest.mark.parametrize("ratio", [10, 1000])
+def test_report_command_on_flat_delaminations(demo, tmp_path, capsys, ratio):
+    from pdvoid.faces.cli import main
+
+    path = tmp_path / f"flat{ratio}.toml"
+    demo.replace(**{"void.shape": "cylinder", "void.diameter": 3e-3, "void.height": 3e-3 / ratio}).to_file(path)
+    out = tmp_path / f"flat{ratio}.pdf"
+    assert main(["report", str(path), "--test-voltage", "18kV", "--out", str(out), "--cycles", "50"]) == 0
+    assert out.stat().st_size > 10_000 and "safety" in capsys.readouterr().out.lower()
