@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from dataclasses import dataclass
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
@@ -13,7 +13,7 @@ if TYPE_CHECKING:
     from pdvoid.inputs.parameters import Periodic, Sine
     from pdvoid.inputs.scenario import Scenario
 
-__all__ = ["KernelArguments", "supply_arrays", "cathode_rate"]
+__all__ = ["KernelArguments", "supply_arrays", "cathode_rate", "shared_arguments"]
 
 
 @dataclass(frozen=True, eq=False)
@@ -166,3 +166,33 @@ def cathode_rate(scenario: Scenario, polarity: float) -> float:
         return 0.0
     cathode_polarity = -1.0 if position == "high_voltage_electrode" else 1.0
     return scenario.model.cathode_emission_rate if polarity == cathode_polarity else 0.0
+
+
+def shared_arguments(scenario: Scenario, volume_electron_rate: float) -> dict[str, Any]:
+    """The kernel arguments every model takes alike: the supply's Fourier series and monotone pieces, and the
+    start-electron supply of the scenario's model (volume rate by polarity with the cathode emission of a void on
+    an electrode, surface emission with its memory rule, charge decay).
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The scenario; its ``model`` holds the start-electron parameters.
+    volume_electron_rate : float
+        Start electrons per second from volume ionisation, from the coefficients [1/s].
+
+    Returns
+    -------
+    dict
+        Keyword arguments of :class:`KernelArguments` (all but the model's void quantity, gain, thresholds,
+        charge per unit, ``x_to_field`` and references).
+    """
+    m = scenario.model
+    orders, a, b, seg, pure = supply_arrays(scenario.supply)
+    return {
+        "frequency": scenario.supply.frequency, "orders": orders, "a_coef": a, "b_coef": b, "seg_fracs": seg,
+        "pure_sine": pure, "lag_free": m.lag_free,
+        "n_vol_pos": volume_electron_rate + cathode_rate(scenario, +1.0),
+        "n_vol_neg": volume_electron_rate + cathode_rate(scenario, -1.0),
+        "n_same": m.surface_rate_same, "n_rev": m.surface_rate_reversed, "tau_s": m.surface_decay_time,
+        "field_assisted": m.field_assisted, "tau_q": m.charge_decay_time,
+    }

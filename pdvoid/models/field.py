@@ -12,7 +12,7 @@ from typing import TYPE_CHECKING
 
 from pdvoid.coefficients.record import Coefficients
 from pdvoid.inputs.model_parameters import ModelParameters, register_model
-from pdvoid.models.arguments import KernelArguments, cathode_rate, supply_arrays
+from pdvoid.models.arguments import KernelArguments, shared_arguments
 
 if TYPE_CHECKING:
     from pdvoid.inputs.scenario import Scenario
@@ -53,14 +53,9 @@ class FieldModel(ModelParameters):
         pdvoid.models.KernelArguments
             Plain floats and arrays for the kernel; the void quantity is the void field [V/m].
         """
-        orders, a, b, seg, pure = supply_arrays(scenario.supply)
         return KernelArguments(
-            frequency=scenario.supply.frequency, orders=orders, a_coef=a, b_coef=b, seg_fracs=seg, pure_sine=pure,
+            **shared_arguments(scenario, c.volume_electron_rate),
             gain=c.field_enhancement / scenario.insulation.thickness,
-            x_inc=c.inception_field, x_res=c.residual_field, charge_per_unit=c.charge_per_field,
-            lag_free=self.lag_free, n_vol_pos=c.volume_electron_rate + cathode_rate(scenario, +1.0),
-            n_vol_neg=c.volume_electron_rate + cathode_rate(scenario, -1.0), n_same=self.surface_rate_same,
-            n_rev=self.surface_rate_reversed, tau_s=self.surface_decay_time, field_assisted=self.field_assisted,
-            tau_q=self.charge_decay_time, x_to_field=1.0,
+            x_inc=c.inception_field, x_res=c.residual_field, charge_per_unit=c.charge_per_field, x_to_field=1.0,
             references=c.references + ("illias2011", "illias2011jpd"),
         )

@@ -13,7 +13,7 @@ from typing import TYPE_CHECKING
 from pdvoid.coefficients.record import Coefficients
 from pdvoid.core.errors import InputError, check_positive
 from pdvoid.inputs.model_parameters import ModelParameters, register_model
-from pdvoid.models.arguments import KernelArguments, cathode_rate, supply_arrays
+from pdvoid.models.arguments import KernelArguments, shared_arguments
 
 if TYPE_CHECKING:
     from pdvoid.inputs.scenario import Scenario
@@ -92,14 +92,9 @@ class NetworkModel(ModelParameters):
             Plain floats and arrays for the kernel; the void quantity is the void voltage [V].
         """
         h = scenario.void.height
-        orders, a, b, seg, pure = supply_arrays(scenario.supply)
         return KernelArguments(
-            frequency=scenario.supply.frequency, orders=orders, a_coef=a, b_coef=b, seg_fracs=seg, pure_sine=pure,
+            **shared_arguments(scenario, c.volume_electron_rate),
             gain=c.void_voltage_ratio, x_inc=c.inception_field * h, x_res=c.residual_field * h,
-            charge_per_unit=c.capacitance_series, lag_free=self.lag_free,
-            n_vol_pos=c.volume_electron_rate + cathode_rate(scenario, +1.0),
-            n_vol_neg=c.volume_electron_rate + cathode_rate(scenario, -1.0),
-            n_same=self.surface_rate_same, n_rev=self.surface_rate_reversed, tau_s=self.surface_decay_time,
-            field_assisted=self.field_assisted, tau_q=self.charge_decay_time, x_to_field=1.0 / h,
+            charge_per_unit=c.capacitance_series, x_to_field=1.0 / h,
             references=c.references + ("gemant1932", "kreuger1989", "illias2011"),
         )
