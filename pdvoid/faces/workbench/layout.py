@@ -349,8 +349,9 @@ def summary_html(summary: dict[str, float], comparison: Comparison | None = None
         name, _, unit = key.rpartition(" [")
         name, unit = (name, unit.rstrip("]")) if name else (key, "")
         rows.append(
-            f"<tr><td style='{_CELL}white-space:nowrap'>{html.escape(name)}</td>"
-            f"<td style='{_CELL}text-align:right'>{_fmt(value)}</td>"
+            # long names wrap, so that the value and its unit stay in view in a narrow panel
+            f"<tr><td style='{_CELL}'>{html.escape(name)}</td>"
+            f"<td style='{_CELL}text-align:right;white-space:nowrap'>{_fmt(value)}</td>"
             f"<td style='{_CELL}color:#555;white-space:nowrap'>{html.escape(unit)}</td></tr>"
         )
     extra = f"<div style='color:#555;font-size:90%'>{html.escape(note)}</div>" if note else ""
