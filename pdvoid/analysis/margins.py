@@ -51,6 +51,10 @@ class MarginTable:
         inception_voltage / test_voltage [-] (None without a test level).
     errors : tuple[str, ...]
         the InputError message per value ("" where fine).
+    inception_low, inception_high : numpy.ndarray or None
+        per value, the lower and upper end of the inception band: the smaller and the larger inception voltage
+        of the two criteria (streamer formula and ionisation integral; one criterion where the other is not
+        available) [V rms]. None for tables built without them.
     notes : tuple[str, ...]
         per value, the validity warnings of its closed-form coefficients joined by "; " ("" where none). The
         table issues one :class:`~pdvoid.core.validity.ValidityWarning` naming how many rows have notes.
@@ -65,6 +69,8 @@ class MarginTable:
     margin: np.ndarray | None
     errors: tuple[str, ...]
     notes: tuple[str, ...] = ()
+    inception_low: np.ndarray | None = None
+    inception_high: np.ndarray | None = None
 
     def as_rows(self) -> list[dict[str, float]]:
         """The table as rows with SI units in the keys (for printing, JSON or a DataFrame).
@@ -156,6 +162,8 @@ def margin_table(scenario: Scenario, parameter: str = "void.size", values: Array
         test_voltage = check_positive("test_voltage", test_voltage, "V")
     inc = np.full(vals.size, np.nan)
     ext = np.full(vals.size, np.nan)
+    low = np.full(vals.size, np.nan)
+    high = np.full(vals.size, np.nan)
     errors = []
     notes = []
     for i, v in enumerate(vals):
@@ -167,6 +175,8 @@ def margin_table(scenario: Scenario, parameter: str = "void.size", values: Array
             continue
         notes.append("; ".join(row_notes))
         inc[i], ext[i] = c.inception_voltage, c.extinction_voltage
+        both = [u for u in (c.inception_voltage_streamer, c.inception_voltage_integral) if not math.isnan(u)]
+        low[i], high[i] = (min(both), max(both)) if both else (math.nan, math.nan)
         errors.append("")
     margin = inc / test_voltage if test_voltage is not None else None
     flagged = sum(1 for n in notes if n)
@@ -175,7 +185,7 @@ def margin_table(scenario: Scenario, parameter: str = "void.size", values: Array
                       "verified range (MarginTable.notes says which and why)")
     return MarginTable(parameter=parameter, unit=_UNITS.get(parameter, "SI"), values=vals, inception_voltage=inc,
                        extinction_voltage=ext, test_voltage=test_voltage, margin=margin, errors=tuple(errors),
-                       notes=tuple(notes))
+                       notes=tuple(notes), inception_low=low, inception_high=high)
 
 
 @dataclass(frozen=True)

@@ -10,6 +10,7 @@ from typing import Any
 import numpy as np
 from matplotlib.axes import Axes
 from matplotlib.lines import Line2D
+from matplotlib.patches import Patch
 
 from pdvoid.analysis.margins import MarginTable
 from pdvoid.core.errors import InputError, check_positive, check_real
@@ -196,8 +197,9 @@ def inception_chart(
     ax = new_axes(ax, FIGSIZE)
     finish_axes(ax)
     colours = colour_cycle(len(items))
-    handles = []
+    handles: list[Line2D | Patch] = []
     marks = []
+    band_drawn = False
     for i, t in enumerate(items):
         x = np.asarray(t.values, dtype=float)
         order = np.argsort(x)
@@ -210,12 +212,23 @@ def inception_chart(
             else getattr(t, "label", None) or ("inception voltage" if len(items) == 1 else f"curve {i + 1}")
         )
         ax.plot(x / factor, inc / 1e3, color=colours[i], lw=1.8, zorder=3)
+        low, high = getattr(t, "inception_low", None), getattr(t, "inception_high", None)
+        if low is not None and high is not None:
+            lo = np.asarray(low, dtype=float)[order]
+            hi = np.asarray(high, dtype=float)[order]
+            finite = np.isfinite(lo) & np.isfinite(hi)
+            if np.any(finite & (hi > lo)):  # the band of the two criteria, where they differ
+                ax.fill_between(x / factor, lo / 1e3, hi / 1e3, where=finite, color=colours[i], alpha=0.22,
+                                lw=0, zorder=2)
+                band_drawn = True
         if extinction:
             ax.plot(x / factor, ext / 1e3, color=colours[i], lw=1.3, ls="--", zorder=3)
         handles.append(Line2D([], [], color=colours[i], lw=1.8, label=label))
         if test_voltage is not None:
             for xc, falling in crossings(x, inc, test_voltage, log_x=log_x):
                 marks.append((xc, falling, colours[i]))
+    if band_drawn:
+        handles.append(Patch(facecolor="#777777", alpha=0.22, label="band of the two inception criteria"))
     if extinction:
         handles.append(Line2D([], [], color="#777777", lw=1.8, label="inception (solid)"))
         handles.append(Line2D([], [], color="#777777", lw=1.3, ls="--", label="extinction (dashed)"))

@@ -149,3 +149,26 @@ def test_sensitivity_bad_input():
         sensitivity_chart(ROWS, unit="furlong")
     with pytest.raises(InputError, match="rows"):
         sensitivity_chart("rows")
+
+
+def test_chart_shades_the_band_of_the_two_criteria(render, demo):
+    from matplotlib.collections import PolyCollection
+
+    import pdvoid
+
+    values = np.geomspace(0.5e-3, 1.8e-3, 7)  # within the closed forms' verified range in the 6 mm wall
+    table = margin_table(demo, "void.size", values, 18e3)
+    # the band's ends are the smaller and the larger of the two criteria of each row (compute_coefficients,
+    # criterion by criterion: a second path through the analysis)
+    for i, d in enumerate(values):
+        c = pdvoid.compute_coefficients(demo.replace(**{"void.diameter": d, "void.height": d}))
+        lo, hi = sorted((c.inception_voltage_streamer, c.inception_voltage_integral))
+        assert table.inception_low[i] == pytest.approx(lo, rel=1e-12)
+        assert table.inception_high[i] == pytest.approx(hi, rel=1e-12)
+    assert np.all(table.inception_low <= table.inception_voltage) and np.all(
+        table.inception_voltage <= table.inception_high)
+    ax = inception_chart(table)
+    render(ax)
+    shaded = [c for c in ax.collections if isinstance(c, PolyCollection)]
+    assert len(shaded) == 1
+    assert "band of the two inception criteria" in [t.get_text() for t in ax.get_legend().get_texts()]
