@@ -7,9 +7,10 @@ import math
 from typing import TYPE_CHECKING
 
 from pdvoid.coefficients.cylinder import cylinder_coefficients
-from pdvoid.coefficients.limits import warn_closed_form_limits, warn_criteria_disagree
+from pdvoid.coefficients.limits import warn_closed_form_limits, warn_criteria_disagree, warn_near_paschen_minimum
 from pdvoid.coefficients.record import Coefficients
 from pdvoid.core.errors import InputError
+from pdvoid.inputs.materials import get_gas
 from pdvoid.inputs.waveform import peak_value
 from pdvoid.physics.electrons import volume_electron_rate
 from pdvoid.physics.geometry import (
@@ -142,6 +143,9 @@ def compute_coefficients(scenario: Scenario) -> Coefficients:
             raise
         e_int = math.nan
     warn_criteria_disagree(e_str, e_int)
+    gas_data = get_gas(void.gas)
+    warn_near_paschen_minimum(r_str.pd, gas_data.paschen_minimum_pd, gas_data.paschen_minimum_voltage, void.gas,
+                              r_str.regime)
     chosen = r_str if model.inception_criterion == "streamer" else r_int
     assert chosen is not None
     e_inc = chosen.field

@@ -20,13 +20,19 @@ import math
 from pdvoid.coefficients.cylinder import TABLE_ASPECT_RANGE, electrode_proximity_error
 from pdvoid.core.validity import warn_validity
 
-__all__ = ["ERROR_TOLERANCE", "CRITERIA_TOLERANCE", "warn_closed_form_limits", "warn_criteria_disagree"]
+__all__ = ["ERROR_TOLERANCE", "CRITERIA_TOLERANCE", "PASCHEN_NEIGHBOURHOOD", "warn_closed_form_limits",
+           "warn_criteria_disagree", "warn_near_paschen_minimum"]
 
 #: expected relative error of the closed forms above which compute_coefficients warns [-]
 ERROR_TOLERANCE = 0.02
 #: relative difference of the two inception criteria above which compute_coefficients warns [-]; for mm voids in
 #: air at 1 atm they agree within about 3 % (physics brief §3.1: within 5-9 % of the empirical curve)
 CRITERIA_TOLERANCE = 0.10
+#: factor of p·l around the Paschen minimum within which compute_coefficients warns [-]: there the breakdown
+#: voltage is set by the Townsend mechanism and rests on the wall's secondary-emission coefficient γ (from memory
+#: for polymer walls) and on the measured minimum, not on the streamer constants (common practice: the minimum
+#: region of measured Paschen curves spans about a factor 3 in p·d either side)
+PASCHEN_NEIGHBOURHOOD = 3.0
 
 _ADVICE = "use pdvoid.fields.coefficients(scenario) for the numerical field solution"
 
@@ -122,6 +128,44 @@ def warn_criteria_disagree(streamer_field: float, integral_field: float) -> str 
         f"the two inception criteria disagree by {_percent(high / low - 1.0)}: the streamer formula gives "
         f"{streamer_field / 1e6:.4g} kV/mm, the ionisation integral {integral_field / 1e6:.4g} kV/mm in the void; "
         "the inception voltage is uncertain by that much (compare both against a test level)"
+    )
+    warn_validity(message)
+    return message
+
+
+def warn_near_paschen_minimum(pd: float, minimum_pd: float | None, minimum_voltage: float | None, gas: str,
+                              regime: str) -> str | None:
+    """Warn (:class:`~pdvoid.core.validity.ValidityWarning`) when the void's p·l lies within a factor
+    :data:`PASCHEN_NEIGHBOURHOOD` of the gas's Paschen minimum, where the inception voltage rests on the wall's
+    secondary-emission coefficient and the measured minimum rather than on the streamer constants.
+
+    Parameters
+    ----------
+    pd : float
+        Density-equivalent pressure × discharge length of the void [Pa m].
+    minimum_pd, minimum_voltage : float or None
+        p·d [Pa m] and voltage [V] of the gas's Paschen minimum (None: the gas has no Townsend data).
+    gas : str
+        The gas's name, for the message [-].
+    regime : str
+        The inception regime; nothing is issued for "no self-sustained discharge", whose reason says it all.
+
+    Returns
+    -------
+    str or None
+        The message issued, or None.
+    """
+    if minimum_pd is None or minimum_voltage is None or not math.isfinite(pd):
+        return None
+    if regime == "no self-sustained discharge":
+        return None
+    if not minimum_pd / PASCHEN_NEIGHBOURHOOD <= pd <= minimum_pd * PASCHEN_NEIGHBOURHOOD:
+        return None
+    message = (
+        f"p*l = {pd:.3g} Pa m is near the Paschen minimum of {gas} ({minimum_voltage:.0f} V at {minimum_pd:.3g} Pa m): "
+        "the inception voltage follows from the Townsend criterion and the measured minimum, and depends on the "
+        "secondary emission of the void wall (its γ is from memory for polymer walls); treat it as uncertain by "
+        "tens of per cent"
     )
     warn_validity(message)
     return message

@@ -235,11 +235,18 @@ def test_workbench_reacts_to_void_size_and_pressure(playwright_api, lab):
             assert pressure_images["pattern"] != size_images["pattern"]
             assert pressure_images["field"] != size_images["field"]
             assert page.locator(".pdvoid-error").inner_text().strip() == ""
+            # the regime in words, in the status line and under the summary (18 kV is above inception here)
+            assert "discharging: first discharge after" in page.locator(".pdvoid-status").inner_text()
 
             page.evaluate("window.jupyterapp.shell.collapseLeft()")
             page.locator(".pdvoid-workbench").evaluate("e => e.scrollIntoView({block: 'start'})")
             page.wait_for_timeout(300)
             page.screenshot(path=str(ARTIFACTS / "workbench.png"))
+
+            # below inception the panel says so in words, not only with zero discharges
+            _set_slider(page, "voltage_kV", "8")
+            _wait_updated(page, ["8 kV rms", "below inception"])
+            assert "0 discharges" in page.locator(".pdvoid-status").inner_text()
         except Exception:
             page.screenshot(path=str(ARTIFACTS / "workbench-failure.png"))
             raise

@@ -207,6 +207,9 @@ def test_warning_for_a_flat_spheroid_wide_against_the_slab():
         pdvoid.compute_coefficients(_scenario(diameter=12e-3, height=0.6e-3))
 
 
+# µm-scale voids lie near the Paschen minimum, where compute_coefficients rightly adds a ValidityWarning
+# (pdvoid.coefficients.limits.warn_near_paschen_minimum); this test checks other numbers
+@pytest.mark.filterwarnings("ignore:p\\*l = .* is near the Paschen minimum:pdvoid.core.validity.ValidityWarning")
 @pytest.mark.parametrize(("diameter", "height", "match"), [
     (0.05e-3, 1.5e-3, "tall narrow cylinder outside the verified range 0.1 to 1000"),
     (50e-3, 20e-6, "diameter/height 2500, outside the verified range 0.1 to 1000"),

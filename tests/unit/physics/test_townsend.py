@@ -142,6 +142,9 @@ def test_void_options_validate():
     assert v.gas_pressure == v.pressure
 
 
+# µm-scale voids lie near the Paschen minimum, where compute_coefficients rightly adds a ValidityWarning
+# (pdvoid.coefficients.limits.warn_near_paschen_minimum); this test checks other numbers
+@pytest.mark.filterwarnings("ignore:p\\*l = .* is near the Paschen minimum:pdvoid.core.validity.ValidityWarning")
 def test_void_secondary_emission_reaches_the_coefficients():
     ins = pdvoid.Insulation(thickness=6e-3, permittivity=4.2)
     c1 = pdvoid.compute_coefficients(pdvoid.Scenario(ins, pdvoid.Void(diameter=10e-6, height=10e-6),
