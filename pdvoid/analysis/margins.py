@@ -7,7 +7,6 @@ All from the analytic coefficients (no simulation), so a table of hundreds of po
 from __future__ import annotations
 
 import math
-import warnings
 from dataclasses import dataclass, fields
 
 import numpy as np
@@ -16,7 +15,7 @@ from scipy.optimize import brentq
 
 from pdvoid.coefficients import Coefficients, compute_coefficients
 from pdvoid.core.errors import InputError, check_array, check_positive
-from pdvoid.core.validity import ValidityWarning, warn_validity
+from pdvoid.core.validity import collect_validity_notes, warn_validity
 from pdvoid.inputs.scenario import Scenario
 
 __all__ = ["MarginTable", "margin_table", "LargestVoid", "largest_pd_free_void", "DesignMargin", "design_margin",
@@ -111,16 +110,9 @@ def _changed(scenario: Scenario, parameter: str, value: float) -> Scenario:
 def _noted_coefficients(scenario: Scenario) -> tuple[Coefficients, tuple[str, ...]]:
     """Coefficients of ``scenario`` with the validity warnings they raise collected rather than issued (the
     searches below try voids outside the closed forms' range that are not part of the answer)."""
-    with warnings.catch_warnings(record=True) as caught:
-        warnings.simplefilter("always", ValidityWarning)
+    with collect_validity_notes() as notes:
         c = compute_coefficients(scenario)
-    notes = []
-    for w in caught:
-        if issubclass(w.category, ValidityWarning):
-            notes.append(str(w.message))
-        else:  # anything else is passed on unchanged
-            warnings.warn_explicit(w.message, w.category, w.filename, w.lineno)
-    return c, tuple(dict.fromkeys(notes))
+    return c, tuple(notes)
 
 
 def margin_table(scenario: Scenario, parameter: str = "void.size", values: ArrayLike | None = None,

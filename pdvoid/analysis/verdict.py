@@ -9,12 +9,11 @@ falls inside it.
 from __future__ import annotations
 
 import math
-import warnings
 from dataclasses import dataclass
 
 from pdvoid.coefficients import compute_coefficients
 from pdvoid.core.errors import check_positive
-from pdvoid.core.validity import ValidityWarning
+from pdvoid.core.validity import collect_validity_notes
 from pdvoid.inputs.scenario import Scenario
 
 __all__ = ["InceptionBand", "inception_band", "regime_words", "band_from_criteria", "verdict", "DISCHARGE_FREE",
@@ -160,15 +159,10 @@ def inception_band(scenario: Scenario) -> InceptionBand:
     InceptionBand
         Both criteria's inception voltages [V rms], the band, the regime and the validity notes.
     """
-    with warnings.catch_warnings(record=True) as caught:
-        warnings.simplefilter("always", ValidityWarning)
+    with collect_validity_notes() as notes:
         c = compute_coefficients(scenario)
-    notes = tuple(dict.fromkeys(str(w.message) for w in caught if issubclass(w.category, ValidityWarning)))
-    for w in caught:  # anything else goes on as it came
-        if not issubclass(w.category, ValidityWarning):
-            warnings.warn_explicit(w.message, w.category, w.filename, w.lineno)
     return band_from_criteria(c.inception_voltage_streamer, c.inception_voltage_integral, c.inception_regime,
-                              c.inception_reason, notes)
+                              c.inception_reason, tuple(notes))
 
 
 def verdict(band: InceptionBand, test_voltage: float) -> str:

@@ -10,9 +10,11 @@ from __future__ import annotations
 
 import sys
 import warnings
+from collections.abc import Iterator
+from contextlib import contextmanager
 from types import FrameType
 
-__all__ = ["ValidityWarning", "warn_validity"]
+__all__ = ["ValidityWarning", "warn_validity", "collect_validity_notes"]
 
 
 class ValidityWarning(UserWarning):
@@ -41,3 +43,26 @@ def warn_validity(message: str, stacklevel: int | None = None) -> None:
         warning names the line of user code that asked for the result [-].
     """
     warnings.warn(message, ValidityWarning, stacklevel=_caller_level() if stacklevel is None else stacklevel)
+
+
+@contextmanager
+def collect_validity_notes() -> Iterator[list[str]]:
+    """Collect the :class:`ValidityWarning` messages issued inside the ``with`` block instead of issuing them.
+
+    The list yielded is filled, in order and without repeats, when the block ends; any other warning is issued
+    again as it came. Searches use it for trial designs that are not part of their answer, and the faces use it
+    to show the notes in words next to the numbers they qualify.
+
+    Yields
+    ------
+    list of str
+        The notes [-].
+    """
+    notes: list[str] = []
+    with warnings.catch_warnings(record=True) as caught:
+        warnings.simplefilter("always", ValidityWarning)
+        yield notes
+    notes.extend(dict.fromkeys(str(w.message) for w in caught if issubclass(w.category, ValidityWarning)))
+    for w in caught:
+        if not issubclass(w.category, ValidityWarning):
+            warnings.warn_explicit(w.message, w.category, w.filename, w.lineno)

@@ -10,7 +10,6 @@ from __future__ import annotations
 
 import math
 import os
-import warnings
 from dataclasses import dataclass, fields, replace
 from pathlib import Path
 
@@ -25,7 +24,7 @@ from pdvoid.analysis.verdict import InceptionBand, inception_band, verdict
 from pdvoid.coefficients import compute_coefficients
 from pdvoid.core.errors import InputError, check_int, check_positive
 from pdvoid.core.references import cite
-from pdvoid.core.validity import ValidityWarning
+from pdvoid.core.validity import collect_validity_notes
 from pdvoid.faces.summary_table import summary_dict
 from pdvoid.inputs.materials import get_gas, get_material
 from pdvoid.inputs.parameters import Periodic, check_seed
@@ -299,8 +298,7 @@ def design_review(
     path, fmt = _check_out(out, figures)
 
     band = inception_band(scenario)  # the design's own validity notes come back in band.notes
-    with warnings.catch_warnings(record=True) as caught:
-        warnings.simplefilter("always", ValidityWarning)
+    with collect_validity_notes() as noted:
         est = inception(scenario)
         result = simulate(at_voltage(scenario, test_voltage), cycles, seed)
         rows = sensitivity(scenario)
@@ -310,7 +308,6 @@ def design_review(
         )
         tables = _margin_tables(scenario, test_voltage)
         regime = discharge_regime(result.scenario, result).text
-    noted = _validity_messages(caught)
     own = band.notes
     variations = tuple(n for n in dict.fromkeys(noted) if n not in own)
     outcome = verdict(band, test_voltage)
@@ -340,10 +337,8 @@ def design_review(
         variation_notes=variations,
     )
     # the pages recompute coefficients of designs computed above, whose notes ctx already holds
-    with warnings.catch_warnings(record=True) as again:
-        warnings.simplefilter("always", ValidityWarning)
+    with collect_validity_notes():
         pages = rp.build_pages(ctx)
-    _validity_messages(again)
     meta = {
         "Title": f"Design review: {scenario.name or 'void in solid insulation'}",
         "Author": "pdvoid",
@@ -357,10 +352,8 @@ def design_review(
     written = []
     if fmt is not None:
         for name in rp.CHART_NAMES:
-            with warnings.catch_warnings(record=True) as again:
-                warnings.simplefilter("always", ValidityWarning)
+            with collect_validity_notes():
                 fig = rp.standalone_chart(ctx, name)
-            _validity_messages(again)
             target = path.with_name(f"{path.stem}_{name}.{fmt}")
             fig.savefig(target, format=fmt, dpi=200)
             written.append(target)
@@ -380,14 +373,6 @@ def design_review(
         validity_notes=own,
         variation_notes=variations,
     )
-
-
-def _validity_messages(caught: list[warnings.WarningMessage]) -> list[str]:
-    """The messages of the validity warnings in ``caught``; any other warning is issued again as it came."""
-    for w in caught:
-        if not issubclass(w.category, ValidityWarning):
-            warnings.warn_explicit(w.message, w.category, w.filename, w.lineno)
-    return [str(w.message) for w in caught if issubclass(w.category, ValidityWarning)]
 
 
 def _margin_tables(scenario: Scenario, test_voltage: float) -> list[MarginTable]:

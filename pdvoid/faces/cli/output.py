@@ -4,14 +4,11 @@ from __future__ import annotations
 
 import json
 import math
-import warnings
-from collections.abc import Iterator
-from contextlib import contextmanager
 from typing import Any
 
 import numpy as np
 
-from pdvoid.core.validity import ValidityWarning
+from pdvoid.core.validity import collect_validity_notes
 
 __all__ = ["SAFETY", "json_safe", "emit", "fmt", "validity_notes", "notes_lines"]
 
@@ -91,27 +88,8 @@ def fmt(value: float | None, unit: str, scale: float = 1.0, digits: int = 4) -> 
     return f"{value / scale:.{digits}g} {unit}"
 
 
-@contextmanager
-def validity_notes() -> Iterator[list[str]]:
-    """Collect the :class:`~pdvoid.ValidityWarning` messages issued inside the ``with`` block.
-
-    The list yielded is filled, without repeats, when the block ends; other warnings are issued again as they
-    came. A command prints the notes under "Validity notes" (text) or as ``validity_notes`` (JSON) instead of a
-    raw Python warning line.
-
-    Yields
-    ------
-    list of str
-        The notes [-].
-    """
-    notes: list[str] = []
-    with warnings.catch_warnings(record=True) as caught:
-        warnings.simplefilter("always", ValidityWarning)
-        yield notes
-    notes.extend(dict.fromkeys(str(w.message) for w in caught if issubclass(w.category, ValidityWarning)))
-    for w in caught:
-        if not issubclass(w.category, ValidityWarning):
-            warnings.warn_explicit(w.message, w.category, w.filename, w.lineno)
+#: collect the validity warnings of a command's numbers (:func:`pdvoid.core.validity.collect_validity_notes`)
+validity_notes = collect_validity_notes
 
 
 def notes_lines(notes: list[str] | tuple[str, ...]) -> list[str]:

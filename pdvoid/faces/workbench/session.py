@@ -7,7 +7,6 @@ from __future__ import annotations
 
 import math
 import time
-import warnings
 from collections.abc import Callable
 from dataclasses import dataclass, field
 from pathlib import Path
@@ -17,7 +16,7 @@ from pdvoid.analysis.inception import inception
 from pdvoid.analysis.regime import discharge_regime
 from pdvoid.analysis.summary import run_summary
 from pdvoid.core.errors import InputError
-from pdvoid.core.validity import ValidityWarning
+from pdvoid.core.validity import collect_validity_notes
 from pdvoid.faces.summary_table import summary_dict
 from pdvoid.faces.workbench.controls import CUSTOM_MATERIAL, Controls
 from pdvoid.inputs.scenario import Scenario
@@ -259,8 +258,7 @@ class WorkbenchSession:
         """
         controls = self.controls
         t0 = time.perf_counter()
-        with warnings.catch_warnings(record=True) as caught:
-            warnings.simplefilter("always", ValidityWarning)
+        with collect_validity_notes() as notes:
             try:
                 scenario = controls.to_scenario(self.base)
                 cycles, seed, test = controls.run_settings()
@@ -283,10 +281,6 @@ class WorkbenchSession:
         if error is not None:
             outcome = Outcome(controls=controls, error=error, seconds=time.perf_counter() - t0)
         else:
-            notes = tuple(dict.fromkeys(str(w.message) for w in caught if issubclass(w.category, ValidityWarning)))
-            for w in caught:  # anything else is passed on as it came
-                if not issubclass(w.category, ValidityWarning):
-                    warnings.warn_explicit(w.message, w.category, w.filename, w.lineno)
             comp, comp_err = self._compare(result)
             outcome = Outcome(
                 controls=controls,
@@ -298,7 +292,7 @@ class WorkbenchSession:
                 comparison=comp,
                 comparison_error=comp_err,
                 regime=regime,
-                validity_notes=notes,
+                validity_notes=tuple(notes),
             )
         self.outcome = outcome
         return outcome
