@@ -14,7 +14,10 @@ from numpy.typing import ArrayLike
 from scipy.optimize import brentq
 
 from pdvoid.coefficients import Coefficients, compute_coefficients
+from pdvoid.coefficients.closed_form import supply_peak_factor
+from pdvoid.coefficients.limits import HOST_STRENGTH_MARK, warn_host_strength
 from pdvoid.core.errors import InputError, check_array, check_positive
+from pdvoid.analysis.verdict import band_from_coefficients
 from pdvoid.core.validity import collect_validity_notes, warn_validity
 from pdvoid.inputs.scenario import Scenario
 
@@ -52,8 +55,8 @@ class MarginTable:
         the InputError message per value ("" where fine).
     inception_low, inception_high : numpy.ndarray or None
         per value, the lower and upper end of the inception band: the smaller and the larger inception voltage
-        of the two criteria (streamer formula and ionisation integral; one criterion where the other is not
-        available) [V rms]. None for tables built without them.
+        of the two criteria (streamer formula, at both ends of the quoted spread of its (E/p)_cr where the gas
+        gives one, and ionisation integral; one criterion where the other is not available) [V rms]. None for tables built without them.
     notes : tuple[str, ...]
         per value, the validity warnings of its closed-form coefficients joined by "; " ("" where none). The
         table issues one :class:`~pdvoid.core.validity.ValidityWarning` naming how many rows have notes.
@@ -167,8 +170,8 @@ def margin_table(scenario: Scenario, parameter: str = "void.size", values: Array
             continue
         notes.append("; ".join(row_notes))
         inc[i], ext[i] = c.inception_voltage, c.extinction_voltage
-        both = [u for u in (c.inception_voltage_streamer, c.inception_voltage_integral) if not math.isnan(u)]
-        low[i], high[i] = (min(both), max(both)) if both else (math.nan, math.nan)
+        row_band = band_from_coefficients(c)
+        low[i], high[i] = row_band.low, row_band.high
         errors.append("")
     margin = inc / test_voltage if test_voltage is not None else None
     flagged = sum(1 for n in notes if n)
@@ -233,6 +236,8 @@ def largest_pd_free_void(scenario: Scenario, test_voltage: float) -> LargestVoid
         For a test voltage <= 0.
     """
     test_voltage = check_positive("test_voltage", test_voltage, "V")
+    host_note = warn_host_strength(scenario.insulation, test_voltage * supply_peak_factor(scenario.supply),
+                                   "at the test level")
     aspect = scenario.void.height / scenario.void.diameter
     # the closed forms need a void small compared with the insulation: search up to half its thickness
     d_max = min(0.5 * scenario.insulation.thickness / aspect, 1.0)
@@ -244,8 +249,11 @@ def largest_pd_free_void(scenario: Scenario, test_voltage: float) -> LargestVoid
 
     def answer(d: float, limited_by: str) -> LargestVoid:
         c, notes = _noted_coefficients(_changed(scenario, "void.size", d))
+        if host_note is not None:  # said once, at the test level
+            notes = tuple(n for n in notes if HOST_STRENGTH_MARK not in n) + (host_note,)
         for note in notes:
-            warn_validity(note)
+            if HOST_STRENGTH_MARK not in note:
+                warn_validity(note)
         return LargestVoid(d, d * aspect, c.inception_voltage, limited_by, notes)
 
     hi_u, lo_u = u_inc(d_min), u_inc(d_max)

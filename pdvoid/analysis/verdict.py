@@ -3,7 +3,8 @@
 The streamer criterion and the ionisation-integral criterion give two inception voltages that may differ by tens
 of percent for a flat void. A verdict drawn from one of them alone can flip when the other is used; the band
 [min, max] of the two makes the disagreement visible, and :func:`verdict` says "inconclusive" when the test level
-falls inside it.
+falls inside it. Where the gas's streamer constant (E/p)_cr is from memory and its parameter set quotes a spread
+(air: 24.2 to 25.2 V/(Pa m)), the streamer criterion enters the band at both ends of that spread.
 """
 
 from __future__ import annotations
@@ -11,12 +12,13 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 
-from pdvoid.coefficients import compute_coefficients
+from pdvoid.coefficients import Coefficients, compute_coefficients
 from pdvoid.core.errors import check_positive
 from pdvoid.core.validity import collect_validity_notes
 from pdvoid.inputs.scenario import Scenario
 
-__all__ = ["InceptionBand", "inception_band", "regime_words", "band_from_criteria", "verdict", "DISCHARGE_FREE",
+__all__ = ["InceptionBand", "inception_band", "regime_words", "band_from_criteria", "band_from_coefficients",
+           "verdict", "DISCHARGE_FREE",
            "DISCHARGES_EXPECTED", "INCONCLUSIVE"]
 
 #: the whole band lies above the test level
@@ -70,6 +72,11 @@ class InceptionBand:
         Why that regime, in one sentence.
     notes : tuple of str
         Validity notes (the messages of the :class:`~pdvoid.core.validity.ValidityWarning` issued while computing).
+    streamer_range : tuple of float
+        (low, high) streamer-criterion inception voltage [V] over the quoted spread of the gas's (E/p)_cr; both
+        NaN when the gas quotes none. ``low`` and ``high`` include it.
+    critical_field_range : tuple of float
+        That spread of (E/p)_cr [V/(Pa m)]; NaN when none.
     """
 
     low: float
@@ -80,6 +87,8 @@ class InceptionBand:
     regime: str = "streamer"
     reason: str = ""
     notes: tuple[str, ...] = ()
+    streamer_range: tuple[float, float] = (math.nan, math.nan)
+    critical_field_range: tuple[float, float] = (math.nan, math.nan)
 
     @property
     def single_criterion(self) -> bool:
@@ -107,14 +116,28 @@ class InceptionBand:
             return "no inception criterion available"
         if self.single_criterion:
             missing = "ionisation integral" if self.criteria == ("streamer",) else "streamer criterion"
-            return (f"inception voltage {self.low / 1e3:.4g} kV rms by the {self.criteria[0]} criterion only "
-                    f"(the {missing} is not available for this gas)")
+            spread = self._spread_words() if self.criteria == ("streamer",) else ""
+            value = (f"inception band {self.low / 1e3:.4g} to {self.high / 1e3:.4g} kV rms" if spread
+                     else f"inception voltage {self.low / 1e3:.4g} kV rms")
+            return (f"{value} by the {self.criteria[0]} criterion only{spread} (the {missing} is not available "
+                    "for this gas)")
         return (f"inception band {self.low / 1e3:.4g} to {self.high / 1e3:.4g} kV rms (streamer "
-                f"{self.streamer / 1e3:.4g} kV, ionisation integral {self.integral / 1e3:.4g} kV)")
+                f"{self.streamer / 1e3:.4g} kV{self._spread_words()}, ionisation integral "
+                f"{self.integral / 1e3:.4g} kV)")
+
+    def _spread_words(self) -> str:
+        lo, hi = self.streamer_range
+        if math.isnan(lo) or math.isnan(hi) or hi <= lo:
+            return ""
+        c_lo, c_hi = self.critical_field_range
+        return (f", {lo / 1e3:.4g} to {hi / 1e3:.4g} kV over the quoted (E/p)_cr {c_lo:g} to {c_hi:g} V/(Pa m), "
+                "from memory")
 
 
 def band_from_criteria(streamer: float, integral: float, regime: str = "streamer", reason: str = "",
-                       notes: tuple[str, ...] = ()) -> InceptionBand:
+                       notes: tuple[str, ...] = (),
+                       streamer_range: tuple[float, float] = (math.nan, math.nan),
+                       critical_field_range: tuple[float, float] = (math.nan, math.nan)) -> InceptionBand:
     """The band of two criteria's inception voltages; a NaN one is left out.
 
     Parameters
@@ -129,6 +152,11 @@ def band_from_criteria(streamer: float, integral: float, regime: str = "streamer
         Why that regime [-].
     notes : tuple of str
         Validity notes [-].
+    streamer_range : tuple of float
+        Streamer-criterion inception voltage at both ends of the quoted spread of (E/p)_cr [V] (NaN: none);
+        included in the band when the streamer criterion is.
+    critical_field_range : tuple of float
+        That spread [V/(Pa m)] (NaN: none).
 
     Returns
     -------
@@ -138,10 +166,34 @@ def band_from_criteria(streamer: float, integral: float, regime: str = "streamer
     named = [(n, float(v)) for n, v in (("streamer", streamer), ("ionisation integral", integral))
              if not math.isnan(float(v))]
     values = [v for _, v in named]
+    s_range = (float(streamer_range[0]), float(streamer_range[1]))
+    if not math.isnan(float(streamer)):
+        values += [u for u in s_range if not math.isnan(u)]
     low = min(values) if values else math.nan
     high = max(values) if values else math.nan
     return InceptionBand(low, high, float(streamer), float(integral), tuple(n for n, _ in named), regime, reason,
-                         tuple(notes))
+                         tuple(notes), s_range,
+                         (float(critical_field_range[0]), float(critical_field_range[1])))
+
+
+def band_from_coefficients(c: Coefficients, notes: tuple[str, ...] = ()) -> InceptionBand:
+    """The inception band of computed coefficients: both criteria and the streamer constant's quoted spread.
+
+    Parameters
+    ----------
+    c : Coefficients
+        The coefficients (:func:`pdvoid.compute_coefficients`).
+    notes : tuple of str
+        Validity notes to carry [-].
+
+    Returns
+    -------
+    InceptionBand
+        The band [V rms].
+    """
+    return band_from_criteria(c.inception_voltage_streamer, c.inception_voltage_integral, c.inception_regime,
+                              c.inception_reason, tuple(notes), c.inception_voltage_streamer_range,
+                              c.critical_field_range)
 
 
 def inception_band(scenario: Scenario) -> InceptionBand:
@@ -161,8 +213,7 @@ def inception_band(scenario: Scenario) -> InceptionBand:
     """
     with collect_validity_notes() as notes:
         c = compute_coefficients(scenario)
-    return band_from_criteria(c.inception_voltage_streamer, c.inception_voltage_integral, c.inception_regime,
-                              c.inception_reason, tuple(notes))
+    return band_from_coefficients(c, tuple(notes))
 
 
 def verdict(band: InceptionBand, test_voltage: float) -> str:

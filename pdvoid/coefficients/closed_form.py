@@ -3,14 +3,20 @@ field drop, capacitances, inception voltage), computed from the physics function
 
 from __future__ import annotations
 
+import dataclasses
 import math
 from typing import TYPE_CHECKING
 
 from pdvoid.coefficients.cylinder import cylinder_coefficients
-from pdvoid.coefficients.limits import warn_closed_form_limits, warn_criteria_disagree, warn_near_paschen_minimum
+from pdvoid.coefficients.limits import (
+    warn_closed_form_limits,
+    warn_criteria_disagree,
+    warn_host_strength,
+    warn_near_paschen_minimum,
+)
 from pdvoid.coefficients.record import Coefficients
 from pdvoid.core.errors import InputError
-from pdvoid.inputs.materials import get_gas
+from pdvoid.inputs.materials import GasData, get_gas
 from pdvoid.inputs.waveform import peak_value
 from pdvoid.physics.electrons import volume_electron_rate
 from pdvoid.physics.geometry import (
@@ -172,6 +178,9 @@ def compute_coefficients(scenario: Scenario) -> Coefficients:
             return math.inf  # no self-sustained discharge at any voltage
         return e / (gain_field * pf) if math.isfinite(e) else math.nan
 
+    e_range, cr_range = _streamer_spread(gas_data, p_gas, l_str, t_gas, gamma, e_str)
+    if math.isfinite(e_inc):
+        warn_host_strength(scenario.insulation, e_inc / gain_field, "at the inception voltage")
     n_vol = float(volume_electron_rate(omega, p_gas, void.temperature,
                                        ionization_rate=model.ionization_rate, electron_yield=model.electron_yield))
     f_eff = gain_field * d if model.gain_from_network else f
@@ -199,4 +208,21 @@ def compute_coefficients(scenario: Scenario) -> Coefficients:
         method="closed form" if void.field_enhancement is None else "field solver",
         inception_regime=chosen.regime,
         inception_reason=chosen.reason,
+        inception_voltage_streamer_range=(u_inc(e_range[0]), u_inc(e_range[1])),
+        critical_field_range=cr_range,
     )
+
+
+def _streamer_spread(gas_data: GasData, pressure: float, length: float, temperature: float,
+                     gamma: float | None, e_str: float) -> tuple[tuple[float, float], tuple[float, float]]:
+    """The streamer-criterion inception field [V/m] at both ends of the quoted spread of (E/p)_cr [V/(Pa m)]
+    (the combined criterion recomputed with each end), or NaNs when the gas quotes no spread."""
+    prov = gas_data.provenance.get("critical_reduced_field")
+    if prov is None or prov.spread is None or not math.isfinite(e_str):
+        return (math.nan, math.nan), (math.nan, math.nan)
+    ends = []
+    for value in prov.spread:
+        alt = dataclasses.replace(gas_data, critical_reduced_field=value)
+        ends.append(inception_criterion(alt, pressure, length, temperature, criterion="streamer",
+                                        secondary_emission=gamma).field)
+    return (min(ends), max(ends)), (float(prov.spread[0]), float(prov.spread[1]))

@@ -10,6 +10,11 @@
   diameter is comparable with the slab thickness: the spheroid closed forms ignore the slab);
 - a cylinder's diameter/height ratio lies outside the range the shipped solver table verifies (0.1 to 1000).
 
+:func:`warn_host_strength` flags a mean bulk field at or above :data:`STRENGTH_FRACTION` of the host's typical
+short-time dielectric strength (the void model assumes the host itself stays intact); it is called at the
+inception voltage by :func:`pdvoid.compute_coefficients`, at the supply's peak by :func:`pdvoid.simulate` and at
+the test level by the margin searches.
+
 Nothing is checked when the scenario carries a numerical field solution (``void.field_enhancement``).
 """
 
@@ -17,11 +22,18 @@ from __future__ import annotations
 
 import math
 
+from typing import TYPE_CHECKING
+
 from pdvoid.coefficients.cylinder import TABLE_ASPECT_RANGE, electrode_proximity_error
 from pdvoid.core.validity import warn_validity
 
+if TYPE_CHECKING:
+    from pdvoid.inputs.parameters import Insulation
+
 __all__ = ["ERROR_TOLERANCE", "CRITERIA_TOLERANCE", "PASCHEN_NEIGHBOURHOOD", "warn_closed_form_limits",
-           "warn_criteria_disagree", "warn_near_paschen_minimum"]
+           "warn_criteria_disagree", "warn_near_paschen_minimum", "STRENGTH_FRACTION", "HOST_STRENGTH_MARK",
+           "host_strength",
+           "warn_host_strength"]
 
 #: expected relative error of the closed forms above which compute_coefficients warns [-]
 ERROR_TOLERANCE = 0.02
@@ -33,6 +45,12 @@ CRITERIA_TOLERANCE = 0.10
 #: for polymer walls) and on the measured minimum, not on the streamer constants (common practice: the minimum
 #: region of measured Paschen curves spans about a factor 3 in p·d either side)
 PASCHEN_NEIGHBOURHOOD = 3.0
+#: fraction of the host's typical short-time dielectric strength at which the mean bulk peak field is flagged
+#: [-]. Common practice: tabulated short-time strengths come from thin specimens and ramp tests; thick parts under
+#: long AC stress fail at a fraction of them, and designs work well below (a factor 2 is a mild allowance).
+STRENGTH_FRACTION = 0.5
+#: words every host-strength warning carries (so that a caller that already warned at its own voltage can tell them)
+HOST_STRENGTH_MARK = "of its typical short-time dielectric strength"
 
 _ADVICE = "use pdvoid.fields.coefficients(scenario) for the numerical field solution"
 
@@ -166,6 +184,78 @@ def warn_near_paschen_minimum(pd: float, minimum_pd: float | None, minimum_volta
         "the inception voltage follows from the Townsend criterion and the measured minimum, and depends on the "
         "secondary emission of the void wall (its γ is from memory for polymer walls); treat it as uncertain by "
         "tens of per cent"
+    )
+    warn_validity(message)
+    return message
+
+
+def host_strength(insulation: Insulation) -> tuple[float, str] | None:
+    """The host's typical short-time dielectric strength and where it comes from.
+
+    Parameters
+    ----------
+    insulation : Insulation
+        The insulation: its own ``dielectric_strength`` wins; otherwise its material's tabulated value.
+
+    Returns
+    -------
+    tuple of (float, str) or None
+        Strength [V/m] and a short source text ("given in the scenario", or the material and the status of its
+        tabulated value); None when neither is known.
+    """
+    if insulation.dielectric_strength is not None:
+        return float(insulation.dielectric_strength), "given in the scenario"
+    if insulation.material is None:
+        return None
+    from pdvoid.inputs.materials import get_material
+
+    mat = get_material(insulation.material)
+    if mat.dielectric_strength is None:
+        return None
+    prov = mat.dielectric_strength_provenance
+    where = f"typical for {mat.name}"
+    if prov is not None:
+        where += f", {prov.status}"
+    return float(mat.dielectric_strength), where
+
+
+def warn_host_strength(insulation: Insulation, peak_voltage: float, situation: str) -> str | None:
+    """Warn (:class:`~pdvoid.core.validity.ValidityWarning`) when the mean bulk field reaches
+    :data:`STRENGTH_FRACTION` of the host's typical dielectric strength.
+
+    The mean bulk field is peak_voltage / thickness, the field of the intact slab far from the void. The void models
+    assume that the host withstands it; near its short-time strength the insulation itself may fail, and a verdict
+    about the void says little.
+
+    Parameters
+    ----------
+    insulation : Insulation
+        The insulation (thickness and strength, see :func:`host_strength`).
+    peak_voltage : float
+        Peak applied voltage [V]; nothing is checked when it is not finite and positive.
+    situation : str
+        Where the voltage comes from, for the message (e.g. "at the test level") [-].
+
+    Returns
+    -------
+    str or None
+        The message issued, or None (below the fraction, or no strength known).
+    """
+    if not (math.isfinite(peak_voltage) and peak_voltage > 0.0):
+        return None
+    known = host_strength(insulation)
+    if known is None:
+        return None
+    strength, source = known
+    field = peak_voltage / insulation.thickness
+    ratio = field / strength
+    if ratio < STRENGTH_FRACTION:
+        return None
+    message = (
+        f"{situation} the mean field in the host is {field / 1e6:.3g} kV/mm peak ({peak_voltage / 1e3:.4g} kV over "
+        f"{_mm(insulation.thickness)}), which is {ratio * 100:.0f} % {HOST_STRENGTH_MARK} "
+        f"{strength / 1e6:.3g} kV/mm ({source}): the insulation itself may fail, which the void model does "
+        "not describe"
     )
     warn_validity(message)
     return message

@@ -3,6 +3,8 @@ closed forms or from the numerical field solver."""
 
 from __future__ import annotations
 
+import math
+
 from dataclasses import dataclass, fields
 from typing import Any
 
@@ -74,6 +76,12 @@ class Coefficients:
         What set ``inception_field``: ``"streamer"``, ``"townsend"`` or ``"no self-sustained discharge"``.
     inception_reason : str
         One sentence saying why (criterion, p·l, the competing values), for reports and warnings.
+    inception_voltage_streamer_range : tuple of float
+        (low, high) streamer-criterion inception voltage [V rms] over the quoted spread of the gas's
+        streamer constant (E/p)_cr, where its parameter set gives one (air: 24.2 to 25.2 V/(Pa m), both from
+        memory); (NaN, NaN) when the gas quotes no spread.
+    critical_field_range : tuple of float
+        That spread of (E/p)_cr [V/(Pa m)], (NaN, NaN) when none is quoted.
     """
 
     field_enhancement: float
@@ -100,6 +108,8 @@ class Coefficients:
     solution: Any = None
     inception_regime: str = "streamer"
     inception_reason: str = ""
+    inception_voltage_streamer_range: tuple[float, float] = (math.nan, math.nan)
+    critical_field_range: tuple[float, float] = (math.nan, math.nan)
 
     def as_dict(self) -> dict[str, Any]:
         """The numbers as a plain dictionary (the numerical solution, if any, left out).

@@ -153,6 +153,10 @@ REFERENCES: dict[str, Reference] = dict(
            "www.highvoltageconnection.com/articles/paschen-curve.html): minimum breakdown of air 327 V at "
            "standard atmospheric pressure, at a gap of 7.5 um (i.e. 0.570 Torr cm; temperature not stated)",
            "confirmed"),
+        _r("shackelford2001", "J. F. Shackelford, W. Alexander (eds.), CRC Materials Science and Engineering "
+           "Handbook, 3rd ed., CRC Press 2001, Table 296 'Dielectric strength of polymers' (short time, ASTM D149, "
+           "V/mil; data compiled from Lynch, CRC Handbook of Materials Science vol. 3, 1975, and the ASM Engineered "
+           "Materials Handbook vol. 2, 1988): cast acrylic sheet 450-530 V/mil", "confirmed"),
         _r("naidu2013", "M. S. Naidu, V. Kamaraju, High Voltage Engineering, McGraw-Hill (5th ed. 2013), gas "
            "breakdown chapter, table of minimum sparking potentials: air 327 V at 0.567 Torr cm, N2 251 V at "
            "0.67 Torr cm (table, edition and page from memory)", "from memory"),

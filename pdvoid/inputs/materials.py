@@ -45,6 +45,32 @@ _GASES_SCHEMA = "pdvoid.gases/1"
 
 
 @dataclass(frozen=True)
+class Provenance:
+    """Where one gas constant comes from: its unit, status and source.
+
+    Attributes
+    ----------
+    unit : str
+        Unit of the constant as written in the parameter file.
+    status : str
+        ``"confirmed"``, ``"derived"``, ``"from memory"`` or ``"common practice"``.
+    source : str
+        The source (a reference key or a citation).
+    note : str
+        Free remarks; empty when none.
+    spread : tuple of float or None
+        (low, high) of the values quoted for this constant by different sources, in ``unit``, when it is not
+        confirmed; pdvoid carries it into the inception band. None when no spread is given.
+    """
+
+    unit: str
+    status: str
+    source: str
+    note: str = ""
+    spread: tuple[float, float] | None = None
+
+
+@dataclass(frozen=True)
 class Material:
     """A host dielectric.
 
@@ -64,6 +90,11 @@ class Material:
         typical spread (low, high) [-], or None.
     note : str
         free text.
+    dielectric_strength : float or None
+        typical short-time dielectric strength of the host [V/m] (a uniform-field test on specimens a few mm
+        thick or thinner; it falls with thickness, duration, temperature and defects), or None when unknown.
+    dielectric_strength_provenance : Provenance or None
+        unit, status and source of ``dielectric_strength``.
     """
 
     name: str
@@ -73,28 +104,8 @@ class Material:
     status: str
     permittivity_range: tuple[float, float] | None = None
     note: str = ""
-
-
-@dataclass(frozen=True)
-class Provenance:
-    """Where one gas constant comes from: its unit, status and source.
-
-    Attributes
-    ----------
-    unit : str
-        Unit of the constant as written in the parameter file.
-    status : str
-        ``"confirmed"``, ``"derived"``, ``"from memory"`` or ``"common practice"``.
-    source : str
-        The source (a reference key or a citation).
-    note : str
-        Free remarks; empty when none.
-    """
-
-    unit: str
-    status: str
-    source: str
-    note: str = ""
+    dielectric_strength: float | None = None
+    dielectric_strength_provenance: Provenance | None = field(default=None, compare=False, repr=False)
 
 
 @dataclass(frozen=True)
@@ -169,7 +180,10 @@ _GAS_QUANTITIES: dict[str, tuple[str, float, float, bool, bool]] = {
     "paschen_minimum_pd": ("Pa m", 0.0, math.inf, True, False),
 }
 _GAS_TEXT = {"description": True, "references": True, "notes": False, "ionization_model": False}
-_MATERIAL_KEYS = {"description", "permittivity", "permittivity_range", "source", "status", "note"}
+_MATERIAL_KEYS = {"description", "permittivity", "permittivity_range", "source", "status", "note",
+                  "dielectric_strength"}
+#: unit, lower and upper bound of a material's dielectric strength [V/m] (1 kV/mm to 10 MV/mm)
+_STRENGTH_SPEC = ("V/m", 1e6, 1e10, False, False)
 
 
 # ----------------------------------------------------------------------------------------- file reading
@@ -261,6 +275,10 @@ def _material(label: str, name: str, entry: dict[str, Any]) -> Material:
             raise InputError(f"{_where(label, name + '.permittivity_range')}: [{lo:g}, {hi:g}] must contain "
                              f"permittivity {eps:g}")
         rng = (lo, hi)
+    strength, strength_prov = None, None
+    if "dielectric_strength" in entry:
+        strength, strength_prov = _quantity(label, f"{name}.dielectric_strength", entry["dielectric_strength"],
+                                            _STRENGTH_SPEC)
     return Material(
         name=name,
         permittivity=eps,
@@ -269,6 +287,8 @@ def _material(label: str, name: str, entry: dict[str, Any]) -> Material:
         status=_status(label, f"{name}.status", entry["status"]),
         permittivity_range=rng,
         note=_text(label, f"{name}.note", entry.get("note", ""), allow_empty=True),
+        dielectric_strength=strength,
+        dielectric_strength_provenance=strength_prov,
     )
 
 
@@ -301,7 +321,7 @@ def _quantity(label: str, key: str, table: object, spec: tuple[str, float, float
     if not isinstance(table, dict):
         raise InputError(f"{_where(label, key)}: must be a table with value, unit, status, source; "
                          f"got {table!r}")
-    allowed = {"value", "unit", "status", "source", "note"}
+    allowed = {"value", "unit", "status", "source", "note", "spread"}
     unknown = sorted(set(table) - allowed)
     if unknown:
         raise InputError(f"{_where(label, key + '.' + unknown[0])}: unknown key; "
@@ -312,9 +332,19 @@ def _quantity(label: str, key: str, table: object, spec: tuple[str, float, float
     if table["unit"] != unit:
         raise InputError(f"{_where(label, key + '.unit')}: must be {unit!r} (SI); got {table['unit']!r}")
     value = _number(label, f"{key}.value", table["value"], low, high, low_open)
+    spread = None
+    if "spread" in table:
+        raw = table["spread"]
+        if not isinstance(raw, list) or len(raw) != 2:
+            raise InputError(f"{_where(label, key + '.spread')}: must be [low, high]; got {raw!r}")
+        lo = _number(label, f"{key}.spread", raw[0], low, high, low_open)
+        hi = _number(label, f"{key}.spread", raw[1], low, high, low_open)
+        if not lo <= value <= hi:
+            raise InputError(f"{_where(label, key + '.spread')}: [{lo:g}, {hi:g}] must contain the value {value:g}")
+        spread = (lo, hi)
     prov = Provenance(unit=unit, status=_status(label, f"{key}.status", table["status"]),
                       source=_text(label, f"{key}.source", table["source"]),
-                      note=_text(label, f"{key}.note", table.get("note", ""), allow_empty=True))
+                      note=_text(label, f"{key}.note", table.get("note", ""), allow_empty=True), spread=spread)
     return value, prov
 
 

@@ -51,12 +51,17 @@ class Insulation:
         name of a host material from the parameter sets (sets ``permittivity`` when that is omitted).
     area : float or None
         electrode area of the specimen [m²], optional; only the network model's C_a uses it.
+    dielectric_strength : float or None
+        typical short-time dielectric strength of the host [V/m], 0.1 kV/mm to 10 MV/mm, optional; when omitted,
+        the material's tabulated value (if any) is used. Only the warning that the mean field approaches the
+        strength of the host itself uses it (:func:`pdvoid.coefficients.limits.warn_host_strength`).
     """
 
     thickness: float
     permittivity: float | None = None
     material: str | None = None
     area: float | None = None
+    dielectric_strength: float | None = None
 
     def __post_init__(self) -> None:
         _set(self, "thickness", check_range("insulation.thickness", self.thickness, 1e-6, 1.0, unit="m"))
@@ -71,6 +76,9 @@ class Insulation:
             raise InputError(f"insulation.material must be a material name; got {self.material!r}")
         if self.area is not None:
             _set(self, "area", check_positive("insulation.area", self.area, "m²"))
+        if self.dielectric_strength is not None:
+            _set(self, "dielectric_strength", check_range("insulation.dielectric_strength",
+                                                          self.dielectric_strength, 1e5, 1e10, unit="V/m"))
 
 
 @dataclass(frozen=True)

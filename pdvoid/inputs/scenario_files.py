@@ -6,7 +6,7 @@ files written by pdvoid carry SI units.
 Layout (every key optional unless the class requires it; bare numbers are SI)::
 
     name = "..."
-    [insulation]   thickness, permittivity, material, area
+    [insulation]   thickness, permittivity, material, area, dielectric_strength
     [void]         diameter, height, pressure, gas, temperature, shape, inception_length
     [supply]       kind = "sine" | "periodic"; sine: rms, frequency, harmonics = [[order, fraction, phase_deg]]
                    periodic: samples (V, one period), frequency, max_harmonic
@@ -41,7 +41,8 @@ MAX_FILE_BYTES = 1_000_000
 # key -> (dimension, SI unit written to files); None dimension = not a quantity (text, bool, list)
 _DIMS: dict[str, dict[str, tuple[str | None, str]]] = {
     "insulation": {"thickness": ("length", "m"), "permittivity": ("dimensionless", ""),
-                   "material": (None, ""), "area": ("area", "m2")},
+                   "material": (None, ""), "area": ("area", "m2"),
+                   "dielectric_strength": ("field", "V/m")},
     "void": {"diameter": ("length", "m"), "height": ("length", "m"), "pressure": ("pressure", "Pa"),
              "gas": (None, ""), "temperature": ("temperature", "K"), "shape": (None, ""),
              "inception_length": ("length", "m"), "position": (None, ""),

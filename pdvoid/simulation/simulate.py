@@ -7,6 +7,8 @@ from collections.abc import Callable
 import numpy as np
 
 from pdvoid._version import __version__
+from pdvoid.coefficients.closed_form import supply_peak_factor
+from pdvoid.coefficients.limits import warn_host_strength
 from pdvoid.core.errors import InputError, check_int, check_range
 from pdvoid.inputs.parameters import check_seed
 from pdvoid.inputs.scenario import Scenario
@@ -181,6 +183,8 @@ def simulate(
     if not isinstance(histogram, bool):
         raise InputError(f"histogram must be True or False; got {histogram!r}")
     args = kernel_arguments(scenario)
+    warn_host_strength(scenario.insulation, scenario.supply.rms * supply_peak_factor(scenario.supply),
+                       "at the supply's peak")
     bound = args.max_events_per_cycle(1.0)
     if histogram:
         phase_bins = check_int("phase_bins", phase_bins, 1, 3600)

@@ -76,19 +76,21 @@ def _band_doc(band: InceptionBand) -> dict[str, object]:
     return {"inception band [V rms]": [band.low, band.high], "criteria in the band": list(band.criteria),
             "inception voltage, streamer criterion [V rms]": band.streamer,
             "inception voltage, ionisation integral [V rms]": band.integral,
+            "inception voltage, streamer criterion over the quoted (E/p)_cr spread [V rms]":
+            list(band.streamer_range),
             "inception regime": band.regime, "inception reason": band.reason, "band": band.describe()}
 
 
 def _cmd_inception(ns: argparse.Namespace) -> int:
     from pdvoid.analysis.inception import inception
-    from pdvoid.analysis.verdict import band_from_criteria
+    from pdvoid.analysis.verdict import band_from_coefficients
+    from pdvoid.coefficients import compute_coefficients
     from pdvoid.inputs.scenario import Scenario
 
     with validity_notes() as notes:
         sc = Scenario.from_file(ns.scenario)
         est = inception(sc)
-        band = band_from_criteria(est.inception_voltage_streamer, est.inception_voltage_integral,
-                                  est.inception_regime, est.inception_reason)
+        band = band_from_coefficients(compute_coefficients(sc))
         r = None
         if ns.ramp:
             r = inception(sc, ramp=True, step=ns.step, dwell=ns.dwell, threshold=ns.threshold,

@@ -48,7 +48,12 @@ def test_demo_band_is_the_two_criteria_of_compute_coefficients(demo):
     band = inception_band(demo)
     u_s, u_i = c.inception_voltage_streamer, c.inception_voltage_integral
     assert math.isfinite(u_s) and math.isfinite(u_i) and u_s != u_i
-    assert band.low == min(u_s, u_i) and band.high == max(u_s, u_i)
+    # the streamer formula E = (E/p)_cr p (1 + B/sqrt(p l)) is linear in (E/p)_cr (physics brief 3.1), so the
+    # quoted spread 24.2 ... 25.2 V/(Pa m) of air (both from memory) moves the streamer voltage by 25.2/24.2
+    u_s_high = u_s * 25.2 / 24.2
+    assert band.streamer_range == pytest.approx((u_s, u_s_high), rel=1e-12)
+    assert band.critical_field_range == (24.2, 25.2)
+    assert band.low == min(u_s, u_i) and band.high == pytest.approx(max(u_s_high, u_i), rel=1e-12)
     assert band.streamer == u_s and band.integral == u_i
     assert band.regime == c.inception_regime and band.reason == c.inception_reason
     # a test level between the two criteria is inconclusive; 10 % outside either end is not
@@ -97,3 +102,18 @@ def test_validity_warnings_become_notes(demo):
 def test_verdict_refuses_a_bad_test_voltage(bad):
     with pytest.raises(pdvoid.InputError, match="test_voltage"):
         verdict(band_from_criteria(9e3, 11e3), bad)
+
+
+def test_band_spans_the_quoted_spread_of_the_streamer_constant():
+    # hand-made numbers: criteria 10 and 10.5 kV, the streamer constant's spread moves it to 10 ... 10.4 kV
+    band = band_from_criteria(10e3, 10.5e3, streamer_range=(10e3, 10.4e3), critical_field_range=(24.2, 25.2))
+    assert (band.low, band.high) == (10e3, 10.5e3)
+    band = band_from_criteria(10e3, 9e3, streamer_range=(10e3, 10.4e3), critical_field_range=(24.2, 25.2))
+    assert (band.low, band.high) == (9e3, 10.4e3)
+    assert verdict(band, 10.2e3) == INCONCLUSIVE  # above both criteria's nominal values, inside the spread
+    assert "24.2 to 25.2 V/(Pa m), from memory" in band.describe()
+    # no spread quoted: the band of the two criteria alone
+    assert "(E/p)_cr" not in band_from_criteria(10e3, 9e3).describe()
+    # a spread without its criterion does not enter the band
+    only_integral = band_from_criteria(math.nan, 9e3, streamer_range=(10e3, 10.4e3))
+    assert (only_integral.low, only_integral.high) == (9e3, 9e3)
