@@ -13,11 +13,11 @@ import numpy as np
 from numpy.typing import ArrayLike
 from scipy.optimize import brentq
 
+from pdvoid.analysis.verdict import band_from_coefficients
 from pdvoid.coefficients import Coefficients, compute_coefficients
 from pdvoid.coefficients.closed_form import supply_peak_factor
 from pdvoid.coefficients.limits import HOST_STRENGTH_MARK, warn_host_strength
 from pdvoid.core.errors import InputError, check_array, check_positive
-from pdvoid.analysis.verdict import band_from_coefficients
 from pdvoid.core.validity import collect_validity_notes, warn_validity
 from pdvoid.inputs.scenario import Scenario
 
@@ -56,7 +56,8 @@ class MarginTable:
     inception_low, inception_high : numpy.ndarray or None
         per value, the lower and upper end of the inception band: the smaller and the larger inception voltage
         of the two criteria (streamer formula, at both ends of the quoted spread of its (E/p)_cr where the gas
-        gives one, and ionisation integral; one criterion where the other is not available) [V rms]. None for tables built without them.
+        gives one, and ionisation integral; one criterion where the other is not available) [V rms]. None for
+        tables built without them.
     notes : tuple[str, ...]
         per value, the validity warnings of its closed-form coefficients joined by "; " ("" where none). The
         table issues one :class:`~pdvoid.core.validity.ValidityWarning` naming how many rows have notes.

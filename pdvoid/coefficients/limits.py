@@ -21,7 +21,6 @@ Nothing is checked when the scenario carries a numerical field solution (``void.
 from __future__ import annotations
 
 import math
-
 from typing import TYPE_CHECKING
 
 from pdvoid.coefficients.cylinder import TABLE_ASPECT_RANGE, electrode_proximity_error

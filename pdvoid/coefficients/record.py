@@ -4,7 +4,6 @@ closed forms or from the numerical field solver."""
 from __future__ import annotations
 
 import math
-
 from dataclasses import dataclass, fields
 from typing import Any
 

@@ -228,7 +228,7 @@ def inception_chart(
             for xc, falling in crossings(x, inc, test_voltage, log_x=log_x):
                 marks.append((xc, falling, colours[i]))
     if band_drawn:
-        handles.append(Patch(facecolor="#777777", alpha=0.22, label="band of the two inception criteria"))
+        handles.append(Patch(facecolor="#777777", alpha=0.22, label="inception band (both criteria, spread of the streamer constant)"))
     if extinction:
         handles.append(Line2D([], [], color="#777777", lw=1.8, label="inception (solid)"))
         handles.append(Line2D([], [], color="#777777", lw=1.3, ls="--", label="extinction (dashed)"))

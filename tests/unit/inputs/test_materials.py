@@ -270,3 +270,19 @@ def test_user_gas_paschen_minimum_needs_its_pair_and_the_paschen_constants(tmp_p
     path.write_text(no_paschen + "\n" + v + pd, encoding="utf-8")
     with pytest.raises(InputError, match="need paschen_a"):
         get_gas("dry_nitrogen", path=str(path))
+
+
+def test_constant_spread_is_read_and_checked(tmp_path):
+    # physics brief 3.1 (from memory): (E/p)_cr of air is quoted as 24.2 and as 25.2 V/(Pa m)
+    air = get_gas("air").provenance["critical_reduced_field"]
+    assert air.spread == (24.2, 25.2)
+    assert get_gas("nitrogen").provenance["critical_reduced_field"].spread is None  # derived, no spread
+    path = tmp_path / "gas.toml"
+    old = 'critical_reduced_field = {value = 24.3, unit = "V/(Pa m)", status = "derived", source = "scaled from air"}'
+    for spread, match in (("[24.0, 25.0]", None), ("[24.5, 25.0]", "must contain"), ("[24.0]", r"\[low, high\]")):
+        path.write_text(GAS_OK.replace(old, old[:-1] + f", spread = {spread}}}"), encoding="utf-8")
+        if match is None:
+            assert load_gases(path)["dry_nitrogen"].provenance["critical_reduced_field"].spread == (24.0, 25.0)
+        else:
+            with pytest.raises(InputError, match=match):
+                load_gases(path)
