@@ -21,12 +21,14 @@ from typing import IO, Any
 from pdvoid.core.errors import InputError
 
 __all__ = ["atomic_write", "FolderLock", "write_manifest", "verify_manifest", "sha256_file", "MANIFEST_NAME",
-           "LOCK_NAME"]
+           "LOCK_NAME", "RUN_FILES", "check_run_file", "scenario_digest"]
 
 MANIFEST_NAME = "manifest.json"
 LOCK_NAME = ".pdvoid.lock"
 MANIFEST_FORMAT = "pdvoid-run-manifest"
 MANIFEST_VERSION = 1
+#: the files a ``pdvoid simulate --out`` folder holds besides its manifest
+RUN_FILES = ("result.npz", "events.csv", "summary.json")
 
 
 @contextlib.contextmanager
@@ -252,3 +254,50 @@ def verify_manifest(folder: str | os.PathLike[str], *, required: Sequence[str] =
     if missing:
         raise InputError(f"{head}: the manifest does not list {', '.join(missing)}")
     return doc
+
+
+def check_run_file(path: str | os.PathLike[str]) -> None:
+    """Refuse a file that sits in a run's folder whose manifest is missing or does not match.
+
+    A folder counts as a run's folder when it holds a manifest or at least two of :data:`RUN_FILES`, and is
+    refused while a live process holds its lock (a lock left by a killed run does not count); the file must
+    then be listed in a manifest that matches every listed file. A file
+    elsewhere (a measured event list, a result saved on its own) is not checked.
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+        The file about to be read.
+
+    Raises
+    ------
+    pdvoid.InputError
+        "incomplete or mixed output: ..." with the reason (:func:`verify_manifest`), or when a run is still
+        writing into the folder.
+    """
+    p = Path(path)
+    root = p.parent
+    present = [n for n in RUN_FILES if (root / n).is_file()]
+    has_manifest = (root / MANIFEST_NAME).exists()
+    if (root / LOCK_NAME).exists() and not FolderLock(root)._stale():
+        raise InputError(f"{root}: incomplete or mixed output: a pdvoid run is writing into this folder (lock file "
+                         f"{LOCK_NAME}); wait for it to finish")
+    if not has_manifest and len(present) < 2:
+        return
+    verify_manifest(root, required=(p.name,))
+
+
+def scenario_digest(text: str) -> str:
+    """SHA-256 of a scenario's canonical text (its scenario-file form), for manifests and reports.
+
+    Parameters
+    ----------
+    text : str
+        The scenario file text.
+
+    Returns
+    -------
+    str
+        The hex digest.
+    """
+    return hashlib.sha256(text.encode("utf-8")).hexdigest()

@@ -43,6 +43,7 @@ from typing import TYPE_CHECKING
 import numpy as np
 
 from pdvoid.core.errors import InputError
+from pdvoid.core.files import check_run_file
 from pdvoid.io import lines as L
 from pdvoid.io.columns import Column, column_label, resolve_columns
 from pdvoid.io.options import CommentKeys, check_layout_options, quantity_option
@@ -202,6 +203,7 @@ def read_events(
         naming the file (and the line) for every malformed input; see the module docs.
     """
     p = L.checked_path(path)
+    check_run_file(p)
     check_layout_options(delimiter, decimal)
     opt_cycles = quantity_option("cycles", cycles, "dimensionless")
     opt_duration = quantity_option("duration", duration, "time")

@@ -14,7 +14,7 @@ import numpy as np
 
 from pdvoid.coefficients import Coefficients, compute_coefficients
 from pdvoid.core.errors import InputError
-from pdvoid.core.files import atomic_write
+from pdvoid.core.files import atomic_write, check_run_file
 from pdvoid.inputs.scenario import Scenario
 from pdvoid.simulation.events import Events
 
@@ -269,6 +269,7 @@ def load(path: str | os.PathLike[str]) -> Result:
         raise InputError(f"{p}: cannot read result file ({exc.strerror})") from None
     if size > MAX_RESULT_FILE:
         raise InputError(f"{p}: result file larger than {MAX_RESULT_FILE} bytes")
+    check_run_file(p)
     try:
         with np.load(p, allow_pickle=False) as z:
             data = {k: z[k] for k in z.files}

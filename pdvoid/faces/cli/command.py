@@ -49,7 +49,9 @@ def main(argv: Sequence[str] | None = None) -> int:
     Returns
     -------
     int
-        The exit status: 0 on success, 2 for a user error (printed as ``pdvoid: error: ...``).
+        The exit status: 0 on success, 2 for a user error (printed as ``pdvoid: error: ...``), 1 when the system
+        refused a file operation (disk full, permission) or for an internal error (a short report with a hint to
+        file it, no traceback), 130 when interrupted (Ctrl-C).
     """
     parser = build_parser()
     ns = parser.parse_args(argv)
@@ -63,6 +65,21 @@ def main(argv: Sequence[str] | None = None) -> int:
         devnull = os.open(os.devnull, os.O_WRONLY)
         os.dup2(devnull, sys.stdout.fileno())
         return 0
+    except KeyboardInterrupt:
+        print("pdvoid: interrupted; files being written were not completed and earlier ones are untouched",
+              file=sys.stderr)
+        return 130
+    except OSError as exc:  # the system refused a file operation: disk full, permissions, a vanished folder
+        where = f" {exc.filename}" if exc.filename else ""
+        print(f"pdvoid: error: the system refused a file operation{where}: {exc.strerror or exc}; no output was "
+              "left half-written", file=sys.stderr)
+        return 1
+    except Exception as exc:  # an internal error: a short report, not a traceback
+        print(f"pdvoid: internal error: {type(exc).__name__}: {exc}\n"
+              f"  pdvoid {__version__}, command: {' '.join(sys.argv[1:] if argv is None else argv)}\n"
+              "  This is a bug in pdvoid, not in your input: please file it with the command and the scenario "
+              "file.", file=sys.stderr)
+        return 1
 
 
 if __name__ == "__main__":  # pragma: no cover

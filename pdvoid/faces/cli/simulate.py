@@ -5,11 +5,14 @@ from __future__ import annotations
 import argparse
 import json
 import math
+import os
 from pathlib import Path
 from typing import TYPE_CHECKING
 
+from pdvoid._version import __version__
 from pdvoid.coefficients import compute_coefficients
-from pdvoid.core.files import atomic_write
+from pdvoid.core.errors import InputError
+from pdvoid.core.files import MANIFEST_NAME, RUN_FILES, FolderLock, atomic_write, scenario_digest, write_manifest
 from pdvoid.faces.cli.output import SAFETY, json_safe, notes_lines, validity_notes
 from pdvoid.inputs.demo import DEMO_SERVICE_RMS, DEMO_TEST_RMS, demo_scenario
 
@@ -94,28 +97,57 @@ def _cmd_demo(ns: argparse.Namespace) -> int:
     return 0
 
 
+def _check_out_folder(out: Path, force: bool) -> None:
+    """Refuse an output folder that cannot hold the run, or that holds one already (without ``--force``),
+    before any work."""
+    if out.exists() and not out.is_dir():
+        raise InputError(f"--out: {out} exists and is not a folder")
+    probe = out
+    while not probe.exists():
+        probe = probe.parent
+    if not probe.is_dir():
+        raise InputError(f"--out: {out} cannot be created: {probe} is not a folder")
+    if not os.access(probe, os.W_OK | os.X_OK):
+        raise InputError(f"--out: {out} cannot be written: no write permission in {probe}")
+    held = [n for n in (*RUN_FILES, MANIFEST_NAME) if (out / n).exists()]
+    if held and not force:
+        raise InputError(f"--out: {out} already holds a run ({', '.join(held)}); give --force to overwrite it, or "
+                         "choose another folder")
+
+
 def _cmd_simulate(ns: argparse.Namespace) -> int:
     from pdvoid.inputs.scenario import Scenario
+    from pdvoid.inputs.scenario_files import scenario_to_dict
     from pdvoid.simulation.simulate import simulate
 
     sc = Scenario.from_file(ns.scenario)
-    with validity_notes() as notes:
-        res = simulate(sc, cycles=ns.cycles, seed=ns.seed)
-        c = compute_coefficients(sc)
     out = Path(ns.out)
-    out.mkdir(parents=True, exist_ok=True)
-    res.save(out / "result.npz")
-    res.to_csv(out / "events.csv")
-    summ = _run_summary(res)
-    regime = _regime(res)
-    doc = {"scenario": str(ns.scenario), "cycles": ns.cycles, "seed": ns.seed, "summary": summ, "regime": regime,
-           "inception regime": c.inception_regime, "inception reason": c.inception_reason,
-           "validity_notes": notes,
-           "files": [str(out / "result.npz"), str(out / "events.csv"), str(out / "summary.json")],
-           "references": list(res.references), "safety": SAFETY}
-    text = json.dumps(json_safe(doc), indent=2, allow_nan=False)
-    with atomic_write(out / "summary.json", "w", encoding="utf-8", newline="\n") as fh:
-        fh.write(text)
+    _check_out_folder(out, ns.force)
+    with FolderLock(out):
+        _check_out_folder(out, ns.force)  # again under the lock: another run may have finished meanwhile
+        with validity_notes() as notes:
+            res = simulate(sc, cycles=ns.cycles, seed=ns.seed)
+            c = compute_coefficients(sc)
+        # an overwritten folder is marked incomplete first: a run killed from here on leaves a folder that
+        # readers refuse, never a mix of old and new files that looks complete
+        (out / MANIFEST_NAME).unlink(missing_ok=True)
+        res.save(out / "result.npz")
+        res.to_csv(out / "events.csv")
+        summ = _run_summary(res)
+        regime = _regime(res)
+        doc = {"scenario": str(ns.scenario), "cycles": ns.cycles, "seed": ns.seed, "summary": summ,
+               "regime": regime, "inception regime": c.inception_regime, "inception reason": c.inception_reason,
+               "validity_notes": notes,
+               "files": [str(out / n) for n in RUN_FILES] + [str(out / MANIFEST_NAME)],
+               "references": list(res.references), "safety": SAFETY}
+        text = json.dumps(json_safe(doc), indent=2, allow_nan=False)
+        with atomic_write(out / "summary.json", "w", encoding="utf-8", newline="\n") as fh:
+            fh.write(text)
+        digest = scenario_digest(json.dumps(json_safe(scenario_to_dict(sc)), sort_keys=True, allow_nan=False))
+        write_manifest(out, RUN_FILES, {
+            "pdvoid_version": __version__, "scenario_file": str(ns.scenario), "scenario_sha256": digest,
+            "seed": ns.seed, "cycles": res.cycles, "frequency_hz": sc.supply.frequency,
+        })
     if ns.json:
         print(text)
     else:
@@ -149,6 +181,8 @@ def register(sub: argparse._SubParsersAction[argparse.ArgumentParser]) -> None:
     s.add_argument("scenario", help="scenario TOML file")
     s.add_argument("--cycles", type=int, default=1000)
     s.add_argument("--seed", type=int, default=0)
-    s.add_argument("--out", required=True, help="output folder")
+    s.add_argument("--out", required=True, help="output folder: result.npz, events.csv, summary.json and, written "
+                   "last, manifest.json (file sizes and SHA-256); locked while the run writes")
+    s.add_argument("--force", action="store_true", help="overwrite a run already in --out (default: refuse)")
     s.add_argument("--json", action="store_true")
     s.set_defaults(func=_cmd_simulate)

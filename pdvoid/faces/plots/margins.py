@@ -27,6 +27,9 @@ from pdvoid.faces.plots.style import (
     plain_log_ticks,
 )
 
+#: legend entry of the shaded inception band
+BAND_LABEL = "inception band (both criteria, spread of the streamer constant)"
+
 __all__ = ["inception_chart", "sensitivity_chart", "crossings", "PARAMETER_NAMES"]
 
 #: readable names of swept parameters
@@ -228,7 +231,7 @@ def inception_chart(
             for xc, falling in crossings(x, inc, test_voltage, log_x=log_x):
                 marks.append((xc, falling, colours[i]))
     if band_drawn:
-        handles.append(Patch(facecolor="#777777", alpha=0.22, label="inception band (both criteria, spread of the streamer constant)"))
+        handles.append(Patch(facecolor="#777777", alpha=0.22, label=BAND_LABEL))
     if extinction:
         handles.append(Line2D([], [], color="#777777", lw=1.8, label="inception (solid)"))
         handles.append(Line2D([], [], color="#777777", lw=1.3, ls="--", label="extinction (dashed)"))

@@ -173,4 +173,5 @@ def test_chart_shades_the_band_of_the_two_criteria(render, demo):
     render(ax)
     shaded = [c for c in ax.collections if isinstance(c, PolyCollection)]
     assert len(shaded) == 1
-    assert "inception band (both criteria, spread of the streamer constant)" in [t.get_text() for t in ax.get_legend().get_texts()]
+    labels = [t.get_text() for t in ax.get_legend().get_texts()]
+    assert "inception band (both criteria, spread of the streamer constant)" in labels
