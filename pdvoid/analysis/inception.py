@@ -10,8 +10,9 @@ sets its own from the product standard).
 
 from __future__ import annotations
 
+import itertools
 import math
-from collections.abc import Iterable
+from collections.abc import Iterable, Sized
 from dataclasses import dataclass
 from typing import Any, Literal, overload
 
@@ -24,6 +25,9 @@ from pdvoid.simulation.simulate import VoidRunner
 
 __all__ = ["InceptionEstimate", "RampTest", "inception", "ramp_test", "probability_of_missing",
            "time_above_inception_fraction"]
+
+#: most repeated tests (seeds) one stepped-voltage test may run [-]
+MAX_SEEDS = 1000
 
 
 @dataclass(frozen=True)
@@ -250,9 +254,14 @@ def ramp_test(
         raise InputError(f"dwell must be at most 1e7 cycles; got {dwell_cycles}")
     threshold = check_nonnegative("threshold", threshold, "C")
     repeat_count = check_int("repeat_count", repeat_count, 1, 10**9)
-    seed_list = list(seeds)
-    if not 1 <= len(seed_list) <= 1000:
-        raise InputError(f"seeds must hold 1 to 1000 seeds; got {len(seed_list)}")
+    if isinstance(seeds, (str, bytes)) or not isinstance(seeds, Iterable):
+        raise InputError(f"seeds must be an iterable of whole numbers (e.g. range(5)); got {seeds!r}")
+    if isinstance(seeds, Sized) and len(seeds) > MAX_SEEDS:  # checked before anything is allocated
+        raise InputError(f"seeds must hold 1 to {MAX_SEEDS} seeds; got {len(seeds)}")
+    seed_list = list(itertools.islice(seeds, MAX_SEEDS + 1))
+    if not 1 <= len(seed_list) <= MAX_SEEDS:
+        raise InputError(f"seeds must hold 1 to {MAX_SEEDS} seeds; got "
+                         f"{len(seed_list) if len(seed_list) <= MAX_SEEDS else 'more than ' + str(MAX_SEEDS)}")
     runs = [
         _one_ramp(scenario, s, start, step, dwell_cycles, threshold, repeat_count, max_voltage) for s in seed_list
     ]

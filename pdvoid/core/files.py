@@ -21,7 +21,7 @@ from typing import IO, Any
 from pdvoid.core.errors import InputError
 
 __all__ = ["atomic_write", "FolderLock", "write_manifest", "verify_manifest", "sha256_file", "MANIFEST_NAME",
-           "LOCK_NAME", "RUN_FILES", "check_run_file", "scenario_digest"]
+           "LOCK_NAME", "RUN_FILES", "check_run_file", "scenario_digest", "read_toml_file"]
 
 MANIFEST_NAME = "manifest.json"
 LOCK_NAME = ".pdvoid.lock"
@@ -301,3 +301,53 @@ def scenario_digest(text: str) -> str:
         The hex digest.
     """
     return hashlib.sha256(text.encode("utf-8")).hexdigest()
+
+
+def read_toml_file(path: str | os.PathLike[str], limit: int, what: str) -> dict[str, Any]:
+    """Read a small TOML file safely: a regular file, at most ``limit`` bytes (read with that bound, so a device
+    or a growing file cannot exhaust memory), UTF-8 with or without a byte-order mark, nesting refused cleanly.
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+        The file.
+    limit : int
+        Largest size accepted [bytes].
+    what : str
+        What the file is, for messages (e.g. "scenario file").
+
+    Returns
+    -------
+    dict
+        The parsed document.
+
+    Raises
+    ------
+    pdvoid.InputError
+        Naming the file: not a regular file, too large, not UTF-8, malformed TOML (line and column), or nested
+        too deeply.
+    """
+    import tomllib
+
+    if not isinstance(path, (str, os.PathLike)) or isinstance(path, bytes):
+        raise InputError(f"{what} path must be a str or path; got {type(path).__name__}")
+    p = Path(path)
+    try:
+        if not p.is_file():
+            raise InputError(f"{p}: cannot read {what}: not found or not a regular file")
+        with open(p, "rb") as fh:
+            raw = fh.read(limit + 1)
+    except OSError as exc:
+        raise InputError(f"{p}: cannot read {what} ({exc.strerror})") from None
+    if len(raw) > limit:
+        raise InputError(f"{p}: {what} larger than the {limit} byte limit")
+    try:
+        text = raw.decode("utf-8-sig")
+    except UnicodeDecodeError as exc:
+        raise InputError(f"{p}: {what} is not UTF-8 text ({exc.reason} at byte {exc.start})") from None
+    try:
+        return tomllib.loads(text)
+    except tomllib.TOMLDecodeError as exc:
+        raise InputError(f"{p}: malformed TOML: {exc}") from None
+    except RecursionError:
+        raise InputError(f"{p}: {what} nests tables or arrays too deeply") from None

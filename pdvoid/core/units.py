@@ -158,7 +158,11 @@ def parse_quantity(text: float | str, dimension: str, *, name: str = "value") ->
     if isinstance(text, bool) or not isinstance(text, (int, float, str)):
         raise InputError(f"{name} must be a number or a quantity string like '1.2 mm'; got {text!r}")
     if isinstance(text, (int, float)):
-        return float(text)
+        try:
+            return float(text)
+        except OverflowError:
+            raise InputError(f"{name} is too large a number to be a quantity; got an integer of "
+                             f"{len(str(abs(text)))} digits") from None
     if len(text) > MAX_QUANTITY_TEXT:
         raise InputError(f"{name}: quantity text longer than {MAX_QUANTITY_TEXT} characters: {text[:40]!r}...")
     m = _QUANTITY.match(text)

@@ -17,15 +17,15 @@ Layout (every key optional unless the class requires it; bare numbers are SI)::
 
 from __future__ import annotations
 
+import dataclasses
 import math
 import os
-import tomllib
 from dataclasses import fields
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
 from pdvoid.core.errors import InputError
-from pdvoid.core.files import atomic_write
+from pdvoid.core.files import atomic_write, read_toml_file
 from pdvoid.core.units import parse_quantity
 from pdvoid.inputs.model_parameters import model_class, model_kinds
 from pdvoid.inputs.parameters import Insulation, Periodic, Sine, Void
@@ -104,7 +104,7 @@ def _section(data: dict, key: str, schema: dict, source: str) -> dict:
         raise InputError(f"{source}: [{key}] must be a table")
     out = {}
     for k, v in sec.items():
-        if k == "kind":
+        if k == "kind" and key in ("supply", "model"):
             continue
         if k not in schema:
             raise InputError(f"{source}: unknown key {key}.{k}; allowed: {', '.join(sorted(schema))}")
@@ -147,8 +147,8 @@ def _from_dict(data: dict, source: str) -> dict[str, Any]:
     for part in ("insulation", "void", "supply"):
         if part not in data:
             raise InputError(f"{source}: missing [{part}] table")
-    ins = Insulation(**_section(data, "insulation", _DIMS["insulation"], source))
-    void = Void(**_section(data, "void", _DIMS["void"], source))
+    ins = _build(Insulation, _section(data, "insulation", _DIMS["insulation"], source), "insulation", source)
+    void = _build(Void, _section(data, "void", _DIMS["void"], source), "void", source)
     sup = data["supply"]
     kind = sup.get("kind", "sine") if isinstance(sup, dict) else None
     if kind == "sine":
@@ -158,10 +158,10 @@ def _from_dict(data: dict, source: str) -> dict[str, Any]:
             if not isinstance(h, list):
                 raise InputError(f"{source}: supply.harmonics must be a list of [order, fraction, phase_deg]")
             kw["harmonics"] = tuple(tuple(x) if isinstance(x, list) else x for x in h)
-        supply: Sine | Periodic = Sine(**kw)
+        supply: Sine | Periodic = _build(Sine, kw, "supply", source)
     elif kind == "periodic":
         kw = _section(data, "supply", _DIMS["periodic"], source)
-        supply = Periodic(**kw)
+        supply = _build(Periodic, kw, "supply", source)
     else:
         raise InputError(f"{source}: supply.kind must be 'sine' or 'periodic'; got {kind!r}")
     mod = data.get("model", {})
@@ -171,7 +171,18 @@ def _from_dict(data: dict, source: str) -> dict[str, Any]:
     except InputError as exc:
         raise InputError(f"{source}: {exc}") from None
     kw = _section(data, "model", cls.field_units, source)
-    return {"insulation": ins, "void": void, "supply": supply, "model": cls(**kw), "name": data.get("name", "")}
+    return {"insulation": ins, "void": void, "supply": supply, "model": _build(cls, kw, "model", source),
+            "name": data.get("name", "")}
+
+
+def _build(cls: Any, kw: dict[str, Any], part: str, source: str) -> Any:
+    """``cls(**kw)`` with every required field present: a missing one is named, not a TypeError."""
+    missing = [f.name for f in dataclasses.fields(cls) if f.init and f.name not in kw
+               and f.default is dataclasses.MISSING and f.default_factory is dataclasses.MISSING]
+    if missing:
+        raise InputError(f"{source}: missing key {part}.{missing[0]} (required in [{part}]: "
+                         f"{', '.join(part + '.' + m for m in missing)})")
+    return cls(**kw)
 
 
 def read_scenario_parts(path: str | os.PathLike[str]) -> dict[str, Any]:
@@ -188,20 +199,8 @@ def read_scenario_parts(path: str | os.PathLike[str]) -> dict[str, Any]:
         insulation, void, supply, model and name, each validated. Errors name the file and the key (TOML syntax
         errors: line and column).
     """
-    p = Path(path)
-    try:
-        size = p.stat().st_size
-        if size > MAX_FILE_BYTES:
-            raise InputError(f"{p}: scenario file larger than {MAX_FILE_BYTES} bytes ({size})")
-        text = p.read_text(encoding="utf-8")
-    except OSError as exc:
-        raise InputError(f"{p}: cannot read scenario file ({exc.strerror})") from None
-    except UnicodeDecodeError as exc:
-        raise InputError(f"{p}: not UTF-8 text ({exc.reason} at byte {exc.start})") from None
-    try:
-        data = tomllib.loads(text)
-    except tomllib.TOMLDecodeError as exc:
-        raise InputError(f"{p}: malformed TOML: {exc}") from None
+    p = Path(path) if isinstance(path, (str, os.PathLike)) else path
+    data = read_toml_file(p, MAX_FILE_BYTES, "scenario file")
     return parts_from_dict(data, source=str(p))
 
 

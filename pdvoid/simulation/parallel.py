@@ -142,14 +142,20 @@ def _collect(futures: dict[Any, range], n: int, bar: Any, wait_any: Callable[[li
     return out
 
 
+#: how long to wait for a Dask scheduler to answer before giving up [s]
+SCHEDULER_TIMEOUT = 5.0
+
+
 def _dask_client(client: Any) -> tuple[Any, bool]:
     """(client, owned): a Client as given, or a new one connected to a scheduler address string."""
     distributed = require("distributed", feature="Dask clusters")
     if isinstance(client, str):
         if not client.strip():
             raise InputError("client (scheduler address) must not be empty")
+        if "://" not in client and ":" not in client:
+            raise InputError(f"client (scheduler address) must look like 'tcp://host:8786'; got {client!r}")
         try:
-            return distributed.Client(client, set_as_default=False), True
+            return distributed.Client(client, set_as_default=False, timeout=f"{SCHEDULER_TIMEOUT:g}s"), True
         except (OSError, TimeoutError) as exc:
             raise InputError(f"cannot connect to the Dask scheduler at {client!r}: {exc}") from None
     if not isinstance(client, distributed.Client):

@@ -22,12 +22,12 @@ Unquoted dotted keys (``void.diameter = [...]``) work too. Every error names the
 from __future__ import annotations
 
 import os
-import tomllib
 from dataclasses import dataclass
 from pathlib import Path
 from typing import Any
 
 from pdvoid.core.errors import InputError, check_int
+from pdvoid.core.files import read_toml_file
 from pdvoid.inputs.parameters import check_seed
 from pdvoid.inputs.scenario import Scenario, read_scenario, scenario_from_dict
 from pdvoid.inputs.scenario_files import MAX_FILE_BYTES
@@ -85,17 +85,7 @@ class SweepSpec:
 
 
 def _load(p: Path) -> dict:
-    try:
-        size = p.stat().st_size
-        if size > MAX_FILE_BYTES:
-            raise InputError(f"{p}: sweep file larger than {MAX_FILE_BYTES} bytes ({size})")
-        return tomllib.loads(p.read_text(encoding="utf-8"))
-    except OSError as exc:
-        raise InputError(f"{p}: cannot read sweep file ({exc.strerror})") from None
-    except UnicodeDecodeError as exc:
-        raise InputError(f"{p}: not UTF-8 text ({exc.reason} at byte {exc.start})") from None
-    except tomllib.TOMLDecodeError as exc:
-        raise InputError(f"{p}: malformed TOML: {exc}") from None
+    return read_toml_file(p, MAX_FILE_BYTES, "sweep file")
 
 
 def _base_scenario(data: dict, p: Path) -> Scenario:

@@ -209,7 +209,8 @@ def register(sub: argparse._SubParsersAction[argparse.ArgumentParser]) -> None:
     i.add_argument("--threshold", type=options.charge, default=0.0, help="detection threshold, e.g. 5pC")
     i.add_argument("--repeat-count", type=options.integer(1), default=10,
                    help="pulses per dwell that count as repetitive (default 10)")
-    i.add_argument("--seeds", type=options.integer(1), default=5, help="number of repeated tests (default 5)")
+    i.add_argument("--seeds", type=options.integer(1, 1000), default=5,
+                   help="number of repeated tests, 1 to 1000 (default 5)")
     i.add_argument("--json", action="store_true")
     i.set_defaults(func=_cmd_inception)
 
