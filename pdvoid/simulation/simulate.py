@@ -182,6 +182,9 @@ def simulate(
     seed = check_seed(seed)
     if not isinstance(histogram, bool):
         raise InputError(f"histogram must be True or False; got {histogram!r}")
+    if not histogram and (charge_edges is not None or phase_bins != 72):
+        raise InputError("charge_edges and phase_bins set the histogram mode's bins; give histogram=True with them "
+                         "(without it every event is kept and they would be ignored)")
     args = kernel_arguments(scenario)
     warn_host_strength(scenario.insulation, scenario.supply.rms * supply_peak_factor(scenario.supply),
                        "at the supply's peak")

@@ -150,6 +150,7 @@ def _cmd_margin(ns: argparse.Namespace) -> int:
     doc: dict[str, object] = {
         "scenario": ns.scenario, "test voltage [V rms]": ns.test_voltage, "verdict": outcome,
         **_band_doc(band), "table": table.as_rows(), "table validity notes": list(table.notes),
+        "table errors (why a row was not computed)": list(table.errors),
         "largest discharge-free void": {"diameter [m]": lv.diameter, "height [m]": lv.height,
                                         "inception voltage [V rms]": lv.inception_voltage,
                                         "limited by": lv.limited_by or "none"}}
@@ -161,7 +162,11 @@ def _cmd_margin(ns: argparse.Namespace) -> int:
     keys = list(rows[0].keys())
     lines.append("  " + " | ".join(keys))
     row_notes = list(table.notes) if len(table.notes) == len(rows) else [""] * len(rows)
-    for row, note in zip(rows, row_notes, strict=True):
+    row_errors = list(table.errors) if len(table.errors) == len(rows) else [""] * len(rows)
+    for row, note, error in zip(rows, row_notes, row_errors, strict=True):
+        if error:  # an impossible combination: say why instead of a row of nan
+            lines.append(f"  {row[keys[0]]:.4g} | not computed: {error}")
+            continue
         lines.append("  " + " | ".join(f"{row[k]:.4g}" for k in keys) + (" *" if note else ""))
     if any(row_notes):
         lines.append("  * closed forms outside their verified range for this row (--json lists why)")

@@ -173,3 +173,23 @@ def test_fuzz_cli_arguments_never_trace_back(extra, command, capsys):
     err = capsys.readouterr().err
     assert code in (0, 2), err
     assert "Traceback" not in err and "internal error" not in err
+
+
+def test_histogram_bins_without_histogram_mode_are_refused(demo):
+    import numpy as np
+
+    from pdvoid import simulate
+
+    with pytest.raises(InputError, match="give histogram=True"):  # used to be silently ignored
+        simulate(demo, cycles=2, charge_edges=np.array([-1e-9, 0.0, 1e-9]))
+    with pytest.raises(InputError, match="give histogram=True"):
+        simulate(demo, cycles=2, phase_bins=36)
+
+
+def test_margin_rows_not_computed_say_why(capsys):
+    # voids of 5 to 7 mm do not fit into the demo's 6 mm wall: those rows used to print "nan | nan | nan"
+    code = cli.main(["margin", str(demo_scenario_path()), "--test-voltage", "18kV", "--values", "1mm,5mm,7mm"])
+    assert code == 0
+    out = capsys.readouterr().out
+    assert "not computed: void.height must be smaller than insulation.thickness" in out
+    assert "nan" not in out.split("largest discharge-free")[0]
