@@ -113,10 +113,10 @@ def _set(label: str, name: str, entry: dict[str, Any]) -> ParameterSet:
     for key in ("description",):
         if not isinstance(entry.get(key), str) or not entry[key].strip():
             raise InputError(f"{_where(label, name + '.' + key)}: must be a non-empty string; got {entry.get(key)!r}")
-    refs = entry.get("references", [])
-    if not isinstance(refs, list) or not all(isinstance(r, str) and r in REFERENCES for r in refs):
+    listed = entry.get("references", [])
+    if not isinstance(listed, list) or not all(isinstance(r, str) and r in REFERENCES for r in listed):
         raise InputError(f"{_where(label, name + '.references')}: must be a list of known bibliography keys; "
-                         f"got {refs!r}")
+                         f"got {listed!r}")
     names = {f.name for f in fields(cls)}
     values: dict[str, SetValue] = {}
     for key, table in entry.items():
@@ -141,7 +141,7 @@ def _set(label: str, name: str, entry: dict[str, Any]) -> ParameterSet:
             if k in table and (not isinstance(table[k], str) or not table[k].strip()):
                 raise InputError(f"{where}.{k}: must be a non-empty string; got {table[k]!r}")
         values[key] = SetValue(float(v), unit, table["status"], table["source"], table.get("note", ""))
-    ps = ParameterSet(name, str(kind), entry["description"], tuple(refs), MappingProxyType(values))
+    ps = ParameterSet(name, str(kind), entry["description"], tuple(listed), MappingProxyType(values))
     cls(**ps.as_kwargs())  # every value within the model's own checks (InputError naming the parameter)
     return ps
 

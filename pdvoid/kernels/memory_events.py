@@ -5,11 +5,12 @@ field: Q_hv on the wall facing the high-voltage electrode and Q_gnd on the wall 
 wall that is a metal electrode holds no charge. x_q = (m_hv·Q_hv − m_gnd·Q_gnd)/c_true with m = 1/2 for each wall
 of an insulated void (whose walls carry opposite charge) and m = 1 for the one dielectric wall of a void on an
 electrode (the image charge in the metal supplies the rest of the dipole); c_true is the true wall charge per unit
-field [C/(V/m)]. The net charges therefore follow from x_q alone. Each dielectric wall also keeps the inventory of
-electrons trapped on it, Qe_hv and Qe_gnd >= 0 [C]: electrons and positive ions deposited by discharges of either
-polarity sit in separate traps and do not recombine on the surface (a modelling assumption of pdvoid, not from a
-source). The net charges, x_q and the trapped electrons decay with one time constant tau_q (surface or bulk
-conduction).
+field [C/(V/m)]. The net charges therefore follow from x_q alone. Each dielectric wall also keeps its inventories
+of trapped electrons and of positive charge, Qe and Qp >= 0 [C], with Q = Qp − Qe: charge arriving on a wall
+neutralises up to r·(its amount) of the opposite inventory there and the rest is trapped (r = 1: a wall holds only
+its net charge, so only a net negative wall emits; r = 0: electrons and ions sit in separate traps; r is a
+modelling choice of pdvoid, not from a source). The inventories and x_q decay with one time constant tau_q
+(surface or bulk conduction).
 
 Start electrons form a Poisson process of rate
 
@@ -53,7 +54,9 @@ S_REMAIN = 4  # remaining exponential hazard of the current wait
 S_COUNT = 5  # events so far
 S_EHV = 6  # electrons trapped on the high-voltage-side wall at S_TQ, magnitude [C]
 S_EGND = 7  # electrons trapped on the ground-side wall at S_TQ, magnitude [C]
-STATE_SIZE = 8
+S_PHV = 8  # positive charge on the high-voltage-side wall at S_TQ [C]
+S_PGND = 9  # positive charge on the ground-side wall at S_TQ [C]
+STATE_SIZE = 10
 
 # totals layout as in pdvoid.kernels.void_events
 T_COUNT = 0
@@ -382,6 +385,7 @@ def run_memory_cycles(
     true_charge_per_field: float,
     m_hv: float,
     m_gnd: float,
+    recombination: float,
     lag_free: bool,
     n_vol_pos: float,
     n_vol_neg: float,
@@ -431,6 +435,8 @@ def run_memory_cycles(
         Charge deposited on each dielectric wall per unit field drop, c_true [C/(V/m)].
     m_hv, m_gnd : float
         Field weights of the high-voltage-side and ground-side walls (0 for a metal wall).
+    recombination : float
+        Fraction r of the ions landing on a wall that neutralise electrons trapped there [-], in [0, 1].
     lag_free : bool
         True to discharge the instant |x| reaches x_inc.
     n_vol_pos, n_vol_neg : float
@@ -564,12 +570,21 @@ def run_memory_cycles(
                 shrink = 1.0
                 if decay:
                     shrink = math.exp(-(t_d - tq) / tau_q)
-                state[S_EHV] *= shrink
-                state[S_EGND] *= shrink
-                if pol > 0.0:
-                    state[S_EHV] += dep_hv * true_charge_per_field * dx
-                else:
-                    state[S_EGND] -= dep_gnd * true_charge_per_field * dx
+                for k in range(S_EHV, STATE_SIZE):
+                    state[k] *= shrink
+                dq = true_charge_per_field * abs(dx)
+                # electrons go to the high-voltage side in a positive discharge, ions to the ground side (the
+                # reverse in a negative one); arriving charge neutralises up to r·dq of the opposite inventory
+                e_wall, p_wall = (S_EHV, S_PHV) if pol > 0.0 else (S_EGND, S_PGND)
+                if (dep_hv if pol > 0.0 else dep_gnd) > 0.0:
+                    n_rec = min(state[p_wall], recombination * dq)
+                    state[p_wall] -= n_rec
+                    state[e_wall] += dq - n_rec
+                e_wall, p_wall = (S_EGND, S_PGND) if pol > 0.0 else (S_EHV, S_PHV)
+                if (dep_gnd if pol > 0.0 else dep_hv) > 0.0:
+                    n_rec = min(state[e_wall], recombination * dq)
+                    state[e_wall] -= n_rec
+                    state[p_wall] += dq - n_rec
                 state[S_XQ0] = x_after - gain * v_d
                 state[S_TQ] = t_d
                 state[S_TLAST] = t_d

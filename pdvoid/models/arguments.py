@@ -113,6 +113,19 @@ class KernelArguments:
         step = self.x_inc - self.x_res
         return int(np.ceil((swing + pieces * 2.0 * (vmax + self.x_inc)) / step)) + 4 * pieces + 4
 
+    @property
+    def state_size(self) -> int:
+        """Length of the void state vector of this kernel [-] (:data:`pdvoid.kernels.void_events.STATE_SIZE`).
+
+        Returns
+        -------
+        int
+            The length.
+        """
+        from pdvoid.kernels import void_events as K
+
+        return K.STATE_SIZE
+
     def advance(
         self, state: np.ndarray, cycle_start: int, cycle_stop: int, a_coef: np.ndarray, b_coef: np.ndarray,
         store_events: bool, out_time: np.ndarray, out_charge: np.ndarray, out_before: np.ndarray,

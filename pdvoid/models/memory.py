@@ -77,8 +77,9 @@ def wall_charges(state: np.ndarray, args: MemoryKernelArguments) -> dict[str, fl
     -------
     dict
         ``net_hv``, ``net_gnd``: net charge on the high-voltage-side and ground-side wall [C];
-        ``electrons_hv``, ``electrons_gnd``: electrons trapped there (magnitude) [C]; ``time``: the reference
-        time [s].
+        ``electrons_hv``, ``electrons_gnd``: electrons trapped there (magnitude) [C]; ``positive_hv``,
+        ``positive_gnd``: positive charge there [C] (for a dielectric wall net = positive − electrons); ``time``:
+        the reference time [s].
     """
     from pdvoid.kernels import memory_events as M
 
@@ -90,7 +91,8 @@ def wall_charges(state: np.ndarray, args: MemoryKernelArguments) -> dict[str, fl
     net_hv = c * xq if args.m_hv > 0.0 else 0.0
     net_gnd = -c * xq if args.m_gnd > 0.0 else 0.0
     return {"net_hv": net_hv, "net_gnd": net_gnd, "electrons_hv": float(state[M.S_EHV]),
-            "electrons_gnd": float(state[M.S_EGND]), "time": float(state[M.S_TQ])}
+            "electrons_gnd": float(state[M.S_EGND]), "positive_hv": float(state[M.S_PHV]),
+            "positive_gnd": float(state[M.S_PGND]), "time": float(state[M.S_TQ])}
 
 
 @dataclass(frozen=True, eq=False)
@@ -110,6 +112,8 @@ class MemoryKernelArguments(KernelArguments):
         ν0·exp(−Φ/(k_B T))/e, detrapped electrons per second per coulomb of trapped charge [1/(s C)].
     beta : float
         Schottky coefficient β: ΔΦ/(k_B T) = β·sqrt(|E|) [(V/m)^-1/2].
+    recombination : float
+        Fraction of the ions landing on a wall that neutralise electrons trapped there [-].
     """
 
     res_width: float = 0.0
@@ -118,6 +122,7 @@ class MemoryKernelArguments(KernelArguments):
     m_gnd: float = 0.5
     emit_coef: float = 0.0
     beta: float = 0.0
+    recombination: float = 0.0
 
     def max_events_per_cycle(self, scale: float = 1.0) -> int:
         """An upper bound on discharges in one cycle (that of :class:`KernelArguments` with the largest residual
@@ -137,6 +142,19 @@ class MemoryKernelArguments(KernelArguments):
 
         widest = dataclasses.replace(self, x_res=self.x_res * (1.0 + self.res_width))
         return KernelArguments.max_events_per_cycle(widest, scale)
+
+    @property
+    def state_size(self) -> int:
+        """Length of the void state vector of :mod:`pdvoid.kernels.memory_events` [-].
+
+        Returns
+        -------
+        int
+            The length.
+        """
+        from pdvoid.kernels import memory_events as M
+
+        return M.STATE_SIZE
 
     def advance(
         self, state: np.ndarray, cycle_start: int, cycle_stop: int, a_coef: np.ndarray, b_coef: np.ndarray,
@@ -178,9 +196,9 @@ class MemoryKernelArguments(KernelArguments):
         return M.run_memory_cycles(
             state, cycle_start, cycle_stop, self.frequency, self.orders, a_coef, b_coef, self.seg_fracs,
             self.pure_sine, self.gain, self.x_inc, self.x_res, self.res_width, self.charge_per_unit,
-            self.true_charge_per_field, self.m_hv, self.m_gnd, self.lag_free, self.n_vol_pos, self.n_vol_neg,
-            self.emit_coef, self.beta, self.tau_q, store_events, out_time, out_charge, out_before, out_after,
-            max_per_cycle, hist_counts, charge_edges, totals,
+            self.true_charge_per_field, self.m_hv, self.m_gnd, self.recombination, self.lag_free, self.n_vol_pos,
+            self.n_vol_neg, self.emit_coef, self.beta, self.tau_q, store_events, out_time, out_charge, out_before,
+            out_after, max_per_cycle, hist_counts, charge_edges, totals,
         )
 
 
@@ -208,6 +226,9 @@ class MemoryModel(ModelParameters):
         the value for air (refused for another gas: give that gas's own).
     residual_scatter : float
         Relative half-width w of the uniform scatter of the residual field about the stability field [-], [0, 1].
+    recombination : float
+        Fraction r of the positive ions landing on a wall that neutralise electrons trapped there [-], [0, 1]
+        (1: only the net negative charge of a wall emits; 0: electrons and ions sit in separate traps).
     charge_decay_time : float
         Decay time of the wall charge and its emission [s]; inf for none.
     ionization_rate, cathode_emission_rate, ... :
@@ -223,15 +244,17 @@ class MemoryModel(ModelParameters):
     title = "wall-memory model (per-wall charge, detrapping emission)"
     field_units = {**ModelParameters.field_units, "parameter_set": (None, ""), "trap_depth": ("voltage", "V"),
                    "attempt_frequency": ("frequency", "Hz"), "stability_field": ("field", "V/m"),
-                   "residual_scatter": ("dimensionless", "")}
+                   "residual_scatter": ("dimensionless", ""),
+                   "recombination": ("dimensionless", "")}
 
     parameter_set: str = "niemeyer1995"
-    trap_depth: float = 1.35
+    trap_depth: float = 1.3
     attempt_frequency: float = 1e14
     stability_field: float = AIR_STABILITY_FIELD
     residual_scatter: float = 0.5
+    recombination: float = 0.5
     charge_decay_time: float = 0.1
-    cathode_emission_rate: float = 1e3
+    cathode_emission_rate: float = 1e4
 
     def __post_init__(self) -> None:
         super().__post_init__()
@@ -251,6 +274,7 @@ class MemoryModel(ModelParameters):
                                                                 0.0, 1e9, unit="V/m"))
         object.__setattr__(self, "residual_scatter", check_range("model.residual_scatter",
                                                                  self.residual_scatter, 0.0, 1.0))
+        object.__setattr__(self, "recombination", check_range("model.recombination", self.recombination, 0.0, 1.0))
 
     def references(self) -> tuple[str, ...]:
         """The bibliography keys of the model and its parameter set.
@@ -330,5 +354,5 @@ class MemoryModel(ModelParameters):
             x_inc=e_inc, x_res=e_st, charge_per_unit=c.charge_per_field, x_to_field=1.0,
             references=tuple(dict.fromkeys(c.references + ("crichton1989", "pedersen1991") + self.references())),
             res_width=self.residual_scatter, true_charge_per_field=true_per_field, m_hv=m_hv, m_gnd=m_gnd,
-            emit_coef=emit / ELEMENTARY_CHARGE, beta=schottky_coefficient(t_wall),
+            emit_coef=emit / ELEMENTARY_CHARGE, beta=schottky_coefficient(t_wall), recombination=self.recombination,
         )

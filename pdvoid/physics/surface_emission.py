@@ -89,7 +89,7 @@ def detrapping_rate(charge: npt.ArrayLike, field: npt.ArrayLike, *, trap_depth: 
 
     ``charge`` is the wall's trapped electronic charge; only its magnitude enters (the caller decides whether the
     wall is charged negatively and is the cathode side). Example: 100 pC (6.24e8 electrons), Φ = 1 eV,
-    ν0 = 1e14 1/s, 293.15 K and 5 MV/m give about 3.9e6 1/s.
+    ν0 = 1e14 1/s, 293.15 K and 5 MV/m give about 1.15e7 1/s.
 
     Validity: thermally activated release over a field-lowered barrier (structure from memory, physics brief
     §3.3); requires ΔΦ < Φ (refused otherwise: the barrier would vanish and the formula no longer applies).

@@ -53,7 +53,7 @@ class VoidRunner:
         self.scenario = scenario
         self.seed = check_seed(seed)
         self.args = kernel_arguments(scenario) if _args is None else _args
-        self.state = np.zeros(K.STATE_SIZE)
+        self.state = np.zeros(self.args.state_size)
         self.state[K.S_TLAST] = -np.inf
         self.totals = np.zeros(K.TOTALS_SIZE)
         self.totals[K.T_FIRST] = np.nan
