@@ -225,12 +225,30 @@ def _root_sine(
 
 
 @njit_cached
+def _ddx(
+    t: float, gain: float, omega: float, orders: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray, xq0: float,
+    tq: float, tau_q: float,
+) -> float:
+    """d²x/dt² [V/(m s²)]."""
+    d = 0.0
+    for i in range(orders.size):
+        m = orders[i] * omega
+        ph = m * t
+        d -= m * m * (a_coef[i] * math.sin(ph) + b_coef[i] * math.cos(ph))
+    d *= gain
+    if tau_q != math.inf and xq0 != 0.0:
+        d += _xq(t, xq0, tq, tau_q) / (tau_q * tau_q)
+    return d
+
+
+@njit_cached
 def _monotone_end(
     t: float, t_end: float, gain: float, omega: float, orders: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray,
     xq0: float, tq: float, tau_q: float,
 ) -> float:
-    """With charge decay, x may turn inside a V-monotone piece: the first sign change of dx/dt after t
-    (scanned on 16 sub-intervals, then bisected), or t_end."""
+    """With charge decay, x may turn inside a V-monotone piece: the first sign change of dx/dt after t (scanned on
+    16 sub-intervals as in :mod:`pdvoid.kernels.void_events`, then located by Newton's method on dx/dt with a
+    bisection guard, to machine precision), or t_end."""
     n = 16
     h = (t_end - t) / n
     d0 = _dx(t, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
@@ -240,18 +258,28 @@ def _monotone_end(
         d1 = _dx(b, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
         if (d1 > 0.0) != (d0 > 0.0) and d1 != 0.0:
             lo, hi = a, b
+            s = 0.5 * (lo + hi)
             for _ in range(200):
-                mid = 0.5 * (lo + hi)
-                dm = _dx(mid, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
+                dm = _dx(s, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
+                if dm == 0.0:
+                    return s
                 if (dm > 0.0) == (d0 > 0.0):
-                    lo = mid
+                    lo = s
                 else:
-                    hi = mid
+                    hi = s
                 if hi - lo <= 4e-16 * abs(hi):
                     break
+                dd = _ddx(s, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
+                sn = s - dm / dd if dd != 0.0 else 0.5 * (lo + hi)
+                if abs(sn - s) <= 1e-15 * abs(s):
+                    return hi if hi - s <= 4e-15 * abs(s) else s  # converged to machine precision
+                if not (lo < sn < hi):
+                    sn = 0.5 * (lo + hi)
+                s = sn
             return hi
         a = b
     return t_end
+
 
 @njit_cached
 def _wall_amplitude(pol: float, state: np.ndarray, emit_coef: float, m_hv: float, m_gnd: float) -> float:
@@ -500,7 +528,19 @@ def run_memory_cycles(
                 xq0 = state[S_XQ0]
                 tq = state[S_TQ]
                 if decay:
-                    piece_end = _monotone_end(t, tb, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
+                    # exact skip: on [t, tb] V is monotone and x_q decays monotonically, so x stays between the
+                    # sums of their end values; a piece inside (-x_inc, x_inc) holds no threshold crossing
+                    gva = gain * voltage(t, omega, orders, a_coef, b_coef)
+                    gvb = gain * v_seg[seg + 1]
+                    xqa = _xq(t, xq0, tq, tau_q)
+                    xqb = _xq(tb, xq0, tq, tau_q)
+                    if max(gva, gvb) + max(xqa, xqb) < x_inc and min(gva, gvb) + min(xqa, xqb) > -x_inc:
+                        break
+                    # g·V and the decaying x_q moving the same way: x is monotone on the whole piece
+                    if (gvb - gva > 0.0) == (xqb - xqa > 0.0) or xqb == xqa:
+                        piece_end = tb
+                    else:
+                        piece_end = _monotone_end(t, tb, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
                     xt = _x(t, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
                     xe = _x(piece_end, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
                     rising = xe >= xt
