@@ -1,16 +1,19 @@
 """Speed of pdvoid's void kernels, measured side by side in one run.
 
-Prints: cycles/s and events/s of both models with memory and stochastic lag; the ratio to a fixed-step
-implementation of the same model (numba, 0.1° steps) and to a plain-Python loop; cold and warm (cached JIT)
-first-call times; the peak memory of a 10⁶-cycle histogram-only run. Targets (issue "void models"): field model
-≥ 1e6 cycles/s without field-assisted emission and ≥ 2e5 with it, at about 3 discharges per cycle, ≥ 30× the
-fixed-step implementation, warm first call ≤ 2 s, 10⁶-cycle histogram-only run under 200 MB.
+Prints: cycles/s and events/s of the field, network and wall-memory models with stochastic lag, and each model's
+speed relative to today's field model measured in the same run; the ratio to a fixed-step implementation of the
+field model (numba, 0.1° steps) and to a plain-Python loop; cold and warm (cached JIT) first-call times; the peak
+memory of a 10⁶-cycle histogram-only run. Targets (issue "void models"): field model ≥ 1e6 cycles/s without
+field-assisted emission and ≥ 2e5 with it, at about 3 discharges per cycle, ≥ 30× the fixed-step implementation,
+warm first call ≤ 2 s, 10⁶-cycle histogram-only run under 200 MB; (issue 13) the wall-memory model at least a
+third of the field model's speed.
 
 Run: python benchmarks/run.py [--quick]
 """
 
 from __future__ import annotations
 
+import dataclasses
 import math
 import os
 import subprocess
@@ -44,24 +47,33 @@ def scenarios():
                           model=pdvoid.NetworkModel(**{k: getattr(base.model, k) for k in (
                               "residual_ratio", "ionization_rate", "surface_rate_same", "surface_rate_reversed",
                               "surface_decay_time")}))
+    # the wall-memory model with its parameter set niemeyer1995 and the demo's effective volume rate
+    mem = dataclasses.replace(base, model=pdvoid.MemoryModel(ionization_rate=base.model.ionization_rate))
+    mem_hv = pdvoid.Scenario(insulation=base.insulation, supply=base.supply, model=mem.model,
+                             void=dataclasses.replace(base.void, height=base.void.height / 2,
+                                                      position="high_voltage_electrode"))
     return {
         "field model": base,
         "field model, field-assisted": base.replace(**{"model.field_assisted": True,
                                                         "model.surface_rate_same": 4e3,
                                                         "model.surface_rate_reversed": 1.2e3}),
         "network model": net,
+        "memory model (niemeyer1995)": mem,
+        "memory model, on hv electrode": mem_hv,
     }
 
 
 def kernel_speed(cycles):
     print(f"\n== event kernels ({cycles} cycles, histogram-only, best of 3)")
-    print(f"{'scenario':34s} {'events/cycle':>12s} {'cycles/s':>12s} {'events/s':>12s}")
+    print(f"{'scenario':34s} {'events/cycle':>12s} {'cycles/s':>12s} {'events/s':>12s} {'vs field':>9s}")
     rates = {}
     for name, sc in scenarios().items():
         pdvoid.simulate(sc, cycles=10, seed=1, histogram=True)  # compile / load cache
         dt, res = best_of(lambda sc=sc: pdvoid.simulate(sc, cycles=cycles, seed=1, histogram=True))
         rates[name] = cycles / dt
-        print(f"{name:34s} {res.event_count / cycles:12.3f} {cycles / dt:12.3e} {res.event_count / dt:12.3e}")
+        # speed relative to today's field model, measured in this same run (target for the memory model: >= 1/3)
+        print(f"{name:34s} {res.event_count / cycles:12.3f} {cycles / dt:12.3e} {res.event_count / dt:12.3e} "
+              f"{rates[name] / rates['field model']:9.2f}")
     return rates
 
 
@@ -70,7 +82,7 @@ def fixed_step_comparison(cycles_event, cycles_fixed, cycles_python):
 
     print("\n== against a fixed-step implementation of the same model (0.1° steps)")
     for name, sc in scenarios().items():
-        if name.startswith("network"):
+        if name.startswith(("network", "memory")):
             continue
         a = kernel_arguments(sc)
         args = (50.0, a.a_coef[0], a.gain, a.x_inc, a.x_res, a.charge_per_unit, a.n_vol_pos, a.n_same, a.n_rev,

@@ -25,7 +25,7 @@ from pdvoid.core.validity import ValidityWarning
 from pdvoid.core.versions import show_versions
 from pdvoid.inputs.parameters import Insulation, Periodic, Sine, Void
 from pdvoid.inputs.scenario import Scenario
-from pdvoid.models import FieldModel, NetworkModel
+from pdvoid.models import FieldModel, MemoryModel, NetworkModel
 from pdvoid.simulation.events import Events
 from pdvoid.simulation.results import Result, load
 from pdvoid.simulation.simulate import simulate
@@ -60,7 +60,8 @@ _SUBPACKAGES = {
 
 __all__ = [
     "__version__", "InputError", "ValidityWarning", "cite", "show_versions", "Insulation", "Void", "Sine", "Periodic",
-    "FieldModel", "NetworkModel", "Scenario", "Coefficients", "compute_coefficients", "Events", "simulate", "Result",
+    "FieldModel", "MemoryModel", "NetworkModel", "Scenario", "Coefficients", "compute_coefficients", "Events",
+    "simulate", "Result",
     "load",
     *_LAZY,
 ]

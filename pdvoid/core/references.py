@@ -164,6 +164,12 @@ REFERENCES: dict[str, Reference] = dict(
            "studies in cold gases', arXiv:1612.07170 (2017), abstract: the shift of the breakdown curve with gas "
            "temperature is explained by combining Paschen's law with the ideal gas law (density decides)",
            "confirmed"),
+        _r("schottky1914", "W. Schottky, 'Über den Einfluß von Strukturwirkungen, besonders der Thomsonschen "
+           "Bildkraft, auf die Elektronenemission der Metalle', Phys. Z. 15 (1914) 872-878 (image-force lowering "
+           "of a surface barrier)", "from memory"),
+        _r("memory_illustrative", "pdvoid, memory model: illustrative parameter values chosen to give a few to "
+           "tens of discharges per cycle in mm-size voids at 50 Hz, fitted to no measurement (each value of the "
+           "parameter set says which)", "common practice"),
     ]
 )
 

@@ -113,6 +113,63 @@ class KernelArguments:
         step = self.x_inc - self.x_res
         return int(np.ceil((swing + pieces * 2.0 * (vmax + self.x_inc)) / step)) + 4 * pieces + 4
 
+    @property
+    def state_size(self) -> int:
+        """Length of the void state vector of this kernel [-] (:data:`pdvoid.kernels.void_events.STATE_SIZE`).
+
+        Returns
+        -------
+        int
+            The length.
+        """
+        from pdvoid.kernels import void_events as K
+
+        return K.STATE_SIZE
+
+    def advance(
+        self, state: np.ndarray, cycle_start: int, cycle_stop: int, a_coef: np.ndarray, b_coef: np.ndarray,
+        store_events: bool, out_time: np.ndarray, out_charge: np.ndarray, out_before: np.ndarray,
+        out_after: np.ndarray, max_per_cycle: int, hist_counts: np.ndarray, charge_edges: np.ndarray,
+        totals: np.ndarray,
+    ) -> tuple[int, int]:
+        """One call of the event kernel these arguments belong to (here the shared kernel
+        :func:`pdvoid.kernels.void_events.run_cycles`; a model with a kernel of its own overrides this).
+
+        Parameters
+        ----------
+        state : numpy.ndarray
+            The void state vector, updated in place.
+        cycle_start, cycle_stop : int
+            The cycles to run, [cycle_start, cycle_stop) [-].
+        a_coef, b_coef : numpy.ndarray
+            Sine and cosine amplitudes of the (scaled) supply [V].
+        store_events : bool
+            True to write events to the ``out_*`` buffers.
+        out_time, out_charge, out_before, out_after : numpy.ndarray
+            Event buffers: time [s], apparent charge [C], void quantity before and after [V/m or V].
+        max_per_cycle : int
+            Upper bound on events in one cycle [-].
+        hist_counts : numpy.ndarray
+            Phase x charge histogram (int64), updated in place.
+        charge_edges : numpy.ndarray
+            Charge bin edges of the histogram [C].
+        totals : numpy.ndarray
+            Running sums, updated in place.
+
+        Returns
+        -------
+        tuple of int
+            (events written, next cycle to run).
+        """
+        from pdvoid.kernels import void_events as K
+
+        return K.run_cycles(
+            state, cycle_start, cycle_stop, self.frequency, self.orders, a_coef, b_coef, self.seg_fracs,
+            self.pure_sine, self.gain, self.x_inc, self.x_res, self.charge_per_unit, self.lag_free, self.n_vol_pos,
+            self.n_vol_neg, self.n_same, self.n_rev, self.tau_s, self.field_assisted, self.tau_q, store_events,
+            out_time, out_charge, out_before, out_after, max_per_cycle, hist_counts, charge_edges, totals,
+        )
+
 
 def supply_arrays(supply: Sine | Periodic) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray, bool]:
     """(orders, a, b, breakpoints, pure_sine) for the kernel.

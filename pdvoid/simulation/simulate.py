@@ -55,7 +55,7 @@ class VoidRunner:
         self.scenario = scenario
         self.seed = check_seed(seed)
         self.args = kernel_arguments(scenario) if _args is None else _args
-        self.state = np.zeros(K.STATE_SIZE)
+        self.state = np.zeros(self.args.state_size)
         self.state[K.S_TLAST] = -np.inf
         self.totals = np.zeros(K.TOTALS_SIZE)
         self.totals[K.T_FIRST] = np.nan
@@ -102,6 +102,8 @@ class VoidRunner:
         if counts is None:
             counts = np.zeros((0, 1), dtype=np.int64)
             charge_edges = np.array([0.0, 1.0])
+        elif charge_edges is None:
+            raise InputError("charge_edges [C] must be given together with counts")
         if bound > _MAX_EVENTS_PER_CYCLE:
             raise InputError(
                 f"this scenario could produce up to {bound} discharges per cycle (residual field too close to the "
@@ -113,12 +115,8 @@ class VoidRunner:
         a_coef, b_coef = a.a_coef * scale, a.b_coef * scale
         while self.cycle < stop:
             bt, bq, bb, ba = (np.empty(cap) for _ in range(4))
-            n, nxt = K.run_cycles(
-                self.state, self.cycle, stop, a.frequency, a.orders, a_coef, b_coef, a.seg_fracs, a.pure_sine,
-                a.gain, a.x_inc, a.x_res, a.charge_per_unit, a.lag_free, a.n_vol_pos, a.n_vol_neg, a.n_same,
-                a.n_rev, a.tau_s, a.field_assisted, a.tau_q, store, bt, bq, bb, ba, bound, counts, charge_edges,
-                self.totals,
-            )
+            n, nxt = a.advance(self.state, self.cycle, stop, a_coef, b_coef, store, bt, bq, bb, ba, bound, counts,
+                               charge_edges, self.totals)
             if n < 0 or nxt == self.cycle:
                 raise RuntimeError("internal error: the event bound per cycle was exceeded; please report this")
             if store:

@@ -34,7 +34,7 @@ def test_package_root_holds_only_stage_packages():
     stages = {"core", "inputs", "physics", "coefficients", "kernels", "models", "simulation", "analysis", "io",
               "sweeps", "faces"}
     entries = {p.name for p in PKG.iterdir() if p.name != "__pycache__"}
-    assert entries == stages | {"__init__.py", "_version.py", "py.typed"}
+    assert entries == stages | {"__init__.py", "__main__.py", "_version.py", "py.typed"}  # __main__: python -m pdvoid
 
 
 # How pdvoid's text cites a bibliography key of pdvoid.core.references: the author (or source) in lower case

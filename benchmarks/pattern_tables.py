@@ -1,0 +1,77 @@
+"""Tables for issue 13: PD per cycle, mean and 95th-percentile |q| against U/U_inc and against void size, the
+Weibull shape of |q|, and the asymmetry of an electrode-bounded void, for today's field model and the wall-memory
+model (parameter set niemeyer1995).
+
+Invented scenarios: a spherical air void in a 6 mm epoxy slab (εr 4.2) at 50 Hz; both models with the demo's
+effective volume rate 1e9 ion pairs/(m³ s). The Weibull shape β is the maximum-likelihood fit of a two-parameter
+Weibull law to |q| (scipy.stats.weibull_min, location 0).
+
+Run: python benchmarks/pattern_tables.py [--cycles N]
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import sys
+
+import numpy as np
+from scipy import stats
+
+import pdvoid
+
+CYCLES = int(sys.argv[sys.argv.index("--cycles") + 1]) if "--cycles" in sys.argv else 2000
+
+
+def models():
+    return {"field": pdvoid.FieldModel(ionization_rate=1e9),
+            "memory": pdvoid.MemoryModel(ionization_rate=1e9)}
+
+
+def scenario(model, diameter=1.5e-3, position="centred"):
+    h = diameter if position == "centred" else diameter / 2
+    return pdvoid.Scenario(insulation=pdvoid.Insulation(thickness=6e-3, permittivity=4.2),
+                           void=pdvoid.Void(diameter=diameter, height=h, position=position),
+                           supply=pdvoid.Sine(rms=10e3), model=model)
+
+
+def row(res):
+    q = np.abs(res.charge) * 1e12
+    if q.size < 10:
+        return f"{res.event_count / res.cycles:8.3f} {'-':>9s} {'-':>9s} {'-':>7s}"
+    beta = stats.weibull_min.fit(q, floc=0.0)[0]
+    return f"{res.event_count / res.cycles:8.3f} {q.mean():9.1f} {np.percentile(q, 95):9.1f} {beta:7.2f}"
+
+
+def at_ratio(sc, ratio):
+    u_inc = pdvoid.compute_coefficients(sc).inception_voltage
+    return dataclasses.replace(sc, supply=pdvoid.Sine(rms=ratio * u_inc))
+
+
+def main():
+    head = f"{'PD/cycle':>8s} {'mean pC':>9s} {'p95 pC':>9s} {'Weibull':>7s}"
+    print(f"== against U/U_inc (1.5 mm sphere, {CYCLES} cycles, seed 1)")
+    print(f"{'model':8s} {'U/U_inc':>7s} {head}")
+    for name, m in models().items():
+        for ratio in (1.05, 1.5, 2.0, 3.0):
+            res = pdvoid.simulate(at_ratio(scenario(m), ratio), cycles=CYCLES, seed=1)
+            print(f"{name:8s} {ratio:7.2f} {row(res)}")
+    print(f"\n== against void diameter (sphere, 2 × U_inc, {CYCLES} cycles, seed 1)")
+    print(f"{'model':8s} {'D mm':>7s} {head}")
+    for name, m in models().items():
+        for d in (0.5e-3, 1.0e-3, 1.5e-3, 2.0e-3):
+            res = pdvoid.simulate(at_ratio(scenario(m, d), 2.0), cycles=CYCLES, seed=1)
+            print(f"{name:8s} {d * 1e3:7.2f} {row(res)}")
+    print(f"\n== electrode-bounded half sphere (1.5 mm diameter, 2 × U_inc, {CYCLES} cycles, seed 1): "
+          "positive/negative half-cycle ratios")
+    print(f"{'model':8s} {'position':24s} {'n+/n-':>7s} {'Q+/Q-':>7s} {'mean+/mean-':>11s}")
+    for name, m in models().items():
+        for pos in ("high_voltage_electrode", "ground_electrode"):
+            res = pdvoid.simulate(at_ratio(scenario(m, position=pos), 2.0), cycles=CYCLES, seed=1)
+            q = res.charge
+            qp, qn = q[q > 0], -q[q < 0]
+            print(f"{name:8s} {pos:24s} {qp.size / qn.size:7.3f} {qp.sum() / qn.sum():7.3f} "
+                  f"{qp.mean() / qn.mean():11.3f}")
+
+
+if __name__ == "__main__":
+    main()
