@@ -171,13 +171,8 @@ def _verdict(ctx: Context) -> str:
                 f"{u / ut:.2f}, one criterion).")
     if band.regime == "no self-sustained discharge":
         return f"Verdict at the test voltage {_kv4(ut)} kV rms: {ctx.verdict}. {band.describe()}."
-    if band.single_criterion and band.criteria:
-        missing = "ionisation integral" if band.criteria == ("streamer",) else "streamer criterion"
-        where = (f"Inception voltage {_kv4(band.low)} kV rms by the {band.criteria[0]} criterion only (the "
-                 f"{missing} is not available for this gas)")
-    else:
-        where = (f"Inception band {_kv4(band.low)} to {_kv4(band.high)} kV rms (streamer criterion "
-                 f"{_kv4(band.streamer)} kV, ionisation integral {_kv4(band.integral)} kV)")
+    words = band.describe()  # both criteria, the band and the quoted spread of the streamer constant
+    where = words[:1].upper() + words[1:]
     return f"Verdict at the test voltage {_kv4(ut)} kV rms: {ctx.verdict}. {where}; {band.regime} regime."
 
 
