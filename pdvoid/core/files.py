@@ -259,8 +259,8 @@ def verify_manifest(folder: str | os.PathLike[str], *, required: Sequence[str] =
 def check_run_file(path: str | os.PathLike[str]) -> None:
     """Refuse a file that sits in a run's folder whose manifest is missing or does not match.
 
-    A folder counts as a run's folder when it holds a manifest or at least two of :data:`RUN_FILES`, and is
-    refused while a live process holds its lock (a lock left by a killed run does not count); the file must
+    A folder counts as a run's folder when it holds a manifest, a lock, or at least two of :data:`RUN_FILES`; it
+    is refused while a live process holds its lock, and a lock left by a killed run marks it unfinished; the file must
     then be listed in a manifest that matches every listed file. A file
     elsewhere (a measured event list, a result saved on its own) is not checked.
 
@@ -279,10 +279,12 @@ def check_run_file(path: str | os.PathLike[str]) -> None:
     root = p.parent
     present = [n for n in RUN_FILES if (root / n).is_file()]
     has_manifest = (root / MANIFEST_NAME).exists()
-    if (root / LOCK_NAME).exists() and not FolderLock(root)._stale():
+    locked = (root / LOCK_NAME).exists()
+    if locked and not FolderLock(root)._stale():
         raise InputError(f"{root}: incomplete or mixed output: a pdvoid run is writing into this folder (lock file "
                          f"{LOCK_NAME}); wait for it to finish")
-    if not has_manifest and len(present) < 2:
+    # a lock left behind marks a run that was killed before it finished: its folder is checked like any other
+    if not has_manifest and not locked and len(present) < 2:
         return
     verify_manifest(root, required=(p.name,))
 

@@ -181,3 +181,16 @@ def test_concurrent_writers_on_one_folder(tmp_path):
             assert "another pdvoid run is writing" in err and "Traceback" not in err
     doc = verify_manifest(out)  # whatever won, the folder is one complete run
     assert load(out / "result.npz").seed == doc["seed"]
+
+
+def test_a_run_killed_after_its_first_file_is_refused(tmp_path, capsys):
+    # found by the kill test: a run killed after result.npz but before the other files left one run file and
+    # its lock; one file alone did not make the folder a run folder, and the result loaded
+    out = tmp_path / "run"
+    assert _run(out) == 0
+    single = tmp_path / "killed"
+    single.mkdir()
+    os.replace(out / "result.npz", single / "result.npz")
+    (single / LOCK_NAME).write_text("999999999", encoding="utf-8")  # no such process: a stale lock
+    with pytest.raises(InputError, match="incomplete or mixed output: no manifest.json"):
+        load(single / "result.npz")
