@@ -350,6 +350,6 @@ def read_toml_file(path: str | os.PathLike[str], limit: int, what: str) -> dict[
     try:
         return tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
-        raise InputError(f"{p}: malformed TOML: {exc}") from None
+        raise InputError(f"{p}: malformed TOML (the {what} is not valid TOML): {exc}") from None
     except RecursionError:
         raise InputError(f"{p}: {what} nests tables or arrays too deeply") from None

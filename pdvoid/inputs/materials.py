@@ -11,7 +11,6 @@ from __future__ import annotations
 import math
 import os
 import re
-import tomllib
 from collections.abc import Mapping
 from dataclasses import dataclass, field
 from functools import lru_cache
@@ -21,6 +20,7 @@ from types import MappingProxyType
 from typing import Any
 
 from pdvoid.core.errors import InputError
+from pdvoid.core.files import read_toml_file
 
 __all__ = [
     "STATUSES",
@@ -188,23 +188,8 @@ _STRENGTH_SPEC = ("V/m", 1e6, 1e10, False, False)
 
 # ----------------------------------------------------------------------------------------- file reading
 def _read_toml(path: str | os.PathLike[str]) -> tuple[str, dict[str, Any]]:
-    if not isinstance(path, (str, os.PathLike)):
-        raise InputError(f"parameter file path must be a str or path; got {type(path).__name__}")
-    p = Path(path)
-    label = str(p)
-    if not p.is_file():
-        raise InputError(f"parameter file {label}: not found or not a file")
-    size = p.stat().st_size
-    if size > MAX_FILE_BYTES:
-        raise InputError(f"parameter file {label}: {size} bytes, larger than the {MAX_FILE_BYTES} byte limit")
-    try:
-        data = tomllib.loads(p.read_bytes().decode("utf-8"))
-    except UnicodeDecodeError as exc:
-        raise InputError(f"parameter file {label}: not UTF-8 text ({exc.reason} at byte {exc.start})"
-                         ) from None
-    except tomllib.TOMLDecodeError as exc:
-        raise InputError(f"parameter file {label}: not valid TOML: {exc}") from None
-    return label, data
+    data = read_toml_file(path, MAX_FILE_BYTES, "parameter file")  # bounded, regular files only, BOM accepted
+    return str(Path(path)), data
 
 
 def _where(label: str, key: str) -> str:
