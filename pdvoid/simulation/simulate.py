@@ -132,13 +132,17 @@ class VoidRunner:
         return t, q, xb * a.x_to_field, xa * a.x_to_field, v
 
 
+#: phase bins of the histogram mode unless asked otherwise [-]
+DEFAULT_PHASE_BINS = 72
+
+
 def simulate(
     scenario: Scenario,
     cycles: int = 1000,
     seed: int = 0,
     *,
     histogram: bool = False,
-    phase_bins: int = 72,
+    phase_bins: int = DEFAULT_PHASE_BINS,
     charge_edges: np.ndarray | None = None,
     progress: Callable[[int, int], None] | None = None,
     should_stop: Callable[[], bool] | None = None,
@@ -180,7 +184,7 @@ def simulate(
     seed = check_seed(seed)
     if not isinstance(histogram, bool):
         raise InputError(f"histogram must be True or False; got {histogram!r}")
-    if not histogram and (charge_edges is not None or phase_bins != 72):
+    if not histogram and (charge_edges is not None or phase_bins != DEFAULT_PHASE_BINS):
         raise InputError("charge_edges and phase_bins set the histogram mode's bins; give histogram=True with them "
                          "(without it every event is kept and they would be ignored)")
     args = kernel_arguments(scenario)

@@ -66,8 +66,8 @@ def main(argv: Sequence[str] | None = None) -> int:
         os.dup2(devnull, sys.stdout.fileno())
         return 0
     except KeyboardInterrupt:
-        print("pdvoid: interrupted; files being written were not completed and earlier ones are untouched",
-              file=sys.stderr)
+        print("pdvoid: interrupted; no file was left half-written, and a run folder left unfinished is refused by "
+              "the readers", file=sys.stderr)
         return 130
     except OSError as exc:  # the system refused a file operation: disk full, permissions, a vanished folder
         where = f" {exc.filename}" if exc.filename else ""
