@@ -64,6 +64,9 @@ class ModelParameters:
         The model's name in scenario files (``[model] kind = ...``); set by each concrete model.
     title : str
         A plain description for reports and the workbench.
+    caveat : str
+        What the model's default values rest on, in plain words, shown next to its results by the command line
+        and the review pack.
     gain_from_network : bool
         True when the model's void quantity follows the three-capacitance ratio k (void field per applied volt
         k/h) rather than the field enhancement (f/d).
@@ -73,6 +76,11 @@ class ModelParameters:
 
     kind: ClassVar[str] = ""
     title: ClassVar[str] = ""
+    caveat: ClassVar[str] = (
+        "the start-electron supply (volume ionisation rate, surface emission rates and their decay) uses "
+        "illustrative values unless the scenario sets them; fit them to a measured pattern (pdvoid fit) before "
+        "reading discharge counts or magnitudes quantitatively"
+    )
     gain_from_network: ClassVar[bool] = False
     #: field name -> (dimension, SI unit) for scenario files; dimension None for text, flags and lists
     field_units: ClassVar[dict[str, tuple[str | None, str]]] = {
@@ -114,6 +122,23 @@ class ModelParameters:
              check_nonnegative("model.cathode_emission_rate", self.cathode_emission_rate, "1/s"))
         _set(self, "charge_decay_time", check_range("model.charge_decay_time", self.charge_decay_time, 0.0,
                                                     math.inf, low_open=True, unit="s", allow_inf=True))
+
+    def assumptions(self) -> tuple[str, str]:
+        """What the model assumes about the residual field and the start electrons, in plain words (the review
+        pack's assumptions page); a model with other rules overrides it.
+
+        Returns
+        -------
+        tuple of str
+            The residual-field sentence and the start-electron sentence [-].
+        """
+        return (
+            f"The residual field E_res = {self.residual_ratio:g}·E_inc is a model parameter, not a measured "
+            "constant; it sets the charge per discharge and the extinction estimate.",
+            "Start electrons: volume ionisation and surface emission rates are illustrative unless fitted to "
+            "measurements. The statistical time lag makes an observed inception voltage higher and scattered; a "
+            "short test can miss a void entirely.",
+        )
 
     def network_capacitances(self) -> tuple[float, float] | None:
         """(C_c, C_b) the model prescribes instead of the geometry's, or None [F].

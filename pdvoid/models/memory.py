@@ -242,6 +242,11 @@ class MemoryModel(ModelParameters):
 
     kind = "memory"
     title = "wall-memory model (per-wall charge, detrapping emission)"
+    caveat = (
+        "its trap depth, residual-field scatter, recombination fraction and charge decay time are illustrative "
+        "(chosen to reproduce published trends, fitted to no measurement; see the parameter set's statuses); fit "
+        "them to a measured pattern before reading discharge counts or magnitudes quantitatively"
+    )
     field_units = {**ModelParameters.field_units, "parameter_set": (None, ""), "trap_depth": ("voltage", "V"),
                    "attempt_frequency": ("frequency", "Hz"), "stability_field": ("field", "V/m"),
                    "residual_scatter": ("dimensionless", ""),
@@ -293,6 +298,23 @@ class MemoryModel(ModelParameters):
             raise InputError(f"model.parameter_set must be one of {list_parameter_sets(self.kind)!r}; "
                              f"got {self.parameter_set!r}")
         return tuple(dict.fromkeys(keys))
+
+    def assumptions(self) -> tuple[str, str]:
+        """What this model assumes about the residual field and the start electrons, in plain words.
+
+        Returns
+        -------
+        tuple of str
+            The residual-field sentence and the start-electron sentence [-].
+        """
+        return (
+            f"The residual field is the streamer stability field of the gas, {self.stability_field / 1e6:.3g} kV/mm "
+            f"at 101.325 kPa and 293.15 K (from memory), scaled with the gas density and scattered uniformly by "
+            f"±{self.residual_scatter * 100:.0f} % (illustrative); it sets the charge per discharge.",
+            "Start electrons: volume ionisation, a metal cathode's emission and electrons detrapped from the "
+            "charge earlier discharges left on the cathode-side wall (Niemeyer-type, Schottky-lowered); "
+            + self.caveat + ".",
+        )
 
     def kernel_arguments(self, scenario: Scenario, c: Coefficients) -> MemoryKernelArguments:
         """The kernel arguments of this model for ``scenario`` with coefficients ``c``.

@@ -26,12 +26,15 @@ class VoidModel(Protocol):
         Its name in scenario files.
     title : str
         A plain description for reports and the workbench.
+    caveat : str
+        What its default values rest on, in plain words, shown next to its results.
     gain_from_network : bool
         True when the void field per applied volt is k/h of the three-capacitance network, else f/d.
     """
 
     kind: ClassVar[str]
     title: ClassVar[str]
+    caveat: ClassVar[str]
     gain_from_network: ClassVar[bool]
 
     def network_capacitances(self) -> tuple[float, float] | None:

@@ -312,3 +312,34 @@ def test_verdict_band_and_validity_notes_in_the_pdf(tmp_path, capsys):
     assert "validity notes: (1)" in assumptions and "not small against the slab" in assumptions
     assert inception_band(sc).notes  # the same note the analysis stage gives for this design
     assert "discharge-free at the test level" not in page and "expected to stay" not in page
+
+
+def test_assumptions_page_states_the_model_rules():
+    # project rule: the review pack says in words what the model's residual field and electrons rest on
+    import dataclasses
+
+    from pdvoid.faces.plots.review import _ASSUMPTIONS
+    from pdvoid.inputs.demo import demo_scenario
+
+    sc = demo_scenario()
+    assert any("{residual}" in t for t in _ASSUMPTIONS) and any("{electrons}" in t for t in _ASSUMPTIONS)
+    assert sc.model.assumptions()[0].startswith("The residual field E_res = 0.25·E_inc")  # the demo's value
+    mem = dataclasses.replace(sc, model=pdvoid.MemoryModel())
+    residual, electrons = mem.model.assumptions()
+    assert "0.507 kV/mm" in residual and "±50 %" in residual and "from memory" in residual  # 5.066e5 V/m
+    assert "detrapped" in electrons and "fitted to no measurement" in electrons
+
+
+def test_assumptions_page_names_where_the_void_sits(tmp_path):
+    # found trying the pack on a void on the high-voltage electrode: the page said "centred in" regardless
+    import dataclasses
+
+    from pdvoid.faces.report import design_review
+    from pdvoid.inputs.demo import demo_scenario
+
+    sc = demo_scenario()
+    sc = dataclasses.replace(sc, void=dataclasses.replace(sc.void, position="high_voltage_electrode", height=0.75e-3))
+    out = tmp_path / "pack.pdf"
+    design_review(sc, test_voltage=18e3, service_voltage=8e3, cycles=20, seed=1, out=out)
+    page = next(t for t in _pdf_page_texts(out) if "assumptions and validity limits" in t)
+    assert "on the high-voltage electrode of a plane slab" in page and "centred in" not in page

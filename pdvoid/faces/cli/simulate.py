@@ -135,7 +135,9 @@ def _cmd_simulate(ns: argparse.Namespace) -> int:
         res.to_csv(out / "events.csv")
         summ = _run_summary(res)
         regime = _regime(res)
-        doc = {"scenario": str(ns.scenario), "cycles": ns.cycles, "seed": ns.seed, "summary": summ,
+        doc = {"scenario": str(ns.scenario), "cycles": ns.cycles, "seed": ns.seed,
+               "model": {"kind": sc.model.kind, "title": sc.model.title, "assumptions": sc.model.caveat},
+               "summary": summ,
                "regime": regime, "inception regime": c.inception_regime, "inception reason": c.inception_reason,
                "validity_notes": notes,
                "files": [str(out / n) for n in RUN_FILES] + [str(out / MANIFEST_NAME)],
@@ -152,6 +154,7 @@ def _cmd_simulate(ns: argparse.Namespace) -> int:
         print(text)
     else:
         print(f"regime: {regime['text']}")
+        print(f"model: {sc.model.title}; assumptions: {sc.model.caveat}")
         if c.inception_regime != "streamer":
             print(f"inception: {c.inception_regime} ({c.inception_reason})")
         for k, v in summ.items():

@@ -387,7 +387,7 @@ def standalone_chart(ctx: Context, name: str) -> Figure:
 
 
 _ASSUMPTIONS = (
-    "The void is an idealised {shape} centred in a plane slab between plane electrodes, its axis along the "
+    "The void is an idealised {shape} {where} a plane slab between plane electrodes, its axis along the "
     "field; the host is a homogeneous linear dielectric. Other geometries need the numerical field solver.",
     "Field enhancement and induced (apparent) charge use closed forms valid for a void small compared with "
     "its distance to the electrodes (here height/thickness = {h_d:.2f}; the margin chart stops where the "
@@ -395,13 +395,10 @@ _ASSUMPTIONS = (
     "Inception: streamer criterion E_inc = (E/p)_cr·p·(1 + B/(p·l)^n) with l = {l_mm:.3g} mm; the ionisation "
     "integral of the effective ionisation coefficient is shown as a second estimate. The two differ by "
     "{spread:.0f} % here; treat the spread as part of the uncertainty.",
-    "The residual field E_res = {rr:g}·E_inc is a model parameter, not a measured constant; it sets the "
-    "charge per discharge and the extinction estimate.",
+    "{residual}",
     "The extinction estimate (E_inc + E_res)/2 is derived for lag-free discharges; a real extinction voltage "
     "depends on history and lies between it and the inception voltage.",
-    "Start electrons: volume ionisation and surface emission rates are illustrative unless fitted to "
-    "measurements. The statistical time lag makes an observed inception voltage higher and scattered; a "
-    "short test can miss a void entirely.",
+    "{electrons}",
     "Not modelled: ageing of the void surface and gas, surface conductivity, temperature rise, several "
     "voids, the measuring circuit (coupling capacitor, bandwidth) and noise. Apparent charges are those a "
     "calibrated IEC 60270 system would read for this void alone.",
@@ -418,10 +415,13 @@ def _assumptions_page(w: PageWriter, ctx: Context) -> None:
     h_d = sc.void.height / sc.insulation.thickness
     values = {
         "shape": "spheroid" if sc.void.shape == "spheroid" else "flat cylinder (disc)",
+        "where": {"centred": "centred in", "high_voltage_electrode": "on the high-voltage electrode of",
+                  "ground_electrode": "on the ground electrode of"}[sc.void.position],
         "h_d": h_d,
         "l_mm": sc.void.streamer_length * 1e3,
         "spread": spread,
-        "rr": sc.model.residual_ratio,
+        "residual": sc.model.assumptions()[0],
+        "electrons": sc.model.assumptions()[1],
         "cycles": ctx.cycles,
         "seed": ctx.seed,
     }

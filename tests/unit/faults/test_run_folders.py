@@ -194,3 +194,14 @@ def test_a_run_killed_after_its_first_file_is_refused(tmp_path, capsys):
     (single / LOCK_NAME).write_text("999999999", encoding="utf-8")  # no such process: a stale lock
     with pytest.raises(InputError, match="incomplete or mixed output: no manifest.json"):
         load(single / "result.npz")
+
+
+def test_simulate_states_the_model_and_its_assumptions(tmp_path, capsys):
+    # project rule: a number that rests on an assumption says so where it is shown
+    import json
+
+    assert _run(tmp_path / "run") == 0
+    out = capsys.readouterr().out
+    assert "model: field model" in out and "assumptions:" in out and "illustrative" in out
+    doc = json.loads((tmp_path / "run" / "summary.json").read_text(encoding="utf-8"))
+    assert doc["model"]["kind"] == "field" and "fit them to a measured pattern" in doc["model"]["assumptions"]
