@@ -13,6 +13,7 @@ from __future__ import annotations
 
 import atexit
 import concurrent.futures as cf
+import contextlib
 import multiprocessing
 import os
 from collections.abc import Callable, Iterable, Sequence
@@ -120,9 +121,14 @@ def _local_executor(workers: int) -> cf.Executor:
     return _stdlib_pool(workers)
 
 
-def _collect(futures: dict[Any, range], n: int, bar: Any, wait_any: Callable[[list[Any]], Iterable[Any]]
-             ) -> list[Any]:
-    """Gather chunk results into a list of n; on a failure cancel what has not started and re-raise."""
+#: ``on_result(indices, results)``: told in the calling process as each chunk of items finishes
+OnResult = Callable[[range, list[Any]], None]
+
+
+def _collect(futures: dict[Any, range], n: int, bar: Any, wait_any: Callable[[list[Any]], Iterable[Any]],
+             on_result: OnResult | None = None, on_interrupt: Callable[[], None] | None = None) -> list[Any]:
+    """Gather chunk results into a list of n; on a failure cancel what has not started and re-raise; on an
+    interrupt call ``on_interrupt`` (stop the workers) instead when it is given."""
     out: list[Any] = [None] * n
     try:
         for fut in wait_any(list(futures)):
@@ -130,8 +136,17 @@ def _collect(futures: dict[Any, range], n: int, bar: Any, wait_any: Callable[[li
             values = fut.result()
             for i, v in zip(rng, values, strict=True):
                 out[i] = v
+            if on_result is not None:
+                on_result(rng, values)
             if bar is not None:
                 bar.update(len(rng))
+    except (KeyboardInterrupt, SystemExit):
+        if on_interrupt is not None:
+            on_interrupt()
+        else:
+            for fut in futures:
+                fut.cancel()
+        raise
     except BaseException:
         for fut in futures:
             fut.cancel()
@@ -166,7 +181,8 @@ def _dask_client(client: Any) -> tuple[Any, bool]:
     return client, False
 
 
-def _dask_map(func: Callable[[Any], Any], items: list[Any], client: Any, make_bar: Callable[[], Any]) -> list[Any]:
+def _dask_map(func: Callable[[Any], Any], items: list[Any], client: Any, make_bar: Callable[[], Any],
+              on_result: OnResult | None = None) -> list[Any]:
     distributed = require("distributed", feature="Dask clusters")
     client, owned = _dask_client(client)
     try:
@@ -176,7 +192,7 @@ def _dask_map(func: Callable[[Any], Any], items: list[Any], client: Any, make_ba
         futures = {
             client.submit(_run_chunk, func, [items[i] for i in rng], pure=False): rng for rng in chunks
         }
-        return _collect(futures, len(items), bar, partial(distributed.as_completed, loop=client.loop))
+        return _collect(futures, len(items), bar, partial(distributed.as_completed, loop=client.loop), on_result)
     finally:
         if owned:
             client.close()
@@ -190,6 +206,7 @@ def parallel_map(
     workers: int | None = None,
     progress: bool = False,
     description: str = "",
+    on_result: OnResult | None = None,
 ) -> list[Any]:
     """``[func(x) for x in items]``, in order, run serially, on local processes or on a Dask cluster.
 
@@ -211,6 +228,10 @@ def parallel_map(
         show a progress bar (tqdm, notebook-aware).
     description : str, optional
         label of the progress bar.
+    on_result : Callable[[range, list], None], optional
+        called in this process as each chunk of items finishes, with the chunk's indices into ``items`` and
+        its results (serially: after every item), e.g. to store finished work as it completes; an exception
+        it raises stops the map like one from ``func``.
 
     Returns
     -------
@@ -223,24 +244,33 @@ def parallel_map(
         bad ``workers`` or ``client``.
     MissingDependencyError
         (an ImportError) Dask or tqdm is needed and not installed.
+
+    Notes
+    -----
+    An interrupt (``KeyboardInterrupt``, or ``SystemExit`` from a signal handler) while local worker processes
+    run stops those workers instead of letting them finish their chunks; the next call starts fresh ones.
     """
     if not callable(func):
         raise InputError(f"func must be callable; got {type(func).__name__}")
     if not isinstance(progress, bool):
         raise InputError(f"progress must be True or False; got {progress!r}")
+    if on_result is not None and not callable(on_result):
+        raise InputError(f"on_result must be None or callable; got {type(on_result).__name__}")
     items = list(items)
     n = len(items)
     local = _resolve_workers(workers) if client is None else 1
     if n == 0:
         return []
     if client is not None:
-        return _dask_map(func, items, client, lambda: _progress_bar(n, progress, description))
+        return _dask_map(func, items, client, lambda: _progress_bar(n, progress, description), on_result)
     bar = _progress_bar(n, progress, description)
     if local == 1 or n == 1:
         out = []
         try:
-            for x in items:
+            for i, x in enumerate(items):
                 out.append(func(x))
+                if on_result is not None:
+                    on_result(range(i, i + 1), out[i:])
                 if bar is not None:
                     bar.update(1)
         finally:
@@ -254,4 +284,19 @@ def parallel_map(
             bar.close()
         raise
     futures = {executor.submit(_run_chunk, func, [items[i] for i in rng]): rng for rng in _chunks(n, local)}
-    return _collect(futures, n, bar, cf.as_completed)
+    return _collect(futures, n, bar, cf.as_completed, on_result, partial(_stop_workers, executor, local))
+
+
+def _stop_workers(executor: cf.Executor, workers: int) -> None:
+    """Stop the local worker processes now (after an interrupt), instead of letting them run their chunks.
+
+    The processes are terminated first and the pool is shut down after: the pool then fails the pending tasks
+    itself (cancelling them first races with the pool's own bookkeeping). The next call starts a fresh pool.
+    """
+    if _stdlib_pools.get(workers) is executor:
+        del _stdlib_pools[workers]
+    for proc in list((getattr(executor, "_processes", None) or {}).values()):
+        with contextlib.suppress(OSError, ValueError, AttributeError):
+            proc.terminate()
+    with contextlib.suppress(Exception):
+        executor.shutdown(wait=True)

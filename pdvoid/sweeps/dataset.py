@@ -31,6 +31,7 @@ from pdvoid.core.files import atomic_write
 from pdvoid.core.optional import require
 from pdvoid.inputs.scenario import Scenario, scenario_from_dict
 from pdvoid.inputs.scenario_files import scenario_to_dict
+from pdvoid.sweeps.checkpoint import metrics_name
 from pdvoid.sweeps.metrics import DESCRIPTIONS, RESERVED, split_key
 from pdvoid.sweeps.names import parameter_unit
 from pdvoid.sweeps.plan import Plan
@@ -38,7 +39,7 @@ from pdvoid.sweeps.plan import Plan
 if TYPE_CHECKING:
     import xarray
 
-__all__ = ["assemble", "write_netcdf", "read_netcdf", "base_scenario"]
+__all__ = ["assemble", "write_netcdf", "read_netcdf", "base_scenario", "check_sweep_dataset", "SEEDS_CHECKED"]
 
 COMMENT = (
     "simulated with pdvoid: engineering estimates from idealised models; test and acceptance levels come "
@@ -143,7 +144,7 @@ def assemble(
         "parameters": ", ".join(plan.names),
         "points": int(n),
         "failed_points": int(sum(1 for e in errors if e)),
-        "metrics": "default" if metrics is None else getattr(metrics, "__qualname__", repr(metrics)),
+        "metrics": metrics_name(metrics),
         "seeding": SEEDING,
         "scenario_toml": _scenario_text(scenario),
         "pdvoid_version": __version__,
@@ -236,8 +237,108 @@ def write_netcdf(ds: xarray.Dataset, path: str | os.PathLike, *, engine: str = "
     return p
 
 
+#: at most this many point seeds are recomputed when a file is checked (evenly spaced, first and last included)
+SEEDS_CHECKED = 10_000
+_REQUIRED_ATTRS = ("design", "seed", "cycles", "points", "failed_points", "parameters", "scenario_toml")
+
+
+def _whole(value: object) -> int | None:
+    if isinstance(value, (bool, np.bool_)) or not isinstance(value, (int, np.integer)):
+        return None
+    return int(value)
+
+
+def check_sweep_dataset(ds: xarray.Dataset, source: str = "dataset") -> None:
+    """Refuse a sweep Dataset whose parts do not fit together (a damaged, edited or mixed file).
+
+    Checked: the attributes a sweep writes (design, master seed, cycles, points, failed points, parameters,
+    base scenario) are present and valid; each swept parameter is a coordinate and the dimensions are those of
+    the design (grid: one per parameter; random/lhs: ``point`` = 0..n−1); ``seed``, ``error`` and every metric
+    lie on exactly those dimensions; the number of points and of failed points agree with the variables;
+    failed points have NaN metrics; the seeds are the master seed's (all of them up to
+    :data:`SEEDS_CHECKED` points, else that many evenly spaced ones).
+
+    Parameters
+    ----------
+    ds : xarray.Dataset
+        A Dataset read from a sweep file [-].
+    source : str
+        What it was read from, for messages [-].
+
+    Raises
+    ------
+    InputError
+        "incomplete or inconsistent sweep file: ..." with the first disagreement found.
+    """
+    from pdvoid.sweeps.plan import DESIGNS
+
+    head = f"{source}: incomplete or inconsistent sweep file"
+    attrs = ds.attrs
+    missing = [a for a in _REQUIRED_ATTRS if a not in attrs]
+    if attrs.get("title") != "pdvoid parameter sweep" or missing:
+        raise InputError(f"{head}: not written by pdvoid.sweeps (missing attributes: "
+                         f"{', '.join(missing) or 'title'})")
+    design = attrs["design"]
+    if design not in DESIGNS:
+        raise InputError(f"{head}: design {design!r} is not one of {', '.join(DESIGNS)}")
+    numbers = {k: _whole(attrs[k]) for k in ("seed", "cycles", "points", "failed_points")}
+    for key, low in (("seed", 0), ("cycles", 1), ("points", 0), ("failed_points", 0)):
+        value = numbers[key]
+        if value is None or value < low:
+            raise InputError(f"{head}: attribute {key} must be a whole number >= {low}; got {attrs[key]!r}")
+    n, failed, master = numbers["points"], numbers["failed_points"], numbers["seed"]
+    assert n is not None and failed is not None and master is not None
+    if not isinstance(attrs["parameters"], str) or not attrs["parameters"].strip():
+        raise InputError(f"{head}: attribute parameters must name the swept parameters")
+    names = tuple(attrs["parameters"].split(", "))
+    absent = [name for name in names if name not in ds.coords]
+    if absent:
+        raise InputError(f"{head}: swept parameter(s) {', '.join(absent)} missing as coordinates")
+    dims = names if design == "grid" else ("point",)
+    for name in names:
+        if ds[name].dims != ((name,) if design == "grid" else ("point",)):
+            raise InputError(f"{head}: coordinate {name} lies on {ds[name].dims}, not on {dims}")
+    if design != "grid":
+        if "point" not in ds.coords or not np.array_equal(ds["point"].values, np.arange(ds.sizes.get("point", 0))):
+            raise InputError(f"{head}: the point coordinate must number the points 0..n-1")
+    for required in ("seed", "error"):
+        if required not in ds.data_vars:
+            raise InputError(f"{head}: variable {required!r} is missing")
+    for variable in ds.data_vars:
+        if ds[variable].dims != dims:
+            raise InputError(f"{head}: variable {variable!r} lies on {ds[variable].dims}, not on {dims}")
+    size = int(np.prod([ds.sizes[d] for d in dims]))
+    if size != n:
+        raise InputError(f"{head}: attribute points = {n} but the variables hold {size} points")
+    errors = np.asarray(ds["error"].values).astype(str).ravel()
+    bad = errors != ""
+    if int(bad.sum()) != failed:
+        raise InputError(f"{head}: attribute failed_points = {failed} but {int(bad.sum())} points carry an error")
+    for metric in ds.data_vars:
+        if metric in ("seed", "error"):
+            continue
+        values = np.asarray(ds[metric].values)
+        if not np.issubdtype(values.dtype, np.floating):
+            raise InputError(f"{head}: metric {metric!r} is not floating point ({values.dtype})")
+        if np.any(np.isfinite(values.ravel()[bad])):
+            raise InputError(f"{head}: metric {metric!r} has values at points that failed")
+    seeds = np.asarray(ds["seed"].values).ravel()
+    if not np.issubdtype(seeds.dtype, np.integer):
+        raise InputError(f"{head}: variable seed is not integer ({seeds.dtype})")
+    picks: list[int] = np.unique(np.linspace(0, n - 1, min(n, SEEDS_CHECKED)).round()).astype(int).tolist()
+    for i in picks:
+        expected = int(np.random.SeedSequence(master, spawn_key=(int(i),)).generate_state(1, dtype=np.uint32)[0]) >> 1
+        if int(seeds[i]) != expected:
+            raise InputError(f"{head}: the seed of point {int(i)} is not that of master seed {master} (points "
+                             "from different sweeps?)")
+    try:
+        base_scenario(ds)
+    except InputError as exc:
+        raise InputError(f"{head}: {exc}") from None
+
+
 def read_netcdf(path: str | os.PathLike, *, engine: str | None = None) -> xarray.Dataset:
-    """Read a sweep NetCDF file fully into memory (the file is closed on return).
+    """Read a sweep NetCDF file fully into memory (the file is closed on return) and check it.
 
     Parameters
     ----------
@@ -254,13 +355,19 @@ def read_netcdf(path: str | os.PathLike, *, engine: str | None = None) -> xarray
     Raises
     ------
     InputError
-        When the file does not exist.
+        When the file does not exist, is not a readable NetCDF file, or is not a consistent sweep file
+        (:func:`check_sweep_dataset`: missing attributes or variables, wrong dimensions, counts that disagree
+        with the variables, seeds of another sweep).
     """
     xr = require("xarray")
     p = Path(path)
     if not p.is_file():
         raise InputError(f"{p}: no such file")
-    ds = xr.load_dataset(p, engine=engine)
+    try:
+        ds = xr.load_dataset(p, engine=engine)
+    except (OSError, ValueError, TypeError, KeyError, IndexError, RuntimeError) as exc:
+        raise InputError(f"{p}: not a readable NetCDF file ({type(exc).__name__}: {exc})") from None
     if "error" in ds:
         ds["error"] = ds["error"].astype(str)  # NetCDF-3 text comes back as objects
+    check_sweep_dataset(ds, str(p))
     return ds

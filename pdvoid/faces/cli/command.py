@@ -15,6 +15,7 @@ from pdvoid._version import __version__
 from pdvoid.core.errors import InputError
 from pdvoid.faces.cli import analysis, fit, report, simulate, sweep
 from pdvoid.faces.cli.output import SAFETY
+from pdvoid.faces.cli.stopping import exit_status, signal_name, sigterm_raises
 
 __all__ = ["build_parser", "main"]
 
@@ -51,12 +52,13 @@ def main(argv: Sequence[str] | None = None) -> int:
     int
         The exit status: 0 on success, 2 for a user error (printed as ``pdvoid: error: ...``), 1 when the system
         refused a file operation (disk full, permission) or for an internal error (a short report with a hint to
-        file it, no traceback), 130 when interrupted (Ctrl-C).
+        file it, no traceback), 130 when interrupted (Ctrl-C, SIGINT), 143 when stopped by SIGTERM.
     """
     parser = build_parser()
     ns = parser.parse_args(argv)
     try:
-        return int(ns.func(ns) or 0)
+        with sigterm_raises():
+            return int(ns.func(ns) or 0)
     except InputError as exc:
         print(f"pdvoid: error: {exc}", file=sys.stderr)
         return 2
@@ -65,10 +67,10 @@ def main(argv: Sequence[str] | None = None) -> int:
         devnull = os.open(os.devnull, os.O_WRONLY)
         os.dup2(devnull, sys.stdout.fileno())
         return 0
-    except KeyboardInterrupt:
-        print("pdvoid: interrupted; no file was left half-written, and a run folder left unfinished is refused by "
-              "the readers", file=sys.stderr)
-        return 130
+    except KeyboardInterrupt as exc:
+        print(f"pdvoid: interrupted ({signal_name(exc)}); no file was left half-written, and a run folder left "
+              "unfinished is refused by the readers", file=sys.stderr)
+        return exit_status(exc)
     except OSError as exc:  # the system refused a file operation: disk full, permissions, a vanished folder
         where = f" {exc.filename}" if exc.filename else ""
         print(f"pdvoid: error: the system refused a file operation{where}: {exc.strerror or exc}; no output was "
