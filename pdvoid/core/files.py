@@ -142,8 +142,17 @@ class FolderLock:
                 ) from None
             except OSError as exc:
                 raise InputError(f"{self.folder}: cannot lock the output folder ({exc.strerror})") from None
-            with os.fdopen(fd, "w", encoding="utf-8") as fh:
-                fh.write(str(os.getpid()))
+            try:
+                with os.fdopen(fd, "w", encoding="utf-8") as fh:
+                    fh.write(str(os.getpid()))
+            except BaseException as exc:
+                # an empty lock file would count as held for ever (a full disk refuses even these few bytes)
+                with contextlib.suppress(OSError):
+                    os.unlink(self.path)
+                if isinstance(exc, OSError):
+                    raise InputError(f"{self.folder}: cannot lock the output folder ({exc.strerror or exc})"
+                                     ) from None
+                raise
             self._held = True
             return self
         raise InputError(f"{self.folder}: cannot take over the stale lock file {self.path}")

@@ -133,9 +133,9 @@ def run(ns: argparse.Namespace) -> int:
     parts = checkpoint_path(out)
     before = checkpoint_progress(parts) if ns.resume else None
     if ns.resume and not ns.json:
-        if before is None:
+        if before is None and not out.exists():
             print(f"no interrupted sweep in {parts}: starting from the beginning", file=sys.stderr)
-        else:
+        elif before is not None:
             print(f"resuming: {before[0]} of {before[1]} points were kept in {parts}", file=sys.stderr)
     start = time.perf_counter()
     try:
