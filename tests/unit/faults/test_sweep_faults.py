@@ -13,7 +13,6 @@ import errno
 import json
 import os
 import random
-import shutil
 import signal
 import subprocess
 import sys
@@ -341,14 +340,21 @@ def _kill_group(proc: subprocess.Popen) -> None:
         os.killpg(proc.pid, signal.SIGKILL)
 
 
-#: a sweep of about 10 s serially (40 points, about 0.25 s each)
+#: a sweep of 10 to 20 s serially (40 points, 0.25 to 0.5 s each on a shared 2-core machine)
 SLOW_SWEEP = {"cycles": 150_000, "diameters": 8, "pressures": 5}
 
 
+@pytest.fixture(scope="module")
+def slow_sweep(tmp_path_factory):
+    """The slow sweep file and its uninterrupted result, computed once."""
+    folder = tmp_path_factory.mktemp("slow_sweep")
+    f = _sweep_file(folder, **SLOW_SWEEP)
+    return f, _reference(folder, f)
+
+
 @pytest.mark.slow
-def test_sweeps_killed_at_random_points_resume_to_the_identical_file(tmp_path, capsys):
-    f = _sweep_file(tmp_path, **SLOW_SWEEP)
-    reference = _reference(tmp_path, f)
+def test_sweeps_killed_at_random_points_resume_to_the_identical_file(tmp_path, capsys, slow_sweep):
+    f, reference = slow_sweep
     rng = random.Random(20261202)  # fixed seed: the kill points are reproducible
     kept_at_kill = []
     for k, workers in enumerate((1, 1, 1, 1, 2)):
@@ -375,9 +381,8 @@ def test_sweeps_killed_at_random_points_resume_to_the_identical_file(tmp_path, c
 @pytest.mark.parametrize(("sig", "status", "workers"),
                          [(signal.SIGINT, 130, 1), (signal.SIGTERM, 143, 1), (signal.SIGINT, 130, 2),
                           (signal.SIGTERM, 143, 2)])
-def test_sigint_and_sigterm_stop_cleanly_and_resume(tmp_path, capsys, sig, status, workers):
-    f = _sweep_file(tmp_path, **SLOW_SWEEP)
-    reference = _reference(tmp_path, f)
+def test_sigint_and_sigterm_stop_cleanly_and_resume(tmp_path, capsys, slow_sweep, sig, status, workers):
+    f, reference = slow_sweep
     out = tmp_path / "r.nc"
     proc = _start(f, out, workers)
     try:
@@ -423,4 +428,3 @@ def test_concurrent_sweep_processes_on_one_output(tmp_path):
     ds = read_netcdf(out)  # whichever won: one whole sweep, never a mix
     assert sum(ds.identical(r) for r in references) == 1
     assert not checkpoint_path(out).exists()
-    shutil.rmtree(tmp_path / "unused", ignore_errors=True)
