@@ -8,8 +8,9 @@ Layout:
 - one float64 variable per metric, ``attrs["units"]`` SI ("1" = dimensionless); NaN where the point failed
   or the metric is undefined there (the largest charge of a run without discharges);
 - "seed" (int32): the simulation seed of each point; "error" (text): why a point failed, "" where it ran.
-- dataset attributes: design, master seed, cycles, samples, parameters, the base scenario as TOML text,
-  the pdvoid version, the number of failed points.
+- dataset attributes: design, master seed (an integer; its decimal digits as text from 2**31 on, which
+  NetCDF-3 integers cannot hold), cycles, samples, parameters, the base scenario as TOML text, the pdvoid
+  version, the number of failed points.
 
 Everything in the Dataset fits NetCDF-3 (no 64-bit integers, no booleans in attributes), so
 ``write_netcdf`` works with scipy alone.
@@ -41,6 +42,7 @@ if TYPE_CHECKING:
 
 __all__ = ["assemble", "write_netcdf", "read_netcdf", "base_scenario", "check_sweep_dataset", "SEEDS_CHECKED"]
 
+_INT32_MAX = 2**31 - 1
 COMMENT = (
     "simulated with pdvoid: engineering estimates from idealised models; test and acceptance levels come "
     "from the applicable standards"
@@ -139,7 +141,8 @@ def assemble(
     ds_attrs: dict[str, str | int] = {
         "title": "pdvoid parameter sweep",
         "design": plan.design,
-        "seed": int(plan.seed),
+        # NetCDF-3 attributes hold 32-bit signed integers: a master seed of 2**31 or more is kept as its digits
+        "seed": int(plan.seed) if plan.seed <= _INT32_MAX else str(int(plan.seed)),
         "cycles": int(cycles),
         "parameters": ", ".join(plan.names),
         "points": int(n),
@@ -243,6 +246,8 @@ _REQUIRED_ATTRS = ("design", "seed", "cycles", "points", "failed_points", "param
 
 
 def _whole(value: object) -> int | None:
+    if isinstance(value, str) and value.isascii() and value.isdigit() and len(value) <= 10:
+        return int(value)  # a master seed beyond the 32-bit integers of NetCDF-3 attributes
     if isinstance(value, (bool, np.bool_)) or not isinstance(value, (int, np.integer)):
         return None
     return int(value)

@@ -334,3 +334,17 @@ def test_a_random_design_file_reads_back_and_is_checked(tmp_path, demo):
     bad = ds.assign_coords(point=np.array([0, 1, 3, 2], dtype=np.int32))
     with pytest.raises(InputError, match="number the points"):
         check_sweep_dataset(bad)
+
+
+def test_a_master_seed_beyond_32_bits_writes_and_reads_back(tmp_path, demo):
+    # found while testing the checkpoints: seeds up to 2**32 - 1 are allowed, but NetCDF-3 integer attributes
+    # hold 32-bit signed values, so writing the file failed after the whole sweep had run
+    ds = sweep(demo, {"void.diameter": [1e-3, 2e-3]}, cycles=10, seed=2**32 - 1, workers=1, progress=False)
+    assert ds.attrs["seed"] == str(2**32 - 1)
+    write_netcdf(ds, tmp_path / "r.nc")
+    back = read_netcdf(tmp_path / "r.nc")
+    assert int(back.attrs["seed"]) == 2**32 - 1
+    with pytest.raises(InputError, match="seed must be a whole number"):
+        check_sweep_dataset(back.assign_attrs(seed="12a"))
+    small = sweep(demo, {"void.diameter": [1e-3]}, cycles=10, seed=2**31 - 1, workers=1, progress=False)
+    assert small.attrs["seed"] == 2**31 - 1
