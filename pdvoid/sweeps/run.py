@@ -152,7 +152,9 @@ def sweep(
         continue the sweep stored in ``checkpoint``: only the points not finished there run, and the Dataset
         is identical to that of an uninterrupted sweep. A checkpoint of another sweep (other parameters,
         scenario, cycles, seed, metrics or pdvoid version) is refused; a missing or empty one starts from the
-        beginning. With ``resume=False`` a checkpoint folder that holds a sweep is refused.
+        beginning. With ``resume=False`` a checkpoint folder that holds a sweep is refused. A metric function
+        is known by its module and qualified name (:func:`pdvoid.sweeps.checkpoint.metrics_name`), not by its
+        code: give a changed function another name before resuming.
 
     Returns
     -------
