@@ -21,6 +21,7 @@ from typing import Any
 
 from pdvoid.core.errors import InputError
 from pdvoid.core.files import read_toml_file
+from pdvoid.core.limits import MAX_TEXT_FILE_BYTES
 
 __all__ = [
     "STATUSES",
@@ -38,7 +39,7 @@ __all__ = [
 
 STATUSES = ("confirmed", "derived", "from memory", "common practice")
 IONIZATION_MODELS = ("morrow_lowke_air", "sf6_linear")
-MAX_FILE_BYTES = 1_000_000
+MAX_FILE_BYTES = MAX_TEXT_FILE_BYTES  #: largest parameter file [bytes] (see pdvoid.core.limits)
 _NAME = re.compile(r"^[a-z][a-z0-9_]{0,63}$")
 _MATERIALS_SCHEMA = "pdvoid.materials/1"
 _GASES_SCHEMA = "pdvoid.gases/1"
