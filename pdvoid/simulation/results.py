@@ -7,10 +7,10 @@ import math
 import os
 import stat
 import zipfile
-from zlib import error as zlib_error
 from dataclasses import dataclass
 from pathlib import Path
 from typing import cast
+from zlib import error as zlib_error
 
 import numpy as np
 
