@@ -189,7 +189,12 @@ _STRENGTH_SPEC = ("V/m", 1e6, 1e10, False, False)
 
 # ----------------------------------------------------------------------------------------- file reading
 def _read_toml(path: str | os.PathLike[str]) -> tuple[str, dict[str, Any]]:
-    data = read_toml_file(path, MAX_FILE_BYTES, "parameter file")  # bounded, regular files only, BOM accepted
+    try:
+        data = read_toml_file(path, MAX_FILE_BYTES, "parameter file")  # bounded, regular files only, BOM accepted
+    except InputError:
+        raise
+    except ValueError as exc:  # e.g. an integer of more digits than Python converts (int_max_str_digits)
+        raise InputError(f"{path}: malformed TOML (the parameter file is not valid TOML): {exc}") from None
     return str(Path(path)), data
 
 

@@ -201,7 +201,12 @@ def read_scenario_parts(path: str | os.PathLike[str]) -> dict[str, Any]:
         errors: line and column).
     """
     p = Path(path) if isinstance(path, (str, os.PathLike)) else path
-    data = read_toml_file(p, MAX_FILE_BYTES, "scenario file")
+    try:
+        data = read_toml_file(p, MAX_FILE_BYTES, "scenario file")
+    except InputError:
+        raise
+    except ValueError as exc:  # e.g. an integer of more digits than Python converts (int_max_str_digits)
+        raise InputError(f"{p}: malformed TOML (the scenario file is not valid TOML): {exc}") from None
     return parts_from_dict(data, source=str(p))
 
 

@@ -265,6 +265,8 @@ def load(path: str | os.PathLike[str]) -> Result:
     """
     from pdvoid.inputs.scenario import scenario_from_dict
 
+    if not isinstance(path, (str, os.PathLike)):
+        raise InputError(f"path must be a str or path; got {type(path).__name__}")
     p = Path(path)
     try:
         size = p.stat().st_size

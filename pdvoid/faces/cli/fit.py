@@ -102,7 +102,7 @@ def register(sub: argparse._SubParsersAction[argparse.ArgumentParser]) -> None:
     f.add_argument("--threshold", type=options.charge, default="0C",
                    help="detection threshold of the measurement, e.g. 5pC (default 0C)")
     f.add_argument("--noise", type=options.charge, default=None, help="charge noise of the detector model, e.g. 2pC")
-    f.add_argument("--relative-noise", type=options.number(0.0, 10.0), default=0.0,
+    f.add_argument("--relative-noise", type=options.number(0.0, 1.0), default=0.0,
                    help="relative charge noise of the detector model, a ratio, e.g. 0.05 (default 0)")
     f.add_argument("--phase-resolution", type=options.phase_angle, default=None,
                    help="phase resolution of the detector model, e.g. 2deg")
