@@ -280,7 +280,7 @@ def _bomb(tmp: Path, result: Path) -> Path:
     meta["histogram"] = {"below": 0, "above": 0}
     arrays["metadata"] = np.frombuffer(json.dumps(meta).encode(), np.uint8)
     arrays["hist_phase_edges_deg"] = np.linspace(0, 360, 73)
-    arrays["hist_charge_edges"] = np.linspace(-1e-9, 1e-9, 4_166_668)
+    arrays["hist_charge_edges"] = np.linspace(-1e-9, 1e-9, 51)  # the counts below claim far more bins
     out = tmp / "bomb.npz"
     with zipfile.ZipFile(out, "w", zipfile.ZIP_DEFLATED, compresslevel=9) as zf:
         for k, v in arrays.items():
@@ -297,24 +297,40 @@ def _bomb(tmp: Path, result: Path) -> Path:
     return out
 
 
-def _run_memory(code: str, args: list[str]) -> tuple[str, float]:
+_PEAK_LIMIT = 1024**3  # a case whose process peaks above this resident size was not refused before allocating
+PEAKS: dict[str, float] = {}
+
+
+def _run_memory(name: str, code: str, args: list[str]) -> str:
+    """Run one memory case in a child capped at 3 GiB of address space; its peak resident size goes to PEAKS."""
     prelude = (f"import resource; resource.setrlimit(resource.RLIMIT_AS, ({_CAP}, {_CAP}))\n"
                "import pdvoid\n"
                "try:\n    exec(compile(CODE, 'case', 'exec'))\n"
                "except pdvoid.InputError:\n    raise SystemExit(2)\n"
                "except MemoryError:\n    raise SystemExit(99)\n")
-    start = time.perf_counter()
-    try:
-        proc = subprocess.run([sys.executable, "-c", f"CODE = {code!r}\n" + prelude, *args], capture_output=True,
-                              text=True, timeout=60)
-    except subprocess.TimeoutExpired:
-        return MEMORY, time.perf_counter() - start
-    took = time.perf_counter() - start
-    if proc.returncode == 2 and "Traceback" not in proc.stderr:
-        return HANDLED, took
-    if proc.returncode == 99 or "MemoryError" in proc.stderr or proc.returncode < 0:
-        return MEMORY, took
-    return (HANDLED if proc.returncode == 0 else OTHER), took
+    with tempfile.TemporaryFile() as err:
+        proc = subprocess.Popen([sys.executable, "-c", f"CODE = {code!r}\n" + prelude, *args],
+                                stdout=subprocess.DEVNULL, stderr=err)
+        deadline = time.monotonic() + 60
+        while True:
+            pid, status, usage = os.wait4(proc.pid, os.WNOHANG)
+            if pid:
+                break
+            if time.monotonic() > deadline:
+                proc.kill()
+                pid, status, usage = os.wait4(proc.pid, 0)
+                PEAKS[name] = usage.ru_maxrss * 1024.0
+                return MEMORY
+            time.sleep(0.05)
+        proc.returncode = os.waitstatus_to_exitcode(status)
+        err.seek(0)
+        stderr = err.read().decode(errors="replace")
+    PEAKS[name] = usage.ru_maxrss * 1024.0  # kB on Linux
+    if proc.returncode == 99 or "MemoryError" in stderr or proc.returncode < 0 or PEAKS[name] > _PEAK_LIMIT:
+        return MEMORY
+    if proc.returncode == 2 and "Traceback" not in stderr:
+        return HANDLED
+    return HANDLED if proc.returncode == 0 else OTHER
 
 
 # ---------------------------------------------------------------------------------------- files pdvoid reads
@@ -478,7 +494,7 @@ def main(argv: list[str] | None = None) -> int:
         ]
         if not ns.no_memory:
             bomb = _bomb(tmp, result)
-            groups.append(("memory", [(n, (lambda c=c: _run_memory(c, [str(result), str(bomb)])[0]))
+            groups.append(("memory", [(n, (lambda n=n, c=c: _run_memory(n, c, [str(result), str(bomb)])))
                                       for n, c in _MEMORY_CASES.items()]))
         for group, cases in groups:
             tally[group] = Counter()
@@ -491,7 +507,7 @@ def main(argv: list[str] | None = None) -> int:
     cols = [HANDLED, OTHER, SILENT, MEMORY, LOST]
     if ns.json:
         print(json.dumps({"pdvoid": pdvoid.__version__, "tally": {g: dict(c) for g, c in tally.items()},
-                          "not handled": bad, "seconds": round(took, 1)}, indent=1))
+                          "not handled": bad, "peak memory [bytes]": PEAKS, "seconds": round(took, 1)}, indent=1))
         return 0
     print(f"pdvoid {pdvoid.__version__} from {Path(pdvoid.__file__).parent}; {took:.0f} s")
     print(f"{'group':18s}" + "".join(f"{c:>20s}" for c in cols) + f"{'cases':>8s}")
@@ -502,6 +518,8 @@ def main(argv: list[str] | None = None) -> int:
     if "memory" in tally:
         print(f"memory exhaustion guarded: {tally['memory'].get(HANDLED, 0)} of {sum(tally['memory'].values())}")
     if ns.list:
+        for n, peak in PEAKS.items():
+            print(f"  peak resident memory {peak / 1e6:8.0f} MB: {n}")
         for g, n, o in bad:
             print(f"  [{o}] {g}: {n}")
     return 0

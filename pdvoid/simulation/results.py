@@ -10,7 +10,6 @@ import zipfile
 from dataclasses import dataclass
 from pathlib import Path
 from typing import cast
-from zlib import error as zlib_error
 
 import numpy as np
 
@@ -366,7 +365,7 @@ def _read_arrays(p: Path, size: int) -> dict[str, np.ndarray]:
 
     try:
         zf = zipfile.ZipFile(p)
-    except (OSError, zipfile.BadZipFile, ValueError, EOFError) as exc:
+    except (OSError, zipfile.BadZipFile, ValueError, EOFError, NotImplementedError, RuntimeError) as exc:
         raise InputError(f"{p}: not a pdvoid result file ({exc})") from None
     with zf:
         infos = zf.infolist()
@@ -416,7 +415,10 @@ def _read_arrays(p: Path, size: int) -> dict[str, np.ndarray]:
                     raw = fh.read(count * dtype.itemsize)
             except InputError:
                 raise
-            except (OSError, ValueError, zipfile.BadZipFile, EOFError, zlib_error, RuntimeError) as exc:
+            except Exception as exc:  # noqa: BLE001 - numpy's header parser and zipfile raise many kinds
+                # (SyntaxError, tokenize.TokenError, NotImplementedError, zlib.error, ...) for damaged bytes
+                if isinstance(exc, MemoryError):
+                    raise
                 raise InputError(f"{p}: entry {name!r} is damaged ({exc})") from None
             if len(raw) != count * dtype.itemsize:
                 raise InputError(f"{p}: entry {name!r} ends early")
