@@ -293,8 +293,11 @@ def check_array(
         For values that are not real numbers, the wrong dimension or size, or a non-finite entry (named by index).
     """
     try:
-        arr = np.asarray(value, dtype=float)
-    except (TypeError, ValueError) as exc:
+        raw = np.asarray(value)
+        if raw.dtype.kind not in "iuf":  # complex, boolean, text and objects are refused, never converted
+            raise TypeError(f"an array of {raw.dtype}")
+        arr = np.asarray(raw, dtype=float)
+    except (TypeError, ValueError, OverflowError) as exc:
         raise InputError(f"{name} must be an array of real numbers; got {_show(value)}") from exc
     if arr.ndim != ndim:
         raise InputError(f"{name} must be {ndim}-dimensional; got shape {arr.shape}")
