@@ -42,6 +42,7 @@ from __future__ import annotations
 import json
 import math
 import os
+from collections.abc import Mapping
 from pathlib import Path
 from typing import Literal, overload
 
@@ -210,13 +211,13 @@ def _edges(header: dict, key: str, p: Path) -> np.ndarray:
     return np.asarray(v, dtype=float)
 
 
-def _time_problem(data: dict[str, np.ndarray | None], f: float, cycles: float) -> tuple[int, str] | None:
+def _time_problem(data: Mapping[str, np.ndarray | None], f: float, cycles: float) -> tuple[int, str] | None:
     """The first event (index, reason) whose known time or cycle breaks the rules of :func:`pdvoid.read_events`
     (times >= 0, non-decreasing, inside the observation; phase and cycle agreeing with the time within its
     tolerances; cycles whole and inside the observation), or None. NaN marks an unknown value."""
     from pdvoid.io.delimited import CYCLE_TOLERANCE, PHASE_TOLERANCE_DEG
 
-    t, cyc, ph = data.get("time"), data.get("cycle"), data["phase"]
+    t, cyc, ph = data.get("time"), data.get("cycle"), np.asarray(data["phase"])
     end = cycles / f
     if t is not None:
         if np.any(np.isinf(t)):
