@@ -14,7 +14,7 @@ from typing import cast
 import numpy as np
 
 from pdvoid.coefficients import Coefficients, compute_coefficients
-from pdvoid.core.errors import InputError
+from pdvoid.core.errors import InputError, check_array, check_int, check_real
 from pdvoid.core.files import atomic_write, check_run_file
 from pdvoid.core.limits import MAX_DEFLATE_RATIO, MAX_RESULT_FILE_BYTES, check_memory, format_bytes
 from pdvoid.inputs.scenario import Scenario
@@ -56,6 +56,21 @@ class Histogram:
     charge_edges: np.ndarray
     below: int = 0
     above: int = 0
+
+    def __post_init__(self) -> None:
+        counts = np.asarray(self.counts)
+        if counts.dtype.kind not in "iu" or counts.ndim != 2:
+            raise InputError(f"counts must be a 2-D array of whole numbers; got {counts.dtype} of shape "
+                             f"{counts.shape}")
+        pe = check_array("phase_edges_deg", self.phase_edges_deg, min_size=2)
+        ce = check_array("charge_edges", self.charge_edges, min_size=2)
+        if counts.shape != (pe.size - 1, ce.size - 1):
+            raise InputError(f"counts of shape {counts.shape} do not match {pe.size} phase and {ce.size} charge "
+                             "edges")
+        if counts.size and counts.min() < 0:
+            raise InputError("counts must be >= 0")
+        object.__setattr__(self, "below", check_int("below", self.below, 0))
+        object.__setattr__(self, "above", check_int("above", self.above, 0))
 
 
 @dataclass(frozen=True, eq=False)
@@ -110,6 +125,29 @@ class Result:
     sum_charge_squared: float
     sum_charge_voltage: float
     first_discharge_time: float = math.nan
+
+    def __post_init__(self) -> None:
+        from pdvoid.inputs.parameters import check_seed
+
+        if not isinstance(self.events, Events):
+            raise InputError(f"events must be pdvoid.Events; got {type(self.events).__name__}")
+        if not isinstance(self.scenario, Scenario):
+            raise InputError(f"scenario must be a pdvoid.Scenario; got {type(self.scenario).__name__}")
+        if self.histogram is not None and not isinstance(self.histogram, Histogram):
+            raise InputError(f"histogram must be a Histogram or None; got {type(self.histogram).__name__}")
+        if not isinstance(self.version, str):
+            raise InputError(f"version must be text; got {type(self.version).__name__}")
+        if not isinstance(self.references, tuple) or not all(isinstance(r, str) for r in self.references):
+            raise InputError("references must be a tuple of text")
+        check_seed(self.seed)
+        requested = check_int("requested_cycles", self.requested_cycles, 1)
+        check_int("cycles", self.cycles, 0, requested)
+        check_int("event_count", self.event_count, 0)
+        for name in ("sum_abs_charge", "sum_charge_squared", "sum_charge_voltage"):
+            check_real(name, getattr(self, name))
+        t = self.first_discharge_time
+        if isinstance(t, bool) or not isinstance(t, (int, float, np.floating)):
+            raise InputError(f"first_discharge_time must be a number or nan; got {t!r}")
 
     # event arrays, straight from the events
     @property
