@@ -34,7 +34,8 @@ from scipy.optimize import differential_evolution, minimize
 
 from pdvoid.analysis.compare import PatternSource, compare, summarise
 from pdvoid.analysis.synthetic import measurement_effects
-from pdvoid.core.errors import InputError, check_int, check_nonnegative, check_positive
+from pdvoid.core.errors import InputError, check_bool, check_int, check_nonnegative, check_positive
+from pdvoid.inputs.parameters import check_seed
 from pdvoid.inputs.scenario import Scenario
 from pdvoid.simulation.events import Events
 from pdvoid.simulation.simulate import simulate
@@ -270,6 +271,9 @@ def _specs(scenario: Scenario, vary: dict) -> tuple[_Spec, ...]:
     return tuple(specs)
 
 
+_DETECTOR_KEYS = {"noise", "relative_noise", "phase_resolution_deg"}
+
+
 def fit(
     measured: PatternSource,
     scenario: Scenario,
@@ -344,6 +348,17 @@ def fit(
     noise_seeds = check_int("noise_seeds", noise_seeds, 2, 1000)
     acceptance = check_positive("acceptance", acceptance)
     tolerance = check_nonnegative("tolerance", tolerance)
+    seed = check_seed(seed)
+    polish = check_bool("polish", polish)
+    if workers is not None:
+        workers = check_int("workers", workers, 1, 1024)
+    if detector is not None:
+        if not isinstance(detector, dict) or not set(detector) <= _DETECTOR_KEYS:
+            raise InputError(f"detector must be None or a dict with keys from {sorted(_DETECTOR_KEYS)}; got "
+                             f"{detector!r}"[:300])
+        # the detector model checks its own settings: try them once on no events, before any simulation
+        measurement_effects(Events(phase_deg=np.empty(0), charge=np.empty(0), frequency=50.0, cycles=1.0), seed,
+                            threshold=threshold, **detector)
     t0 = time.perf_counter()
     objective = FitObjective(measured, scenario, specs, threshold=threshold, cycles=cycles, seed=seed,
                              detector=detector)

@@ -20,6 +20,7 @@ import numpy as np
 
 from pdvoid.coefficients import compute_coefficients
 from pdvoid.core.errors import InputError, check_int, check_nonnegative, check_positive
+from pdvoid.core.limits import MAX_SEEDS as _MAX_SEEDS
 from pdvoid.inputs.scenario import Scenario
 from pdvoid.simulation.simulate import VoidRunner
 
@@ -27,7 +28,7 @@ __all__ = ["InceptionEstimate", "RampTest", "inception", "ramp_test", "probabili
            "time_above_inception_fraction"]
 
 #: most repeated tests (seeds) one stepped-voltage test may run [-]
-MAX_SEEDS = 1000
+MAX_SEEDS = _MAX_SEEDS
 
 
 @dataclass(frozen=True)

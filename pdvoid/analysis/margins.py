@@ -100,7 +100,7 @@ def _check_parameter(scenario: Scenario, parameter: object) -> None:
                for f in fields(getattr(scenario, part))
                if isinstance(getattr(getattr(scenario, part), f.name), float)}
     numeric |= {"void.size", "supply.frequency"}
-    if parameter not in numeric:
+    if not isinstance(parameter, str) or parameter not in numeric:
         raise InputError(f"parameter must be one of {sorted(numeric)}; got {parameter!r}")
 
 
@@ -236,6 +236,8 @@ def largest_pd_free_void(scenario: Scenario, test_voltage: float) -> LargestVoid
     InputError
         For a test voltage <= 0.
     """
+    if not isinstance(scenario, Scenario):
+        raise InputError(f"scenario must be a pdvoid.Scenario; got {type(scenario).__name__}")
     test_voltage = check_positive("test_voltage", test_voltage, "V")
     host_note = warn_host_strength(scenario.insulation, test_voltage * supply_peak_factor(scenario.supply),
                                    "at the test level")
@@ -325,6 +327,8 @@ def design_margin(scenario: Scenario, nominal_voltage: float, test_factor: float
     InputError
         For a nominal voltage or test factor <= 0.
     """
+    if not isinstance(scenario, Scenario):
+        raise InputError(f"scenario must be a pdvoid.Scenario; got {type(scenario).__name__}")
     nominal_voltage = check_positive("nominal_voltage", nominal_voltage, "V")
     test_factor = check_positive("test_factor", test_factor)
     c = compute_coefficients(scenario)

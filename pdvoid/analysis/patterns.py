@@ -19,6 +19,7 @@ import numpy as np
 
 from pdvoid.core.arrays import frozen_array as _frozen
 from pdvoid.core.errors import InputError, check_bool, check_choice, check_int, check_real
+from pdvoid.core.limits import MAX_BINS, check_memory
 from pdvoid.simulation.events import Events, as_events
 from pdvoid.simulation.results import Result
 
@@ -42,7 +43,7 @@ DISTRIBUTION_NAMES: tuple[str, ...] = ("H_n", "H_qn", "H_qmax")
 #: the two voltage half cycles
 HALVES: tuple[str, ...] = ("+", "-")
 
-_MAX_BINS = 100_000
+_MAX_BINS = MAX_BINS
 
 
 
@@ -281,6 +282,8 @@ def pattern(
     ncharge = check_int("charge_bins", charge_bins, 2, _MAX_BINS)
     if ncharge % 2:
         raise InputError(f"charge_bins must be even (half the bins per polarity); got {ncharge}")
+    # the two halves, their joined copy, the rounded counts and the per-cycle values: five arrays of 8 bytes
+    check_memory(f"a pattern of {nphase} phase x {ncharge} charge bins", 5 * 8 * nphase * ncharge)
     scale = check_choice("charge_scale", charge_scale, ("log", "linear"))
     per = check_bool("per_cycle", per_cycle)
     m = ncharge // 2

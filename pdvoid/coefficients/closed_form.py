@@ -69,8 +69,13 @@ def compute_coefficients(scenario: Scenario) -> Coefficients:
     ------
     InputError
         When the scenario's geometry lies outside the closed forms (e.g. a spheroid too tall for its network
-        equivalent when the model needs it), or the inception criterion has no data for the gas.
+        equivalent when the model needs it), or the inception criterion has no data for the gas; for anything
+        that is not a Scenario.
     """
+    from pdvoid.inputs.scenario import Scenario
+
+    if not isinstance(scenario, Scenario):
+        raise InputError(f"scenario must be a pdvoid.Scenario; got {type(scenario).__name__}")
     ins, void, model = scenario.insulation, scenario.void, scenario.model
     d, er = ins.thickness, ins.permittivity
     if er is None:  # Insulation fills it in from its material; never None after construction

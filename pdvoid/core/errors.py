@@ -57,7 +57,11 @@ def check_real(name: str, value: object) -> float:
     """
     if isinstance(value, bool) or not isinstance(value, (int, float, np.integer, np.floating)):
         raise InputError(f"{name} must be a real number; got {_show(value)} of type {type(value).__name__}")
-    x = float(value)
+    try:
+        x = float(value)
+    except OverflowError:  # an int beyond the float range
+        raise InputError(f"{name} must be a finite real number; got an integer of {len(str(abs(int(value))))} "
+                         "digits, beyond the float range") from None
     if not math.isfinite(x):
         raise InputError(f"{name} must be finite; got {x!r}")
     return x
@@ -157,7 +161,7 @@ def check_range(
     InputError
         For a non-number or a value outside the interval, naming the interval and ``unit``.
     """
-    if allow_inf and isinstance(value, (int, float, np.floating)) and float(value) == math.inf:
+    if allow_inf and isinstance(value, (float, np.floating)) and float(value) == math.inf:
         x = math.inf
     else:
         x = check_real(name, value)
@@ -289,8 +293,11 @@ def check_array(
         For values that are not real numbers, the wrong dimension or size, or a non-finite entry (named by index).
     """
     try:
-        arr = np.asarray(value, dtype=float)
-    except (TypeError, ValueError) as exc:
+        raw = np.asarray(value)
+        if raw.dtype.kind not in "iuf":  # complex, boolean, text and objects are refused, never converted
+            raise TypeError(f"an array of {raw.dtype}")
+        arr = np.asarray(raw, dtype=float)
+    except (TypeError, ValueError, OverflowError) as exc:
         raise InputError(f"{name} must be an array of real numbers; got {_show(value)}") from exc
     if arr.ndim != ndim:
         raise InputError(f"{name} must be {ndim}-dimensional; got shape {arr.shape}")

@@ -21,6 +21,7 @@ from typing import Any
 
 from pdvoid.core.errors import InputError
 from pdvoid.core.files import read_toml_file
+from pdvoid.core.limits import MAX_TEXT_FILE_BYTES
 
 __all__ = [
     "STATUSES",
@@ -38,7 +39,7 @@ __all__ = [
 
 STATUSES = ("confirmed", "derived", "from memory", "common practice")
 IONIZATION_MODELS = ("morrow_lowke_air", "sf6_linear")
-MAX_FILE_BYTES = 1_000_000
+MAX_FILE_BYTES = MAX_TEXT_FILE_BYTES  #: largest parameter file [bytes] (see pdvoid.core.limits)
 _NAME = re.compile(r"^[a-z][a-z0-9_]{0,63}$")
 _MATERIALS_SCHEMA = "pdvoid.materials/1"
 _GASES_SCHEMA = "pdvoid.gases/1"
@@ -188,7 +189,12 @@ _STRENGTH_SPEC = ("V/m", 1e6, 1e10, False, False)
 
 # ----------------------------------------------------------------------------------------- file reading
 def _read_toml(path: str | os.PathLike[str]) -> tuple[str, dict[str, Any]]:
-    data = read_toml_file(path, MAX_FILE_BYTES, "parameter file")  # bounded, regular files only, BOM accepted
+    try:
+        data = read_toml_file(path, MAX_FILE_BYTES, "parameter file")  # bounded, regular files only, BOM accepted
+    except InputError:
+        raise
+    except ValueError as exc:  # e.g. an integer of more digits than Python converts (int_max_str_digits)
+        raise InputError(f"{path}: malformed TOML (the parameter file is not valid TOML): {exc}") from None
     return str(Path(path)), data
 
 

@@ -26,6 +26,7 @@ from typing import TYPE_CHECKING, Any
 
 from pdvoid.core.errors import InputError
 from pdvoid.core.files import atomic_write, read_toml_file
+from pdvoid.core.limits import MAX_TEXT_FILE_BYTES
 from pdvoid.core.units import parse_quantity
 from pdvoid.inputs.model_parameters import model_class, model_kinds
 from pdvoid.inputs.parameters import Insulation, Periodic, Sine, Void
@@ -36,7 +37,7 @@ if TYPE_CHECKING:
 __all__ = ["read_scenario_parts", "parts_from_dict", "scenario_to_dict", "write_scenario_file", "field_schema",
            "quantity_value"]
 
-MAX_FILE_BYTES = 1_000_000
+MAX_FILE_BYTES = MAX_TEXT_FILE_BYTES  #: largest scenario file [bytes] (see pdvoid.core.limits)
 
 # key -> (dimension, SI unit written to files); None dimension = not a quantity (text, bool, list)
 _DIMS: dict[str, dict[str, tuple[str | None, str]]] = {
@@ -200,7 +201,12 @@ def read_scenario_parts(path: str | os.PathLike[str]) -> dict[str, Any]:
         errors: line and column).
     """
     p = Path(path) if isinstance(path, (str, os.PathLike)) else path
-    data = read_toml_file(p, MAX_FILE_BYTES, "scenario file")
+    try:
+        data = read_toml_file(p, MAX_FILE_BYTES, "scenario file")
+    except InputError:
+        raise
+    except ValueError as exc:  # e.g. an integer of more digits than Python converts (int_max_str_digits)
+        raise InputError(f"{p}: malformed TOML (the scenario file is not valid TOML): {exc}") from None
     return parts_from_dict(data, source=str(p))
 
 

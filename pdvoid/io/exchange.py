@@ -42,6 +42,7 @@ from __future__ import annotations
 import json
 import math
 import os
+from collections.abc import Mapping
 from pathlib import Path
 from typing import Literal, overload
 
@@ -51,7 +52,7 @@ from pdvoid.core.errors import InputError
 from pdvoid.core.files import atomic_write
 from pdvoid.io import lines as L
 from pdvoid.io.columns import SI_UNITS, column_label, parse_column
-from pdvoid.io.matrix import PatternMatrix
+from pdvoid.io.matrix import MAX_COUNT, PatternMatrix
 from pdvoid.simulation.events import Events, as_events
 from pdvoid.simulation.results import Result
 
@@ -125,6 +126,10 @@ def write_exchange(
         obj = data
     else:
         obj = as_events(data)
+        problem = _time_problem({"time": obj.time, "cycle": obj.cycle, "phase": obj.phase_deg}, obj.frequency,
+                                obj.cycles)
+        if problem is not None:
+            raise InputError(f"event {problem[0]} cannot be written: {problem[1]} (the reader would refuse it)")
     if threshold is None:
         threshold = obj.extra.get("threshold") if isinstance(obj.extra, dict) else None
     if threshold is not None and (
@@ -204,6 +209,45 @@ def _edges(header: dict, key: str, p: Path) -> np.ndarray:
     if not isinstance(v, list) or not all(isinstance(x, (int, float)) and not isinstance(x, bool) for x in v):
         raise L.line_error(p, None, f"header {key!r} must be a list of numbers")
     return np.asarray(v, dtype=float)
+
+
+def _time_problem(data: Mapping[str, np.ndarray | None], f: float, cycles: float) -> tuple[int, str] | None:
+    """The first event (index, reason) whose known time or cycle breaks the rules of :func:`pdvoid.read_events`
+    (times >= 0, non-decreasing, inside the observation; phase and cycle agreeing with the time within its
+    tolerances; cycles whole and inside the observation), or None. NaN marks an unknown value."""
+    from pdvoid.io.delimited import CYCLE_TOLERANCE, PHASE_TOLERANCE_DEG
+
+    t, cyc, ph = data.get("time"), data.get("cycle"), np.asarray(data["phase"])
+    end = cycles / f
+    if t is not None:
+        if np.any(np.isinf(t)):
+            return int(np.argmax(np.isinf(t))), "time must be finite (or nan: unknown)"
+        known = np.flatnonzero(~np.isnan(t))
+        tk = t[known]
+        ph_t = (tk * f - np.floor(tk * f)) * 360.0
+        off = np.abs(ph_t - ph[known])
+        off = np.minimum(off, 360.0 - off)
+        for bad, why in (((tk < 0.0), "time before the start of the observation (< 0 s)"),
+                         ((tk > end * (1.0 + 1e-12)), f"time after the end of the observation ({end!r} s)"),
+                         (np.r_[False, np.diff(tk) < 0.0], "time earlier than the event before"),
+                         ((off > PHASE_TOLERANCE_DEG), f"phase does not match the time at {f!r} Hz")):
+            if bad.any():
+                return int(known[np.argmax(bad)]), why
+    if cyc is not None:
+        if np.any(np.isinf(cyc)):
+            return int(np.argmax(np.isinf(cyc))), "cycle must be finite (or nan: unknown)"
+        known = np.flatnonzero(~np.isnan(cyc))
+        ck = cyc[known]
+        bad = (ck != np.floor(ck)) | (ck < 0) | (ck >= max(cycles, 1.0))
+        if bad.any():
+            return int(known[np.argmax(bad)]), f"cycle must be a whole number from 0 to below {cycles:g}"
+        if t is not None:
+            both = np.flatnonzero(~np.isnan(t) & ~np.isnan(cyc))
+            gap = np.abs(cyc[both] + ph[both] / 360.0 - t[both] * f)
+            bad = gap > CYCLE_TOLERANCE
+            if bad.any():
+                return int(both[np.argmax(bad)]), "cycle does not match the time"
+    return None
 
 
 def read_exchange(path: str | os.PathLike) -> Events | PatternMatrix:
@@ -295,9 +339,10 @@ def read_exchange(path: str | os.PathLike) -> Events | PatternMatrix:
         counts, linenos = parser.result()
         if counts.shape[0] != pe.size - 1:
             raise L.line_error(p, None, f"{counts.shape[0]} count rows; the header says {pe.size - 1}")
-        bad = (counts < 0) | (counts != np.floor(counts))
+        bad = (counts < 0) | (counts != np.floor(counts)) | (counts > MAX_COUNT)
         if bad.any():
-            raise L.line_error(p, int(linenos[np.argwhere(bad)[0][0]]), "counts must be whole numbers >= 0")
+            raise L.line_error(p, int(linenos[np.argwhere(bad)[0][0]]), "counts must be whole numbers from 0 to "
+                               "2**53")
         summary.update(
             {"phase bins": pe.size - 1, "charge bins": ce.size - 1, "discharges counted": int(counts.sum())}
         )
@@ -334,6 +379,9 @@ def read_exchange(path: str | os.PathLike) -> Events | PatternMatrix:
     bad = (ph < 0.0) | (ph >= 360.0)
     if bad.any():
         raise L.line_error(p, int(linenos[np.argmax(bad)]), "phase outside [0, 360) deg")
+    problem = _time_problem(data, f, cycles)
+    if problem is not None:
+        raise L.line_error(p, int(linenos[problem[0]]), problem[1])
     summary.update({"columns": list(columns), "events": rows})
     try:
         return Events(

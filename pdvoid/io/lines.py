@@ -18,6 +18,7 @@ from pathlib import Path
 import numpy as np
 
 from pdvoid.core.errors import InputError
+from pdvoid.core.limits import MAX_DATA_FILE_BYTES
 
 __all__ = [
     "MAX_FILE_BYTES",
@@ -33,7 +34,7 @@ __all__ = [
     "split_fields",
 ]
 
-MAX_FILE_BYTES = 200 * 1024**2  #: largest file read [bytes] (200 MiB)
+MAX_FILE_BYTES = MAX_DATA_FILE_BYTES  #: largest file read [bytes] (200 MiB; pdvoid.core.limits)
 MAX_LINE_CHARS = 10_000  #: longest line [characters], line end excluded
 MAX_ROWS = 50_000_000  #: most data rows (events, or count rows) in one file
 CHUNK_ROWS = 1 << 16  #: rows parsed at once by numpy

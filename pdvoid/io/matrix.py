@@ -93,10 +93,7 @@ class PatternMatrix:
                 f"counts must have shape (phase bins, charge bins) = ({pe.size - 1}, {ce.size - 1}); "
                 f"got {c.shape}"
             )
-        cf = np.asarray(c, dtype=float)
-        if not np.all(np.isfinite(cf)) or np.any(cf < 0) or np.any(cf != np.floor(cf)):
-            raise InputError("counts must be whole numbers >= 0")
-        object.__setattr__(self, "counts", _frozen(cf, np.int64))
+        object.__setattr__(self, "counts", _frozen(_checked_counts(c), np.int64))
         object.__setattr__(self, "phase_edges_deg", _frozen(pe))
         object.__setattr__(self, "charge_edges", _frozen(ce))
         if not isinstance(self.label, str):
@@ -180,6 +177,45 @@ class PatternMatrix:
             label=self.label or "events at the centres of a count matrix",
             extra={"from matrix": True},
         )
+
+
+#: the largest count a matrix may hold, in one bin and in total [-]: 2**53, exact as a float and far from the
+#: int64 wrap at 2**63 (a count read as text passes through a float)
+MAX_COUNT = 2**53
+
+
+def _checked_counts(counts: np.ndarray) -> np.ndarray:
+    """Counts as int64 after checking them: whole numbers >= 0, real (no complex, bool or text), each and their
+    total at most :data:`MAX_COUNT` (so that no sum wraps).
+
+    Parameters
+    ----------
+    counts : numpy.ndarray
+        The counts, integer or float [-].
+
+    Returns
+    -------
+    numpy.ndarray
+        The counts as int64 [-].
+
+    Raises
+    ------
+    InputError
+        For anything else.
+    """
+    c = np.asarray(counts)
+    if c.dtype.kind not in "iuf":
+        raise InputError(f"counts must be whole numbers >= 0; got an array of {c.dtype}")
+    if c.size == 0:
+        return c.astype(np.int64)
+    if c.dtype.kind == "f" and (not np.all(np.isfinite(c)) or np.any(c != np.floor(c))):
+        raise InputError("counts must be whole numbers >= 0")
+    if c.min() < 0:
+        raise InputError("counts must be whole numbers >= 0")
+    if c.max() > MAX_COUNT or float(c.sum(dtype=np.float64)) > MAX_COUNT:
+        raise InputError(f"counts must be at most 2**53 = {MAX_COUNT} in each bin and in total; got "
+                         f"{float(c.max()):.6g} in one bin, {float(c.sum(dtype=np.float64)):.6g} in total")
+    return c.astype(np.int64)
 
 
 def matrix_from_events(
@@ -321,10 +357,10 @@ def read_pattern_matrix(
     if counts.shape[0] != n_phase:
         where = int(linenos[n_phase]) if counts.shape[0] > n_phase else None
         raise L.line_error(p, where, f"{counts.shape[0]} count rows for {n_phase} phase bins")
-    bad = (counts < 0) | (counts != np.floor(counts))
+    bad = (counts < 0) | (counts != np.floor(counts)) | (counts > MAX_COUNT)
     if bad.any():
         bad_row = int(np.argwhere(bad)[0][0])
-        raise L.line_error(p, int(linenos[bad_row]), "counts must be whole numbers >= 0")
+        raise L.line_error(p, int(linenos[bad_row]), "counts must be whole numbers from 0 to 2**53")
     f, f_src = keys.quantity("frequency", opt_frequency)
     c, c_src = keys.quantity("cycles", opt_cycles)
     if f is None:

@@ -16,6 +16,13 @@ from pdvoid.core.errors import InputError, check_positive
 __all__ = ["Events", "as_events"]
 
 
+def _real(name: str, value: object) -> np.ndarray:
+    """``value`` as a float array; complex, boolean, text and object entries are refused, never converted."""
+    arr = np.asarray(value)
+    if arr.dtype.kind not in "iuf":
+        raise InputError(f"{name} must hold real numbers; got an array of {arr.dtype} (complex, boolean and text "
+                         "values are refused, not converted)")
+    return np.asarray(arr, dtype=float)
 
 
 @dataclass(frozen=True, eq=False)
@@ -59,12 +66,16 @@ class Events:
     extra: dict = field(default_factory=dict)
 
     def __post_init__(self) -> None:
+        if not isinstance(self.label, str):
+            raise InputError(f"label must be text; got {type(self.label).__name__}")
+        if not isinstance(self.extra, dict):
+            raise InputError(f"extra must be a dict; got {type(self.extra).__name__}")
         f = check_positive("frequency", self.frequency, "Hz")
         c = check_positive("cycles", self.cycles)
         object.__setattr__(self, "frequency", f)
         object.__setattr__(self, "cycles", c)
-        phase = np.asarray(self.phase_deg, dtype=float)
-        charge = np.asarray(self.charge, dtype=float)
+        phase = _real("phase_deg", self.phase_deg)
+        charge = _real("charge", self.charge)
         if phase.ndim != 1 or charge.ndim != 1 or phase.shape != charge.shape:
             raise InputError(
                 f"phase_deg and charge must be 1-D arrays of equal length; got shapes {phase.shape} and "
@@ -83,7 +94,7 @@ class Events:
             if v is None:
                 arr = np.full(n, np.nan)
             else:
-                arr = np.asarray(v, dtype=float)
+                arr = _real(name, v)
                 if arr.shape != (n,):
                     raise InputError(f"{name} must have shape ({n},) like phase_deg; got {arr.shape}")
             filled[name] = _frozen(arr)

@@ -5,6 +5,7 @@ from __future__ import annotations
 import json
 import math
 import os
+import stat
 import zipfile
 from dataclasses import dataclass
 from pathlib import Path
@@ -13,8 +14,9 @@ from typing import cast
 import numpy as np
 
 from pdvoid.coefficients import Coefficients, compute_coefficients
-from pdvoid.core.errors import InputError
+from pdvoid.core.errors import InputError, check_array, check_int, check_real
 from pdvoid.core.files import atomic_write, check_run_file
+from pdvoid.core.limits import MAX_DEFLATE_RATIO, MAX_RESULT_FILE_BYTES, check_memory, format_bytes
 from pdvoid.inputs.scenario import Scenario
 from pdvoid.simulation.events import Events
 
@@ -27,7 +29,7 @@ _CSV_HEADER = {
     "time": "time [s]", "phase_deg": "phase [deg]", "cycle": "cycle [-]", "charge": "charge [C]",
     "voltage": "voltage [V]", "field_before": "field_before [V/m]", "field_after": "field_after [V/m]",
 }
-MAX_RESULT_FILE = 4 * 1024**3  # bytes
+MAX_RESULT_FILE = MAX_RESULT_FILE_BYTES  # bytes (pdvoid.core.limits)
 
 
 @dataclass(frozen=True, eq=False)
@@ -54,6 +56,21 @@ class Histogram:
     charge_edges: np.ndarray
     below: int = 0
     above: int = 0
+
+    def __post_init__(self) -> None:
+        counts = np.asarray(self.counts)
+        if counts.dtype.kind not in "iu" or counts.ndim != 2:
+            raise InputError(f"counts must be a 2-D array of whole numbers; got {counts.dtype} of shape "
+                             f"{counts.shape}")
+        pe = check_array("phase_edges_deg", self.phase_edges_deg, min_size=2)
+        ce = check_array("charge_edges", self.charge_edges, min_size=2)
+        if counts.shape != (pe.size - 1, ce.size - 1):
+            raise InputError(f"counts of shape {counts.shape} do not match {pe.size} phase and {ce.size} charge "
+                             "edges")
+        if counts.size and counts.min() < 0:
+            raise InputError("counts must be >= 0")
+        object.__setattr__(self, "below", check_int("below", self.below, 0))
+        object.__setattr__(self, "above", check_int("above", self.above, 0))
 
 
 @dataclass(frozen=True, eq=False)
@@ -108,6 +125,29 @@ class Result:
     sum_charge_squared: float
     sum_charge_voltage: float
     first_discharge_time: float = math.nan
+
+    def __post_init__(self) -> None:
+        from pdvoid.inputs.parameters import check_seed
+
+        if not isinstance(self.events, Events):
+            raise InputError(f"events must be pdvoid.Events; got {type(self.events).__name__}")
+        if not isinstance(self.scenario, Scenario):
+            raise InputError(f"scenario must be a pdvoid.Scenario; got {type(self.scenario).__name__}")
+        if self.histogram is not None and not isinstance(self.histogram, Histogram):
+            raise InputError(f"histogram must be a Histogram or None; got {type(self.histogram).__name__}")
+        if not isinstance(self.version, str):
+            raise InputError(f"version must be text; got {type(self.version).__name__}")
+        if not isinstance(self.references, tuple) or not all(isinstance(r, str) for r in self.references):
+            raise InputError("references must be a tuple of text")
+        check_seed(self.seed)
+        requested = check_int("requested_cycles", self.requested_cycles, 1)
+        check_int("cycles", self.cycles, 0, requested)
+        check_int("event_count", self.event_count, 0)
+        for name in ("sum_abs_charge", "sum_charge_squared", "sum_charge_voltage"):
+            check_real(name, getattr(self, name))
+        t = self.first_discharge_time
+        if isinstance(t, bool) or not isinstance(t, (int, float, np.floating)):
+            raise InputError(f"first_discharge_time must be a number or nan; got {t!r}")
 
     # event arrays, straight from the events
     @property
@@ -262,6 +302,8 @@ def load(path: str | os.PathLike[str]) -> Result:
     """
     from pdvoid.inputs.scenario import scenario_from_dict
 
+    if not isinstance(path, (str, os.PathLike)):
+        raise InputError(f"path must be a str or path; got {type(path).__name__}")
     p = Path(path)
     try:
         size = p.stat().st_size
@@ -269,18 +311,16 @@ def load(path: str | os.PathLike[str]) -> Result:
         raise InputError(f"{p}: cannot read result file ({exc.strerror})") from None
     if size > MAX_RESULT_FILE:
         raise InputError(f"{p}: result file larger than {MAX_RESULT_FILE} bytes")
+    if not stat.S_ISREG(p.stat().st_mode):
+        raise InputError(f"{p}: not a regular file (a result is a .npz file)")
     check_run_file(p)
-    try:
-        with np.load(p, allow_pickle=False) as z:
-            data = {k: z[k] for k in z.files}
-    except (OSError, ValueError, zipfile.BadZipFile, EOFError) as exc:
-        raise InputError(f"{p}: not a pdvoid result file ({exc})") from None
+    data = _read_arrays(p, size)
     if "metadata" not in data:
         raise InputError(f"{p}: not a pdvoid result file (no metadata entry)")
     try:
         meta = json.loads(data["metadata"].tobytes().decode("utf-8"))
-    except (UnicodeDecodeError, json.JSONDecodeError) as exc:
-        raise InputError(f"{p}: metadata is not valid JSON ({exc})") from None
+    except (ValueError, RecursionError) as exc:  # bad UTF-8, bad JSON, an integer of too many digits, deep nesting
+        raise InputError(f"{p}: metadata is not valid JSON ({type(exc).__name__}: {str(exc)[:200]})") from None
     if not isinstance(meta, dict) or meta.get("format") != _FORMAT:
         raise InputError(f"{p}: metadata does not describe a pdvoid result")
     if meta.get("format_version") != _FORMAT_VERSION:
@@ -291,30 +331,211 @@ def load(path: str | os.PathLike[str]) -> Result:
         raise InputError(f"{p}: missing event arrays {missing}")
     try:
         scenario = scenario_from_dict(meta["scenario"], source=str(p))
-        ev = Events(
-            phase_deg=data["phase_deg"], charge=data["charge"], frequency=scenario.supply.frequency,
-            cycles=float(meta["cycles"]), time=data["time"], cycle=data["cycle"], voltage=data["voltage"],
-            field_before=data["field_before"], field_after=data["field_after"], label=meta.get("label", ""),
-        )
+        cycles = _meta_int(meta, "cycles", 1)
+        requested = _meta_int(meta, "requested_cycles", 1)
+        if cycles > requested:
+            raise InputError(f"{p}: {cycles} cycles simulated but only {requested} requested")
+        _check_events(p, data, cycles, scenario.supply.frequency)
+        event_count = _meta_int(meta, "event_count", 0)
+        stored = int(data["charge"].size)
         hist = None
         if meta.get("histogram") is not None:
-            hist = Histogram(counts=data["hist_counts"], phase_edges_deg=data["hist_phase_edges_deg"],
-                             charge_edges=data["hist_charge_edges"], below=int(meta["histogram"]["below"]),
-                             above=int(meta["histogram"]["above"]))
+            hist = _histogram(p, data, meta["histogram"], event_count)
+        elif stored != event_count:
+            raise InputError(f"{p}: metadata counts {event_count} discharges but {stored} events are stored")
+        ev = Events(
+            phase_deg=data["phase_deg"], charge=data["charge"], frequency=scenario.supply.frequency,
+            cycles=float(cycles), time=data["time"],
+            cycle=data["cycle"], voltage=data["voltage"], field_before=data["field_before"],
+            field_after=data["field_after"], label=_meta_str(meta, "label", ""),
+        )
         if "first_discharge_time" in meta:  # written since the field exists; None: no discharge
             first = meta["first_discharge_time"]
-            first_time = math.nan if first is None else float.fromhex(first)
+            first_time = math.nan if first is None else _hex_float(meta, "first_discharge_time")
+            if not math.isnan(first_time) and not 0.0 <= first_time <= cycles / scenario.supply.frequency:
+                raise InputError(f"{p}: first discharge at {first_time!r} s lies outside the run")
         else:  # older file: the first stored event, else unknown
             first_time = float(ev.time[0]) if ev.time is not None and ev.time.size else math.nan
+        sums = {k: _hex_float(meta, k) for k in ("sum_abs_charge", "sum_charge_squared", "sum_charge_voltage")}
+        if sums["sum_abs_charge"] < 0.0 or sums["sum_charge_squared"] < 0.0:
+            raise InputError(f"{p}: negative sum of |q| or q^2 in the metadata")
+        if event_count == 0 and (sums["sum_abs_charge"] != 0.0 or sums["sum_charge_squared"] != 0.0):
+            raise InputError(f"{p}: no discharge counted but the charge sums are not zero")
+        refs = meta["references"]
+        if not isinstance(refs, list) or not all(isinstance(r, str) for r in refs):
+            raise InputError(f"{p}: references must be a list of text")
+        seed = meta["seed"]
+        if isinstance(seed, bool) or not isinstance(seed, int) or not 0 <= seed < 2**32:
+            raise InputError(f"{p}: seed must be a whole number in [0, 2**32); got {seed!r}")
         return Result(
-            events=ev, scenario=scenario, seed=int(meta["seed"]), cycles=int(meta["cycles"]),
-            requested_cycles=int(meta["requested_cycles"]), version=str(meta["version"]),
-            references=tuple(meta["references"]), histogram=hist, event_count=int(meta["event_count"]),
-            sum_abs_charge=float.fromhex(meta["sum_abs_charge"]),
-            sum_charge_squared=float.fromhex(meta["sum_charge_squared"]),
-            sum_charge_voltage=float.fromhex(meta["sum_charge_voltage"]), first_discharge_time=first_time,
+            events=ev, scenario=scenario, seed=seed, cycles=cycles, requested_cycles=requested,
+            version=_meta_str(meta, "version", None), references=tuple(refs), histogram=hist,
+            event_count=event_count, first_discharge_time=first_time, **sums,
         )
-    except (KeyError, TypeError, ValueError) as exc:
+    except (KeyError, TypeError, ValueError, OverflowError, AttributeError) as exc:
         if isinstance(exc, InputError):
-            raise
+            if str(exc).startswith(str(p)):
+                raise
+            raise InputError(f"{p}: {exc}") from None
         raise InputError(f"{p}: malformed result metadata ({exc!r})") from None
+
+
+# ---- reading a result file: headers first, then only what they promise -------------------------------------
+#: entry name -> (allowed dtypes, number of dimensions)
+_ARRAYS: dict[str, tuple[tuple[str, ...], int]] = {
+    **{name: (("<f8",), 1) for name in _EVENT_FIELDS},
+    "hist_counts": (("<i8",), 2),
+    "hist_phase_edges_deg": (("<f8",), 1),
+    "hist_charge_edges": (("<f8",), 1),
+    "metadata": (("|u1",), 1),
+}
+_MAX_METADATA_BYTES = 10_000_000
+
+
+def _read_arrays(p: Path, size: int) -> dict[str, np.ndarray]:
+    """The arrays of a result file, each checked from its header (name, dtype, shape, size) before it is read.
+
+    Only stored or deflated members are read; the arrays together must fit the memory budget, and a deflated
+    member may not claim more than :data:`~pdvoid.core.limits.MAX_DEFLATE_RATIO` bytes per compressed byte, so
+    that loading takes memory proportional to the file.
+    """
+    from numpy.lib import format as npformat
+
+    try:
+        zf = zipfile.ZipFile(p)
+    except (OSError, zipfile.BadZipFile, ValueError, EOFError, NotImplementedError, RuntimeError) as exc:
+        raise InputError(f"{p}: not a pdvoid result file ({exc})") from None
+    with zf:
+        infos = zf.infolist()
+        if len(infos) > len(_ARRAYS):
+            raise InputError(f"{p}: not a pdvoid result file ({len(infos)} entries; at most {len(_ARRAYS)})")
+        if "metadata.npy" not in {info.filename for info in infos}:
+            raise InputError(f"{p}: not a pdvoid result file (no metadata entry)")
+        plan = []
+        total = 0
+        for info in infos:
+            name = info.filename[:-4] if info.filename.endswith(".npy") else info.filename
+            if name not in _ARRAYS or not info.filename.endswith(".npy"):
+                raise InputError(f"{p}: not a pdvoid result file (unexpected entry {info.filename!r})")
+            if info.compress_type not in (zipfile.ZIP_STORED, zipfile.ZIP_DEFLATED):
+                raise InputError(f"{p}: entry {info.filename!r} uses a compression this reader does not accept "
+                                 "(stored or deflated only)")
+            if info.flag_bits & 0x1:
+                raise InputError(f"{p}: entry {info.filename!r} is encrypted")
+            if info.file_size > MAX_DEFLATE_RATIO * max(info.compress_size, 1) + 1024:
+                raise InputError(f"{p}: entry {info.filename!r} claims {format_bytes(info.file_size)} from "
+                                 f"{format_bytes(info.compress_size)}, more than deflate can give (corrupt file)")
+            total += info.file_size
+            plan.append((name, info))
+        check_memory(f"loading the result file {p} ({format_bytes(size)} on disk)", total)
+        data: dict[str, np.ndarray] = {}
+        for name, info in plan:
+            dtypes, ndim = _ARRAYS[name]
+            try:
+                with zf.open(info) as fh:
+                    version = npformat.read_magic(fh)
+                    if version == (1, 0):
+                        shape, fortran, dtype = npformat.read_array_header_1_0(fh, max_header_size=10_000)
+                    elif version == (2, 0):
+                        shape, fortran, dtype = npformat.read_array_header_2_0(fh, max_header_size=10_000)
+                    else:
+                        raise ValueError(f"array format version {version}")
+                    if dtype.str not in dtypes or len(shape) != ndim or fortran and ndim > 1:
+                        raise InputError(f"{p}: entry {name!r} holds {dtype.str} of shape {shape}; expected "
+                                         f"{' or '.join(dtypes)} with {ndim} dimension(s)")
+                    count = math.prod(shape)
+                    header_bytes = fh.tell()
+                    if count * dtype.itemsize != info.file_size - header_bytes:
+                        raise InputError(f"{p}: entry {name!r} declares shape {shape} ({count * dtype.itemsize} "
+                                         f"bytes) but holds {info.file_size - header_bytes} bytes")
+                    if name == "metadata" and count > _MAX_METADATA_BYTES:
+                        raise InputError(f"{p}: metadata entry larger than {_MAX_METADATA_BYTES} bytes")
+                    raw = fh.read(count * dtype.itemsize)
+            except InputError:
+                raise
+            except Exception as exc:  # noqa: BLE001 - numpy's header parser and zipfile raise many kinds
+                # (SyntaxError, tokenize.TokenError, NotImplementedError, zlib.error, ...) for damaged bytes
+                if isinstance(exc, MemoryError):
+                    raise
+                raise InputError(f"{p}: entry {name!r} is damaged ({exc})") from None
+            if len(raw) != count * dtype.itemsize:
+                raise InputError(f"{p}: entry {name!r} ends early")
+            data[name] = np.frombuffer(raw, dtype=dtype).reshape(shape)
+    return data
+
+
+def _meta_int(meta: dict, key: str, low: int) -> int:
+    value = meta[key]
+    if isinstance(value, bool) or not isinstance(value, int) or not low <= value <= 2**62:
+        raise InputError(f"{key} must be a whole number >= {low} in the metadata; got {value!r}")
+    return value
+
+
+def _meta_str(meta: dict, key: str, default: str | None) -> str:
+    value = meta.get(key, default) if default is not None else meta[key]
+    if not isinstance(value, str):
+        raise InputError(f"{key} must be text in the metadata; got {value!r}")
+    return value
+
+
+def _hex_float(meta: dict, key: str) -> float:
+    value = meta[key]
+    if not isinstance(value, str) or len(value) > 40:
+        raise InputError(f"{key} must be a float written in hex in the metadata; got {value!r}")
+    x = float.fromhex(value)
+    if not math.isfinite(x):
+        raise InputError(f"{key} must be finite in the metadata; got {value!r}")
+    return x
+
+
+def _check_events(p: Path, data: dict[str, np.ndarray], cycles: int, frequency: float) -> None:
+    """Event arrays of one length; times finite, >= 0, non-decreasing and inside the run; cycles matching them."""
+    n = data["charge"].size
+    for name in _EVENT_FIELDS:
+        if data[name].size != n:
+            raise InputError(f"{p}: event array {name!r} holds {data[name].size} values, charge {n}")
+    if n == 0:
+        return
+    t, cyc = data["time"], data["cycle"]
+    for name in ("time", "cycle", "charge", "phase_deg"):
+        if not np.all(np.isfinite(data[name])):
+            raise InputError(f"{p}: event array {name!r} is not finite everywhere")
+    if t[0] < 0.0 or np.any(np.diff(t) < 0.0):
+        raise InputError(f"{p}: event times must be >= 0 and non-decreasing")
+    end = cycles / frequency
+    if t[-1] > end * (1.0 + 1e-12):
+        raise InputError(f"{p}: an event at {t[-1]!r} s lies after the end of the {cycles} cycles ({end!r} s)")
+    if np.any(cyc != np.floor(t * frequency)) or cyc[-1] >= cycles:
+        raise InputError(f"{p}: event cycles must be the whole cycles of the event times, from 0 to {cycles - 1}")
+    frac = t * frequency - cyc
+    if np.any(np.abs(np.minimum(frac * 360.0, np.nextafter(360.0, 0.0)) - data["phase_deg"]) > 1e-6):
+        raise InputError(f"{p}: event phases do not match the event times at {frequency!r} Hz")
+
+
+def _histogram(p: Path, data: dict[str, np.ndarray], hmeta: object, event_count: int) -> Histogram:
+    if not isinstance(hmeta, dict):
+        raise InputError("histogram must be a table in the metadata")
+    for name in ("hist_counts", "hist_phase_edges_deg", "hist_charge_edges"):
+        if name not in data:
+            raise InputError(f"{p}: histogram metadata but no {name!r} array")
+    counts, pe, ce = data["hist_counts"], data["hist_phase_edges_deg"], data["hist_charge_edges"]
+    if counts.shape != (pe.size - 1, ce.size - 1) or pe.size < 2 or ce.size < 2:
+        raise InputError(f"{p}: histogram counts of shape {counts.shape} do not match {pe.size} phase and "
+                         f"{ce.size} charge edges")
+    for name, e in (("phase", pe), ("charge", ce)):
+        if not np.all(np.isfinite(e)) or np.any(np.diff(e) <= 0):
+            raise InputError(f"{p}: histogram {name} edges must be finite and strictly increasing")
+    if pe[0] != 0.0 or pe[-1] != 360.0:
+        raise InputError(f"{p}: histogram phase edges must run from 0 to 360 deg")
+    if counts.size and counts.min() < 0:
+        raise InputError(f"{p}: histogram counts must be >= 0")
+    below = _meta_int(hmeta, "below", 0)
+    above = _meta_int(hmeta, "above", 0)
+    # a sum in int64 could wrap: bound it in float64 first; below 2**62 the exact int64 sum cannot overflow
+    if counts.size and float(counts.sum(dtype=np.float64)) > 2.0**62:
+        raise InputError(f"{p}: histogram counts add up to more than 2**62 events")
+    total = int(counts.sum()) if counts.size else 0
+    if total + below + above != event_count:
+        raise InputError(f"{p}: histogram holds {total} + {below} below + {above} above events but the metadata "
+                         f"counts {event_count}")
+    return Histogram(counts=counts, phase_edges_deg=pe, charge_edges=ce, below=below, above=above)

@@ -10,6 +10,8 @@ from pdvoid._version import __version__
 from pdvoid.coefficients.closed_form import supply_peak_factor
 from pdvoid.coefficients.limits import warn_host_strength
 from pdvoid.core.errors import InputError, check_int, check_range
+from pdvoid.core.limits import MAX_CYCLES as _MAX_CYCLES
+from pdvoid.core.limits import MAX_HISTOGRAM_CHARGE_EDGES, MAX_HISTOGRAM_PHASE_BINS, check_memory
 from pdvoid.inputs.parameters import check_seed
 from pdvoid.inputs.scenario import Scenario
 from pdvoid.inputs.waveform import evaluate
@@ -21,9 +23,10 @@ from pdvoid.simulation.results import Histogram, Result
 
 __all__ = ["simulate", "VoidRunner", "MAX_CYCLES"]
 
-MAX_CYCLES = 10**9
+MAX_CYCLES = _MAX_CYCLES
 _BUFFER_EVENTS = 1 << 18  # events per kernel call when events are stored (grows by calls, not by copying)
 _MAX_STORED_EVENTS = 50_000_000
+_BYTES_PER_STORED_EVENT = 12 * 8
 _MAX_EVENTS_PER_CYCLE = 1_000_000  # about 1.6 GB of event arrays: beyond this use histogram mode
 
 
@@ -192,12 +195,18 @@ def simulate(
                        "at the supply's peak")
     bound = args.max_events_per_cycle(1.0)
     if histogram:
-        phase_bins = check_int("phase_bins", phase_bins, 1, 3600)
-        edges = _default_charge_edges(args) if charge_edges is None else np.asarray(charge_edges, dtype=float)
-        if edges.ndim != 1 or edges.size < 2 or edges.size > 10_001 or not np.all(np.isfinite(edges)) or np.any(
-            np.diff(edges) <= 0
-        ):
-            raise InputError("charge_edges must be 2 to 10001 finite, strictly increasing values [C]")
+        phase_bins = check_int("phase_bins", phase_bins, 1, MAX_HISTOGRAM_PHASE_BINS)
+        try:
+            edges = _default_charge_edges(args) if charge_edges is None else np.asarray(charge_edges, dtype=float)
+        except (TypeError, ValueError):
+            raise InputError("charge_edges must be an array of real numbers [C]") from None
+        if edges.ndim != 1 or edges.size < 2 or edges.size > MAX_HISTOGRAM_CHARGE_EDGES or not np.all(
+            np.isfinite(edges)
+        ) or np.any(np.diff(edges) <= 0):
+            raise InputError(f"charge_edges must be 2 to {MAX_HISTOGRAM_CHARGE_EDGES} finite, strictly increasing "
+                             "values [C]")
+        check_memory(f"a histogram of {phase_bins} phase x {edges.size - 1} charge bins", 8 * phase_bins
+                     * (edges.size - 1))
         counts = np.zeros((phase_bins, edges.size - 1), dtype=np.int64)
     else:
         edges = np.array([0.0, 1.0])
@@ -219,6 +228,9 @@ def simulate(
                 raise InputError(
                     f"more than {_MAX_STORED_EVENTS} events would be stored; use simulate(..., histogram=True)"
                 )
+            # each stored event: five arrays in the pieces, five after joining them, phase and cycle [8 bytes]
+            check_memory(f"storing {stored} events after {runner.cycle} of {cycles} cycles (use "
+                         "simulate(..., histogram=True) for long runs)", _BYTES_PER_STORED_EVENT * stored)
         if progress is not None:
             progress(runner.cycle, cycles)
         if should_stop is not None and should_stop():

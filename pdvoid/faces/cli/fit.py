@@ -76,7 +76,7 @@ def _cmd_fit(ns: argparse.Namespace) -> int:
     if truth and len(truth) == len(vary):
         doc["hidden (synthetic data)"] = truth
     if ns.json:
-        print(json.dumps(json_safe(doc), indent=2))
+        print(json.dumps(json_safe(doc), indent=2, allow_nan=False))
     else:
         print(r.table(truth if truth and len(truth) == len(vary) else None))
         for line in notes_lines(notes):
@@ -102,20 +102,21 @@ def register(sub: argparse._SubParsersAction[argparse.ArgumentParser]) -> None:
     f.add_argument("--threshold", type=options.charge, default="0C",
                    help="detection threshold of the measurement, e.g. 5pC (default 0C)")
     f.add_argument("--noise", type=options.charge, default=None, help="charge noise of the detector model, e.g. 2pC")
-    f.add_argument("--relative-noise", type=options.number(0.0, 10.0), default=0.0,
+    f.add_argument("--relative-noise", type=options.number(0.0, 1.0), default=0.0,
                    help="relative charge noise of the detector model, a ratio, e.g. 0.05 (default 0)")
-    f.add_argument("--phase-resolution", type=options.angle, default=None,
+    f.add_argument("--phase-resolution", type=options.phase_angle, default=None,
                    help="phase resolution of the detector model, e.g. 2deg")
-    f.add_argument("--cycles", type=options.integer(1), default=1000,
+    f.add_argument("--cycles", type=options.integer(10, 10_000_000), default=1000,
                    help="simulated cycles per evaluation (default 1000)")
     f.add_argument("--cycles-measured", type=options.integer(1), default=None,
                    help="cycles of a phase-only measured file (a count, e.g. 500)")
     f.add_argument("--frequency", type=options.frequency, default=None,
                    help="supply frequency of the measured file, e.g. 50Hz")
-    f.add_argument("--seed", type=options.integer(0), default=0, help="random seed (default 0)")
-    f.add_argument("--popsize", type=options.integer(1), default=8, help="population size per parameter (default 8)")
-    f.add_argument("--maxiter", type=options.integer(1), default=30, help="generations (default 30)")
-    f.add_argument("--workers", type=options.integer(1), default=1, help="worker processes (default 1)")
+    f.add_argument("--seed", type=options.seed, default=0, help="random seed (default 0)")
+    f.add_argument("--popsize", type=options.integer(4, 200), default=8,
+                   help="population size per parameter, 4 to 200 (default 8)")
+    f.add_argument("--maxiter", type=options.integer(1, 10_000), default=30, help="generations (default 30)")
+    f.add_argument("--workers", type=options.integer(1, 1024), default=1, help="worker processes (default 1)")
     f.add_argument("--out", default=None, help="write the fitted scenario (TOML) here")
     f.add_argument("--json", action="store_true")
     f.set_defaults(func=_cmd_fit)

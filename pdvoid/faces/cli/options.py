@@ -17,7 +17,7 @@ from pdvoid.core.errors import InputError
 from pdvoid.core.units import parse_quantity
 
 __all__ = ["QUANTITY_EXAMPLES", "quantity", "list_quantity", "voltage", "charge", "time", "frequency", "angle",
-           "integer", "number", "QuantityConverter"]
+           "phase_angle", "integer", "number", "seed", "QuantityConverter"]
 
 #: dimension → (a unit, another unit, the number in the second per one of the first, the SI unit): the
 #: suggestion of a refusal, e.g. 18 → "18kV or 18000V"
@@ -46,12 +46,16 @@ class QuantityConverter:
         The smallest value allowed [SI].
     allow_zero : bool
         Whether ``minimum`` itself (typically 0) is allowed [-].
+    maximum : float or None
+        The largest value allowed [SI]; None for no bound.
     """
 
-    def __init__(self, dimension: str, minimum: float = 0.0, allow_zero: bool = False) -> None:
+    def __init__(self, dimension: str, minimum: float = 0.0, allow_zero: bool = False,
+                 maximum: float | None = None) -> None:
         self.dimension = dimension
         self.minimum = minimum
         self.allow_zero = allow_zero
+        self.maximum = maximum
         self.__name__ = dimension  # argparse names the converter in "invalid <name> value" messages
 
     def __call__(self, text: str) -> float:
@@ -85,6 +89,9 @@ class QuantityConverter:
             bound = "at least" if self.allow_zero else "greater than"
             raise argparse.ArgumentTypeError(f"{text!r} must be {bound} {self.minimum:g} "
                                              f"{QUANTITY_EXAMPLES.get(self.dimension, ('', '', 1.0, 'SI'))[3]}")
+        if self.maximum is not None and value > self.maximum:
+            raise argparse.ArgumentTypeError(f"{text!r} must be at most {self.maximum:g} "
+                                             f"{QUANTITY_EXAMPLES.get(self.dimension, ('', '', 1.0, 'SI'))[3]}")
         return value
 
     def suggestion(self, text: str) -> str:
@@ -112,7 +119,8 @@ class QuantityConverter:
         return f"{x:g}{first} or {x * factor:g}{second}"
 
 
-def quantity(dimension: str, minimum: float = 0.0, allow_zero: bool = False) -> QuantityConverter:
+def quantity(dimension: str, minimum: float = 0.0, allow_zero: bool = False,
+             maximum: float | None = None) -> QuantityConverter:
     """A converter for a quantity of ``dimension`` that must be written with a unit.
 
     Parameters
@@ -123,13 +131,15 @@ def quantity(dimension: str, minimum: float = 0.0, allow_zero: bool = False) -> 
         The smallest value allowed [SI].
     allow_zero : bool
         Whether ``minimum`` itself is allowed [-].
+    maximum : float or None
+        The largest value allowed [SI]; None for no bound.
 
     Returns
     -------
     QuantityConverter
         The converter, for ``argparse``'s ``type=``.
     """
-    return QuantityConverter(dimension, minimum, allow_zero)
+    return QuantityConverter(dimension, minimum, allow_zero, maximum)
 
 
 #: a positive voltage with a unit, e.g. ``18kV`` [V]
@@ -142,6 +152,8 @@ time = quantity("time")
 frequency = quantity("frequency")
 #: an angle ≥ 0 with a unit, e.g. ``2deg`` [deg]
 angle = quantity("angle", allow_zero=True)
+#: a phase resolution from 0 to 360 deg with a unit, e.g. ``2deg`` [deg]
+phase_angle = quantity("angle", allow_zero=True, maximum=360.0)
 
 
 def integer(minimum: int = 0, maximum: int | None = None) -> Callable[[str], int]:
@@ -161,6 +173,8 @@ def integer(minimum: int = 0, maximum: int | None = None) -> Callable[[str], int
     """
     def convert(text: str) -> int:
         try:
+            if len(text) > 40:
+                raise ValueError(text)
             value = int(text.strip())
         except ValueError:
             raise argparse.ArgumentTypeError(f"{text!r} is not a whole number") from None
@@ -171,6 +185,16 @@ def integer(minimum: int = 0, maximum: int | None = None) -> Callable[[str], int
 
     convert.__name__ = "integer"
     return convert
+
+
+def _seed_converter() -> Callable[[str], int]:
+    convert = integer(0, 2**32 - 1)
+    convert.__name__ = "seed"
+    return convert
+
+
+#: a seed of the random generator: a whole number from 0 to 2**32 - 1 [-]
+seed = _seed_converter()
 
 
 def number(minimum: float = 0.0, maximum: float | None = None) -> Callable[[str], float]:

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import json
 import math
+import os
 from typing import Any
 
 import numpy as np
@@ -42,6 +43,12 @@ def json_safe(obj: object) -> object:
         return x if math.isfinite(x) else None
     if isinstance(obj, np.integer):
         return int(obj)
+    if isinstance(obj, np.bool_):
+        return bool(obj)
+    if isinstance(obj, os.PathLike):
+        return os.fspath(obj)
+    if isinstance(obj, (set, frozenset)):
+        return [json_safe(v) for v in sorted(obj, key=str)]
     return obj
 
 
@@ -58,7 +65,7 @@ def emit(doc: dict[str, Any], as_json: bool, text_lines: list[str]) -> None:
         The text report [-].
     """
     if as_json:
-        print(json.dumps(json_safe(doc), indent=2))
+        print(json.dumps(json_safe(doc), indent=2, allow_nan=False))
     else:
         print("\n".join(text_lines))
         print(SAFETY)

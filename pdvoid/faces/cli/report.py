@@ -53,9 +53,10 @@ def register(subparsers: argparse._SubParsersAction[argparse.ArgumentParser]) ->
         help="also write each chart as PNG or SVG next to the PDF",
     )
     p.add_argument(
-        "--cycles", type=options.integer(1), default=2000, help="cycles simulated at the test voltage (default 2000)"
+        "--cycles", type=options.integer(1, 1_000_000), default=2000,
+        help="cycles simulated at the test voltage (default 2000)",
     )
-    p.add_argument("--seed", type=options.integer(0), default=1, help="random seed (default 1)")
+    p.add_argument("--seed", type=options.seed, default=1, help="random seed (default 1)")
     p.set_defaults(func=_cmd_report)
     return p
 

@@ -13,6 +13,8 @@ from pdvoid._version import __version__
 from pdvoid.coefficients import compute_coefficients
 from pdvoid.core.errors import InputError
 from pdvoid.core.files import MANIFEST_NAME, RUN_FILES, FolderLock, atomic_write, scenario_digest, write_manifest
+from pdvoid.core.limits import MAX_CYCLES
+from pdvoid.faces.cli import options
 from pdvoid.faces.cli.output import SAFETY, json_safe, notes_lines, validity_notes
 from pdvoid.inputs.demo import DEMO_SERVICE_RMS, DEMO_TEST_RMS, demo_scenario
 
@@ -176,14 +178,16 @@ def register(sub: argparse._SubParsersAction[argparse.ArgumentParser]) -> None:
         The sub-parsers of the main parser (from ``ArgumentParser.add_subparsers``).
     """
     d = sub.add_parser("demo", help="run the built-in demo scenario (an invented example)")
-    d.add_argument("--cycles", type=int, default=2000, help="AC cycles to simulate (default 2000)")
-    d.add_argument("--seed", type=int, default=1, help="random seed (default 1)")
+    d.add_argument("--cycles", type=options.integer(1, MAX_CYCLES), default=2000,
+                   help="AC cycles to simulate (default 2000)")
+    d.add_argument("--seed", type=options.seed, default=1, help="random seed (default 1)")
     d.add_argument("--json", action="store_true", help="print JSON instead of text")
     d.set_defaults(func=_cmd_demo)
     s = sub.add_parser("simulate", help="simulate a scenario file and write result, events CSV and summary")
     s.add_argument("scenario", help="scenario TOML file")
-    s.add_argument("--cycles", type=int, default=1000)
-    s.add_argument("--seed", type=int, default=0)
+    s.add_argument("--cycles", type=options.integer(1, MAX_CYCLES), default=1000,
+                   help="AC cycles to simulate (default 1000)")
+    s.add_argument("--seed", type=options.seed, default=0, help="random seed (default 0)")
     s.add_argument("--out", required=True, help="output folder: result.npz, events.csv, summary.json and, written "
                    "last, manifest.json (file sizes and SHA-256); locked while the run writes")
     s.add_argument("--force", action="store_true", help="overwrite a run already in --out (default: refuse)")

@@ -5,14 +5,16 @@ from __future__ import annotations
 
 import time
 
+import numpy as np
 import pytest
 from hypothesis import HealthCheck, given, settings
 from hypothesis import strategies as st
 
+import pdvoid
 from pdvoid import InputError, Scenario
 from pdvoid.analysis import ramp_test
 from pdvoid.faces import cli
-from pdvoid.inputs.demo import demo_scenario, demo_scenario_path, demo_sweep_path
+from pdvoid.inputs.demo import demo_measured_path, demo_scenario, demo_scenario_path, demo_sweep_path
 from pdvoid.inputs.scenario_files import parts_from_dict
 from pdvoid.sweeps.files import read_sweep_file
 
@@ -193,3 +195,97 @@ def test_margin_rows_not_computed_say_why(capsys):
     out = capsys.readouterr().out
     assert "not computed: void.height must be smaller than insulation.thickness" in out
     assert "nan" not in out.split("largest discharge-free")[0]
+
+
+# ------------------------------------------------------------------ found by the API audit and the fuzz suite
+@pytest.mark.parametrize("call", [
+    lambda: pdvoid.Insulation(thickness=10**400, permittivity=4.2),  # OverflowError before
+    lambda: pdvoid.Void(diameter=1e-3, height=1e-3, pressure=10**400),
+    lambda: pdvoid.FieldModel(surface_decay_time=10**400),  # allow_inf path: OverflowError before
+    lambda: pdvoid.weibull_fit(10**400),  # check_array: OverflowError before
+    lambda: pdvoid.weibull_fit(np.array([1e-12 + 1j, 2e-12])),  # complex: imaginary part silently dropped before
+    lambda: pdvoid.weibull_fit([True, False, True]),  # booleans taken as 1 and 0 before
+    lambda: pdvoid.compute_coefficients("demo.toml"),  # AttributeError before
+    lambda: pdvoid.largest_pd_free_void(None, 18e3),  # AttributeError before
+    lambda: pdvoid.design_margin("x", 8e3),  # AttributeError before
+    lambda: pdvoid.margin_table(demo_scenario(), parameter=["void.size"]),  # TypeError (unhashable) before
+    lambda: pdvoid.load(3),  # TypeError before
+])
+def test_public_functions_refuse_with_input_error(call):
+    with pytest.raises(InputError):
+        call()
+
+
+@pytest.mark.parametrize("kwargs, words", [
+    ({"seed": True}, "seed"),  # True was taken as seed 1
+    ({"seed": -1}, "seed"),  # scipy's ValueError before
+    ({"seed": "5"}, "seed"),
+    ({"workers": True}, "workers"),  # True was taken as 1 worker
+    ({"workers": 0}, "workers"),
+    ({"polish": "no"}, "polish"),
+    ({"detector": {"nosie": 1e-12}}, "detector must be None or a dict with keys"),
+    ({"detector": {"phase_resolution_deg": 7.0}}, "phase_resolution_deg must divide 360"),
+    ({"detector": "strong"}, "detector"),
+])
+def test_fit_checks_its_arguments_before_any_simulation(kwargs, words):
+    sc = demo_scenario()
+    measured = pdvoid.read_events(demo_measured_path())
+    start = time.perf_counter()
+    with pytest.raises(InputError, match=words):
+        pdvoid.fit(measured, sc, {"void.height": (5e-4, 2e-3)}, cycles=10, popsize=4, maxiter=1, **kwargs)
+    assert time.perf_counter() - start < 5.0  # refused before the first simulation batch
+
+
+def test_scenario_file_with_an_integer_of_5000_digits(tmp_path, capsys):
+    # Python refuses to convert it (int_max_str_digits); it used to end in "internal error: ValueError"
+    p = _file(tmp_path, DEMO.replace('thickness = "6 mm"', "thickness = " + "9" * 5000))
+    with pytest.raises(InputError, match="malformed TOML"):
+        Scenario.from_file(p)
+    assert cli.main(["inception", str(p)]) == 2
+    assert "internal error" not in capsys.readouterr().err
+
+
+@pytest.mark.parametrize("argv, words", [
+    (["demo", "--seed", "-1"], "from 0 to 4294967295"),
+    (["demo", "--cycles", str(10**12)], "from 1 to 1000000000"),
+    (["simulate", "{demo}", "--seed", "x", "--out", "{tmp}/o"], "not a whole number"),
+    (["fit", "{measured}", "--scenario", "{demo}", "--vary", "void.height=0.5mm:2mm", "--seed", "-1"],
+     "from 0 to 4294967295"),
+    (["fit", "{measured}", "--scenario", "{demo}", "--vary", "void.height=0.5mm:2mm", "--workers", "0"],
+     "from 1 to 1024"),
+    (["fit", "{measured}", "--scenario", "{demo}", "--vary", "void.height=0.5mm:2mm", "--popsize", "2"],
+     "from 4 to 200"),
+    (["fit", "{measured}", "--scenario", "{demo}", "--vary", "void.height=0.5mm:2mm", "--phase-resolution",
+      "400deg"], "at most 360 deg"),
+    (["fit", "{measured}", "--scenario", "{demo}", "--vary", "void.height=0.5mm:2mm", "--relative-noise", "5"],
+     "from 0 to 1"),
+])
+def test_options_are_refused_at_parse_time(argv, words, tmp_path, capsys):
+    argv = [a.format(demo=demo_scenario_path(), measured=demo_measured_path(), tmp=tmp_path) for a in argv]
+    with pytest.raises(SystemExit) as exc:
+        cli.main(argv)
+    assert exc.value.code == 2
+    err = capsys.readouterr().err
+    assert words in err and "error: argument" in err
+
+
+def test_fit_phase_resolution_1deg_runs(capsys):
+    code = cli.main(["fit", str(demo_measured_path()), "--scenario", str(demo_scenario_path()), "--vary",
+                     "void.height=0.5mm:2mm", "--phase-resolution", "1deg", "--cycles", "10", "--popsize", "4",
+                     "--maxiter", "1", "--json"])
+    assert code == 0
+    assert "best" in capsys.readouterr().out
+
+
+def test_pattern_bins_are_checked_against_the_memory_budget(monkeypatch):
+    from pdvoid.simulation.events import Events
+
+    ev = Events(phase_deg=[10.0, 200.0], charge=[1e-12, -1e-12], frequency=50.0, cycles=1.0)
+    with pytest.raises(InputError, match=r"30000 phase x 30000 charge bins would take 3.6e\+04 GB|would take 36 GB"):
+        pdvoid.pattern(ev, phase_bins=30000, charge_bins=30000)  # used 21 GB
+    monkeypatch.setenv("PDVOID_MEMORY_LIMIT", "1MB")
+    with pytest.raises(InputError, match="PDVOID_MEMORY_LIMIT"):
+        pdvoid.pattern(ev, phase_bins=3600, charge_bins=1000)
+    with pytest.raises(InputError, match="a histogram of 3600 phase x 10000 charge bins would take"):
+        pdvoid.simulate(demo_scenario(), cycles=1, histogram=True, phase_bins=3600,
+                        charge_edges=np.linspace(-1e-9, 1e-9, 10001))
