@@ -268,6 +268,29 @@ def test_defaults_are_the_niemeyer1995_set_and_field_defaults_is_todays_field_mo
     assert a.event_count > 0 and np.array_equal(a.time, b.time) and np.array_equal(a.charge, b.charge)
 
 
+def test_illias2011_set_is_the_field_model_with_their_memory_rule(tmp_path):
+    # Illias, Chen & Lewin 2011 (physics brief §3.3, polarity rule confirmed): the surface emission is higher when
+    # the polarity repeats than when it reverses, and carries the factor exp(|E|/E_inc) (from memory)
+    from pdvoid.inputs.model_sets import get_parameter_set, list_parameter_sets, load_model_sets, model_from_set
+
+    assert "illias2011" in list_parameter_sets("field")
+    m = model_from_set("illias2011")
+    assert isinstance(m, pdvoid.FieldModel) and m.field_assisted is True
+    assert m.surface_rate_same > m.surface_rate_reversed > 0.0
+    ps = get_parameter_set("illias2011")
+    assert "illias2011" in ps.references and ps.values["surface_rate_same"].status == "tuned"
+    assert "field_assisted = true" in ps.table()
+    res = pdvoid.simulate(_scenario(model_from_set("illias2011", ionization_rate=1e9)), cycles=200, seed=2)
+    assert res.event_count > 200
+    # a switch takes true or false only; a number for it is refused, naming the key
+    bad = tmp_path / "sets.toml"
+    bad.write_text('schema = "pdvoid.model_sets/1"\n[mine]\nmodel = "field"\ndescription = "x"\n'
+                   '[mine.field_assisted]\nvalue = 1\nunit = ""\nstatus = "tuned"\nsource = "mine"\n',
+                   encoding="utf-8")
+    with pytest.raises(pdvoid.InputError, match="field_assisted.*true or false"):
+        load_model_sets(bad)
+
+
 def test_cite_of_a_run_lists_the_parameter_set_references():
     res = pdvoid.simulate(_scenario(pdvoid.MemoryModel(ionization_rate=1e9)), cycles=5, seed=1)
     text = pdvoid.cite(res)
