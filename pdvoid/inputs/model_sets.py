@@ -23,7 +23,7 @@ from pdvoid.inputs.materials import STATUSES, _read_toml
 from pdvoid.inputs.model_parameters import ModelParameters, model_class
 
 __all__ = ["SetValue", "ParameterSet", "load_model_sets", "list_parameter_sets", "get_parameter_set",
-           "model_from_set"]
+           "model_from_set", "sets_matching"]
 
 SCHEMA = "pdvoid.model_sets/1"
 _SET_KEYS = {"model", "description", "references"}
@@ -259,3 +259,43 @@ def model_from_set(name: str, **overrides: Any) -> ModelParameters:
         kwargs["parameter_set"] = name
     kwargs.update(overrides)
     return cls(**kwargs)
+
+
+def sets_matching(model: ModelParameters, ignore: tuple[str, ...] = ("ionization_rate", "lag_free")) -> list[str]:
+    """The built-in parameter sets a model is built from: its own ``parameter_set`` when it has that field, else
+    every set for its kind whose values it carries (fields not in a set at their class defaults).
+
+    Parameters
+    ----------
+    model : ModelParameters
+        A model instance.
+    ignore : tuple of str, optional
+        Fields left out of the comparison (by default the volume ionisation and the lag-free switch, which runs
+        often change).
+
+    Returns
+    -------
+    list of str
+        Set names (empty when the model's values match no set).
+
+    Raises
+    ------
+    InputError
+        For anything but a model instance.
+    """
+    if not isinstance(model, ModelParameters):
+        raise InputError(f"model must be a pdvoid model (e.g. pdvoid.FieldModel); got {type(model).__name__}")
+    own = getattr(model, "parameter_set", None)
+    if isinstance(own, str):
+        return [own]
+    base = type(model)()
+    out = []
+    for name in list_parameter_sets(model.kind):
+        values = get_parameter_set(name).values
+        same = all(
+            getattr(model, f.name) == (values[f.name].value if f.name in values else getattr(base, f.name))
+            for f in fields(model) if f.name not in ignore
+        )
+        if same:
+            out.append(name)
+    return out
