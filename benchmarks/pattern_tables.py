@@ -1,10 +1,12 @@
 """Tables for issue 13: PD per cycle, mean and 95th-percentile |q| against U/U_inc and against void size, the
 Weibull shape of |q|, and the asymmetry of an electrode-bounded void, for today's field model and the wall-memory
-model (parameter set niemeyer1995).
+model (parameter set niemeyer1995), and the field model with the set illias2011.
 
 Invented scenarios: a spherical air void in a 6 mm epoxy slab (εr 4.2) at 50 Hz; both models with the demo's
 effective volume rate 1e9 ion pairs/(m³ s). The Weibull shape β is the maximum-likelihood fit of a two-parameter
-Weibull law to |q| (scipy.stats.weibull_min, location 0).
+Weibull law to |q| (scipy.stats.weibull_min, location 0). Rows: ``field`` today's field model (set field_defaults),
+``illias`` the field model with the set illias2011 (the memory rule of Illias, Chen & Lewin 2011), ``memory`` the
+wall-memory model with the set niemeyer1995.
 
 Run: python benchmarks/pattern_tables.py [--cycles N]
 """
@@ -23,7 +25,10 @@ CYCLES = int(sys.argv[sys.argv.index("--cycles") + 1]) if "--cycles" in sys.argv
 
 
 def models():
+    from pdvoid.inputs.model_sets import model_from_set
+
     return {"field": pdvoid.FieldModel(ionization_rate=1e9),
+            "illias": model_from_set("illias2011", ionization_rate=1e9),
             "memory": pdvoid.MemoryModel(ionization_rate=1e9)}
 
 

@@ -27,6 +27,7 @@ from pdvoid.core.references import cite
 from pdvoid.core.validity import collect_validity_notes
 from pdvoid.faces.summary_table import summary_dict
 from pdvoid.inputs.materials import get_gas, get_material
+from pdvoid.inputs.model_sets import sets_matching
 from pdvoid.inputs.parameters import Periodic, check_seed
 from pdvoid.inputs.scenario import Scenario
 from pdvoid.simulation.results import Result
@@ -458,6 +459,9 @@ def _input_rows(scenario: Scenario) -> list[list[str]]:
     rows.append(["supply frequency", f"{sup.frequency:g}", "Hz", src])
     kind = model.title
     rows.append(["model", kind, "-", src])
+    named = sets_matching(model)
+    rows.append(["model parameter set", ", ".join(named) or "none (values as given)", "-",
+                 "its values' sources: pdvoid.cite" if named else src])
     defaults = type(model)()
     for f in fields(model):
         v = getattr(model, f.name)

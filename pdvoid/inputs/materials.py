@@ -1,7 +1,7 @@
 """Parameter sets of host dielectrics and void gases (TOML files), loaded and validated.
 
 The built-in sets live in ``pdvoid/parameter_sets/materials.toml`` and ``gases.toml``; every value there names
-its source and a status (confirmed, derived, from memory, common practice). Users add their own with
+its source and a status (confirmed, derived, from memory, common practice, tuned). Users add their own with
 :func:`load_materials` / :func:`load_gases` (same layout, same validation) or pass ``path=`` to
 :func:`get_material` / :func:`get_gas`.
 """
@@ -37,7 +37,7 @@ __all__ = [
     "load_gases",
 ]
 
-STATUSES = ("confirmed", "derived", "from memory", "common practice")
+STATUSES = ("confirmed", "derived", "from memory", "common practice", "tuned")
 IONIZATION_MODELS = ("morrow_lowke_air", "sf6_linear")
 MAX_FILE_BYTES = MAX_TEXT_FILE_BYTES  #: largest parameter file [bytes] (see pdvoid.core.limits)
 _NAME = re.compile(r"^[a-z][a-z0-9_]{0,63}$")
@@ -54,7 +54,7 @@ class Provenance:
     unit : str
         Unit of the constant as written in the parameter file.
     status : str
-        ``"confirmed"``, ``"derived"``, ``"from memory"`` or ``"common practice"``.
+        ``"confirmed"``, ``"derived"``, ``"from memory"``, ``"common practice"`` or ``"tuned"``.
     source : str
         The source (a reference key or a citation).
     note : str
@@ -86,7 +86,7 @@ class Material:
     source : str
         where the value comes from.
     status : str
-        confirmed, derived, from memory or common practice.
+        confirmed, derived, from memory, common practice or tuned.
     permittivity_range : tuple[float, float] or None
         typical spread (low, high) [-], or None.
     note : str

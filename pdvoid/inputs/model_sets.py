@@ -23,7 +23,7 @@ from pdvoid.inputs.materials import STATUSES, _read_toml
 from pdvoid.inputs.model_parameters import ModelParameters, model_class
 
 __all__ = ["SetValue", "ParameterSet", "load_model_sets", "list_parameter_sets", "get_parameter_set",
-           "model_from_set"]
+           "model_from_set", "sets_matching"]
 
 SCHEMA = "pdvoid.model_sets/1"
 _SET_KEYS = {"model", "description", "references"}
@@ -36,19 +36,20 @@ class SetValue:
 
     Attributes
     ----------
-    value : float
-        The value in SI [unit].
+    value : float or bool
+        The value in SI [unit] (a bool for a switch of the model such as ``field_assisted``).
     unit : str
         Its SI unit ("" for a number).
     status : str
-        ``confirmed``, ``derived``, ``from memory`` or ``common practice``.
+        ``confirmed``, ``derived``, ``from memory``, ``common practice`` or ``tuned`` (an illustrative value
+        chosen to reproduce published trends, fitted to no measurement).
     source : str
         Where it comes from.
     note : str
         Further remarks ("" for none).
     """
 
-    value: float
+    value: float | bool
     unit: str
     status: str
     source: str
@@ -99,7 +100,8 @@ class ParameterSet:
         """
         lines = [f"{self.name} ({self.model} model): {self.description}"]
         for k, v in self.values.items():
-            lines.append(f"  {k} = {v.value:g} {v.unit}  [{v.status}] {v.source}".rstrip())
+            shown = str(v.value).lower() if isinstance(v.value, bool) else f"{v.value:g}"
+            lines.append(f"  {k} = {shown} {v.unit}  [{v.status}] {v.source}".rstrip())
         return "\n".join(lines)
 
 
@@ -129,7 +131,11 @@ def _set(label: str, name: str, entry: dict[str, Any]) -> ParameterSet:
                                                                             "source"} <= set(table):
             raise InputError(f"{where}: must be a table with value, unit, status, source (and optional note)")
         v = table["value"]
-        if isinstance(v, bool) or not isinstance(v, (int, float)) or not math.isfinite(float(v)):
+        switch = isinstance(getattr(cls, key, None), bool)  # a switch of the model (e.g. field_assisted)
+        if switch:
+            if not isinstance(v, bool):
+                raise InputError(f"{where}.value: must be true or false (model.{key} is a switch); got {v!r}")
+        elif isinstance(v, bool) or not isinstance(v, (int, float)) or not math.isfinite(float(v)):
             raise InputError(f"{where}.value: must be a finite number; got {v!r}")
         unit = cls.field_units[key][1]
         if table["unit"] != unit:
@@ -140,7 +146,8 @@ def _set(label: str, name: str, entry: dict[str, Any]) -> ParameterSet:
         for k in ("source", "note"):
             if k in table and (not isinstance(table[k], str) or not table[k].strip()):
                 raise InputError(f"{where}.{k}: must be a non-empty string; got {table[k]!r}")
-        values[key] = SetValue(float(v), unit, table["status"], table["source"], table.get("note", ""))
+        values[key] = SetValue(v if switch else float(v), unit, table["status"], table["source"],
+                               table.get("note", ""))
     ps = ParameterSet(name, str(kind), entry["description"], tuple(listed), MappingProxyType(values))
     cls(**ps.as_kwargs())  # every value within the model's own checks (InputError naming the parameter)
     return ps
@@ -252,3 +259,43 @@ def model_from_set(name: str, **overrides: Any) -> ModelParameters:
         kwargs["parameter_set"] = name
     kwargs.update(overrides)
     return cls(**kwargs)
+
+
+def sets_matching(model: ModelParameters, ignore: tuple[str, ...] = ("ionization_rate", "lag_free")) -> list[str]:
+    """The built-in parameter sets a model is built from: its own ``parameter_set`` when it has that field, else
+    every set for its kind whose values it carries (fields not in a set at their class defaults).
+
+    Parameters
+    ----------
+    model : ModelParameters
+        A model instance.
+    ignore : tuple of str, optional
+        Fields left out of the comparison (by default the volume ionisation and the lag-free switch, which runs
+        often change).
+
+    Returns
+    -------
+    list of str
+        Set names (empty when the model's values match no set).
+
+    Raises
+    ------
+    InputError
+        For anything but a model instance.
+    """
+    if not isinstance(model, ModelParameters):
+        raise InputError(f"model must be a pdvoid model (e.g. pdvoid.FieldModel); got {type(model).__name__}")
+    own = getattr(model, "parameter_set", None)
+    if isinstance(own, str):
+        return [own]
+    base = type(model)()
+    out = []
+    for name in list_parameter_sets(model.kind):
+        values = get_parameter_set(name).values
+        same = all(
+            getattr(model, f.name) == (values[f.name].value if f.name in values else getattr(base, f.name))
+            for f in fields(model) if f.name not in ignore
+        )
+        if same:
+            out.append(name)
+    return out

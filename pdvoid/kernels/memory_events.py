@@ -176,9 +176,34 @@ def _root_x(
         return t0
     if f1 == 0.0:
         return t1
-    lo, hi = t0, t1
-    flo = f0
     t = t0 + (t1 - t0) * f0 / (f0 - f1)  # regula falsi start
+    return _newton_x(target, t0, t1, f0, t, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
+
+
+@njit_cached
+def _root_x_sine(
+    target: float, t0: float, t1: float, f0: float, f1: float, amp_g: float, cycle_t: float, seg: int,
+    gain: float, omega: float, orders: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray, xq0: float, tq: float,
+    tau_q: float,
+) -> float:
+    """:func:`_root_x` for a pure sine with decaying x_q, given f0 = x(t0) − target and f1 = x(t1) − target:
+    Newton started from the closed-form root of amp_g·sin(w t) + x_q(t*) = target with x_q frozen at the root
+    t* of the same equation with x_q(t0) (x_q moves little over the piece)."""
+    if f0 == 0.0:
+        return t0
+    if f1 == 0.0:
+        return t1
+    g0 = _root_sine(target, t0, t1, amp_g, omega, cycle_t, seg, _xq(t0, xq0, tq, tau_q))
+    t = _root_sine(target, t0, t1, amp_g, omega, cycle_t, seg, _xq(g0, xq0, tq, tau_q))
+    return _newton_x(target, t0, t1, f0, t, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
+
+
+@njit_cached
+def _newton_x(
+    target: float, lo: float, hi: float, flo: float, t: float, gain: float, omega: float, orders: np.ndarray,
+    a_coef: np.ndarray, b_coef: np.ndarray, xq0: float, tq: float, tau_q: float,
+) -> float:
+    """Newton's method for x(t) = target from t with the bracket [lo, hi] (x(lo) − target = flo) as guard."""
     for _ in range(100):
         if not (lo < t < hi):
             t = 0.5 * (lo + hi)
@@ -278,6 +303,94 @@ def _monotone_end(
                 s = sn
             return hi
         a = b
+    return t_end
+
+
+@njit_cached
+def _dx_root(
+    lo: float, hi: float, d_lo: float, d_hi: float, start: float, gain: float, omega: float, orders: np.ndarray,
+    a_coef: np.ndarray, b_coef: np.ndarray, xq0: float, tq: float, tau_q: float,
+) -> float:
+    """The sign change of dx/dt in [lo, hi] (dx/dt = d_lo at lo and d_hi of the other sign at hi, monotone
+    between): Newton's method on dx/dt from ``start`` (from the secant point when start is outside the bracket),
+    with a bisection guard, to machine precision; hi when it ends on the bracket."""
+    pos = d_lo > 0.0
+    s = start
+    if not (lo < s < hi):
+        s = lo + (hi - lo) * d_lo / (d_lo - d_hi)
+    if not (lo < s < hi):
+        s = 0.5 * (lo + hi)
+    for _ in range(200):
+        dm = _dx(s, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
+        if dm == 0.0:
+            return s
+        if (dm > 0.0) == pos:
+            lo = s
+        else:
+            hi = s
+        if hi - lo <= 4e-16 * abs(hi):
+            break
+        dd = _ddx(s, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
+        sn = s - dm / dd if dd != 0.0 else 0.5 * (lo + hi)
+        if abs(sn - s) <= 1e-15 * abs(s):
+            return hi if hi - s <= 4e-15 * abs(s) else s  # converged to machine precision
+        if not (lo < sn < hi):
+            sn = 0.5 * (lo + hi)
+        s = sn
+    return hi
+
+
+@njit_cached
+def _monotone_end_sine(
+    t: float, t_end: float, amp_g: float, cycle_t: float, gain: float, omega: float, orders: np.ndarray,
+    a_coef: np.ndarray, b_coef: np.ndarray, xq0: float, tq: float, tau_q: float,
+) -> float:
+    """:func:`_monotone_end` for a pure sine g·V = amp_g·sin(w t), without a scan.
+
+    With X = |x_q(t)| (the largest on [t, t_end], x_q decays) and W = |amp_g|·w, dx/dt keeps the sign of g·V'
+    wherever |cos(w s)| > c = X/(tau_q·W): outside the zones of phase half-width asin(c) about the extremes of V
+    (phases pi/2 and 3pi/2 of the cycle). Inside a zone |g·V''| >= W·w·sqrt(1 − c²); when that exceeds
+    |x_q''| <= X/tau_q², x is strictly convex or concave there and dx/dt changes sign at most once. So dx/dt is
+    sampled at the zone edges only and a sign change is located by :func:`_dx_root` in its zone. When the bounds
+    do not hold (c >= 1/2 or a weak curvature) the scan of :func:`_monotone_end` is used. Returns the same turning
+    point as the scan wherever the scan finds one, and never misses two sign changes in one sub-interval.
+    """
+    big_w = abs(amp_g) * omega
+    big_x = abs(_xq(t, xq0, tq, tau_q))
+    c = big_x / (tau_q * big_w)
+    if c >= 0.5 or big_w * omega * math.sqrt(1.0 - c * c) <= 2.0 * big_x / (tau_q * tau_q):
+        return _monotone_end(t, t_end, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
+    half = math.asin(c) / omega
+    quarter = 0.5 * math.pi / omega
+    a = t
+    d0 = _dx(t, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
+    # sample points: the zone edges inside (t, t_end), then t_end; outside the zones dx/dt cannot change sign
+    for k in range(5):
+        if k == 4:
+            b = t_end
+        else:
+            b = cycle_t + quarter * (1 + 2 * (k // 2)) + (half if k % 2 else -half)
+            if b <= t or b >= t_end:
+                continue
+        d1 = _dx(b, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
+        if (d1 > 0.0) != (d0 > 0.0) and d1 != 0.0:
+            # start: amp_g·w·cos(w(e + u)) = x_q(e)/tau_q about the extremum e of the zone, in closed form
+            mid = 0.5 * (a + b)
+            e = cycle_t + quarter
+            sgn = 1.0
+            if abs(mid - (e + 2.0 * quarter)) < abs(mid - e):
+                e += 2.0 * quarter
+                sgn = -1.0
+            r = _xq(e, xq0, tq, tau_q) / (tau_q * amp_g * omega)
+            start = -1.0
+            if -1.0 < r < 1.0:
+                start = e - sgn * math.asin(r) / omega
+                r = _xq(start, xq0, tq, tau_q) / (tau_q * amp_g * omega)  # one fixed-point step
+                if -1.0 < r < 1.0:
+                    start = e - sgn * math.asin(r) / omega
+            return _dx_root(a, b, d0, d1, start, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
+        a = b
+        d0 = d1
     return t_end
 
 
@@ -540,7 +653,11 @@ def run_memory_cycles(
                     if (gvb - gva > 0.0) == (xqb - xqa > 0.0) or xqb == xqa:
                         piece_end = tb
                     else:
-                        piece_end = _monotone_end(t, tb, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
+                        if pure_sine:
+                            piece_end = _monotone_end_sine(t, tb, amp_g, cycle_t, gain, omega, orders, a_coef,
+                                                           b_coef, xq0, tq, tau_q)
+                        else:
+                            piece_end = _monotone_end(t, tb, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
                     xt = _x(t, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
                     xe = _x(piece_end, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
                     rising = xe >= xt
@@ -556,6 +673,9 @@ def run_memory_cycles(
                         t_out = piece_end
                     elif pure_sine and not decay:
                         t_out = _root_sine(pol * x_inc, t, piece_end, amp_g, omega, cycle_t, seg, xq0)
+                    elif pure_sine:
+                        t_out = _root_x_sine(pol * x_inc, t, piece_end, xt - pol * x_inc, xe - pol * x_inc, amp_g,
+                                             cycle_t, seg, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
                     else:
                         t_out = _root_x(pol * x_inc, t, piece_end, gain, omega, orders, a_coef, b_coef,
                                         xq0, tq, tau_q)
@@ -574,6 +694,9 @@ def run_memory_cycles(
                         continue
                     if pure_sine and not decay:
                         t_in = _root_sine(pol * x_inc, t, piece_end, amp_g, omega, cycle_t, seg, xq0)
+                    elif pure_sine:
+                        t_in = _root_x_sine(pol * x_inc, t, piece_end, xt - pol * x_inc, xe - pol * x_inc, amp_g,
+                                             cycle_t, seg, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
                     else:
                         t_in = _root_x(pol * x_inc, t, piece_end, gain, omega, orders, a_coef, b_coef,
                                        xq0, tq, tau_q)

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import argparse
+import dataclasses
 import math
 
 import matplotlib
@@ -343,3 +344,20 @@ def test_assumptions_page_names_where_the_void_sits(tmp_path):
     design_review(sc, test_voltage=18e3, service_voltage=8e3, cycles=20, seed=1, out=out)
     page = next(t for t in _pdf_page_texts(out) if "assumptions and validity limits" in t)
     assert "on the high-voltage electrode of a plane slab" in page and "centred in" not in page
+
+
+def test_input_table_names_the_model_and_its_parameter_set(scenario_factory):
+    from pdvoid.faces.report import _input_rows
+    from pdvoid.inputs.model_sets import model_from_set, sets_matching
+
+    base = scenario_factory()
+    rows = {r[0]: r for r in _input_rows(base)}
+    assert rows["model"][1] == base.model.title
+    mem = dataclasses.replace(base, model=pdvoid.MemoryModel())
+    assert {r[0]: r for r in _input_rows(mem)}["model parameter set"][1] == "niemeyer1995"
+    ill = dataclasses.replace(base, model=model_from_set("illias2011", ionization_rate=3e9))
+    assert {r[0]: r for r in _input_rows(ill)}["model parameter set"][1] == "illias2011"
+    assert sets_matching(pdvoid.FieldModel()) == ["field_defaults"]
+    assert sets_matching(pdvoid.FieldModel(residual_ratio=0.3)) == []
+    with pytest.raises(pdvoid.InputError, match="model"):
+        sets_matching("field")

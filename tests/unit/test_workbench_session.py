@@ -254,3 +254,33 @@ def test_validity_notes_are_collected_not_raised(session):
     assert out.ok and any("not small against the slab" in n for n in out.validity_notes)
     session.set(diameter_mm=1.5, height_mm=1.5)  # the demo void: inside the verified range
     assert session.run().validity_notes == ()
+
+
+def test_choosing_a_parameter_set_builds_its_model_and_names_it(session):
+    from pdvoid.faces.workbench.controls import PANEL_VALUES
+    from pdvoid.faces.workbench.session import describe
+    from pdvoid.inputs.model_sets import model_from_set
+
+    assert "memory" in SPECS["model"].choices and "illias2011" in SPECS["parameter_set"].choices
+    assert session.controls.parameter_set == PANEL_VALUES
+    session.set(model="memory", parameter_set="niemeyer1995", ionization_rate=2e9)
+    m = session.scenario().model
+    # the set's values, with the panel's volume ionisation and lag switch
+    assert m == model_from_set("niemeyer1995", ionization_rate=2e9, lag_free=False)
+    assert "parameter set niemeyer1995" in describe(session.controls)
+    session.set(model="field", parameter_set="illias2011")
+    m = session.scenario().model
+    assert isinstance(m, pdvoid.FieldModel) and m.field_assisted and m.surface_decay_time == 5e-3
+    # a set for another model is refused with both names
+    session.set(model="network", parameter_set="illias2011")
+    with pytest.raises(pdvoid.InputError, match="illias2011.*field model.*network"):
+        session.scenario()
+
+
+def test_a_memory_scenario_keeps_its_own_values_through_the_panel():
+    sc = pdvoid.Scenario(insulation=pdvoid.Insulation(thickness=6e-3, permittivity=4.2),
+                         void=pdvoid.Void(diameter=1.5e-3, height=1.5e-3), supply=pdvoid.Sine(rms=10e3),
+                         model=pdvoid.MemoryModel(trap_depth=1.25, ionization_rate=1e9))
+    c = Controls.from_scenario(sc)
+    assert (c.model, c.parameter_set) == ("memory", "niemeyer1995")
+    assert c.to_scenario(sc).model == sc.model

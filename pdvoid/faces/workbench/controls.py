@@ -12,12 +12,14 @@ from typing import Any
 from pdvoid.core.errors import InputError, check_choice, check_int, check_real
 from pdvoid.inputs.materials import get_material, list_materials
 from pdvoid.inputs.model_parameters import model_class, model_kinds
+from pdvoid.inputs.model_sets import get_parameter_set, list_parameter_sets, model_from_set
 from pdvoid.inputs.parameters import GASES, Periodic, Sine, check_seed
 from pdvoid.inputs.scenario import Scenario
 
-__all__ = ["Controls", "ControlSpec", "SPECS", "GROUPS", "CUSTOM_MATERIAL", "MAX_CYCLES"]
+__all__ = ["Controls", "ControlSpec", "SPECS", "GROUPS", "CUSTOM_MATERIAL", "PANEL_VALUES", "MAX_CYCLES"]
 
 CUSTOM_MATERIAL = "(custom permittivity)"  #: the material choice that means "permittivity as typed"
+PANEL_VALUES = "(panel values)"  #: the parameter-set choice that means "the model parameters as typed"
 MAX_CYCLES = 10_000_000  #: most cycles one workbench run may ask for [-]
 
 _MM, _KPA, _KV, _MS = 1e-3, 1e3, 1e3, 1e-3
@@ -62,6 +64,11 @@ SPECS: dict[str, ControlSpec] = {
     "voltage_kV": ControlSpec("applied voltage [kV rms]", "slider", 0.5, 100.0, 0.1),
     "frequency_Hz": ControlSpec("frequency [Hz]", "number"),
     "model": ControlSpec("void model", "choice", choices=model_kinds()),
+    "parameter_set": ControlSpec(
+        "parameter set", "choice", choices=(PANEL_VALUES, *list_parameter_sets()),
+        tooltip="a named set of model parameters, each value with its source (pdvoid.cite lists them); the set "
+                "must be for the chosen model; its values replace the panel's model parameters except volume "
+                "ionisation and 'no time lag'"),
     "residual_ratio": ControlSpec(
         "residual / inception [-]", "number",
         tooltip="residual field after a discharge divided by the inception field, 0 to < 1"),
@@ -92,7 +99,8 @@ SPECS: dict[str, ControlSpec] = {
 GROUPS: dict[str, tuple[str, ...]] = {
     "void": ("diameter_mm", "height_mm", "gas", "pressure_kPa"),
     "insulation": ("material", "permittivity", "thickness_mm"),
-    "supply and run": ("voltage_kV", "frequency_Hz", "model", "cycles", "seed", "test_voltage_kV"),
+    "supply and run": ("voltage_kV", "frequency_Hz", "model", "parameter_set", "cycles", "seed",
+                       "test_voltage_kV"),
     "model parameters": (
         "residual_ratio",
         "ionization_rate",
@@ -134,6 +142,9 @@ class Controls:
         Supply frequency [Hz].
     model : str
         Void model kind [-].
+    parameter_set : str
+        A parameter set for that model (:func:`pdvoid.inputs.model_sets.list_parameter_sets`), or
+        :data:`PANEL_VALUES` for the model parameters as shown [-].
     residual_ratio : float
         Residual field / inception field [-].
     ionization_rate : float
@@ -164,6 +175,7 @@ class Controls:
     voltage_kV: float = 18.0
     frequency_Hz: float = 50.0
     model: str = "field"
+    parameter_set: str = PANEL_VALUES
     residual_ratio: float = 0.25
     ionization_rate: float = 1e9
     surface_rate_same: float = 1e4
@@ -219,6 +231,7 @@ class Controls:
             voltage_kV=sup.rms / _KV,
             frequency_Hz=sup.frequency,
             model=mod.kind,
+            parameter_set=getattr(mod, "parameter_set", PANEL_VALUES),
             residual_ratio=mod.residual_ratio,
             ionization_rate=mod.ionization_rate,
             surface_rate_same=mod.surface_rate_same,
@@ -327,7 +340,20 @@ class Controls:
             field_assisted=self.field_assisted,
             lag_free=self.lag_free,
         )
-        model = model_class(self.model)(**shared)
+        check_choice("parameter set", self.parameter_set, SPECS["parameter_set"].choices)
+        if self.parameter_set == PANEL_VALUES:
+            model = model_class(self.model)(**shared)
+        else:
+            made_for = get_parameter_set(self.parameter_set).model
+            if made_for != self.model:
+                raise InputError(f"parameter set {self.parameter_set!r} is for the {made_for} model; the void model "
+                                 f"chosen is {self.model!r} (choose {made_for!r} or another set)")
+            if base.model.kind == self.model and getattr(base.model, "parameter_set", None) == self.parameter_set:
+                # the base scenario's own model from this set: keep its values (it may have changed some)
+                model = replace(base.model, ionization_rate=self.ionization_rate, lag_free=self.lag_free)
+            else:
+                model = model_from_set(self.parameter_set, ionization_rate=self.ionization_rate,
+                                       lag_free=self.lag_free)
         return Scenario(insulation=ins, void=void, supply=supply, model=model, name=base.name)
 
     def run_settings(self) -> tuple[int, int, float]:

@@ -18,7 +18,7 @@ from pdvoid.analysis.summary import run_summary
 from pdvoid.core.errors import InputError
 from pdvoid.core.validity import collect_validity_notes
 from pdvoid.faces.summary_table import summary_dict
-from pdvoid.faces.workbench.controls import CUSTOM_MATERIAL, Controls
+from pdvoid.faces.workbench.controls import CUSTOM_MATERIAL, PANEL_VALUES, Controls
 from pdvoid.inputs.scenario import Scenario
 from pdvoid.simulation.events import Events
 from pdvoid.simulation.results import Result
@@ -135,6 +135,7 @@ def describe(controls: Controls) -> str:
         f"void {controls.diameter_mm:g} mm × {controls.height_mm:g} mm, {controls.gas} at "
         f"{controls.pressure_kPa:g} kPa, εr {controls.permittivity:g}, {controls.thickness_mm:g} mm, "
         f"{controls.voltage_kV:g} kV rms, {controls.model} model"
+        + ("" if controls.parameter_set == PANEL_VALUES else f" (parameter set {controls.parameter_set})")
     )
 
 
