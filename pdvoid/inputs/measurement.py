@@ -235,8 +235,8 @@ class Instrument:
         lines = [
             f"{self.kind.replace('band', '-band').capitalize()} quasi-integrating instrument: Butterworth "
             f"band-pass of order {2 * self.order}, -6 dB at {self.f_low / 1e3:.4g} kHz and "
-            f"{self.f_high / 1e3:.4g} kHz; peak detector holding each reading until a lone pulse's response "
-            f"stays below {self.hold_fraction:.2g} of its peak.",
+            f"{self.f_high / 1e3:.4g} kHz; peak detector holding each reading until the output's envelope has "
+            f"fallen below {self.hold_fraction:.2g} of the reading.",
             f"Threshold {self.threshold * 1e12:.4g} pC, white noise {self.noise * 1e12:.4g} pC RMS, "
             f"{len(self.interference)} periodic interference pulse(s) per cycle, {len(self.gating)} gated phase "
             f"window(s), phase resolution {self.phase_resolution_deg:.4g} deg.",
