@@ -67,7 +67,9 @@ class InstrumentResponse:
     calibration_reading : float
         uncalibrated reading of the calibrator's charge [C].
     scale : float
-        calibration factor q_0 / calibration_reading [-].
+        calibration factor |q_0 / calibration_reading|, signed so that a lone positive pulse reads positive
+        (a narrow-band output's carrier can put the calibrator's and a discharge's largest half-wave at
+        opposite signs; polarity is referred to a lone discharge's response) [-].
     dt : float
         grid step [s].
     window : float
@@ -172,7 +174,8 @@ def instrument_response(circuit: TestCircuit, instrument: Instrument) -> Instrum
     cal_reading = c.calibrator_charge * ratio_cal * peak_cal
     return InstrumentResponse(
         poles=poles, residues=res, transfer_ratio=ratio, calibration_transfer_ratio=ratio_cal, peak=peak,
-        peak_time=peak_time, calibration_reading=cal_reading, scale=c.calibrator_charge / cal_reading, dt=dt,
+        peak_time=peak_time, calibration_reading=cal_reading,
+        scale=c.calibrator_charge / abs(cal_reading) * math.copysign(1.0, peak), dt=dt,
         window=window, hold=hold, noise_moments=noise_moments(z, p, k),
     )
 
@@ -285,7 +288,7 @@ def measure(
         raw = np.concatenate([raw, sign * mag])
         o = np.argsort(t_read, kind="stable")
         t_read, raw = t_read[o], raw[o]
-    reading = raw * resp.scale if calibrate else raw
+    reading = raw * resp.scale if calibrate else raw * math.copysign(1.0, resp.peak)
     threshold_read = inst.threshold if calibrate else trigger
     cycle = np.floor(t_read * f)
     phase = 360.0 * (t_read * f - cycle)

@@ -90,7 +90,9 @@ def bandpass_readings(time, charge, poles, residues, dt, window, hold, trigger, 
         best_t = 0.0
         count = 0
         rearm = trigger
-        for s in range(nsteps):
+        s = -1
+        while s + 1 < nsteps:
+            s += 1
             tg = t0 + s * dt
             while nxt <= j and time[nxt] <= tg:
                 a = tg - time[nxt]
@@ -103,6 +105,17 @@ def bandpass_readings(time, charge, poles, residues, dt, window, hold, trigger, 
             for k in range(npole):
                 y += x[k].real
             if not in_event:
+                bound = 0.0
+                for k in range(npole):
+                    bound += abs(x[k])
+                if bound <= rearm and nxt <= j and abs(y) <= rearm:
+                    # nothing can trigger before the next pulse: jump to its grid step (exact advance)
+                    s_next = int(np.ceil((time[nxt] - t0) / dt))
+                    if s_next > s + 1:
+                        for k in range(npole):
+                            x[k] *= np.exp(poles[k] * ((s_next - 1 - s) * dt))
+                        s = s_next - 2
+                        continue
                 if abs(y) > rearm:
                     in_event = True
                     end = tg + hold

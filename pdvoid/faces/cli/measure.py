@@ -65,7 +65,7 @@ def _cmd_measure(ns: argparse.Namespace) -> int:
     lines = [f"{ns.file}: {rec['input pulses']} pulses -> {ev.count} readings written to {out}",
              f"  charge transfer ratio {rec['transfer_ratio']:.4g}, calibration factor "
              f"{rec['calibration_factor']:.4g}, noise peaks {rec['noise peaks']}",
-             *("  " + s for s in doc["assumptions"])]  # type: ignore[operator]
+             *("  " + s for s in circuit.describe() + instrument.describe())]
     emit(doc, ns.json, lines)
     return 0
 
