@@ -23,6 +23,7 @@ from pdvoid.core.errors import InputError
 from pdvoid.core.references import cite
 from pdvoid.core.validity import ValidityWarning
 from pdvoid.core.versions import show_versions
+from pdvoid.inputs.measurement import Instrument, TestCircuit
 from pdvoid.inputs.parameters import Insulation, Periodic, Sine, Void
 from pdvoid.inputs.scenario import Scenario
 from pdvoid.models import FieldModel, MemoryModel, NetworkModel
@@ -47,6 +48,9 @@ _LAZY = {
     "read_events": "pdvoid.io",
     "read_pattern_matrix": "pdvoid.io",
     "sweep": "pdvoid.sweeps",
+    "measure": "pdvoid.analysis.measured",
+    "pulse_pair_reading": "pdvoid.analysis.measured",
+    "pulse_resolution_time": "pdvoid.analysis.measured",
 }
 # public subpackages reachable as attributes after a plain ``import pdvoid``
 _SUBPACKAGES = {
@@ -63,6 +67,7 @@ __all__ = [
     "FieldModel", "MemoryModel", "NetworkModel", "Scenario", "Coefficients", "compute_coefficients", "Events",
     "simulate", "Result",
     "load",
+    "TestCircuit", "Instrument",
     *_LAZY,
 ]
 

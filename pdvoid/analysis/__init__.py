@@ -9,6 +9,7 @@ from pdvoid.analysis.fit import fit
 from pdvoid.analysis.inception import inception, probability_of_missing, ramp_test
 from pdvoid.analysis.magnitudes import weibull_fit
 from pdvoid.analysis.margins import design_margin, largest_pd_free_void, margin_table
+from pdvoid.analysis.measured import measure, pulse_pair_reading, pulse_resolution_time
 from pdvoid.analysis.patterns import half_cycle_distributions, magnitude_distribution, pattern
 from pdvoid.analysis.quantities import iec60270, largest_repeated_magnitude
 from pdvoid.analysis.regime import DischargeRegime, discharge_regime
@@ -22,4 +23,5 @@ __all__ = [
     "margin_table", "largest_pd_free_void", "design_margin", "RunSummary", "run_summary", "compare", "fit",
     "DischargeRegime", "discharge_regime",
     "InceptionBand", "inception_band", "verdict",
+    "measure", "pulse_pair_reading", "pulse_resolution_time",
 ]

@@ -33,8 +33,10 @@ from numpy.typing import ArrayLike
 from scipy.optimize import differential_evolution, minimize
 
 from pdvoid.analysis.compare import PatternSource, compare, summarise
+from pdvoid.analysis.measured import measure
 from pdvoid.analysis.synthetic import measurement_effects
 from pdvoid.core.errors import InputError, check_bool, check_int, check_nonnegative, check_positive
+from pdvoid.inputs.measurement import Instrument, TestCircuit
 from pdvoid.inputs.parameters import check_seed
 from pdvoid.inputs.scenario import Scenario
 from pdvoid.simulation.events import Events
@@ -86,10 +88,15 @@ class FitObjective:
         Seed of every evaluation (common random numbers) [-].
     detector : dict or None
         Keyword arguments of :func:`pdvoid.analysis.synthetic.measurement_effects`, or None [-].
+    measurement : tuple of (TestCircuit, Instrument) or None
+        The IEC 60270 forward model :func:`pdvoid.measure` applied to every simulation instead of
+        ``detector`` [-].
     """
 
     def __init__(self, measured: PatternSource, scenario: Scenario, specs: tuple[_Spec, ...], *,
-                 threshold: float, cycles: int, seed: int, detector: dict | None) -> None:
+                 threshold: float, cycles: int, seed: int, detector: dict | None,
+                 measurement: tuple[TestCircuit, Instrument] | None = None) -> None:
+        self.measurement = measurement
         self.scenario = scenario
         self.specs = specs
         self.threshold = threshold
@@ -140,7 +147,9 @@ class FitObjective:
         except InputError:
             return PENALTY
         ev: Events | Any = res
-        if self.detector is not None:
+        if self.measurement is not None:
+            ev = measure(res, self.measurement[0], self.measurement[1], seed=seed)
+        elif self.detector is not None:
             ev = measurement_effects(res, seed, threshold=self.threshold, **self.detector)
         return float(compare(ev, self.measured, self.threshold).score)
 
@@ -283,6 +292,8 @@ def fit(
     cycles: int = 1000,
     seed: int = 0,
     detector: dict | None = None,
+    circuit: TestCircuit | None = None,
+    instrument: Instrument | None = None,
     popsize: int = 8,
     maxiter: int = 30,
     polish: bool = True,
@@ -312,6 +323,9 @@ def fit(
         keyword arguments of :func:`pdvoid.analysis.synthetic.measurement_effects` (noise [C],
         relative_noise [-], phase_resolution_deg [deg]) to pass simulations through the same measurement
         effects as the data; None for none.
+    circuit, instrument : TestCircuit and Instrument, or None
+        the IEC 60270 forward model (:func:`pdvoid.measure`) to pass every simulation through, in place of
+        ``detector``; give both or neither.
     popsize, maxiter : int
         differential evolution's population multiplier and generations [-].
     polish : bool
@@ -359,9 +373,17 @@ def fit(
         # the detector model checks its own settings: try them once on no events, before any simulation
         measurement_effects(Events(phase_deg=np.empty(0), charge=np.empty(0), frequency=50.0, cycles=1.0), seed,
                             threshold=threshold, **detector)
+    measurement = None
+    if circuit is not None or instrument is not None:
+        if not isinstance(circuit, TestCircuit) or not isinstance(instrument, Instrument):
+            raise InputError("circuit and instrument must be given together as a pdvoid.TestCircuit and a "
+                             f"pdvoid.Instrument; got {type(circuit).__name__} and {type(instrument).__name__}")
+        if detector is not None:
+            raise InputError("give either detector or circuit and instrument, not both")
+        measurement = (circuit, instrument)
     t0 = time.perf_counter()
     objective = FitObjective(measured, scenario, specs, threshold=threshold, cycles=cycles, seed=seed,
-                             detector=detector)
+                             detector=detector, measurement=measurement)
     start = {s.name: float(_get(scenario, s.name)) for s in specs}
     x0 = np.array([min(max(s.to_unit(start[s.name]), 0.0), 1.0) if start[s.name] > 0 or not s.log else 0.5
                    for s in specs])

@@ -15,7 +15,10 @@ detector, not any instrument's):
    (360 / width must be a whole number); times become (cycle + phase / 360) / frequency.
 
 The noise uses its own generator, ``numpy.random.default_rng([seed, 1])``, so the same seed gives the same
-data. The demo file ``pdvoid/inputs/examples/demo_measured.csv`` is written by
+data. Given a test circuit and an instrument (``circuit=``, ``instrument=``), :func:`synthetic_measurement` uses
+the IEC 60270 forward model :func:`pdvoid.measure` instead (test circuit, band-pass instrument, calibration,
+noise, threshold, phase resolution); the demo file is made that way, with :data:`DEMO_CIRCUIT` and
+:data:`DEMO_INSTRUMENT`. The demo file ``pdvoid/inputs/examples/demo_measured.csv`` is written by
 :func:`write_demo_measured`; regenerate it
 with::
 
@@ -30,9 +33,11 @@ from pathlib import Path
 
 import numpy as np
 
+from pdvoid.analysis.measured import measure
 from pdvoid.analysis.patterns import EventSource, _filled
 from pdvoid.core.errors import InputError, check_int, check_nonnegative, check_range
 from pdvoid.inputs.demo import demo_measured_path, demo_scenario_path
+from pdvoid.inputs.measurement import Instrument, TestCircuit
 from pdvoid.inputs.parameters import check_seed
 from pdvoid.inputs.scenario import Scenario
 from pdvoid.simulation.events import Events, as_events
@@ -42,6 +47,8 @@ __all__ = [
     "SYNTHETIC_LABEL",
     "DEMO_HIDDEN",
     "DEMO_SETTINGS",
+    "DEMO_CIRCUIT",
+    "DEMO_INSTRUMENT",
     "synthetic_measurement",
     "measurement_effects",
     "hidden_parameters",
@@ -69,6 +76,14 @@ DEMO_SETTINGS: dict[str, float] = {
     "phase_resolution_deg": 1.0,
 }
 
+#: test circuit of the demo file (an invented laboratory set-up): a 100 pF test object, a 1 nF coupling capacitor
+#: with the measuring impedance in series with it, 20 pF of stray capacitance, the default 100 pC calibrator
+DEMO_CIRCUIT = TestCircuit(test_object_capacitance=100e-12, coupling_capacitance=1e-9, stray_capacitance=20e-12)
+#: instrument of the demo file: wide band 100-500 kHz (the recommended IEC 60270 setting, from memory) with the
+#: threshold, noise and phase resolution of :data:`DEMO_SETTINGS`
+DEMO_INSTRUMENT = Instrument(kind="wideband", f_low=100e3, f_high=500e3, threshold=DEMO_SETTINGS["threshold"],
+                             noise=DEMO_SETTINGS["noise"], phase_resolution_deg=DEMO_SETTINGS["phase_resolution_deg"])
+
 
 def synthetic_measurement(
     scenario: Scenario,
@@ -80,6 +95,8 @@ def synthetic_measurement(
     noise: float = 2e-12,
     relative_noise: float = 0.0,
     phase_resolution_deg: float = 1.0,
+    circuit: TestCircuit | None = None,
+    instrument: Instrument | None = None,
 ) -> Events:
     """Simulated events with hidden parameters and measurement effects, labelled as synthetic.
 
@@ -101,6 +118,11 @@ def synthetic_measurement(
         proportional part of the noise, a fraction of |q|, 0 ... 1 [-]
     phase_resolution_deg : float
         width of the phase bins [deg]; 360 / width must be whole; 0 for none
+    circuit : TestCircuit or None
+        with ``instrument``: pass the simulation through :func:`pdvoid.measure` (seeded with ``seed``) instead
+        of the simple effects above, which are then ignored [-]
+    instrument : Instrument or None
+        the instrument of that forward model [-]
 
     Returns
     -------
@@ -121,17 +143,24 @@ def synthetic_measurement(
     measurement_effects(
         Events(phase_deg=np.empty(0), charge=np.empty(0), frequency=50.0, cycles=1.0), seed, **effects
     )  # checks
+    if (circuit is None) != (instrument is None):
+        raise InputError("give both circuit and instrument (the IEC 60270 forward model) or neither")
     hidden = dict(hidden or {})
     sc = scenario.replace(**hidden) if hidden else scenario
     simulated = simulate(sc, cycles=cycles, seed=seed).events
-    ev = measurement_effects(simulated, seed, **effects)
+    if circuit is not None and instrument is not None:
+        ev = measure(simulated, circuit, instrument, seed=seed)
+        applied = dict(ev.extra["instrument"])
+    else:
+        ev = measurement_effects(simulated, seed, **effects)
+        applied = dict(ev.extra["measurement effects"])
     record = {
         "hidden": {k: (float(v) if isinstance(v, (int, float)) else v) for k, v in hidden.items()},
         "scenario": sc.name,
         "supply.rms": sc.supply.rms,
         "seed": seed,
         "cycles": cycles,
-        **ev.extra["measurement effects"],
+        **applied,
     }
     return Events(
         phase_deg=ev.phase_deg,
@@ -276,19 +305,18 @@ def write_demo_measured(path: str | Path | None = None) -> Path:
         int(s["cycles"]),
         int(s["seed"]),
         hidden=DEMO_HIDDEN,
-        threshold=s["threshold"],
-        noise=s["noise"],
-        relative_noise=s["relative_noise"],
-        phase_resolution_deg=s["phase_resolution_deg"],
+        circuit=DEMO_CIRCUIT,
+        instrument=DEMO_INSTRUMENT,
     )
     rec = ev.extra["synthetic"]
     comments = [
         "SYNTHETIC DATA - NOT A MEASUREMENT.",
         "Produced by pdvoid's simulator (pdvoid.analysis.synthetic.synthetic_measurement) from the",
         "demo scenario pdvoid/inputs/examples/demo.toml at its test voltage, with the hidden parameters listed",
-        "below (keys 'hidden.<parameter>', SI units), then simulated measurement effects: Gaussian charge",
-        "noise (sigma = sqrt(noise^2 + (relative_noise |q|)^2)), a detection threshold (smaller pulses",
-        "dropped) and a limited phase resolution (phases at bin centres).",
+        "below (keys 'hidden.<parameter>', SI units), then read through a simulated IEC 60270 measuring",
+        "chain (pdvoid.measure): test circuit (keys 'circuit.*'), wide-band instrument 100-500 kHz with a",
+        "peak detector, calibration with a 100 pC calibrator, white noise, a detection threshold and a",
+        "limited phase resolution (phases at bin centres).",
         "Regenerate with: python -m pdvoid.analysis.synthetic",
     ]
     metadata = {
@@ -299,13 +327,23 @@ def write_demo_measured(path: str | Path | None = None) -> Path:
         "synthetic.supply.rms": f"{rec['supply.rms']!r} V",
     }
     metadata.update({f"hidden.{k}": repr(v) for k, v in rec["hidden"].items()})
+    c = DEMO_CIRCUIT
     metadata.update(
         {
+            "circuit.test_object_capacitance": f"{c.test_object_capacitance!r} F",
+            "circuit.coupling_capacitance": f"{c.coupling_capacitance!r} F",
+            "circuit.stray_capacitance": f"{c.stray_capacitance!r} F",
+            "circuit.arrangement": c.arrangement,
+            "circuit.calibrator_charge": f"{c.calibrator_charge!r} C",
+            "instrument.kind": rec["kind"],
+            "instrument.f_low": f"{rec['f_low']!r} Hz",
+            "instrument.f_high": f"{rec['f_high']!r} Hz",
+            "instrument.calibration_factor": repr(rec["calibration_factor"]),
             "effect.noise": f"{rec['noise']!r} C",
-            "effect.relative_noise": repr(rec["relative_noise"]),
             "effect.phase_resolution": f"{rec['phase_resolution_deg']!r} deg",
-            "effect.simulated_events": rec["simulated events"],
-            "effect.removed_below_threshold": rec["removed below threshold"],
+            "effect.simulated_events": rec["input pulses"],
+            "effect.noise_peaks": rec["noise peaks"],
+            "effect.reported": rec["reported"],
         }
     )
     out = Path(path) if path is not None else demo_measured_path()

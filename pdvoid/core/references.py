@@ -91,6 +91,23 @@ REFERENCES: dict[str, Reference] = dict(
            "confirmed"),
         _r("iec60270", "IEC 60270:2000+A1:2015, High-voltage test techniques - Partial discharge measurements, "
            "clause 3 (definitions of apparent charge, phase angle, I, D, P, n)", "from memory"),
+        _r("iec60270_circuit", "IEC 60270:2000+A1:2015, High-voltage test techniques - Partial discharge "
+           "measurements, clause 4 and figure 1 (test circuits: coupling capacitor, measuring impedance in series "
+           "with it or with the test object) and clause 5 (calibration with a charge q0 = U0 C0 injected at the "
+           "test object's terminals)", "from memory"),
+        _r("iec60270_instrument", "IEC 60270:2000+A1:2015, clause 4.3 (wide-band instruments: f1 30-100 kHz, "
+           "f2 <= 1 MHz (500 kHz recommended), bandwidth 100-900 kHz; narrow-band instruments: bandwidth 9-30 kHz, "
+           "mid-band frequency 50 kHz-1 MHz; limit frequencies where the response has fallen by 6 dB; pulse "
+           "resolution time: the shortest interval of two equal pulses whose reading changes by at most 10 %)",
+           "from memory"),
+        _r("butterworth1930", "S. Butterworth, 'On the theory of filter amplifiers', Wireless Engineer 7 (1930) "
+           "536-541", "from memory"),
+        _r("heaviside_expansion", "Partial-fraction (Heaviside) expansion of a rational transfer function, e.g. "
+           "A. V. Oppenheim, A. S. Willsky, Signals and Systems, 2nd ed., Prentice Hall 1997, section 9.3",
+           "from memory"),
+        _r("rice1944", "S. O. Rice, 'Mathematical analysis of random noise', Bell System Technical Journal 23 "
+           "(1944) 282-332 and 24 (1945) 46-156 (mean rate of level crossings of a Gaussian process)",
+           "from memory"),
         _r("gulski1992", "E. Gulski, F. H. Kreuger, 'Computer-aided recognition of discharge sources', IEEE "
            "Trans. Electr. Insul. 27(1) (1992) 82-92", "from memory"),
         _r("gulski1993", "E. Gulski, 'Computer-aided measurement of partial discharges in HV equipment', IEEE "

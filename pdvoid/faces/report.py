@@ -27,6 +27,7 @@ from pdvoid.core.references import cite
 from pdvoid.core.validity import collect_validity_notes
 from pdvoid.faces.summary_table import summary_dict
 from pdvoid.inputs.materials import get_gas, get_material
+from pdvoid.inputs.measurement import Instrument, TestCircuit
 from pdvoid.inputs.model_sets import sets_matching
 from pdvoid.inputs.parameters import Periodic, check_seed
 from pdvoid.inputs.scenario import Scenario
@@ -247,6 +248,8 @@ def design_review(
     seed: int = 1,
     out: str | os.PathLike[str] = "review.pdf",
     figures: str | None = None,
+    circuit: TestCircuit | None = None,
+    instrument: Instrument | None = None,
 ) -> ReviewPack:
     """Write the design-review pack of ``scenario`` as a multi-page PDF.
 
@@ -274,6 +277,9 @@ def design_review(
         The PDF file (its folder must exist) [-].
     figures : str, optional
         None, "png" or "svg": also write each chart as a file next to the PDF [-].
+    circuit, instrument : TestCircuit and Instrument, optional
+        the measuring chain whose assumptions the assumptions page states; without them the page says that
+        charges are apparent charges read by an ideal instrument [-].
 
     Returns
     -------
@@ -297,6 +303,12 @@ def design_review(
     cycles = check_int("cycles", cycles, 1, 1_000_000)
     seed = check_seed(seed)
     path, fmt = _check_out(out, figures)
+    measurement_notes: tuple[str, ...] = ()
+    if circuit is not None or instrument is not None:
+        if not isinstance(circuit, TestCircuit) or not isinstance(instrument, Instrument):
+            raise InputError("circuit and instrument must be given together as a pdvoid.TestCircuit and a "
+                             f"pdvoid.Instrument; got {type(circuit).__name__} and {type(instrument).__name__}")
+        measurement_notes = tuple(circuit.describe() + instrument.describe())
 
     band = inception_band(scenario)  # the design's own validity notes come back in band.notes
     with collect_validity_notes() as noted:
@@ -336,6 +348,7 @@ def design_review(
         verdict=outcome,
         validity_notes=own,
         variation_notes=variations,
+        measurement_notes=measurement_notes,
     )
     # the pages recompute coefficients of designs computed above, whose notes ctx already holds
     with collect_validity_notes():

@@ -361,3 +361,22 @@ def test_input_table_names_the_model_and_its_parameter_set(scenario_factory):
     assert sets_matching(pdvoid.FieldModel(residual_ratio=0.3)) == []
     with pytest.raises(pdvoid.InputError, match="model"):
         sets_matching("field")
+
+
+def test_assumptions_page_states_the_measuring_circuit(tmp_path):
+    from pdvoid.faces.report import design_review
+    from pdvoid.inputs.demo import demo_scenario
+
+    sc = demo_scenario()
+    out = tmp_path / "pack.pdf"
+    circuit = pdvoid.TestCircuit(test_object_capacitance=100e-12, coupling_capacitance=1e-9)
+    design_review(sc, test_voltage=18e3, cycles=20, seed=1, out=out, circuit=circuit,
+                  instrument=pdvoid.Instrument(kind="narrowband", centre=200e3, bandwidth=9e3))
+    page = next(t for t in _pdf_page_texts(out) if "assumptions and validity limits" in t)
+    assert "measuring circuit" in page and "narrow-band" in page and "coupling capacitor" in page
+    plain = tmp_path / "plain.pdf"
+    design_review(sc, test_voltage=18e3, cycles=20, seed=1, out=plain)
+    page = next(t for t in _pdf_page_texts(plain) if "assumptions and validity limits" in t)
+    assert "ideal instrument" in page
+    with pytest.raises(pdvoid.InputError, match="together"):
+        design_review(sc, test_voltage=18e3, cycles=20, out=tmp_path / "x.pdf", circuit=circuit)

@@ -77,6 +77,9 @@ class Context:
         Validity notes of the design's own coefficients (the numbers on the summary page).
     variation_notes : tuple of str
         Validity notes of the varied designs of the margin chart, the sensitivity chart and the void searches.
+    measurement_notes : tuple of str
+        The measuring chain's assumptions (:meth:`pdvoid.TestCircuit.describe`,
+        :meth:`pdvoid.Instrument.describe`); empty when no measuring chain was given.
     """
 
     scenario: Scenario
@@ -102,6 +105,7 @@ class Context:
     verdict: str = ""
     validity_notes: tuple[str, ...] = ()
     variation_notes: tuple[str, ...] = ()
+    measurement_notes: tuple[str, ...] = ()
 
 
 @dataclass(frozen=True)
@@ -426,6 +430,15 @@ def _assumptions_page(w: PageWriter, ctx: Context) -> None:
         "seed": ctx.seed,
     }
     w.bullets([t.format(**values) for t in _ASSUMPTIONS])
+    w.heading("Measuring circuit")
+    if ctx.measurement_notes:
+        w.bullets(["Charges are read through a simulated IEC 60270 measuring chain (pdvoid.measure), calibrated "
+                   "with the calibrator below; instrument frequency ranges from memory of IEC 60270 clause 4.3.",
+                   *ctx.measurement_notes], size=8.5)
+    else:
+        w.paragraph("Charges are apparent charges at the test object's terminals as an ideal instrument would read "
+                    "them: no test circuit, band-pass, calibration error, resolution time or noise is modelled "
+                    "(pass a test circuit and an instrument to model them).", size=8.5)
     if not math.isfinite(spread):
         w.paragraph("The ionisation-integral estimate is not available for this gas and length.", size=8.5)
     if ctx.validity_notes:  # the checks of pdvoid.coefficients.limits for this design (also on the summary page)

@@ -14,7 +14,7 @@ import pytest
 
 import pdvoid
 from pdvoid.analysis.fit import fit
-from pdvoid.analysis.synthetic import demo_measured_path, hidden_parameters
+from pdvoid.analysis.synthetic import DEMO_CIRCUIT, DEMO_INSTRUMENT, demo_measured_path, hidden_parameters
 from pdvoid.inputs.demo import demo_scenario
 
 DETECTOR = dict(noise=2e-12, relative_noise=0.03, phase_resolution_deg=1.0)
@@ -33,7 +33,9 @@ def test_recovers_hidden_parameters_from_a_wrong_start(measured):
     vary = {"void.diameter": (0.5e-3, 3e-3), "model.residual_ratio": (0.05, 0.6),
             "model.surface_rate_same": (1e3, 1e5)}
     start = demo_scenario()  # deliberately wrong: 1.5 mm, 0.25, 1e4 /s
-    r = fit(measured, start, vary, threshold=10e-12, cycles=500, seed=1, detector=DETECTOR, popsize=6, maxiter=15)
+    # the demo file was read through the IEC 60270 forward model; the fit puts the same instrument in the loop
+    r = fit(measured, start, vary, threshold=10e-12, cycles=1000, seed=1, circuit=DEMO_CIRCUIT,
+            instrument=DEMO_INSTRUMENT, popsize=6, maxiter=15)
     assert r.score < 0.5 * r.start_score
     # tolerances (our own): size within 8 %, residual ratio within 0.05, surface rate within a factor 2
     assert r.best["void.diameter"] == pytest.approx(truth["void.diameter"], rel=0.08)
@@ -78,3 +80,11 @@ def test_same_seed_same_fit(measured):
 def test_bad_fit_requests(measured, vary, match):
     with pytest.raises(pdvoid.InputError, match=match):
         fit(measured, demo_scenario(), vary)
+
+
+def test_circuit_and_instrument_go_together(measured):
+    vary = {"void.diameter": (1e-3, 2.5e-3)}
+    with pytest.raises(pdvoid.InputError, match="together"):
+        fit(measured, demo_scenario(), vary, circuit=DEMO_CIRCUIT)
+    with pytest.raises(pdvoid.InputError, match="not both"):
+        fit(measured, demo_scenario(), vary, circuit=DEMO_CIRCUIT, instrument=DEMO_INSTRUMENT, detector=DETECTOR)

@@ -9,7 +9,9 @@ import pytest
 import pdvoid
 from pdvoid.analysis.compare import compare, summarise
 from pdvoid.analysis.synthetic import (
+    DEMO_CIRCUIT,
     DEMO_HIDDEN,
+    DEMO_INSTRUMENT,
     DEMO_SETTINGS,
     SYNTHETIC_LABEL,
     demo_measured_path,
@@ -136,16 +138,21 @@ def test_hidden_parameters_score_better_than_the_start(scenario):
 
     def score(sc):
         sim = pdvoid.simulate(sc, cycles=1000, seed=11)
-        ev = measurement_effects(
-            sim,
-            11,
-            threshold=thr,
-            noise=s["noise"],
-            relative_noise=s["relative_noise"],
-            phase_resolution_deg=s["phase_resolution_deg"],
-        )
+        # the demo file was read through the IEC 60270 forward model; the simulation goes through the same
+        ev = pdvoid.measure(sim, DEMO_CIRCUIT, DEMO_INSTRUMENT, seed=11)
+        assert ev.extra["threshold"] == thr == s["threshold"]
         return compare(ev, target, threshold=thr).score
 
     at_truth = score(scenario.replace(**DEMO_HIDDEN))
     at_start = score(scenario)
     assert at_truth < 0.5 * at_start, (at_truth, at_start)
+
+
+def test_the_instrument_forward_model_replaces_the_simple_effects(scenario):
+    ev = synthetic_measurement(scenario, 100, seed=3, hidden=HIDDEN, circuit=DEMO_CIRCUIT, instrument=DEMO_INSTRUMENT)
+    direct = pdvoid.measure(pdvoid.simulate(scenario.replace(**HIDDEN), cycles=100, seed=3), DEMO_CIRCUIT,
+                            DEMO_INSTRUMENT, seed=3)
+    assert ev.label == SYNTHETIC_LABEL and np.array_equal(ev.charge, direct.charge)
+    assert ev.extra["synthetic"]["calibration_factor"] == direct.extra["instrument"]["calibration_factor"]
+    with pytest.raises(pdvoid.InputError, match="both circuit and instrument"):
+        synthetic_measurement(scenario, 10, circuit=DEMO_CIRCUIT)
