@@ -16,7 +16,7 @@ from pathlib import Path
 
 from pdvoid.core.errors import InputError
 from pdvoid.faces.cli import options
-from pdvoid.faces.cli.output import SAFETY
+from pdvoid.faces.cli.output import SAFETY, json_safe
 from pdvoid.faces.cli.stopping import exit_status, signal_name
 
 __all__ = ["register", "run"]
@@ -180,7 +180,7 @@ def run(ns: argparse.Namespace) -> int:
         print(f"pdvoid: error: every one of the {points} points failed (first: {first}); {out} holds the reasons "
               "in its error variable", file=sys.stderr)
     if ns.json:
-        print(json.dumps(doc, indent=2))
+        print(json.dumps(json_safe(doc), indent=2, allow_nan=False))
         return status
     resumed = f", {doc['resumed_points']} kept from before" if doc["resumed_points"] else ""
     print(

@@ -289,3 +289,12 @@ def test_pattern_bins_are_checked_against_the_memory_budget(monkeypatch):
     with pytest.raises(InputError, match="a histogram of 3600 phase x 10000 charge bins would take"):
         pdvoid.simulate(demo_scenario(), cycles=1, histogram=True, phase_bins=3600,
                         charge_edges=np.linspace(-1e-9, 1e-9, 10001))
+
+
+def test_sweep_file_with_an_integer_too_long_to_convert_is_refused(tmp_path):
+    # Python refuses to convert integers of more than sys.int_info.str_digits_check_threshold digits (4300 by
+    # default, CPython 3.11 docs "Integer string conversion length limitation"); the reader names the file.
+    p = tmp_path / "sweep.toml"
+    p.write_text("[sweep]\nseed = " + "9" * 5000 + "\n", encoding="utf-8")
+    with pytest.raises(InputError, match="sweep.toml"):
+        read_sweep_file(p)
