@@ -363,4 +363,4 @@ def read_toml_file(path: str | os.PathLike[str], limit: int, what: str) -> dict[
     except RecursionError:
         raise InputError(f"{p}: {what} nests tables or arrays too deeply") from None
     except ValueError as exc:  # e.g. an integer of more digits than Python converts (sys.int_info)
-        raise InputError(f"{p}: {what} holds a value that cannot be read ({exc})"[:400]) from None
+        raise InputError(f"{p}: malformed TOML (the {what} holds a value that cannot be read: {exc})"[:400]) from None
