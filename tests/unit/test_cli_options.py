@@ -14,7 +14,8 @@ from pdvoid.faces.cli.options import QuantityConverter
 from pdvoid.inputs.demo import demo_scenario, demo_scenario_path
 
 # one value with a unit per dimension (SI prefixes, common practice)
-WITH_UNIT = {"voltage": "18kV", "charge": "5pC", "time": "1s", "frequency": "50Hz", "angle": "2deg"}
+WITH_UNIT = {"voltage": "18kV", "charge": "5pC", "time": "1s", "frequency": "50Hz", "angle": "2deg",
+             "capacitance": "100pF"}
 
 
 def _subparsers(parser: argparse.ArgumentParser) -> dict[str, argparse.ArgumentParser]:
@@ -93,8 +94,8 @@ def test_a_value_with_a_unit_is_accepted(command, option):
     assert isinstance(action.type, QuantityConverter)
     text = WITH_UNIT[action.type.dimension]
     ns = build_parser().parse_args([command, *_required(sub, action), option, text])
-    # 18 kV = 18000 V, 5 pC = 5e-12 C, 1 s, 50 Hz, 2 deg (SI prefixes, common practice)
-    expected = {"18kV": 18e3, "5pC": 5e-12, "1s": 1.0, "50Hz": 50.0, "2deg": 2.0}[text]
+    # 18 kV = 18000 V, 5 pC = 5e-12 C, 1 s, 50 Hz, 2 deg, 100 pF = 1e-10 F (SI prefixes, common practice)
+    expected = {"18kV": 18e3, "5pC": 5e-12, "1s": 1.0, "50Hz": 50.0, "2deg": 2.0, "100pF": 1e-10}[text]
     assert getattr(ns, action.dest) == pytest.approx(expected, rel=1e-12)
 
 

@@ -29,6 +29,7 @@ QUANTITY_EXAMPLES: dict[str, tuple[str, str, float, str]] = {
     "angle": ("deg", "rad", math.pi / 180.0, "deg"),
     "length": ("mm", "m", 1e-3, "m"),
     "pressure": ("kPa", "Pa", 1e3, "Pa"),
+    "capacitance": ("pF", "nF", 1e-3, "F"),
 }
 
 _BARE_NUMBER = re.compile(r"^\s*[-+]?(\d+\.?\d*|\.\d+)([eE][-+]?\d+)?\s*$|^\s*[-+]?(inf|infinity|nan)\s*$",
