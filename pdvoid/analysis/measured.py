@@ -342,7 +342,7 @@ def pulse_pair_reading(
     Returns
     -------
     tuple[float, int]
-        (largest |reading| of the pair / |reading| of one pulse [-], number of readings reported [-]).
+        (largest ``|reading|`` of the pair / ``|reading|`` of one pulse [-], number of readings reported [-]).
 
     References
     ----------

@@ -11,7 +11,7 @@ limit frequencies f_1, f_2, at which the response has fallen by 6 dB from its pa
 Because a PD current pulse is much shorter than 1/f_2, its spectrum is flat over the pass band and the filter's
 output peak is proportional to the pulse's charge whatever its shape ("quasi-integration"). The standard
 prescribes no filter type; we use a Butterworth band-pass (Butterworth 1930) whose -6 dB frequencies are the
-standard's limits: with the low-pass prototype of order N, |H| = 1/2 at the prototype frequency Ω = 3^(1/(2N)),
+standard's limits: with the low-pass prototype of order N, ``|H|`` = 1/2 at the prototype frequency Ω = 3^(1/(2N)),
 so the -3 dB band edges ω_a', ω_b' handed to the design satisfy ω_a' ω_b' = ω_1 ω_2 and
 ω_b' − ω_a' = (ω_2 − ω_1) / 3^(1/(2N)).
 """
@@ -53,7 +53,7 @@ def bandpass_zpk(f_low: float, f_high: float, order: int = 2) -> tuple[np.ndarra
     References
     ----------
     butterworth1930: S. Butterworth, 'On the theory of filter amplifiers', Wireless Engineer 7 (1930) 536-541
-    (maximally flat response |H|^2 = 1/(1 + Ω^(2N))); iec60270_instrument (limit frequencies at -6 dB; from
+    (maximally flat response ``|H|^2`` = 1/(1 + Ω^(2N))); iec60270_instrument (limit frequencies at -6 dB; from
     memory). The design is ``scipy.signal.butter(N, [ω_a', ω_b'], 'bandpass', analog=True, output='zpk')``.
     """
     f1 = check_positive("f_low", f_low, "Hz")
@@ -128,7 +128,7 @@ def impulse_residues(
 
 
 def noise_moments(zeros: np.ndarray, poles: np.ndarray, gain: float) -> tuple[float, float]:
-    """Spectral moments m_0 = ∫|H(jω)|² dω and m_2 = ∫ω²|H(jω)|² dω over ω >= 0 (numerical quadrature).
+    """Spectral moments m_0 = ∫ ``|H(jω)|²`` dω and m_2 = ∫ω² ``|H(jω)|²`` dω over ω >= 0 (numerical quadrature).
 
     For white noise at the filter's input these give the output variance (∝ m_0) and, with m_2, the mean rate of
     crossings of a level (:func:`rice_crossing_rate`).
@@ -147,8 +147,8 @@ def noise_moments(zeros: np.ndarray, poles: np.ndarray, gain: float) -> tuple[fl
 
     Notes
     -----
-    Validity: band-pass responses that fall at least as 1/ω far above the band (m_2 converges only if |H|
-    falls faster than ω^-1.5; with a prototype order N >= 1 and N zeros at 0, |H| ~ ω^-N, so m_2 needs N >= 2;
+    Validity: band-pass responses that fall at least as 1/ω far above the band (m_2 converges only if ``|H|``
+    falls faster than ω^-1.5; with a prototype order N >= 1 and N zeros at 0, ``|H|`` ~ ω^-N, so m_2 needs N >= 2;
     for N = 1 the integral is cut at 100 times the upper pole frequency).
 
     References
