@@ -102,7 +102,7 @@ def test_summary_numbers_come_from_the_analysis(demo_pack):
 
     # the pack prints the analysis' numbers (pdvoid.analysis.inception; both criteria) and the margin
     est = inception(demo_scenario())
-    page = _flat(demo_pack.page_texts[0] + "\n" + demo_pack.page_texts[1])
+    page = _flat("\n".join(demo_pack.page_texts[:3]))  # the summary and its continuation pages
     for v in (est.inception_voltage_streamer, est.inception_voltage_integral, est.extinction_voltage):
         assert f"{v / 1e3:.3g}" in page
     assert demo_pack.margin == pytest.approx(est.inception_voltage / 18e3)
@@ -380,3 +380,45 @@ def test_assumptions_page_states_the_measuring_circuit(tmp_path):
     assert "ideal instrument" in page
     with pytest.raises(pdvoid.InputError, match="together"):
         design_review(sc, test_voltage=18e3, cycles=20, out=tmp_path / "x.pdf", circuit=circuit)
+
+
+def test_input_origin_follows_the_file_not_the_value(tmp_path):
+    from pdvoid.faces.report import _file_keys, _input_rows
+    from pdvoid.inputs.demo import demo_scenario_path
+
+    # the demo file sets residual_ratio = 0.25 and surface_rate_same = 1e4, both equal to pdvoid's defaults: they
+    # come from the file all the same; electron_yield and charge_decay_time it does not set
+    path = demo_scenario_path()
+    rows = {r[0]: r[3] for r in _input_rows(pdvoid.Scenario.from_file(path), _file_keys(path))}
+    assert rows["model: residual ratio"] == "scenario file"
+    assert rows["model: surface rate same"] == "scenario file"
+    assert rows["void diameter (across the field)"] == "scenario file"
+    assert rows["model: electron yield"] == "pdvoid default"
+    assert rows["model: charge decay time"] == "pdvoid default"
+    assert rows["supply harmonics (order: fraction at phase)"] == "pdvoid default"
+    # a memory model naming its set: values the file leaves out come from the set
+    mem = tmp_path / "memory.toml"
+    mem.write_text(path.read_text(encoding="utf-8").split("[model]")[0]
+                   + '[model]\nkind = "memory"\ntrap_depth = "1.2 V"\n', encoding="utf-8")
+    rows = {r[0]: r[3] for r in _input_rows(pdvoid.Scenario.from_file(mem), _file_keys(mem))}
+    assert rows["model: trap depth"] == "scenario file"
+    assert rows["model: attempt frequency"] == "parameter set niemeyer1995"
+    # without a file the origin is the Scenario object, and a value equal to the default says so
+    rows = {r[0]: r[3] for r in _input_rows(pdvoid.Scenario.from_file(path))}
+    assert rows["model: residual ratio"] == "Scenario object (default value)"
+    assert "pdvoid default" not in rows["void diameter (across the field)"]
+
+
+def test_cli_pack_labels_file_inputs_and_has_no_nan(tmp_path, capsys, scenario_factory):
+    from pdvoid.inputs.demo import demo_scenario_path
+
+    out = tmp_path / "cli.pdf"
+    ns = _parser().parse_args(["report", str(demo_scenario_path()), "--out", str(out), "--test-voltage", "8kV",
+                               "--cycles", "20"])
+    assert ns.func(ns) == 0  # 8 kV: below the demo's inception (about 13 kV), so no discharge is simulated
+    texts = _pdf_page_texts(out)
+    table = next(t for t in texts if "scenario input value unit origin" in t)
+    assert "residual ratio 0.25 - scenario file" in table
+    assert "mean / largest apparent charge none: no discharge in the simulated run" in " ".join(texts)
+    for i, text in enumerate(texts):  # no "nan" as a word anywhere (plain words instead)
+        assert " nan " not in f" {text} " and "/ nan" not in text, i

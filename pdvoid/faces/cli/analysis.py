@@ -52,15 +52,35 @@ def _cmd_pattern(ns: argparse.Namespace) -> int:
         "fingerprint": fingerprint(ev),
         "safety": SAFETY,
     }
+    reasons = {"discharge power P [W]": _power_gap(events)} if not np.isfinite(q.power) else {}
+    if reasons:
+        doc["not computed"] = reasons
     lines = [f"{ns.file}: {events.count} events over {events.cycles:g} cycles "
              f"({events.count / events.cycles:.4g} per cycle)"]
     for k, v in doc["iec60270"].items():
-        lines.append(f"  {k:<40s} {v:.4g}")
+        lines.append(f"  {k:<40s} {_number_or_reason(v, reasons.get(k))}")
     lines.append("  descriptors:")
     for k, v in doc["fingerprint"].items():
-        lines.append(f"    {k:<38s} {v:.4g}")
+        lines.append(f"    {k:<38s} {_number_or_reason(v)}")
     emit(doc, ns.json, lines)
     return 0
+
+
+def _power_gap(events: Events) -> str:
+    """Why the discharge power P = sum q_i u_i / T_ref cannot be computed for ``events``, in words."""
+    u = events.voltage
+    if u is None or not np.any(np.isfinite(u)):
+        return ("cannot be computed: the file gives no applied voltage at the discharges (P needs the "
+                "instantaneous voltage u_i of each one; add a voltage column, e.g. 'voltage [kV]')")
+    return ("cannot be computed: some discharges in the file have no applied voltage (P needs the instantaneous "
+            "voltage u_i of each one)")
+
+
+def _number_or_reason(value: float, reason: str | None = None) -> str:
+    """A table cell: the number, or why there is none (never "nan")."""
+    if np.isfinite(value):
+        return f"{value:.4g}"
+    return reason or "not defined for these events"
 
 
 def _inception_text(regime: str, reason: str, voltage: float) -> str:
