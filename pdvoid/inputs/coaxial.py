@@ -64,8 +64,8 @@ class Coaxial(Insulation):
         a = check_range("insulation.inner_radius", self.inner_radius, lo, hi, unit="m")
         b = check_range("insulation.outer_radius", self.outer_radius, lo, hi, unit="m")
         if a >= b:
-            raise InputError(f"insulation.inner_radius must be smaller than insulation.outer_radius ({b!r} m); "
-                             f"got {a!r} m")
+            raise InputError(f"insulation.inner_radius must be smaller than insulation.outer_radius ({b:g} m); "
+                             f"got {a:g} m")
         if self.area is not None:
             raise InputError(f"insulation.area does not apply to a coaxial insulation (a cable has no plane "
                              f"electrode area); got {self.area!r}")

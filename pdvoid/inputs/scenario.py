@@ -200,6 +200,9 @@ def with_changes(scenario: Scenario, changes: dict[str, Any]) -> Scenario:
         obj = getattr(scenario, part)
         if name not in {f.name for f in fields(obj)}:
             raise InputError(f"{key!r}: {type(obj).__name__} has no field {name!r}")
+        if name not in {f.name for f in fields(obj) if f.init}:
+            raise InputError(f"{key!r} is derived in a {type(obj).__name__} and cannot be changed; change what it is "
+                             f"derived from ({', '.join(f.name for f in fields(obj) if f.init)})")
         parts.setdefault(part, {})[name] = value
     new = {part: replace(getattr(scenario, part), **kv) for part, kv in parts.items()}
     return replace(scenario, **new)
