@@ -11,7 +11,6 @@ import numpy as np
 import pytest
 
 import pdvoid
-
 from pdvoid.faces.cli.command import main
 
 CABLE = str(resources.files("pdvoid.inputs") / "examples" / "cable.toml")
