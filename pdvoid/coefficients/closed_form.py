@@ -110,7 +110,9 @@ def compute_coefficients(scenario: Scenario) -> Coefficients:
         elif model.gain_from_network and model.network_capacitances() is None:
             raise InputError(
                 f"void.height {h:g} m is too large for the network equivalent of a spheroid in "
-                f"insulation.thickness {d_loc:g} m (needs f·height < thickness; f = {f:.4g})"
+                + (f"the local gap r ln(R/r_i) = {d_loc:g} m of the coaxial insulation (needs f·height < gap; "
+                   if coax else f"insulation.thickness {d:g} m (needs f·height < thickness; ")
+                + f"f = {f:.4g})"
             )
         else:
             c_b = c_c = math.nan  # the field model does not need the network equivalent
