@@ -113,7 +113,7 @@ def _extrapolated(a, b, rv, r0, n=30):
 def test_cross_section_solution_confirms_local_field_and_terminal_charge():
     # Independent reference: a long circular void parallel to the cable axis, solved in the cable's true
     # cross-section (tests/unit/coefficients/coax_cross_section.py: own polar finite volumes, no axisymmetry
-    # about the void axis). For a small void (radius 0.1 mm, h/r = 0.016, 2.65 mm from the conductors) its mean
+    # about the void axis). For a small void (radius 0.1 mm, h/r = 0.019, 2.65 mm from the conductors) its mean
     # field per volt must be f·V/(r ln(R/r_i)) with the 2-D depolarisation N = 1/2 of a circular cylinder,
     # f = 2εr/(εr + 1) (Stratton 1941, dielectric cylinder in a transverse field, from memory), and its terminal
     # charge per field drop K εr ε0 A/(r ln(R/r_i)) per unit length with K = 1/N = 2 (physics brief §2.3 in 2-D)
