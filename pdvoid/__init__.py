@@ -23,6 +23,7 @@ from pdvoid.core.errors import InputError
 from pdvoid.core.references import cite
 from pdvoid.core.validity import ValidityWarning
 from pdvoid.core.versions import show_versions
+from pdvoid.inputs.coaxial import Coaxial
 from pdvoid.inputs.measurement import Instrument, TestCircuit
 from pdvoid.inputs.parameters import Insulation, Periodic, Sine, Void
 from pdvoid.inputs.scenario import Scenario
@@ -66,7 +67,7 @@ __all__ = [
     "__version__", "InputError", "ValidityWarning", "cite", "show_versions", "Insulation", "Void", "Sine", "Periodic",
     "FieldModel", "MemoryModel", "NetworkModel", "Scenario", "Coefficients", "compute_coefficients", "Events",
     "simulate", "Result",
-    "load",
+    "load", "Coaxial",
     "TestCircuit", "Instrument",
     *_LAZY,
 ]

@@ -68,6 +68,9 @@ REFERENCES: dict[str, Reference] = dict(
            "London 1989 (three-capacitance model)", "from memory"),
         _r("kuffel2000", "E. Kuffel, W. S. Zaengl, J. Kuffel, High Voltage Engineering: Fundamentals, 2nd ed., "
            "Newnes, Oxford 2000 (PD measurement chapter; gas breakdown chapter)", "from memory"),
+        _r("kuffel2000_fields", "E. Kuffel, W. S. Zaengl, J. Kuffel, High Voltage Engineering: Fundamentals, "
+           "2nd ed., Newnes, Oxford 2000 (electrostatic fields chapter: the coaxial cylindrical field "
+           "E = V/(r ln(R/r_i)))", "from memory"),
         _r("niemeyer1995", "L. Niemeyer, 'A generalized approach to partial discharge modeling', IEEE Trans. "
            "Dielectr. Electr. Insul. 2(4) (1995) 510-528", "confirmed"),
         _r("gutfleisch1995", "F. Gutfleisch, L. Niemeyer, 'Measurement and simulation of PD in epoxy voids', "

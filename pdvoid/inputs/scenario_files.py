@@ -6,8 +6,11 @@ files written by pdvoid carry SI units.
 Layout (every key optional unless the class requires it; bare numbers are SI)::
 
     name = "..."
-    [insulation]   thickness, permittivity, material, area, dielectric_strength
-    [void]         diameter, height, pressure, gas, temperature, shape, inception_length
+    [insulation]   kind = "slab" (default) | "coaxial"; slab: thickness, permittivity, material, area,
+                   dielectric_strength; coaxial: inner_radius, outer_radius, permittivity, material,
+                   dielectric_strength
+    [void]         diameter, height, pressure, gas, temperature, shape, inception_length, radial_position
+                   (coaxial only)
     [supply]       kind = "sine" | "periodic"; sine: rms, frequency, harmonics = [[order, fraction, phase_deg]]
                    periodic: samples (V, one period), frequency, max_harmonic
     [model]        kind = "field" | "network"; residual_ratio, lag_free, ionization_rate, electron_yield,
@@ -28,6 +31,8 @@ from pdvoid.core.errors import InputError
 from pdvoid.core.files import atomic_write, read_toml_file
 from pdvoid.core.limits import MAX_TEXT_FILE_BYTES
 from pdvoid.core.units import parse_quantity
+from pdvoid.inputs.coaxial import Coaxial
+from pdvoid.inputs.geometries import insulation_class, insulation_kind
 from pdvoid.inputs.model_parameters import model_class, model_kinds
 from pdvoid.inputs.parameters import Insulation, Periodic, Sine, Void
 
@@ -47,12 +52,24 @@ _DIMS: dict[str, dict[str, tuple[str | None, str]]] = {
     "void": {"diameter": ("length", "m"), "height": ("length", "m"), "pressure": ("pressure", "Pa"),
              "gas": (None, ""), "temperature": ("temperature", "K"), "shape": (None, ""),
              "inception_length": ("length", "m"), "position": (None, ""),
+             "radial_position": ("length", "m"),
              "field_enhancement": ("dimensionless", ""), "charge_per_field": ("charge per field", "C/(V/m)"),
              "sealed": (None, ""), "fill_temperature": ("temperature", "K"),
              "secondary_emission": ("dimensionless", "")},
     "sine": {"rms": ("voltage", "V"), "frequency": ("frequency", "Hz"), "harmonics": (None, "")},
     "periodic": {"samples": (None, ""), "frequency": ("frequency", "Hz"), "max_harmonic": (None, "")},
 }
+
+
+#: keys of a coaxial insulation that a plane slab does not have
+_COAXIAL_DIMS: dict[str, tuple[str | None, str]] = {"inner_radius": ("length", "m"), "outer_radius": ("length", "m")}
+
+
+def _insulation_schema(cls: type) -> dict[str, tuple[str | None, str]]:
+    """The [insulation] keys of an insulation class: the slab's, or the coaxial ones (no thickness or area)."""
+    if issubclass(cls, Coaxial):
+        return {**{k: v for k, v in _DIMS["insulation"].items() if k not in ("thickness", "area")}, **_COAXIAL_DIMS}
+    return dict(_DIMS["insulation"])
 
 
 def field_schema(part: str, obj: Any) -> dict[str, tuple[str | None, str]]:
@@ -74,6 +91,8 @@ def field_schema(part: str, obj: Any) -> dict[str, tuple[str | None, str]]:
         return dict(obj.field_units)
     if part == "supply":
         return dict(_DIMS["sine" if isinstance(obj, Sine) else "periodic"])
+    if part == "insulation":
+        return _insulation_schema(type(obj))
     if part not in _DIMS:
         raise InputError(f"the part must be insulation, void, supply or model; got {part!r}")
     return dict(_DIMS[part])
@@ -105,7 +124,7 @@ def _section(data: dict, key: str, schema: dict, source: str) -> dict:
         raise InputError(f"{source}: [{key}] must be a table")
     out = {}
     for k, v in sec.items():
-        if k == "kind" and key in ("supply", "model"):
+        if k == "kind" and key in ("supply", "model", "insulation"):
             continue
         if k not in schema:
             raise InputError(f"{source}: unknown key {key}.{k}; allowed: {', '.join(sorted(schema))}")
@@ -148,7 +167,9 @@ def _from_dict(data: dict, source: str) -> dict[str, Any]:
     for part in ("insulation", "void", "supply"):
         if part not in data:
             raise InputError(f"{source}: missing [{part}] table")
-    ins = _build(Insulation, _section(data, "insulation", _DIMS["insulation"], source), "insulation", source)
+    isec = data["insulation"]
+    ins_cls = insulation_class(isec.get("kind", "slab")) if isinstance(isec, dict) else Insulation
+    ins = _build(ins_cls, _section(data, "insulation", _insulation_schema(ins_cls), source), "insulation", source)
     void = _build(Void, _section(data, "void", _DIMS["void"], source), "void", source)
     sup = data["supply"]
     kind = sup.get("kind", "sine") if isinstance(sup, dict) else None
@@ -232,11 +253,14 @@ def scenario_to_dict(s: Scenario) -> dict[str, Any]:
         The TOML document as a dictionary.
     """
     out: dict[str, Any] = {"name": s.name}
-    for part, obj, schema in (("insulation", s.insulation, _DIMS["insulation"]), ("void", s.void, _DIMS["void"])):
+    for part, obj, schema in (("insulation", s.insulation, _insulation_schema(type(s.insulation))),
+                              ("void", s.void, _DIMS["void"])):
         out[part] = {}
+        if part == "insulation" and isinstance(obj, Coaxial):
+            out[part]["kind"] = insulation_kind(obj)
         for f in fields(obj):
             v = getattr(obj, f.name)
-            if v is None:
+            if v is None or not f.init:  # a derived field (a coaxial wall's thickness) is not written
                 continue
             dim, unit = schema[f.name]
             out[part][f.name] = _q(v, unit) if dim is not None and unit else v

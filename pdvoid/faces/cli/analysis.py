@@ -110,7 +110,8 @@ def _cmd_inception(ns: argparse.Namespace) -> int:
     with validity_notes() as notes:
         sc = Scenario.from_file(ns.scenario)
         est = inception(sc)
-        band = band_from_coefficients(compute_coefficients(sc))
+        coef = compute_coefficients(sc)
+        band = band_from_coefficients(coef)
         r = None
         if ns.ramp:
             r = inception(sc, ramp=True, step=ns.step, dwell=ns.dwell, threshold=ns.threshold,
@@ -122,6 +123,8 @@ def _cmd_inception(ns: argparse.Namespace) -> int:
         "extinction voltage estimate [V rms]": est.extinction_voltage,
         "inception field [V/m]": est.inception_field, "residual field [V/m]": est.residual_field,
         "field enhancement [-]": est.field_enhancement}
+    if coef.local_field_factor != 1.0:  # a coaxial insulation: the enhancement is per mean field V/(R - r_i)
+        analytic["local field at the void per mean field [-]"] = coef.local_field_factor
     doc: dict[str, object] = {"scenario": ns.scenario, "analytic": {**analytic, **_band_doc(band)}}
     said = _inception_text(est.inception_regime, est.inception_reason, est.inception_voltage)
     lines = [f"{ns.scenario}: analytic", f"  inception voltage: {said}"]

@@ -11,10 +11,11 @@ from dataclasses import dataclass, fields, replace
 from typing import Any
 
 from pdvoid.core.errors import InputError, check_bool, check_choice, check_int, check_real
+from pdvoid.inputs.coaxial import Coaxial
 from pdvoid.inputs.materials import get_material, list_materials
 from pdvoid.inputs.model_parameters import model_class, model_kinds
 from pdvoid.inputs.model_sets import get_parameter_set, list_parameter_sets, model_from_set
-from pdvoid.inputs.parameters import GASES, Periodic, Sine, check_seed
+from pdvoid.inputs.parameters import GASES, Insulation, Periodic, Sine, check_seed
 from pdvoid.inputs.scenario import Scenario
 
 __all__ = ["Controls", "ControlSpec", "SPECS", "GROUPS", "CUSTOM_MATERIAL", "PANEL_VALUES", "MAX_CYCLES",
@@ -390,12 +391,16 @@ class Controls:
         check_choice("host material", self.material, SPECS["material"].choices)
         eps = check_real("relative permittivity", self.permittivity)
         material = self.material if self.material_permittivity() == eps else None
-        ins = replace(
-            base.insulation,
-            thickness=check_real("insulation thickness", self.thickness_mm) * _MM,
-            permittivity=eps,
-            material=material,
-        )
+        thickness = check_real("insulation thickness", self.thickness_mm) * _MM
+        ins: Insulation
+        if isinstance(base.insulation, Coaxial):
+            # a cable's wall: the inner radius is kept, the outer one follows the thickness shown
+            cable = base.insulation
+            same = math.isclose(thickness, cable.thickness, rel_tol=1e-12)
+            outer = cable.outer_radius if same else cable.inner_radius + thickness
+            ins = replace(cable, outer_radius=outer, permittivity=eps, material=material)
+        else:
+            ins = replace(base.insulation, thickness=thickness, permittivity=eps, material=material)
         void = replace(
             base.void,
             diameter=check_real("void diameter", self.diameter_mm) * _MM,
