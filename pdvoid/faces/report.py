@@ -96,7 +96,8 @@ def sensitivity(scenario: Scenario, change: float = 0.2) -> list[SensitivityRow]
     lowered and raised by ``change``, all else kept.
 
     Recomputed from the coefficients of ``scenario.replace(...)``; a variation that makes the scenario invalid
-    gives NaN.
+    gives NaN. For a cable (:class:`~pdvoid.Coaxial`) the insulation wall is varied by moving the outer radius,
+    the conductor radius and the void's radial position kept.
 
     Parameters
     ----------
@@ -126,9 +127,16 @@ def sensitivity(scenario: Scenario, change: float = 0.2) -> list[SensitivityRow]
         part, name = path.split(".")
         value = float(getattr(getattr(scenario, part), name))
         out = []
+        inner = getattr(scenario.insulation, "inner_radius", None)
+        if path == "insulation.thickness" and inner is not None:
+            label = "insulation wall (outer radius moved)"  # a cable: the wall is outer minus inner radius
         for factor in (1.0 - change, 1.0 + change):
             try:
-                c = compute_coefficients(scenario.replace(**{path: value * factor}))
+                if path == "insulation.thickness" and inner is not None:
+                    varied = scenario.replace(**{"insulation.outer_radius": inner + value * factor})
+                else:
+                    varied = scenario.replace(**{path: value * factor})
+                c = compute_coefficients(varied)
                 out.append((c.inception_voltage, c.charge_per_discharge))
             except InputError:
                 out.append((math.nan, math.nan))
@@ -490,8 +498,20 @@ def _input_rows(scenario: Scenario, given: frozenset[str] | None = None) -> list
             return f"parameter set {own_set}"
         return "pdvoid default"
 
-    rows = [
-        ["insulation thickness", f"{ins.thickness * 1e3:.4g}", "mm", origin("insulation.thickness")],
+    inner = getattr(ins, "inner_radius", None)
+    if inner is not None:  # a cable (Coaxial): the wall follows from the two radii
+        rows = [
+            ["conductor radius (inner radius of the insulation)", f"{inner * 1e3:.4g}", "mm",
+             origin("insulation.inner_radius")],
+            ["outer radius of the insulation", f"{ins.outer_radius * 1e3:.4g}", "mm",
+             origin("insulation.outer_radius")],
+            ["insulation wall", f"{ins.thickness * 1e3:.4g}", "mm", "derived: outer minus inner radius"],
+            ["void centre from the cable axis", f"{void.radial_position * 1e3:.4g}", "mm",
+             origin("void.radial_position")],
+        ]
+    else:
+        rows = [["insulation thickness", f"{ins.thickness * 1e3:.4g}", "mm", origin("insulation.thickness")]]
+    rows += [
         ["void diameter (across the field)", f"{void.diameter * 1e3:.4g}", "mm", origin("void.diameter")],
         ["void height (along the field)", f"{void.height * 1e3:.4g}", "mm", origin("void.height")],
         ["void shape", void.shape, "-", origin("void.shape")],

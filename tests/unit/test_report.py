@@ -5,6 +5,7 @@ from __future__ import annotations
 import argparse
 import dataclasses
 import math
+from pathlib import Path
 
 import matplotlib
 
@@ -409,6 +410,22 @@ def test_input_origin_follows_the_file_not_the_value(tmp_path):
     assert "pdvoid default" not in rows["void diameter (across the field)"]
 
 
+def test_input_table_of_a_cable_gives_its_radii():
+    from importlib import resources
+
+    from pdvoid.faces.report import _file_keys, _input_rows
+
+    # the invented example cable sets the two radii and the void's radial position; the wall is derived from the
+    # radii (R - r_i = 13.5 mm - 8 mm = 5.5 mm, by hand), not a default
+    path = Path(str(resources.files("pdvoid.inputs") / "examples" / "cable.toml"))
+    rows = {r[0]: r for r in _input_rows(pdvoid.Scenario.from_file(path), _file_keys(path))}
+    assert rows["conductor radius (inner radius of the insulation)"][1:] == ["8", "mm", "scenario file"]
+    assert rows["outer radius of the insulation"][1:] == ["13.5", "mm", "scenario file"]
+    assert rows["insulation wall"][1] == "5.5" and rows["insulation wall"][3].startswith("derived")
+    assert rows["void centre from the cable axis"][1:] == ["10.5", "mm", "scenario file"]
+    assert "insulation thickness" not in rows
+
+
 def test_cli_pack_labels_file_inputs_and_has_no_nan(tmp_path, capsys, scenario_factory):
     from pdvoid.inputs.demo import demo_scenario_path
 
@@ -422,3 +439,23 @@ def test_cli_pack_labels_file_inputs_and_has_no_nan(tmp_path, capsys, scenario_f
     assert "mean / largest apparent charge none: no discharge in the simulated run" in " ".join(texts)
     for i, text in enumerate(texts):  # no "nan" as a word anywhere (plain words instead)
         assert " nan " not in f" {text} " and "/ nan" not in text, i
+
+
+def test_sensitivity_of_a_cable_moves_the_outer_radius():
+    import warnings
+    from importlib import resources
+
+    from pdvoid.faces.report import sensitivity
+
+    path = Path(str(resources.files("pdvoid.inputs") / "examples" / "cable.toml"))
+    sc = pdvoid.Scenario.from_file(path)
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", pdvoid.ValidityWarning)
+        row = {r.parameter: r for r in sensitivity(sc)}["insulation.thickness"]
+    assert row.label.startswith("insulation wall")
+    # the local field of a cable, E = V / (r ln(R / r_i)) (cylindrical capacitor, Kuffel, Zaengl & Kuffel 2000,
+    # from memory): with r and r_i kept, the inception voltage scales as ln(R' / r_i) / ln(R / r_i)
+    a, b, wall = 8e-3, 13.5e-3, 5.5e-3
+    for factor, got in ((0.8, row.inception_low), (1.2, row.inception_high)):
+        expected = row.inception_base * math.log((a + factor * wall) / a) / math.log(b / a)
+        assert got == pytest.approx(expected, rel=1e-9)
