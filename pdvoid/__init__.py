@@ -26,6 +26,7 @@ from pdvoid.core.versions import show_versions
 from pdvoid.inputs.measurement import Instrument, TestCircuit
 from pdvoid.inputs.multi_void import MultiVoidScenario
 from pdvoid.inputs.parameters import Insulation, Periodic, Sine, Void
+from pdvoid.inputs.population import VoidPopulation
 from pdvoid.inputs.scenario import Scenario
 from pdvoid.models import FieldModel, MemoryModel, NetworkModel
 from pdvoid.simulation.events import Events
@@ -69,7 +70,7 @@ _SUBPACKAGES = {
 __all__ = [
     "__version__", "InputError", "ValidityWarning", "cite", "show_versions", "Insulation", "Void", "Sine", "Periodic",
     "FieldModel", "MemoryModel", "NetworkModel", "Scenario", "Coefficients", "compute_coefficients", "Events",
-    "simulate", "Result", "MultiVoidScenario", "simulate_voids", "MultiVoidResult",
+    "simulate", "Result", "MultiVoidScenario", "simulate_voids", "MultiVoidResult", "VoidPopulation",
     "load",
     "TestCircuit", "Instrument",
     *_LAZY,
