@@ -32,6 +32,7 @@ import math
 import time
 import warnings
 from dataclasses import dataclass
+from typing import Any
 
 import numpy as np
 
@@ -203,6 +204,8 @@ def acceptance_probability(
     quantity: str = "largest",
     repetition_rate: float = DEFAULT_REPETITION_RATE,
     confidence: float = 0.95,
+    workers: int | None = 1,
+    client: Any = None,
 ) -> AcceptanceEstimate:
     """The probability that a part with voids from ``population`` passes a routine test (module docs).
 
@@ -229,6 +232,11 @@ def acceptance_probability(
         Repetition rate of the "repeated" quantity [1/s].
     confidence : float
         Confidence level of the interval [-], in (0, 1).
+    workers : int or None
+        Processes for the parts (1 = in this process; None = all local cores); the estimate is the same for
+        any number, each part having its own seed.
+    client : Any
+        A dask.distributed Client or scheduler address (then ``workers`` is ignored).
 
     Returns
     -------
@@ -257,6 +265,8 @@ def acceptance_probability(
     check_choice("quantity", quantity, QUANTITIES)
     repetition_rate = check_positive("repetition_rate", repetition_rate, "1/s")
     confidence = check_range("confidence", confidence, 0.0, 1.0, low_open=True, high_open=True)
+    if workers is not None:
+        workers = check_int("workers", workers, 1, 1024)
     if voltage is not None:
         voltage = check_positive("voltage", voltage, "V")
         if not isinstance(scenario.supply, Sine):
@@ -306,32 +316,33 @@ def acceptance_probability(
         levels = np.zeros(parts)
         discharging = np.zeros(parts, dtype=np.int64)
         incepts: dict[float, bool] = {}
+        work: list[tuple[int, tuple[Void, ...]]] = []
         start = 0
         for i in range(parts):
-            diam = sizes[start:start + counts[i]]
-            start += int(counts[i])
             voids = []
-            for d in diam:
+            for d in sizes[start:start + counts[i]]:
                 v = _void(scenario.void, float(d), aspect)
-                key = float(d)
-                if key not in incepts:
-                    incepts[key] = _can_discharge(scenario.replace(**{"void.diameter": v.diameter,
-                                                                      "void.height": v.height}))
-                if incepts[key]:
+                if float(d) not in incepts:
+                    incepts[float(d)] = _can_discharge(scenario.replace(**{"void.diameter": v.diameter,
+                                                                           "void.height": v.height}))
+                if incepts[float(d)]:
                     voids.append(v)
+            start += int(counts[i])
             discharging[i] = len(voids)
-            if not voids:
-                continue
-            part_seed = int(np.random.SeedSequence([seed, i]).generate_state(1, dtype=np.uint32)[0])
-            multi = MultiVoidScenario.from_scenario(scenario, voids)
-            rec = simulate_voids(multi, cycles=cycles, seed=part_seed)
-            if rec.events.count == 0:
-                continue
-            if quantity == "largest":
-                levels[i] = float(np.max(np.abs(rec.events.charge)))
-            else:
-                levels[i] = largest_repeated_magnitude(rec.events, repetition_rate)
-    messages = sorted({str(w.message) for w in caught if issubclass(w.category, ValidityWarning)})
+            if voids:
+                work.append((i, tuple(voids)))
+    task = _PartLevel(scenario, cycles, seed, quantity, repetition_rate)
+    if workers == 1 and client is None:
+        done = [task(item) for item in work]
+    else:
+        from pdvoid.simulation.parallel import parallel_map
+
+        done = parallel_map(task, work, workers=workers, client=client)
+    found = {str(w.message) for w in caught if issubclass(w.category, ValidityWarning)}
+    for (i, _), (value, part_notes) in zip(work, done, strict=True):
+        levels[i] = value
+        found.update(part_notes)
+    messages = sorted(found)
     if messages:
         notes.append(f"{len(messages)} validity note(s) from the coefficients of some void sizes, e.g.: "
                      f"{messages[0]}")
@@ -346,6 +357,35 @@ def acceptance_probability(
         duration=cycles / f, cycles=cycles, quantity=quantity, seed=seed, elapsed=time.perf_counter() - t0,
         notes=tuple(notes),
     )
+
+
+class _PartLevel:
+    """One part's level [C] and the validity notes of its simulation, from (part index, its discharging voids);
+    picklable, so the parts run on worker processes or a Dask cluster with the same result."""
+
+    def __init__(self, scenario: Scenario, cycles: int, seed: int, quantity: str, repetition_rate: float) -> None:
+        self.scenario = scenario
+        self.cycles = cycles
+        self.seed = seed
+        self.quantity = quantity
+        self.repetition_rate = repetition_rate
+
+    def __call__(self, item: tuple[int, tuple[Void, ...]]) -> tuple[float, tuple[str, ...]]:
+        i, voids = item
+        part_seed = int(np.random.SeedSequence([self.seed, i]).generate_state(1, dtype=np.uint32)[0])
+        with warnings.catch_warnings(record=True) as caught:
+            warnings.simplefilter("always", ValidityWarning)
+            rec = simulate_voids(MultiVoidScenario.from_scenario(self.scenario, voids), cycles=self.cycles,
+                                 seed=part_seed)
+        notes = tuple(sorted({str(w.message) for w in caught if issubclass(w.category, ValidityWarning)}))
+        for w in caught:
+            if not issubclass(w.category, ValidityWarning):
+                warnings.warn_explicit(w.message, w.category, w.filename, w.lineno)
+        if rec.events.count == 0:
+            return 0.0, notes
+        if self.quantity == "largest":
+            return float(np.max(np.abs(rec.events.charge))), notes
+        return largest_repeated_magnitude(rec.events, self.repetition_rate), notes
 
 
 def _void(template: Void, diameter: float, aspect: float) -> Void:

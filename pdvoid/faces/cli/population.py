@@ -97,7 +97,8 @@ def _cmd_population(ns: argparse.Namespace) -> int:
     pop = _population(ns)
     with validity_notes() as notes:
         r = acceptance_probability(design, pop, ns.level, ns.duration, voltage=ns.voltage, parts=ns.parts,
-                                   seed=ns.seed, quantity=ns.quantity, confidence=ns.confidence)
+                                   seed=ns.seed, quantity=ns.quantity, confidence=ns.confidence,
+                                   workers=ns.workers)
     doc = {
         "scenario": ns.scenario, "pass probability": r.probability, "interval": list(r.interval),
         "confidence": r.confidence, "interval method": "Wilson score (Monte-Carlo sampling error only)",
@@ -151,5 +152,7 @@ def register(sub: argparse._SubParsersAction[argparse.ArgumentParser]) -> None:
     p.add_argument("--confidence", type=options.number(0.5, 0.9999), default=0.95,
                    help="confidence level of the interval (default 0.95)")
     p.add_argument("--seed", type=options.seed, default=0, help="random seed (default 0)")
+    p.add_argument("--workers", type=options.integer(1, 1024), default=1,
+                   help="worker processes (default 1; the estimate is the same for any number)")
     p.add_argument("--json", action="store_true")
     p.set_defaults(func=_cmd_population)

@@ -147,3 +147,12 @@ def test_a_population_that_does_not_fit_the_insulation_is_refused():
     pop = VoidPopulation(voids_per_part=1, diameters=(1e-3, 7e-3), aspect_ratio=1.0)
     with pytest.raises(pdvoid.InputError, match="largest void"):
         acceptance_probability(DESIGN, pop, level=10e-12, duration=1.0)
+
+
+def test_worker_processes_give_the_same_estimate():
+    pop = VoidPopulation(voids_per_part=2, diameters=(0.3e-3, 0.8e-3, 1.2e-3))
+    a = acceptance_probability(DESIGN, pop, level=60e-12, duration=0.2, parts=12, seed=8)
+    b = acceptance_probability(DESIGN, pop, level=60e-12, duration=0.2, parts=12, seed=8, workers=2)
+    assert np.array_equal(a.levels, b.levels) and a.passed == b.passed  # each part has its own seed
+    with pytest.raises(pdvoid.InputError, match="workers"):
+        acceptance_probability(DESIGN, pop, level=60e-12, duration=0.2, workers=0)
