@@ -41,6 +41,7 @@ import numpy as np
 from pdvoid.analysis.compare import PatternSource
 from pdvoid.analysis.fit import FitObjective, FitResult, _specs, fit
 from pdvoid.core.errors import InputError, check_int, check_nonnegative
+from pdvoid.inputs.measurement import Instrument, TestCircuit
 from pdvoid.inputs.multi_void import MAX_VOIDS, MultiVoidScenario
 from pdvoid.inputs.parameters import check_seed
 from pdvoid.inputs.scenario import Scenario
@@ -180,6 +181,8 @@ def void_count(
     cycles: int = 1000,
     seed: int = 0,
     detector: dict | None = None,
+    circuit: TestCircuit | None = None,
+    instrument: Instrument | None = None,
     popsize: int = 8,
     maxiter: int = 30,
     polish: bool = True,
@@ -209,6 +212,8 @@ def void_count(
         The common seed of every fit [-]; the held-out seeds follow from it (:data:`CHECK_SEED_OFFSET`).
     detector : dict or None
         The detector model, as for :func:`pdvoid.fit`.
+    circuit, instrument : TestCircuit and Instrument, or None
+        The IEC 60270 forward model, as for :func:`pdvoid.fit` (give both or neither).
     popsize, maxiter : int
         Differential evolution's population multiplier and generations [-], as for :func:`pdvoid.fit`.
     polish : bool
@@ -249,6 +254,10 @@ def void_count(
     seed = check_seed(seed)
     nchk = check_int("check_seeds", check_seeds, 3, 1000)
     tolerance = check_nonnegative("tolerance", tolerance)
+    threshold = check_nonnegative("threshold", threshold, "C")
+    if (circuit is None) != (instrument is None):
+        raise InputError("circuit and instrument must be given together (or neither)")
+    measurement = None if circuit is None or instrument is None else (circuit, instrument)
     vary_by_k = {k: void_vary(scenario, vary, k) for k in ks}
     for k in ks:  # every name and range checked on the k-void scenario before any fit runs
         _specs(_start(scenario, vary, k), vary_by_k[k])
@@ -258,10 +267,12 @@ def void_count(
     held: dict[int, np.ndarray] = {}
     for k in ks:
         r = fit(measured, _start(scenario, vary, k), vary_by_k[k], threshold=threshold, cycles=cycles, seed=seed,
-                detector=detector, popsize=popsize, maxiter=maxiter, polish=polish, workers=workers, client=client)
+                detector=detector, circuit=circuit, instrument=instrument, popsize=popsize, maxiter=maxiter,
+                polish=polish, workers=workers, client=client)
         fits[k] = r
-        check = FitObjective(measured, r.scenario, (), threshold=threshold, cycles=cycles, seed=seed,
-                             detector=detector)
+        check = FitObjective(measured, r.scenario, (), threshold=float(threshold), cycles=cycles, seed=seed,
+                             detector=detector,
+                             measurement=measurement)
         held[k] = np.array([check.score([], seed=s) for s in seeds])
     means = {k: float(np.mean(v)) for k, v in held.items()}
     lowest = min(ks, key=lambda k: (means[k], k))

@@ -99,3 +99,15 @@ def test_bad_scenario_and_vary_are_refused():
         void_count(measured(1e-3, cycles=20), hidden(1e-3), VARY)
     with pytest.raises(pdvoid.InputError, match="numeric scenario parameter"):
         void_count(measured(1e-3, cycles=20), TEMPLATE, {"void.colour": (1, 2)})
+
+
+def test_the_instrument_in_the_loop_is_used_for_the_held_out_score_too():
+    from pdvoid.analysis.synthetic import DEMO_CIRCUIT, DEMO_INSTRUMENT
+
+    meas = pdvoid.measure(pdvoid.simulate_voids(hidden(1.2e-3), 200, seed=987654), DEMO_CIRCUIT, DEMO_INSTRUMENT)
+    kw = dict(counts=(1,), cycles=100, popsize=4, maxiter=2, polish=False, check_seeds=3, seed=2)
+    r = void_count(meas, TEMPLATE, VARY, circuit=DEMO_CIRCUIT, instrument=DEMO_INSTRUMENT, **kw)
+    plain = void_count(meas, TEMPLATE, VARY, **kw)
+    assert r.held_out_mean[1] != plain.held_out_mean[1]  # the readings differ from the apparent charges
+    with pytest.raises(pdvoid.InputError, match="together"):
+        void_count(meas, TEMPLATE, VARY, circuit=DEMO_CIRCUIT, **kw)
