@@ -165,6 +165,54 @@ def _dx(
 
 
 @njit_cached
+def _x_dx(
+    t: float, gain: float, omega: float, orders: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray, xq0: float,
+    tq: float, tau_q: float,
+) -> tuple[float, float]:
+    """(x(t), dx/dt) with one evaluation of the sines, cosines and decay factor; the same floating-point operations
+    as :func:`_x` and :func:`_dx`, so bit-identical to them."""
+    v = 0.0
+    w = 0.0
+    for i in range(orders.size):
+        m = orders[i] * omega
+        ph = m * t
+        sn = math.sin(ph)
+        cs = math.cos(ph)
+        v += a_coef[i] * sn + b_coef[i] * cs
+        w += m * (a_coef[i] * cs - b_coef[i] * sn)
+    xq = _xq(t, xq0, tq, tau_q)
+    d = gain * w
+    if tau_q != math.inf and xq0 != 0.0:
+        d -= xq / tau_q
+    return gain * v + xq, d
+
+
+@njit_cached
+def _dx_ddx(
+    t: float, gain: float, omega: float, orders: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray, xq0: float,
+    tq: float, tau_q: float,
+) -> tuple[float, float]:
+    """(dx/dt, d²x/dt²) with one evaluation of the sines, cosines and decay factor; the same floating-point
+    operations as :func:`_dx` and :func:`_ddx`, so bit-identical to them."""
+    w = 0.0
+    dd = 0.0
+    for i in range(orders.size):
+        m = orders[i] * omega
+        ph = m * t
+        sn = math.sin(ph)
+        cs = math.cos(ph)
+        w += m * (a_coef[i] * cs - b_coef[i] * sn)
+        dd -= m * m * (a_coef[i] * sn + b_coef[i] * cs)
+    d = gain * w
+    dd *= gain
+    if tau_q != math.inf and xq0 != 0.0:
+        xq = _xq(t, xq0, tq, tau_q)
+        d -= xq / tau_q
+        dd += xq / (tau_q * tau_q)
+    return d, dd
+
+
+@njit_cached
 def _root_x(
     target: float, t0: float, t1: float, gain: float, omega: float, orders: np.ndarray, a_coef: np.ndarray,
     b_coef: np.ndarray, xq0: float, tq: float, tau_q: float,
@@ -207,7 +255,8 @@ def _newton_x(
     for _ in range(100):
         if not (lo < t < hi):
             t = 0.5 * (lo + hi)
-        f = _x(t, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q) - target
+        xv, d = _x_dx(t, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
+        f = xv - target
         if f == 0.0:
             return t
         if (f > 0.0) == (flo > 0.0):
@@ -216,7 +265,6 @@ def _newton_x(
             hi = t
         if hi - lo <= 4e-16 * max(abs(hi), 1e-300) + 1e-300:
             return 0.5 * (lo + hi)
-        d = _dx(t, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
         tn = t - f / d if d != 0.0 else 0.5 * (lo + hi)
         if abs(tn - t) <= 2e-16 * abs(t) + 1e-300:
             return tn if lo <= tn <= hi else t
@@ -285,7 +333,7 @@ def _monotone_end(
             lo, hi = a, b
             s = 0.5 * (lo + hi)
             for _ in range(200):
-                dm = _dx(s, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
+                dm, dd = _dx_ddx(s, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
                 if dm == 0.0:
                     return s
                 if (dm > 0.0) == (d0 > 0.0):
@@ -294,7 +342,6 @@ def _monotone_end(
                     hi = s
                 if hi - lo <= 4e-16 * abs(hi):
                     break
-                dd = _ddx(s, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
                 sn = s - dm / dd if dd != 0.0 else 0.5 * (lo + hi)
                 if abs(sn - s) <= 1e-15 * abs(s):
                     return hi if hi - s <= 4e-15 * abs(s) else s  # converged to machine precision
@@ -321,7 +368,7 @@ def _dx_root(
     if not (lo < s < hi):
         s = 0.5 * (lo + hi)
     for _ in range(200):
-        dm = _dx(s, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
+        dm, dd = _dx_ddx(s, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
         if dm == 0.0:
             return s
         if (dm > 0.0) == pos:
@@ -330,7 +377,6 @@ def _dx_root(
             hi = s
         if hi - lo <= 4e-16 * abs(hi):
             break
-        dd = _ddx(s, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
         sn = s - dm / dd if dd != 0.0 else 0.5 * (lo + hi)
         if abs(sn - s) <= 1e-15 * abs(s):
             return hi if hi - s <= 4e-15 * abs(s) else s  # converged to machine precision
@@ -374,23 +420,78 @@ def _monotone_end_sine(
                 continue
         d1 = _dx(b, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
         if (d1 > 0.0) != (d0 > 0.0) and d1 != 0.0:
-            # start: amp_g·w·cos(w(e + u)) = x_q(e)/tau_q about the extremum e of the zone, in closed form
-            mid = 0.5 * (a + b)
-            e = cycle_t + quarter
-            sgn = 1.0
-            if abs(mid - (e + 2.0 * quarter)) < abs(mid - e):
-                e += 2.0 * quarter
-                sgn = -1.0
-            r = _xq(e, xq0, tq, tau_q) / (tau_q * amp_g * omega)
-            start = -1.0
-            if -1.0 < r < 1.0:
-                start = e - sgn * math.asin(r) / omega
-                r = _xq(start, xq0, tq, tau_q) / (tau_q * amp_g * omega)  # one fixed-point step
-                if -1.0 < r < 1.0:
-                    start = e - sgn * math.asin(r) / omega
+            start = _turn_start(a, b, amp_g, cycle_t, omega, xq0, tq, tau_q)
             return _dx_root(a, b, d0, d1, start, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
         a = b
         d0 = d1
+    return t_end
+
+
+@njit_cached
+def _turn_start(
+    a: float, b: float, amp_g: float, cycle_t: float, omega: float, xq0: float, tq: float, tau_q: float,
+) -> float:
+    """Newton start for the turning point of x in the zone [a, b] of a pure sine: amp_g·w·cos(w(e + u)) =
+    x_q(e)/tau_q about the extremum e of the zone, in closed form with one fixed-point step (-1.0 when none)."""
+    quarter = 0.5 * math.pi / omega
+    mid = 0.5 * (a + b)
+    e = cycle_t + quarter
+    sgn = 1.0
+    if abs(mid - (e + 2.0 * quarter)) < abs(mid - e):
+        e += 2.0 * quarter
+        sgn = -1.0
+    r = _xq(e, xq0, tq, tau_q) / (tau_q * amp_g * omega)
+    start = -1.0
+    if -1.0 < r < 1.0:
+        start = e - sgn * math.asin(r) / omega
+        r = _xq(start, xq0, tq, tau_q) / (tau_q * amp_g * omega)  # one fixed-point step
+        if -1.0 < r < 1.0:
+            start = e - sgn * math.asin(r) / omega
+    return start
+
+
+@njit_cached
+def _piece_end_sine(
+    t: float, t_end: float, amp_g: float, cycle_t: float, gain: float, omega: float, orders: np.ndarray,
+    a_coef: np.ndarray, b_coef: np.ndarray, xq0: float, tq: float, tau_q: float, x_inc: float, gva: float,
+    xqa: float,
+) -> float:
+    """The end of the next piece from t on which x has no threshold crossing it cannot find as a monotone piece
+    (pure sine with decaying x_q; V monotone on [t, t_end]; gva = g·V(t), xqa = x_q(t)).
+
+    With the zones of :func:`_monotone_end_sine` (dx/dt keeps the sign of g·V' outside them, x is strictly convex
+    or concave inside): outside a zone x is monotone up to the next zone edge, which is returned without any
+    evaluation. Inside a zone dx/dt changes sign at most once: without a sign change x is monotone to the zone's
+    end; with one, the zone's rest is returned as a piece when |x| < x_inc holds on all of it (bounded by the end
+    values of the monotone g·V and x_q), since a piece inside (−x_inc, x_inc) is passed over whatever its shape;
+    otherwise the turning point is located as in :func:`_monotone_end_sine`. Falls back to that function when the
+    zone bounds do not hold.
+    """
+    big_w = abs(amp_g) * omega
+    big_x = abs(xqa)
+    c = big_x / (tau_q * big_w)
+    if c >= 0.5 or big_w * omega * math.sqrt(1.0 - c * c) <= 2.0 * big_x / (tau_q * tau_q):
+        return _monotone_end(t, t_end, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
+    half = math.asin(c) / omega
+    quarter = 0.5 * math.pi / omega
+    for k in range(2):
+        e = cycle_t + quarter * (1 + 2 * k)
+        zs = e - half
+        ze = e + half
+        if t < zs:
+            return zs if zs < t_end else t_end
+        if t < ze:
+            b = ze if ze < t_end else t_end
+            d0 = _dx(t, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
+            d1 = _dx(b, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
+            if (d1 > 0.0) == (d0 > 0.0) or d1 == 0.0:
+                return b
+            gvb = gain * voltage(b, omega, orders, a_coef, b_coef)
+            xqb = _xq(b, xq0, tq, tau_q)
+            if max(gva, gvb) + max(xqa, xqb) < x_inc and min(gva, gvb) + min(xqa, xqb) > -x_inc:
+                return b
+            start = _turn_start(t, b, amp_g, cycle_t, omega, xq0, tq, tau_q)
+            return _dx_root(t, b, d0, d1, start, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
     return t_end
 
 
@@ -654,12 +755,13 @@ def run_memory_cycles(
                         piece_end = tb
                     else:
                         if pure_sine:
-                            piece_end = _monotone_end_sine(t, tb, amp_g, cycle_t, gain, omega, orders, a_coef,
-                                                           b_coef, xq0, tq, tau_q)
+                            piece_end = _piece_end_sine(t, tb, amp_g, cycle_t, gain, omega, orders, a_coef,
+                                                        b_coef, xq0, tq, tau_q, x_inc, gva, xqa)
                         else:
                             piece_end = _monotone_end(t, tb, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
-                    xt = _x(t, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
-                    xe = _x(piece_end, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
+                    xt = gva + xqa  # = _x(t, ...) bit for bit
+                    xe = gain * voltage(piece_end, omega, orders, a_coef, b_coef) + (
+                        xqb if piece_end == tb else _xq(piece_end, xq0, tq, tau_q))
                     rising = xe >= xt
                 else:
                     xe = gain * v_seg[seg + 1] + xq0

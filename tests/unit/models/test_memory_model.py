@@ -412,3 +412,44 @@ def test_turning_point_of_the_sine_path_matches_the_scan():
         assert zone == pytest.approx(scan, rel=1e-12, abs=1e-15)
         turned += scan < tb
     assert turned > 200
+
+
+def test_piece_end_of_the_sine_path_gives_monotone_or_quiet_pieces():
+    # every piece _piece_end_sine returns is, on 400 sample points (a hand check independent of its zone bounds),
+    # either monotone in x or inside (-x_inc, x_inc); and the pieces make progress to the end of the V piece
+    from pdvoid.kernels import memory_events as M
+
+    rng = np.random.default_rng(2)
+    omega = 2 * math.pi * 50.0
+    orders, b = np.array([1.0]), np.array([0.0])
+    fr = (0.0, 0.25, 0.75, 1.0)
+    quiet = monotone = 0
+    for _ in range(600):
+        gain, amp = 300.0, rng.uniform(5e3, 3e4)
+        a = np.array([amp])
+        tau, xq0 = 10 ** rng.uniform(-3, 0), rng.uniform(-3e6, 3e6)
+        x_inc = gain * amp * rng.uniform(0.3, 1.2)
+        cycle_t = int(rng.integers(0, 50)) * 0.02
+        tq = cycle_t - rng.uniform(0, 0.02)
+        seg = int(rng.integers(0, 3))
+        ta, tb = cycle_t + fr[seg] * 0.02, cycle_t + fr[seg + 1] * 0.02
+        t = rng.uniform(ta, tb)
+        steps = 0
+        while t < tb and steps < 20:
+            gva = gain * M.voltage(t, omega, orders, a, b)
+            xqa = M._xq(t, xq0, tq, tau)
+            end = M._piece_end_sine(t, tb, gain * amp, cycle_t, gain, omega, orders, a, b, xq0, tq, tau, x_inc,
+                                    gva, xqa)
+            assert t < end <= tb
+            s = np.linspace(t, end, 400)
+            x = np.array([M._x(u, gain, omega, orders, a, b, xq0, tq, tau) for u in s])
+            dx = np.diff(x)
+            tol = 1e-9 * np.abs(x).max()
+            if np.all(np.abs(x) < x_inc):
+                quiet += 1
+            else:
+                assert np.all(dx >= -tol) or np.all(dx <= tol)
+                monotone += 1
+            t, steps = end, steps + 1
+        assert t == tb
+    assert quiet > 100 and monotone > 100
