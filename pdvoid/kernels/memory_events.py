@@ -81,7 +81,7 @@ def seed_generator(seed: int) -> None:
     np.random.seed(seed)
 
 
-@njit_cached
+@njit_cached(inline="always")
 def voltage(t: float, omega: float, orders: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray) -> float:
     """V(t) = sum_m a_m sin(m w t) + b_m cos(m w t) [V].
 
@@ -101,6 +101,8 @@ def voltage(t: float, omega: float, orders: np.ndarray, a_coef: np.ndarray, b_co
     float
         The applied voltage [V].
     """
+    if orders.size == 1 and b_coef[0] == 0.0:  # a plain sine: the same value without the zero cosine term
+        return 0.0 + a_coef[0] * math.sin(orders[0] * omega * t)
     v = 0.0
     for i in range(orders.size):
         ph = orders[i] * omega * t
@@ -108,7 +110,7 @@ def voltage(t: float, omega: float, orders: np.ndarray, a_coef: np.ndarray, b_co
     return v
 
 
-@njit_cached
+@njit_cached(inline="always")
 def voltage_slope(
     t: float, omega: float, orders: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray,
 ) -> float:
@@ -130,6 +132,9 @@ def voltage_slope(
     float
         dV/dt [V/s].
     """
+    if orders.size == 1 and b_coef[0] == 0.0:  # a plain sine: the same value without the zero sine term
+        m = orders[0] * omega
+        return 0.0 + m * (a_coef[0] * math.cos(m * t))
     v = 0.0
     for i in range(orders.size):
         m = orders[i] * omega
@@ -138,14 +143,14 @@ def voltage_slope(
     return v
 
 
-@njit_cached
+@njit_cached(inline="always")
 def _xq(t: float, xq0: float, tq: float, tau_q: float) -> float:
     if tau_q == math.inf or xq0 == 0.0:
         return xq0
     return xq0 * math.exp(-(t - tq) / tau_q)
 
 
-@njit_cached
+@njit_cached(inline="always")
 def _x(
     t: float, gain: float, omega: float, orders: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray, xq0: float,
     tq: float, tau_q: float,
@@ -153,7 +158,7 @@ def _x(
     return gain * voltage(t, omega, orders, a_coef, b_coef) + _xq(t, xq0, tq, tau_q)
 
 
-@njit_cached
+@njit_cached(inline="always")
 def _dx(
     t: float, gain: float, omega: float, orders: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray, xq0: float,
     tq: float, tau_q: float,
@@ -164,7 +169,7 @@ def _dx(
     return d
 
 
-@njit_cached
+@njit_cached(inline="always")
 def _x_dx(
     t: float, gain: float, omega: float, orders: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray, xq0: float,
     tq: float, tau_q: float,
@@ -187,7 +192,7 @@ def _x_dx(
     return gain * v + xq, d
 
 
-@njit_cached
+@njit_cached(inline="always")
 def _dx_ddx(
     t: float, gain: float, omega: float, orders: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray, xq0: float,
     tq: float, tau_q: float,
@@ -272,7 +277,7 @@ def _newton_x(
     return 0.5 * (lo + hi)
 
 
-@njit_cached
+@njit_cached(inline="always")
 def _root_sine(
     target: float, t0: float, t1: float, amp_g: float, omega: float, cycle_t: float, seg: int, xq0: float,
 ) -> float:
@@ -297,7 +302,7 @@ def _root_sine(
     return t
 
 
-@njit_cached
+@njit_cached(inline="always")
 def _ddx(
     t: float, gain: float, omega: float, orders: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray, xq0: float,
     tq: float, tau_q: float,
@@ -427,7 +432,7 @@ def _monotone_end_sine(
     return t_end
 
 
-@njit_cached
+@njit_cached(inline="always")
 def _turn_start(
     a: float, b: float, amp_g: float, cycle_t: float, omega: float, xq0: float, tq: float, tau_q: float,
 ) -> float:
@@ -495,7 +500,7 @@ def _piece_end_sine(
     return t_end
 
 
-@njit_cached
+@njit_cached(inline="always")
 def _wall_amplitude(pol: float, state: np.ndarray, emit_coef: float, m_hv: float, m_gnd: float) -> float:
     """a·Qe_c at the reference time S_TQ for the cathode-side wall of a discharge of polarity pol [1/s] (zero when
     that wall is a metal electrode)."""
@@ -508,7 +513,7 @@ def _wall_amplitude(pol: float, state: np.ndarray, emit_coef: float, m_hv: float
     return emit_coef * state[S_EHV]
 
 
-@njit_cached
+@njit_cached(inline="always")
 def emission_rate(
     t: float, pol: float, state: np.ndarray, n_vol: float, emit_coef: float, beta: float, m_hv: float,
     m_gnd: float, gain: float, omega: float, orders: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray,
