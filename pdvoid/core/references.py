@@ -184,6 +184,11 @@ REFERENCES: dict[str, Reference] = dict(
         _r("schottky1914", "W. Schottky, 'Über den Einfluß von Strukturwirkungen, besonders der Thomsonschen "
            "Bildkraft, auf die Elektronenemission der Metalle', Phys. Z. 15 (1914) 872-878 (image-force lowering "
            "of a surface barrier)", "from memory"),
+        _r("kossyi1992", "I. A. Kossyi, A. Yu. Kostinsky, A. A. Matveyev, V. P. Silakov, 'Kinetic scheme of the "
+           "non-equilibrium discharge in nitrogen-oxygen mixtures', Plasma Sources Sci. Technol. 1 (1992) 207-220 "
+           "(detachment of O2- by N2 and O2 as fits in E/N)", "from memory"),
+        _r("pancheshnyi2013", "S. Pancheshnyi, 'Effective ionization rate in nitrogen-oxygen mixtures', J. Phys. D: "
+           "Appl. Phys. 46 (2013) 155201 (uses the detachment fits of kossyi1992)", "from memory"),
         _r("memory_illustrative", "pdvoid, memory model: illustrative parameter values chosen to give a few to "
            "tens of discharges per cycle in mm-size voids at 50 Hz, fitted to no measurement (each value of the "
            "parameter set says which)", "common practice"),

@@ -16,6 +16,7 @@ Start electrons form a Poisson process of rate
 
     N(t) = N_vol,pol + a·Qe_c(t)·exp(β·sqrt(|x(t)|)),      a = ν0·exp(−Φ/(k_B T))/e,
 
+(plus K(t)·ν_d(|x|)·(1 − η/α) with volume detachment, K the number of negative ions in the void; see below),
 where Qe_c is the trapped electron charge of the cathode-side wall of the pending discharge (the ground-side wall
 for positive discharges, whose field pushes electrons from that wall into the gas; the high-voltage-side wall for
 negative ones), zero when that wall is metal; a metal cathode adds its constant rate to N_vol,pol. A discharge
@@ -31,6 +32,12 @@ Newton iteration. The wait for a start electron is inverted in closed form while
 thinning (Lewis & Shedler 1979) otherwise: candidates at a constant rate that bounds N(t) on a sub-window (the
 decay factor is largest at its start; |x| is monotone on the window, so the Schottky factor is largest at an end),
 each accepted with probability N(t)/bound. Thinning is exact in distribution; no step, no quadrature.
+
+Volume detachment (optional): negative ions are formed at the rate S and lost at the rate 1/tau_ion each; a
+discharge sweeps them out. Below inception the count is only brought forward when needed, in closed form
+(survivors Binomial(K, exp(−Δ/tau_ion)), newcomers Poisson(S·tau_ion·(1 − exp(−Δ/tau_ion)))); above inception
+births and losses are drawn as competing exponentials and, between them, the start electrons are thinned with the
+ion term bounded by K·ν_d(max |x|) (ν_d rises with the field, 1 − η/α <= 1). Exact in distribution.
 
 The helper functions are copies of those in :mod:`pdvoid.kernels.void_events` (numba's cache does not follow an
 edited callee in another module, so every njit function this kernel calls lives here). Random numbers come from
@@ -56,7 +63,9 @@ S_EHV = 6  # electrons trapped on the high-voltage-side wall at S_TQ, magnitude 
 S_EGND = 7  # electrons trapped on the ground-side wall at S_TQ, magnitude [C]
 S_PHV = 8  # positive charge on the high-voltage-side wall at S_TQ [C]
 S_PGND = 9  # positive charge on the ground-side wall at S_TQ [C]
-STATE_SIZE = 10
+S_NION = 10  # negative ions in the void at S_TION (volume detachment) [-]
+S_TION = 11  # reference time of S_NION [s]
+STATE_SIZE = 12
 
 # totals layout as in pdvoid.kernels.void_events
 T_COUNT = 0
@@ -514,10 +523,71 @@ def _wall_amplitude(pol: float, state: np.ndarray, emit_coef: float, m_hv: float
 
 
 @njit_cached(inline="always")
+def detachment_hazard(x_abs: float, n_gas: float) -> float:
+    """Start electrons per second per negative ion at the field x_abs: ν_d·(1 − η/α) (air), the same formulas as
+    :func:`pdvoid.physics.detachment.detachment_frequency_air` and
+    :func:`pdvoid.physics.detachment.avalanche_start_probability` (a copy for the kernel; a test compares them).
+
+    Parameters
+    ----------
+    x_abs : float
+        Field magnitude [V/m], >= 0.
+    n_gas : float
+        Gas number density [1/m³], > 0.
+
+    Returns
+    -------
+    float
+        The hazard per ion [1/s].
+    """
+    if x_abs <= 0.0:
+        return 0.0
+    td = x_abs / n_gas / 1e-21
+    nu = n_gas * (0.79 * (1.24e-17 * math.exp(-(179.0 / (8.8 + td)) ** 2))
+                  + 0.21 * (6.9e-16 * math.exp(-(198.0 / (5.6 + td)) ** 2)))
+    n_cm = n_gas * 1e-6
+    xr = (x_abs * 1e-2) / n_cm
+    if xr > 1.5e-15:
+        alpha = 2.0e-16 * math.exp(-7.248e-15 / xr)
+    else:
+        alpha = 6.619e-17 * math.exp(-5.593e-15 / xr)
+    if xr > 1.05e-15:
+        eta2 = 8.889e-5 * xr + 2.567e-19
+    else:
+        eta2 = max(6.089e-4 * xr - 2.893e-19, 0.0)
+    eta = eta2 + n_cm * 4.7778e-59 * xr ** -1.2749
+    if alpha <= eta:
+        return 0.0
+    return nu * (1.0 - eta / alpha)
+
+
+@njit_cached
+def detachment_bound(x_abs: float, n_gas: float) -> float:
+    """ν_d at x_abs, an upper bound on :func:`detachment_hazard` for every field up to x_abs (ν_d rises with the
+    field and 1 − η/α <= 1) [1/s].
+
+    Parameters
+    ----------
+    x_abs : float
+        Field magnitude [V/m], >= 0.
+    n_gas : float
+        Gas number density [1/m³], > 0.
+
+    Returns
+    -------
+    float
+        The bound [1/s].
+    """
+    td = x_abs / n_gas / 1e-21
+    return n_gas * (0.79 * (1.24e-17 * math.exp(-(179.0 / (8.8 + td)) ** 2))
+                    + 0.21 * (6.9e-16 * math.exp(-(198.0 / (5.6 + td)) ** 2)))
+
+
+@njit_cached(inline="always")
 def emission_rate(
     t: float, pol: float, state: np.ndarray, n_vol: float, emit_coef: float, beta: float, m_hv: float,
     m_gnd: float, gain: float, omega: float, orders: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray,
-    tau_q: float,
+    tau_q: float, ions: float = 0.0, n_gas: float = 1.0,
 ) -> float:
     """N(t), the start-electron rate for a discharge of polarity ``pol`` at time ``t`` [1/s] (module docstring).
 
@@ -547,6 +617,10 @@ def emission_rate(
         Sine and cosine amplitudes [V].
     tau_q : float
         Decay time of the wall charges [s]; inf for none.
+    ions : float, optional
+        Negative ions in the void now [-] (0: no detachment term).
+    n_gas : float, optional
+        Gas number density [1/m³] (for the detachment term).
 
     Returns
     -------
@@ -554,33 +628,28 @@ def emission_rate(
         The rate [1/s].
     """
     amp = _wall_amplitude(pol, state, emit_coef, m_hv, m_gnd)
-    if amp == 0.0:
+    if amp == 0.0 and ions == 0.0:
         return n_vol
-    expo = 0.0
-    if tau_q != math.inf:
-        expo = -(t - state[S_TQ]) / tau_q
     x = _x(t, gain, omega, orders, a_coef, b_coef, state[S_XQ0], state[S_TQ], tau_q)
-    return n_vol + amp * math.exp(expo + beta * math.sqrt(abs(x)))
+    rate = n_vol
+    if amp != 0.0:
+        expo = 0.0
+        if tau_q != math.inf:
+            expo = -(t - state[S_TQ]) / tau_q
+        rate += amp * math.exp(expo + beta * math.sqrt(abs(x)))
+    if ions != 0.0:
+        rate += ions * detachment_hazard(abs(x), n_gas)
+    return rate
 
 
 @njit_cached
-def _consume(
-    t0: float, t1: float, x0: float, x1: float, pol: float, state: np.ndarray, n_vol: float, emit_coef: float,
-    beta: float, m_hv: float, m_gnd: float, gain: float, omega: float, orders: np.ndarray, a_coef: np.ndarray,
-    b_coef: np.ndarray, tau_q: float,
+def _thin(
+    t0: float, t1: float, x0: float, x1: float, pol: float, state: np.ndarray, n_vol: float, amp: float,
+    ions: float, n_gas: float, emit_coef: float, beta: float, m_hv: float, m_gnd: float, gain: float,
+    omega: float, orders: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray, tau_q: float,
 ) -> float:
-    """The discharge time in the above-threshold window [t0, t1] (|x| = x0, x1 at its ends), or -1.0 when the
-    window ends first."""
-    amp = _wall_amplitude(pol, state, emit_coef, m_hv, m_gnd)
-    if amp == 0.0:
-        # constant rate n_vol: spend the remaining exponential hazard in closed form
-        need = state[S_REMAIN]
-        h = n_vol * (t1 - t0)
-        if h < need:
-            state[S_REMAIN] = need - h
-            return -1.0
-        t = t0 + need / n_vol
-        return t if t < t1 else t1
+    """Thinning (Lewis & Shedler 1979) on [t0, t1], where |x| is monotone (x0, x1 at the ends) and the ion count
+    is constant: the first start electron, or -1.0 when none comes before t1."""
     t = t0
     tq = state[S_TQ]
     while t < t1:
@@ -592,13 +661,21 @@ def _consume(
             xb = x1
         else:
             xb = abs(_x(sub_end, gain, omega, orders, a_coef, b_coef, state[S_XQ0], tq, tau_q))
-        hi = beta * math.sqrt(max(xa, xb))
-        lo = beta * math.sqrt(min(xa, xb))
-        if tau_q != math.inf:
-            hi -= (t - tq) / tau_q
-            lo -= (sub_end - tq) / tau_q
-        lam = n_vol + amp * math.exp(hi)
-        floor = n_vol + amp * math.exp(lo)
+        lam = n_vol
+        floor = n_vol
+        if amp != 0.0:
+            hi = beta * math.sqrt(max(xa, xb))
+            lo = beta * math.sqrt(min(xa, xb))
+            if tau_q != math.inf:
+                hi -= (t - tq) / tau_q
+                lo -= (sub_end - tq) / tau_q
+            lam += amp * math.exp(hi)
+            floor += amp * math.exp(lo)
+        if ions != 0.0:
+            lam += ions * detachment_bound(max(xa, xb), n_gas)
+        if lam <= 0.0:
+            t = sub_end
+            continue
         while True:
             t += np.random.exponential(1.0) / lam
             if t >= sub_end:
@@ -608,8 +685,85 @@ def _consume(
             if u <= floor:
                 return t
             if u <= emission_rate(t, pol, state, n_vol, emit_coef, beta, m_hv, m_gnd, gain, omega, orders,
-                                  a_coef, b_coef, tau_q):
+                                  a_coef, b_coef, tau_q, ions, n_gas):
                 return t
+    return -1.0
+
+
+@njit_cached
+def _ions_to(t: float, state: np.ndarray, ion_source: float, ion_tau: float) -> None:
+    """Bring the negative-ion count from its reference time to t (no detachment below inception): survivors of the
+    present ions, Binomial(K, exp(−Δ/τ)), plus those formed meanwhile that survive, Poisson(S·τ·(1 − exp(−Δ/τ)))
+    (S·Δ for τ = inf)."""
+    dt = t - state[S_TION]
+    if dt <= 0.0:
+        return
+    k = state[S_NION]
+    if ion_tau == math.inf:
+        mean_new = ion_source * dt
+    else:
+        surv = math.exp(-dt / ion_tau)
+        if k > 0.0:
+            k = float(np.random.binomial(int(k), surv))
+        mean_new = ion_source * ion_tau * (1.0 - surv)
+    if mean_new > 0.0:
+        k += float(np.random.poisson(mean_new))
+    state[S_NION] = k
+    state[S_TION] = t
+
+
+@njit_cached
+def _consume(
+    t0: float, t1: float, x0: float, x1: float, pol: float, state: np.ndarray, n_vol: float, emit_coef: float,
+    beta: float, m_hv: float, m_gnd: float, gain: float, omega: float, orders: np.ndarray, a_coef: np.ndarray,
+    b_coef: np.ndarray, tau_q: float, detach: bool, ion_source: float, ion_tau: float, n_gas: float,
+) -> float:
+    """The discharge time in the above-threshold window [t0, t1] (|x| = x0, x1 at its ends), or -1.0 when the
+    window ends first. With ``detach`` the negative ions are brought to t0, and inside the window their count
+    changes by births (rate S) and losses (K/τ) drawn as competing exponentials; between those changes the start
+    electrons are thinned with the ion term K·ν_d·(1 − η/α) added."""
+    amp = _wall_amplitude(pol, state, emit_coef, m_hv, m_gnd)
+    if not detach:
+        if amp == 0.0:
+            # constant rate n_vol: spend the remaining exponential hazard in closed form
+            need = state[S_REMAIN]
+            h = n_vol * (t1 - t0)
+            if h < need:
+                state[S_REMAIN] = need - h
+                return -1.0
+            t = t0 + need / n_vol
+            return t if t < t1 else t1
+        return _thin(t0, t1, x0, x1, pol, state, n_vol, amp, 0.0, 1.0, emit_coef, beta, m_hv, m_gnd, gain, omega,
+                     orders, a_coef, b_coef, tau_q)
+    _ions_to(t0, state, ion_source, ion_tau)
+    t = t0
+    xa = x0
+    while t < t1:
+        k = state[S_NION]
+        rate = ion_source
+        if ion_tau != math.inf:
+            rate += k / ion_tau
+        end = t1
+        xb = x1
+        if rate > 0.0:
+            t_chg = t + np.random.exponential(1.0) / rate
+            if t_chg < t1:
+                end = t_chg
+                xb = abs(_x(end, gain, omega, orders, a_coef, b_coef, state[S_XQ0], state[S_TQ], tau_q))
+        hit = _thin(t, end, xa, xb, pol, state, n_vol, amp, k, n_gas, emit_coef, beta, m_hv, m_gnd, gain, omega,
+                    orders, a_coef, b_coef, tau_q)
+        if hit >= 0.0:
+            state[S_TION] = hit
+            return hit
+        if end < t1:
+            # a new ion (probability S/rate) or the loss of one
+            if np.random.random() * rate < ion_source:
+                state[S_NION] = k + 1.0
+            else:
+                state[S_NION] = k - 1.0
+        t = end
+        xa = xb
+    state[S_TION] = t1
     return -1.0
 
 
@@ -639,6 +793,10 @@ def run_memory_cycles(
     emit_coef: float,
     beta: float,
     tau_q: float,
+    detach: bool,
+    ion_source: float,
+    ion_tau: float,
+    n_gas: float,
     store_events: bool,
     out_time: np.ndarray,
     out_charge: np.ndarray,
@@ -694,6 +852,14 @@ def run_memory_cycles(
         Schottky coefficient β [(V/m)^-1/2].
     tau_q : float
         Decay time of the wall charges [s]; inf for none.
+    detach : bool
+        True for start electrons detached from negative ions in the void gas (air).
+    ion_source : float
+        Negative ions formed per second in the void, S [1/s].
+    ion_tau : float
+        Loss time of the negative ions, τ_ion [s]; inf for none.
+    n_gas : float
+        Gas number density [1/m³].
     store_events : bool
         True to write events to the ``out_*`` buffers.
     out_time, out_charge, out_before, out_after : numpy.ndarray
@@ -815,7 +981,7 @@ def run_memory_cycles(
                 else:
                     n_vol = n_vol_pos if pol > 0.0 else n_vol_neg
                     t_d = _consume(t_in, t_out, x_in, x_out, pol, state, n_vol, emit_coef, beta, m_hv, m_gnd,
-                                   gain, omega, orders, a_coef, b_coef, tau_q)
+                                   gain, omega, orders, a_coef, b_coef, tau_q, detach, ion_source, ion_tau, n_gas)
                     if t_d < 0.0:
                         if t_out >= piece_end:
                             t = piece_end
@@ -855,6 +1021,10 @@ def run_memory_cycles(
                     n_rec = min(state[e_wall], recombination * dq)
                     state[e_wall] -= n_rec
                     state[p_wall] += dq - n_rec
+                if detach:
+                    # the discharge sweeps the void's negative ions; a new population builds up from t_d
+                    state[S_NION] = 0.0
+                    state[S_TION] = t_d
                 state[S_XQ0] = x_after - gain * v_d
                 state[S_TQ] = t_d
                 state[S_TLAST] = t_d

@@ -12,15 +12,15 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
 from pdvoid.coefficients.record import Coefficients
-from pdvoid.core.errors import InputError, check_range
+from pdvoid.core.errors import InputError, check_bool, check_range
 from pdvoid.core.units import ATM, BOLTZMANN, ELEMENTARY_CHARGE, EPSILON_0
 from pdvoid.inputs.model_parameters import ModelParameters, register_model
-from pdvoid.models.arguments import KernelArguments, shared_arguments
+from pdvoid.models.arguments import KernelArguments, cathode_rate, shared_arguments
 from pdvoid.physics.surface_emission import schottky_coefficient, schottky_lowering, streamer_stability_field
 
 if TYPE_CHECKING:
@@ -114,6 +114,14 @@ class MemoryKernelArguments(KernelArguments):
         Schottky coefficient β: ΔΦ/(k_B T) = β·sqrt(|E|) [(V/m)^-1/2].
     recombination : float
         Fraction of the ions landing on a wall that neutralise electrons trapped there [-].
+    detach : bool
+        True for start electrons detached from negative ions in the void gas.
+    ion_source : float
+        Negative ions formed per second in the void [1/s].
+    ion_tau : float
+        Loss time of the negative ions [s].
+    n_gas : float
+        Gas number density [1/m³].
     """
 
     res_width: float = 0.0
@@ -123,6 +131,10 @@ class MemoryKernelArguments(KernelArguments):
     emit_coef: float = 0.0
     beta: float = 0.0
     recombination: float = 0.0
+    detach: bool = False
+    ion_source: float = 0.0
+    ion_tau: float = math.inf
+    n_gas: float = 1.0
 
     def max_events_per_cycle(self, scale: float = 1.0) -> int:
         """An upper bound on discharges in one cycle (that of :class:`KernelArguments` with the largest residual
@@ -197,7 +209,8 @@ class MemoryKernelArguments(KernelArguments):
             state, cycle_start, cycle_stop, self.frequency, self.orders, a_coef, b_coef, self.seg_fracs,
             self.pure_sine, self.gain, self.x_inc, self.x_res, self.res_width, self.charge_per_unit,
             self.true_charge_per_field, self.m_hv, self.m_gnd, self.recombination, self.lag_free, self.n_vol_pos,
-            self.n_vol_neg, self.emit_coef, self.beta, self.tau_q, store_events, out_time, out_charge, out_before,
+            self.n_vol_neg, self.emit_coef, self.beta, self.tau_q, self.detach, self.ion_source, self.ion_tau,
+            self.n_gas, store_events, out_time, out_charge, out_before,
             out_after, max_per_cycle, hist_counts, charge_edges, totals,
         )
 
@@ -231,6 +244,14 @@ class MemoryModel(ModelParameters):
         (1: only the net negative charge of a wall emits; 0: electrons and ions sit in separate traps).
     charge_decay_time : float
         Decay time of the wall charge and its emission [s]; inf for none.
+    volume_detachment : bool
+        True for the volume supply through negative ions (air only): every ion pair of the volume ionisation
+        (``ionization_rate``, times ``electron_yield``) leaves an O2⁻ ion; the ions build up between discharges
+        with the loss time ``ion_lifetime`` and give start electrons above inception at the rate ν_d(E)·(1 − η/α)
+        per ion (:mod:`pdvoid.physics.detachment`); a discharge sweeps them out. False: today's constant volume
+        rate.
+    ion_lifetime : float
+        Loss time τ_ion of the negative ions (drift to the walls) [s], > 0, inf for none.
     ionization_rate, cathode_emission_rate, ... :
         As :class:`ModelParameters`.
 
@@ -250,7 +271,8 @@ class MemoryModel(ModelParameters):
     field_units = {**ModelParameters.field_units, "parameter_set": (None, ""), "trap_depth": ("voltage", "V"),
                    "attempt_frequency": ("frequency", "Hz"), "stability_field": ("field", "V/m"),
                    "residual_scatter": ("dimensionless", ""),
-                   "recombination": ("dimensionless", "")}
+                   "recombination": ("dimensionless", ""), "volume_detachment": (None, ""),
+                   "ion_lifetime": ("time", "s")}
 
     parameter_set: str = "niemeyer1995"
     trap_depth: float = 1.3
@@ -260,6 +282,8 @@ class MemoryModel(ModelParameters):
     recombination: float = 0.5
     charge_decay_time: float = 0.1
     cathode_emission_rate: float = 1e4
+    volume_detachment: bool = False
+    ion_lifetime: float = 1e-3
 
     def __post_init__(self) -> None:
         super().__post_init__()
@@ -280,6 +304,9 @@ class MemoryModel(ModelParameters):
         object.__setattr__(self, "residual_scatter", check_range("model.residual_scatter",
                                                                  self.residual_scatter, 0.0, 1.0))
         object.__setattr__(self, "recombination", check_range("model.recombination", self.recombination, 0.0, 1.0))
+        check_bool("model.volume_detachment", self.volume_detachment)
+        object.__setattr__(self, "ion_lifetime", check_range("model.ion_lifetime", self.ion_lifetime, 0.0,
+                                                             math.inf, low_open=True, unit="s", allow_inf=True))
 
     def references(self) -> tuple[str, ...]:
         """The bibliography keys of the model and its parameter set.
@@ -292,6 +319,8 @@ class MemoryModel(ModelParameters):
         from pdvoid.inputs.model_sets import get_parameter_set, list_parameter_sets
 
         keys = ["niemeyer1995", "schottky1914", "lewis1979"]
+        if self.volume_detachment:
+            keys += ["kossyi1992", "pancheshnyi2013", "morrow1997"]
         if self.parameter_set in list_parameter_sets(self.kind):
             keys += list(get_parameter_set(self.parameter_set).references)
         else:
@@ -369,6 +398,15 @@ class MemoryModel(ModelParameters):
         emit = self.attempt_frequency * math.exp(-self.trap_depth * ELEMENTARY_CHARGE / (BOLTZMANN * t_wall))
         m_hv, m_gnd = wall_weights(void.position)
         shared = shared_arguments(scenario, c.volume_electron_rate)
+        detach: dict[str, Any] = {}
+        if self.volume_detachment:
+            if void.gas != "air":
+                raise InputError(f"model.volume_detachment applies to air (detachment from O2-); got void.gas "
+                                 f"{void.gas!r}")
+            # the volume ion pairs feed the negative ions; the constant rate keeps only the metal cathode's part
+            shared.update(n_vol_pos=cathode_rate(scenario, +1.0), n_vol_neg=cathode_rate(scenario, -1.0))
+            detach = {"detach": True, "ion_source": c.volume_electron_rate, "ion_tau": self.ion_lifetime,
+                      "n_gas": void.gas_pressure / (BOLTZMANN * void.temperature)}
         shared.update(n_same=0.0, n_rev=0.0, tau_s=math.inf, field_assisted=False)
         return MemoryKernelArguments(
             **shared,
@@ -377,4 +415,5 @@ class MemoryModel(ModelParameters):
             references=tuple(dict.fromkeys(c.references + ("crichton1989", "pedersen1991") + self.references())),
             res_width=self.residual_scatter, true_charge_per_field=true_per_field, m_hv=m_hv, m_gnd=m_gnd,
             emit_coef=emit / ELEMENTARY_CHARGE, beta=schottky_coefficient(t_wall), recombination=self.recombination,
+            **detach,
         )

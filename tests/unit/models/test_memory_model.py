@@ -355,14 +355,16 @@ _JIT_SCRIPT = """
 import sys, numpy as np, pdvoid
 sc = pdvoid.Scenario(insulation=pdvoid.Insulation(thickness=6e-3, permittivity=4.2),
                      void=pdvoid.Void(diameter=1.5e-3, height=0.75e-3, position="{position}"),
-                     supply=pdvoid.Sine(rms=18e3), model=pdvoid.MemoryModel(ionization_rate=3e10))
+                     supply=pdvoid.Sine(rms=18e3), model=pdvoid.MemoryModel({model}))
 r = pdvoid.simulate(sc, cycles=40, seed=2)
 np.save(sys.argv[1], np.stack([r.time, r.charge, r.field_before, r.field_after]))
 """
 
 
-@pytest.mark.parametrize("position", ["centred", "high_voltage_electrode"])
-def test_jit_disabled_gives_the_same_events(tmp_path, position):
+@pytest.mark.parametrize(("position", "model"), [
+    ("centred", "ionization_rate=3e10"), ("high_voltage_electrode", "ionization_rate=3e10"),
+    ("centred", "ionization_rate=5e11, volume_detachment=True")], ids=["centred", "on-hv-electrode", "detachment"])
+def test_jit_disabled_gives_the_same_events(tmp_path, position, model):
     # the memory kernel's source run as plain Python (NUMBA_DISABLE_JIT=1) must give the same events
     import os
     import subprocess
@@ -371,7 +373,7 @@ def test_jit_disabled_gives_the_same_events(tmp_path, position):
     out = {}
     for jit in ("0", "1"):
         path = tmp_path / f"jit{jit}.npy"
-        subprocess.run([sys.executable, "-c", _JIT_SCRIPT.format(position=position), str(path)],
+        subprocess.run([sys.executable, "-c", _JIT_SCRIPT.format(position=position, model=model), str(path)],
                        env=dict(os.environ, NUMBA_DISABLE_JIT=jit), check=True, timeout=300)
         out[jit] = np.load(path)
     assert out["0"].shape[1] > 20
