@@ -90,6 +90,18 @@ def seed_generator(seed: int) -> None:
     np.random.seed(seed)
 
 
+@njit_cached
+def start_wait(state: np.ndarray) -> None:
+    """Draw the exponential hazard the next discharge must accumulate (as in :mod:`pdvoid.kernels.void_events`).
+
+    Parameters
+    ----------
+    state : numpy.ndarray
+        One state block (layout ``S_*``); its ``S_REMAIN`` entry is set.
+    """
+    state[S_REMAIN] = np.random.exponential(1.0)
+
+
 @njit_cached(inline="always")
 def voltage(t: float, omega: float, orders: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray) -> float:
     """V(t) = sum_m a_m sin(m w t) + b_m cos(m w t) [V].
@@ -769,7 +781,7 @@ def _consume(
 
 @njit_cached
 def run_memory_cycles(
-    state: np.ndarray,
+    state_all: np.ndarray,
     cycle_start: int,
     cycle_stop: int,
     frequency: float,
@@ -797,6 +809,7 @@ def run_memory_cycles(
     ion_source: float,
     ion_tau: float,
     n_gas: float,
+    n_cells: int,
     store_events: bool,
     out_time: np.ndarray,
     out_charge: np.ndarray,
@@ -812,8 +825,9 @@ def run_memory_cycles(
 
     Parameters
     ----------
-    state : numpy.ndarray
-        The void state vector (layout ``S_*``), updated in place.
+    state_all : numpy.ndarray
+        The state vectors of the void's discharge spots, one after the other (layout ``S_*`` each, ``n_cells``
+        of them), updated in place.
     cycle_start, cycle_stop : int
         The cycles to run [-].
     frequency : float
@@ -860,6 +874,10 @@ def run_memory_cycles(
         Loss time of the negative ions, τ_ion [s]; inf for none.
     n_gas : float
         Gas number density [1/m³].
+    n_cells : int
+        Number of discharge spots, each an independent copy of the void with its share of the charge and supply
+        (1: the whole void discharges); each cycle is run for every spot in turn, so the random stream does not
+        depend on how the cycles are split into calls. Events of one call are in spot order within a cycle.
     store_events : bool
         True to write events to the ``out_*`` buffers.
     out_time, out_charge, out_before, out_after : numpy.ndarray
@@ -898,169 +916,170 @@ def run_memory_cycles(
     while cycle < cycle_stop:
         if store_events and capacity - n_written < max_per_cycle:
             break
-        if not decay and state[S_XQ0] + gv_max < x_inc and state[S_XQ0] + gv_min > -x_inc:
-            cycle += 1
-            continue
         cycle_t = cycle * period
-        for seg in range(n_seg):
-            ta = cycle_t + seg_fracs[seg] * period
-            tb = cycle_t + seg_fracs[seg + 1] * period
-            t = ta
-            xt = gain * v_seg[seg] + state[S_XQ0]
-            leaving = False
-            while t < tb:
-                piece_end = tb
-                xq0 = state[S_XQ0]
-                tq = state[S_TQ]
-                if decay:
-                    # exact skip: on [t, tb] V is monotone and x_q decays monotonically, so x stays between the
-                    # sums of their end values; a piece inside (-x_inc, x_inc) holds no threshold crossing
-                    gva = gain * voltage(t, omega, orders, a_coef, b_coef)
-                    gvb = gain * v_seg[seg + 1]
-                    xqa = _xq(t, xq0, tq, tau_q)
-                    xqb = _xq(tb, xq0, tq, tau_q)
-                    if max(gva, gvb) + max(xqa, xqb) < x_inc and min(gva, gvb) + min(xqa, xqb) > -x_inc:
-                        break
-                    # g·V and the decaying x_q moving the same way: x is monotone on the whole piece
-                    if (gvb - gva > 0.0) == (xqb - xqa > 0.0) or xqb == xqa:
-                        piece_end = tb
-                    else:
-                        if pure_sine:
-                            piece_end = _piece_end_sine(t, tb, amp_g, cycle_t, gain, omega, orders, a_coef,
-                                                        b_coef, xq0, tq, tau_q, x_inc, gva, xqa)
-                        else:
-                            piece_end = _monotone_end(t, tb, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
-                    xt = gva + xqa  # = _x(t, ...) bit for bit
-                    xe = gain * voltage(piece_end, omega, orders, a_coef, b_coef) + (
-                        xqb if piece_end == tb else _xq(piece_end, xq0, tq, tau_q))
-                    rising = xe >= xt
-                else:
-                    xe = gain * v_seg[seg + 1] + xq0
-                    rising = v_seg[seg + 1] >= v_seg[seg]
-                    if gain < 0.0:
-                        rising = not rising
-                inside = False
-                if not leaving and (xt >= x_inc or xt <= -x_inc):
-                    pol = 1.0 if xt > 0.0 else -1.0
-                    if (pol > 0.0) == rising or pol * xe >= x_inc:
-                        t_out = piece_end
-                    elif pure_sine and not decay:
-                        t_out = _root_sine(pol * x_inc, t, piece_end, amp_g, omega, cycle_t, seg, xq0)
-                    elif pure_sine:
-                        t_out = _root_x_sine(pol * x_inc, t, piece_end, xt - pol * x_inc, xe - pol * x_inc, amp_g,
-                                             cycle_t, seg, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
-                    else:
-                        t_out = _root_x(pol * x_inc, t, piece_end, gain, omega, orders, a_coef, b_coef,
-                                        xq0, tq, tau_q)
-                    if t_out > t:
-                        inside = True
-                        t_in = t
-                        x_in = abs(xt)
-                        x_out = abs(xe) if t_out == piece_end else x_inc
+        for cell in range(n_cells):
+            state = state_all[cell * STATE_SIZE:(cell + 1) * STATE_SIZE]
+            if not decay and state[S_XQ0] + gv_max < x_inc and state[S_XQ0] + gv_min > -x_inc:
+                continue
+            for seg in range(n_seg):
+                ta = cycle_t + seg_fracs[seg] * period
+                tb = cycle_t + seg_fracs[seg + 1] * period
+                t = ta
+                xt = gain * v_seg[seg] + state[S_XQ0]
                 leaving = False
-                if not inside:
-                    pol = 1.0 if rising else -1.0
-                    if pol * xe < x_inc:
-                        if not decay:
+                while t < tb:
+                    piece_end = tb
+                    xq0 = state[S_XQ0]
+                    tq = state[S_TQ]
+                    if decay:
+                        # exact skip: on [t, tb] V is monotone and x_q decays monotonically, so x stays between the
+                        # sums of their end values; a piece inside (-x_inc, x_inc) holds no threshold crossing
+                        gva = gain * voltage(t, omega, orders, a_coef, b_coef)
+                        gvb = gain * v_seg[seg + 1]
+                        xqa = _xq(t, xq0, tq, tau_q)
+                        xqb = _xq(tb, xq0, tq, tau_q)
+                        if max(gva, gvb) + max(xqa, xqb) < x_inc and min(gva, gvb) + min(xqa, xqb) > -x_inc:
                             break
-                        t = piece_end
-                        continue
-                    if pure_sine and not decay:
-                        t_in = _root_sine(pol * x_inc, t, piece_end, amp_g, omega, cycle_t, seg, xq0)
-                    elif pure_sine:
-                        t_in = _root_x_sine(pol * x_inc, t, piece_end, xt - pol * x_inc, xe - pol * x_inc, amp_g,
-                                             cycle_t, seg, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
+                        # g·V and the decaying x_q moving the same way: x is monotone on the whole piece
+                        if (gvb - gva > 0.0) == (xqb - xqa > 0.0) or xqb == xqa:
+                            piece_end = tb
+                        else:
+                            if pure_sine:
+                                piece_end = _piece_end_sine(t, tb, amp_g, cycle_t, gain, omega, orders, a_coef,
+                                                            b_coef, xq0, tq, tau_q, x_inc, gva, xqa)
+                            else:
+                                piece_end = _monotone_end(t, tb, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
+                        xt = gva + xqa  # = _x(t, ...) bit for bit
+                        xe = gain * voltage(piece_end, omega, orders, a_coef, b_coef) + (
+                            xqb if piece_end == tb else _xq(piece_end, xq0, tq, tau_q))
+                        rising = xe >= xt
                     else:
-                        t_in = _root_x(pol * x_inc, t, piece_end, gain, omega, orders, a_coef, b_coef,
-                                       xq0, tq, tau_q)
-                    t_out = piece_end
-                    x_in = x_inc
-                    x_out = abs(xe)
-                if lag_free:
-                    t_d = t_in
-                else:
-                    n_vol = n_vol_pos if pol > 0.0 else n_vol_neg
-                    t_d = _consume(t_in, t_out, x_in, x_out, pol, state, n_vol, emit_coef, beta, m_hv, m_gnd,
-                                   gain, omega, orders, a_coef, b_coef, tau_q, detach, ion_source, ion_tau, n_gas)
-                    if t_d < 0.0:
-                        if t_out >= piece_end:
-                            t = piece_end
+                        xe = gain * v_seg[seg + 1] + xq0
+                        rising = v_seg[seg + 1] >= v_seg[seg]
+                        if gain < 0.0:
+                            rising = not rising
+                    inside = False
+                    if not leaving and (xt >= x_inc or xt <= -x_inc):
+                        pol = 1.0 if xt > 0.0 else -1.0
+                        if (pol > 0.0) == rising or pol * xe >= x_inc:
+                            t_out = piece_end
+                        elif pure_sine and not decay:
+                            t_out = _root_sine(pol * x_inc, t, piece_end, amp_g, omega, cycle_t, seg, xq0)
+                        elif pure_sine:
+                            t_out = _root_x_sine(pol * x_inc, t, piece_end, xt - pol * x_inc, xe - pol * x_inc, amp_g,
+                                                 cycle_t, seg, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
+                        else:
+                            t_out = _root_x(pol * x_inc, t, piece_end, gain, omega, orders, a_coef, b_coef,
+                                            xq0, tq, tau_q)
+                        if t_out > t:
+                            inside = True
+                            t_in = t
+                            x_in = abs(xt)
+                            x_out = abs(xe) if t_out == piece_end else x_inc
+                    leaving = False
+                    if not inside:
+                        pol = 1.0 if rising else -1.0
+                        if pol * xe < x_inc:
                             if not decay:
                                 break
+                            t = piece_end
                             continue
-                        t = t_out
-                        xt = pol * x_inc
-                        leaving = True
-                        continue
-                # discharge at t_d
-                v_d = voltage(t_d, omega, orders, a_coef, b_coef)
-                x_before = gain * v_d + _xq(t_d, xq0, tq, tau_q)
-                if lag_free and not decay:
-                    x_before = pol * x_inc if abs(x_before) < x_inc else x_before
-                e_res = res_mean
-                if res_width > 0.0:
-                    e_res = res_mean * (1.0 + res_width * (2.0 * np.random.random() - 1.0))
-                x_after = pol * e_res
-                dx = x_before - x_after
-                q = charge_per_unit * dx
-                shrink = 1.0
-                if decay:
-                    shrink = math.exp(-(t_d - tq) / tau_q)
-                for k in range(S_EHV, STATE_SIZE):
-                    state[k] *= shrink
-                dq = true_charge_per_field * abs(dx)
-                # electrons go to the high-voltage side in a positive discharge, ions to the ground side (the
-                # reverse in a negative one); arriving charge neutralises up to r·dq of the opposite inventory
-                e_wall, p_wall = (S_EHV, S_PHV) if pol > 0.0 else (S_EGND, S_PGND)
-                if (dep_hv if pol > 0.0 else dep_gnd) > 0.0:
-                    n_rec = min(state[p_wall], recombination * dq)
-                    state[p_wall] -= n_rec
-                    state[e_wall] += dq - n_rec
-                e_wall, p_wall = (S_EGND, S_PGND) if pol > 0.0 else (S_EHV, S_PHV)
-                if (dep_gnd if pol > 0.0 else dep_hv) > 0.0:
-                    n_rec = min(state[e_wall], recombination * dq)
-                    state[e_wall] -= n_rec
-                    state[p_wall] += dq - n_rec
-                if detach:
-                    # the discharge sweeps the void's negative ions; a new population builds up from t_d
-                    state[S_NION] = 0.0
-                    state[S_TION] = t_d
-                state[S_XQ0] = x_after - gain * v_d
-                state[S_TQ] = t_d
-                state[S_TLAST] = t_d
-                state[S_LASTPOL] = pol
-                state[S_COUNT] += 1.0
-                if not lag_free:
-                    state[S_REMAIN] = np.random.exponential(1.0)
-                if totals[T_COUNT] == 0.0:
-                    totals[T_FIRST] = t_d
-                totals[T_COUNT] += 1.0
-                totals[T_ABS] += abs(q)
-                totals[T_SQ] += q * q
-                totals[T_QU] += q * v_d
-                if phase_bins > 0:
-                    frac = t_d * frequency - cycle
-                    ib = int(frac * phase_bins)
-                    if ib >= phase_bins:
-                        ib = phase_bins - 1
-                    elif ib < 0:
-                        ib = 0
-                    if q < charge_edges[0]:
-                        totals[T_LOW] += 1.0
-                    elif q >= charge_edges[n_qbins]:
-                        totals[T_HIGH] += 1.0
+                        if pure_sine and not decay:
+                            t_in = _root_sine(pol * x_inc, t, piece_end, amp_g, omega, cycle_t, seg, xq0)
+                        elif pure_sine:
+                            t_in = _root_x_sine(pol * x_inc, t, piece_end, xt - pol * x_inc, xe - pol * x_inc, amp_g,
+                                                 cycle_t, seg, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
+                        else:
+                            t_in = _root_x(pol * x_inc, t, piece_end, gain, omega, orders, a_coef, b_coef,
+                                           xq0, tq, tau_q)
+                        t_out = piece_end
+                        x_in = x_inc
+                        x_out = abs(xe)
+                    if lag_free:
+                        t_d = t_in
                     else:
-                        jb = np.searchsorted(charge_edges, q, side="right") - 1
-                        hist_counts[ib, jb] += 1
-                if store_events:
-                    if n_written >= capacity:
-                        return -1, cycle
-                    out_time[n_written] = t_d
-                    out_charge[n_written] = q
-                    out_before[n_written] = x_before
-                    out_after[n_written] = x_after
-                    n_written += 1
-                t = t_d
-                xt = x_after
+                        n_vol = n_vol_pos if pol > 0.0 else n_vol_neg
+                        t_d = _consume(t_in, t_out, x_in, x_out, pol, state, n_vol, emit_coef, beta, m_hv, m_gnd,
+                                       gain, omega, orders, a_coef, b_coef, tau_q, detach, ion_source, ion_tau, n_gas)
+                        if t_d < 0.0:
+                            if t_out >= piece_end:
+                                t = piece_end
+                                if not decay:
+                                    break
+                                continue
+                            t = t_out
+                            xt = pol * x_inc
+                            leaving = True
+                            continue
+                    # discharge at t_d
+                    v_d = voltage(t_d, omega, orders, a_coef, b_coef)
+                    x_before = gain * v_d + _xq(t_d, xq0, tq, tau_q)
+                    if lag_free and not decay:
+                        x_before = pol * x_inc if abs(x_before) < x_inc else x_before
+                    e_res = res_mean
+                    if res_width > 0.0:
+                        e_res = res_mean * (1.0 + res_width * (2.0 * np.random.random() - 1.0))
+                    x_after = pol * e_res
+                    dx = x_before - x_after
+                    q = charge_per_unit * dx
+                    shrink = 1.0
+                    if decay:
+                        shrink = math.exp(-(t_d - tq) / tau_q)
+                    for k in range(S_EHV, STATE_SIZE):
+                        state[k] *= shrink
+                    dq = true_charge_per_field * abs(dx)
+                    # electrons go to the high-voltage side in a positive discharge, ions to the ground side (the
+                    # reverse in a negative one); arriving charge neutralises up to r·dq of the opposite inventory
+                    e_wall, p_wall = (S_EHV, S_PHV) if pol > 0.0 else (S_EGND, S_PGND)
+                    if (dep_hv if pol > 0.0 else dep_gnd) > 0.0:
+                        n_rec = min(state[p_wall], recombination * dq)
+                        state[p_wall] -= n_rec
+                        state[e_wall] += dq - n_rec
+                    e_wall, p_wall = (S_EGND, S_PGND) if pol > 0.0 else (S_EHV, S_PHV)
+                    if (dep_gnd if pol > 0.0 else dep_hv) > 0.0:
+                        n_rec = min(state[e_wall], recombination * dq)
+                        state[e_wall] -= n_rec
+                        state[p_wall] += dq - n_rec
+                    if detach:
+                        # the discharge sweeps the void's negative ions; a new population builds up from t_d
+                        state[S_NION] = 0.0
+                        state[S_TION] = t_d
+                    state[S_XQ0] = x_after - gain * v_d
+                    state[S_TQ] = t_d
+                    state[S_TLAST] = t_d
+                    state[S_LASTPOL] = pol
+                    state[S_COUNT] += 1.0
+                    if not lag_free:
+                        state[S_REMAIN] = np.random.exponential(1.0)
+                    if totals[T_COUNT] == 0.0 or t_d < totals[T_FIRST]:
+                        totals[T_FIRST] = t_d
+                    totals[T_COUNT] += 1.0
+                    totals[T_ABS] += abs(q)
+                    totals[T_SQ] += q * q
+                    totals[T_QU] += q * v_d
+                    if phase_bins > 0:
+                        frac = t_d * frequency - cycle
+                        ib = int(frac * phase_bins)
+                        if ib >= phase_bins:
+                            ib = phase_bins - 1
+                        elif ib < 0:
+                            ib = 0
+                        if q < charge_edges[0]:
+                            totals[T_LOW] += 1.0
+                        elif q >= charge_edges[n_qbins]:
+                            totals[T_HIGH] += 1.0
+                        else:
+                            jb = np.searchsorted(charge_edges, q, side="right") - 1
+                            hist_counts[ib, jb] += 1
+                    if store_events:
+                        if n_written >= capacity:
+                            return -1, cycle
+                        out_time[n_written] = t_d
+                        out_charge[n_written] = q
+                        out_before[n_written] = x_before
+                        out_after[n_written] = x_after
+                        n_written += 1
+                    t = t_d
+                    xt = x_after
         cycle += 1
     return n_written, cycle

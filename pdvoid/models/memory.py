@@ -26,11 +26,15 @@ from pdvoid.physics.surface_emission import schottky_coefficient, schottky_lower
 if TYPE_CHECKING:
     from pdvoid.inputs.scenario import Scenario
 
-__all__ = ["MemoryModel", "MemoryKernelArguments", "wall_weights", "wall_charges", "AIR_STABILITY_FIELD"]
+__all__ = ["MemoryModel", "MemoryKernelArguments", "wall_weights", "wall_charges", "AIR_STABILITY_FIELD",
+           "MAX_SPOTS"]
 
 #: Stability field of positive streamers in air at 101325 Pa and 293.15 K [V/m]: 0.5 kV/(mm·bar) (physics brief
 #: §3.2, from memory), the default of :attr:`MemoryModel.stability_field`.
 AIR_STABILITY_FIELD = 5.066e5
+
+#: Largest number of discharge spots of one void (the kernel runs each spot) [-].
+MAX_SPOTS = 400
 
 _UNUSED = ("residual_ratio", "surface_rate_same", "surface_rate_reversed", "surface_decay_time", "field_assisted")
 
@@ -122,6 +126,9 @@ class MemoryKernelArguments(KernelArguments):
         Loss time of the negative ions [s].
     n_gas : float
         Gas number density [1/m³].
+    n_cells : int
+        Number of discharge spots of the void, each with its share (1/n_cells) of the charge per field drop and
+        of the electron supply [-].
     """
 
     res_width: float = 0.0
@@ -135,6 +142,7 @@ class MemoryKernelArguments(KernelArguments):
     ion_source: float = 0.0
     ion_tau: float = math.inf
     n_gas: float = 1.0
+    n_cells: int = 1
 
     def max_events_per_cycle(self, scale: float = 1.0) -> int:
         """An upper bound on discharges in one cycle (that of :class:`KernelArguments` with the largest residual
@@ -153,7 +161,24 @@ class MemoryKernelArguments(KernelArguments):
         import dataclasses
 
         widest = dataclasses.replace(self, x_res=self.x_res * (1.0 + self.res_width))
-        return KernelArguments.max_events_per_cycle(widest, scale)
+        return KernelArguments.max_events_per_cycle(widest, scale) * self.n_cells
+
+    def prepare_state(self, state: np.ndarray) -> None:
+        """Start the discharge spots after the first: each as the runner started the first (no discharge yet, a
+        fresh exponential wait drawn in spot order; nothing is drawn for a single spot).
+
+        Parameters
+        ----------
+        state : numpy.ndarray
+            The new state vector (``n_cells`` blocks), updated in place.
+        """
+        from pdvoid.kernels import memory_events as M
+
+        for k in range(1, self.n_cells):
+            block = state[k * M.STATE_SIZE:(k + 1) * M.STATE_SIZE]
+            block[M.S_TLAST] = -np.inf
+            if not self.lag_free:
+                M.start_wait(block)
 
     @property
     def state_size(self) -> int:
@@ -166,7 +191,7 @@ class MemoryKernelArguments(KernelArguments):
         """
         from pdvoid.kernels import memory_events as M
 
-        return M.STATE_SIZE
+        return M.STATE_SIZE * self.n_cells
 
     def advance(
         self, state: np.ndarray, cycle_start: int, cycle_stop: int, a_coef: np.ndarray, b_coef: np.ndarray,
@@ -205,14 +230,20 @@ class MemoryKernelArguments(KernelArguments):
         """
         from pdvoid.kernels import memory_events as M
 
-        return M.run_memory_cycles(
+        n, nxt = M.run_memory_cycles(
             state, cycle_start, cycle_stop, self.frequency, self.orders, a_coef, b_coef, self.seg_fracs,
             self.pure_sine, self.gain, self.x_inc, self.x_res, self.res_width, self.charge_per_unit,
             self.true_charge_per_field, self.m_hv, self.m_gnd, self.recombination, self.lag_free, self.n_vol_pos,
             self.n_vol_neg, self.emit_coef, self.beta, self.tau_q, self.detach, self.ion_source, self.ion_tau,
-            self.n_gas, store_events, out_time, out_charge, out_before,
+            self.n_gas, self.n_cells, store_events, out_time, out_charge, out_before,
             out_after, max_per_cycle, hist_counts, charge_edges, totals,
         )
+        if store_events and self.n_cells > 1 and n > 1:
+            # the kernel writes each cycle spot by spot: put the events of this call in time order
+            order = np.argsort(out_time[:n], kind="stable")
+            for buf in (out_time, out_charge, out_before, out_after):
+                buf[:n] = buf[:n][order]
+        return n, nxt
 
 
 @register_model
@@ -252,6 +283,13 @@ class MemoryModel(ModelParameters):
         rate.
     ion_lifetime : float
         Loss time τ_ion of the negative ions (drift to the walls) [s], > 0, inf for none.
+    discharge_spots : bool
+        True to let a flat void discharge in spots: a spot of diameter ``spot_ratio`` times the gas gap (the void
+        height along the field), n = floor((diameter/spot diameter)²) spots that discharge independently, each with
+        1/n of the charge per field drop and of the electron supply (n = 1 when the spot is as wide as the void).
+        False: the whole void discharges at once.
+    spot_ratio : float
+        Spot diameter over the gas gap [-], in [0.5, 20].
     ionization_rate, cathode_emission_rate, ... :
         As :class:`ModelParameters`.
 
@@ -272,7 +310,8 @@ class MemoryModel(ModelParameters):
                    "attempt_frequency": ("frequency", "Hz"), "stability_field": ("field", "V/m"),
                    "residual_scatter": ("dimensionless", ""),
                    "recombination": ("dimensionless", ""), "volume_detachment": (None, ""),
-                   "ion_lifetime": ("time", "s")}
+                   "ion_lifetime": ("time", "s"), "discharge_spots": (None, ""),
+                   "spot_ratio": ("dimensionless", "")}
 
     parameter_set: str = "niemeyer1995"
     trap_depth: float = 1.3
@@ -284,6 +323,8 @@ class MemoryModel(ModelParameters):
     cathode_emission_rate: float = 1e4
     volume_detachment: bool = False
     ion_lifetime: float = 1e-3
+    discharge_spots: bool = False
+    spot_ratio: float = 2.0
 
     def __post_init__(self) -> None:
         super().__post_init__()
@@ -305,6 +346,8 @@ class MemoryModel(ModelParameters):
                                                                  self.residual_scatter, 0.0, 1.0))
         object.__setattr__(self, "recombination", check_range("model.recombination", self.recombination, 0.0, 1.0))
         check_bool("model.volume_detachment", self.volume_detachment)
+        check_bool("model.discharge_spots", self.discharge_spots)
+        object.__setattr__(self, "spot_ratio", check_range("model.spot_ratio", self.spot_ratio, 0.5, 20.0))
         object.__setattr__(self, "ion_lifetime", check_range("model.ion_lifetime", self.ion_lifetime, 0.0,
                                                              math.inf, low_open=True, unit="s", allow_inf=True))
 
@@ -327,6 +370,40 @@ class MemoryModel(ModelParameters):
             raise InputError(f"model.parameter_set must be one of {list_parameter_sets(self.kind)!r}; "
                              f"got {self.parameter_set!r}")
         return tuple(dict.fromkeys(keys))
+
+    def spot_count(self, diameter: float, height: float) -> int:
+        """Number of discharge spots of a void: floor((D/(k·h))²) with k = ``spot_ratio``, at least 1; 1 without
+        ``discharge_spots``.
+
+        The rule takes a discharge in a flat void to cover a spot whose diameter is a few gas gaps (from memory:
+        the streamer's surface discharge spreads over about the gap length on either side of its foot; the
+        factor k is illustrative).
+
+        Parameters
+        ----------
+        diameter : float
+            Void diameter across the field D [m].
+        height : float
+            Void height along the field, the gas gap h [m].
+
+        Returns
+        -------
+        int
+            The number of spots [-].
+
+        Raises
+        ------
+        InputError
+            For more than :data:`MAX_SPOTS` spots (the kernel runs each one).
+        """
+        if not self.discharge_spots:
+            return 1
+        n = max(1, math.floor((diameter / (self.spot_ratio * height)) ** 2))
+        if n > MAX_SPOTS:
+            raise InputError(f"model.spot_ratio {self.spot_ratio:g} gives {n} discharge spots for a void of "
+                             f"diameter {diameter:g} m and height {height:g} m; at most {MAX_SPOTS} are allowed "
+                             f"(raise model.spot_ratio)")
+        return n
 
     def assumptions(self) -> tuple[str, str]:
         """What this model assumes about the residual field and the start electrons, in plain words.
@@ -408,10 +485,17 @@ class MemoryModel(ModelParameters):
             detach = {"detach": True, "ion_source": c.volume_electron_rate, "ion_tau": self.ion_lifetime,
                       "n_gas": void.gas_pressure / (BOLTZMANN * void.temperature)}
         shared.update(n_same=0.0, n_rev=0.0, tau_s=math.inf, field_assisted=False)
+        n_cells = self.spot_count(void.diameter, void.height)
+        if n_cells > 1:
+            # each spot: its share of the charge per field drop and of the supply (volume, cathode area, ions)
+            shared.update(n_vol_pos=shared["n_vol_pos"] / n_cells, n_vol_neg=shared["n_vol_neg"] / n_cells)
+            if detach:
+                detach["ion_source"] = detach["ion_source"] / n_cells
+            true_per_field /= n_cells
         return MemoryKernelArguments(
             **shared,
             gain=c.field_enhancement / scenario.insulation.thickness,
-            x_inc=e_inc, x_res=e_st, charge_per_unit=c.charge_per_field, x_to_field=1.0,
+            x_inc=e_inc, x_res=e_st, charge_per_unit=c.charge_per_field / n_cells, x_to_field=1.0, n_cells=n_cells,
             references=tuple(dict.fromkeys(c.references + ("crichton1989", "pedersen1991") + self.references())),
             res_width=self.residual_scatter, true_charge_per_field=true_per_field, m_hv=m_hv, m_gnd=m_gnd,
             emit_coef=emit / ELEMENTARY_CHARGE, beta=schottky_coefficient(t_wall), recombination=self.recombination,
