@@ -14,7 +14,7 @@ from typing import Protocol, runtime_checkable
 
 from pdvoid.core.errors import InputError
 
-__all__ = ["Reference", "REFERENCES", "HasReferences", "cite", "get_reference"]
+__all__ = ["Reference", "REFERENCES", "HasReferences", "HasParameterValues", "cite", "get_reference"]
 
 
 @dataclass(frozen=True)
@@ -230,8 +230,18 @@ class HasReferences(Protocol):
         ...
 
 
+@runtime_checkable
+class HasParameterValues(Protocol):
+    """Anything that can list the parameter-set values it used, each with its source and status (a Result)."""
+
+    def parameter_values(self) -> tuple[str, ...]:
+        """One line per value: name, value and unit, status and source."""
+        ...
+
+
 def cite(source: str | Iterable[str] | HasReferences) -> str:
-    """Full citations for a result, a scenario's coefficients, or an iterable of keys, one per line.
+    """Full citations for a result, a scenario's coefficients, or an iterable of keys, one per line; for a result
+    whose model comes from a parameter set, followed by the set's values as used, each with its source and status.
 
     Parameters
     ----------
@@ -259,4 +269,9 @@ def cite(source: str | Iterable[str] | HasReferences) -> str:
         ordered = list(dict.fromkeys(keys))
     except TypeError:
         raise InputError(f"cite() needs a Result, Coefficients or keys; got {type(source).__name__}") from None
-    return "\n".join(str(get_reference(k)) for k in ordered)
+    text = "\n".join(str(get_reference(k)) for k in ordered)
+    if isinstance(source, HasParameterValues):
+        lines = source.parameter_values()
+        if lines:
+            text += "\n\nParameter values used:\n" + "\n".join(lines)
+    return text

@@ -455,3 +455,21 @@ def test_piece_end_of_the_sine_path_gives_monotone_or_quiet_pieces():
             t, steps = end, steps + 1
         assert t == tb
     assert quiet > 100 and monotone > 100
+
+
+def test_cite_of_a_run_lists_the_parameter_set_values_with_source_and_status():
+    # the set's values as used, each with its status and source; a value given by the user is marked as such
+    res = pdvoid.simulate(_scenario(pdvoid.MemoryModel(ionization_rate=1e9, volume_detachment=True)), cycles=2,
+                          seed=1)
+    text = pdvoid.cite(res)
+    assert "Parameter values used:" in text
+    assert "parameter set niemeyer1995 (memory model):" in text
+    assert "  trap_depth = 1.3 V  [tuned] effective trap depth" in text
+    assert "  attempt_frequency = 1e+14 Hz  [from memory]" in text
+    assert "  ionization_rate = 1e+09 1/(m3 s)  [given by the user; the set has 1e+07 1/(m3 s), confirmed:" in text
+    assert "  volume_detachment = true  [given by the user; not a value of the set]" in text
+    # today's field model at its defaults: the set field_defaults
+    field = pdvoid.simulate(_scenario(pdvoid.FieldModel()), cycles=2, seed=1)
+    assert "  residual_ratio = 0.25  [common practice]" in pdvoid.cite(field)
+    # keys alone: citations only
+    assert "Parameter values used" not in pdvoid.cite(["niemeyer1995"])
