@@ -6,7 +6,7 @@ field model (numba, 0.1° steps) and to a plain-Python loop; cold and warm (cach
 memory of a 10⁶-cycle histogram-only run. Targets (issue "void models"): field model ≥ 1e6 cycles/s without
 field-assisted emission and ≥ 2e5 with it, at about 3 discharges per cycle, ≥ 30× the fixed-step implementation,
 warm first call ≤ 2 s, 10⁶-cycle histogram-only run under 200 MB; (issue 13) the wall-memory model at least a
-third of the field model's speed.
+third of the field model's speed (the richest form: the set niemeyer1995_full with volume detachment).
 
 Run: python benchmarks/run.py [--quick]
 """
@@ -52,6 +52,11 @@ def scenarios():
     mem_hv = pdvoid.Scenario(insulation=base.insulation, supply=base.supply, model=mem.model,
                              void=dataclasses.replace(base.void, height=base.void.height / 2,
                                                       position="high_voltage_electrode"))
+    from pdvoid.inputs.model_sets import model_from_set
+
+    # the richest form: set niemeyer1995_full (volume detachment; discharge spots, one spot in this sphere)
+    rich = dataclasses.replace(base, model=model_from_set("niemeyer1995_full",
+                                                          ionization_rate=base.model.ionization_rate))
     return {
         "field model": base,
         "field model, field-assisted": base.replace(**{"model.field_assisted": True,
@@ -60,6 +65,7 @@ def scenarios():
         "network model": net,
         "memory model (niemeyer1995)": mem,
         "memory model, on hv electrode": mem_hv,
+        "memory model, richest (full set)": rich,
     }
 
 
