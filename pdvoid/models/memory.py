@@ -413,11 +413,22 @@ class MemoryModel(ModelParameters):
         tuple of str
             The residual-field sentence and the start-electron sentence [-].
         """
-        return (
+        residual = (
             f"The residual field is the streamer stability field of the gas, {self.stability_field / 1e6:.3g} kV/mm "
             f"at 101.325 kPa and 293.15 K (from memory), scaled with the gas density and scattered uniformly by "
-            f"±{self.residual_scatter * 100:.0f} % (illustrative); it sets the charge per discharge.",
-            "Start electrons: volume ionisation, a metal cathode's emission and electrons detrapped from the "
+            f"±{self.residual_scatter * 100:.0f} % (illustrative); it sets the charge per discharge.")
+        if self.discharge_spots:
+            residual += (f" A discharge covers a spot {self.spot_ratio:g} gas gaps wide (from memory, illustrative "
+                         f"factor), and the spots of a wide flat void discharge independently, each with its own "
+                         f"wall charge whose field is taken as local to the spot.")
+        volume = "volume ionisation"
+        if self.volume_detachment:
+            volume = (f"negative ions from the volume ionisation, built up between discharges with a loss time of "
+                      f"{self.ion_lifetime:g} s (illustrative) and detached above inception (detachment rates "
+                      f"from memory)")
+        return (
+            residual,
+            f"Start electrons: {volume}, a metal cathode's emission and electrons detrapped from the "
             "charge earlier discharges left on the cathode-side wall (Niemeyer-type, Schottky-lowered); "
             + self.caveat + ".",
         )
