@@ -33,11 +33,13 @@ thinning (Lewis & Shedler 1979) otherwise: candidates at a constant rate that bo
 decay factor is largest at its start; |x| is monotone on the window, so the Schottky factor is largest at an end),
 each accepted with probability N(t)/bound. Thinning is exact in distribution; no step, no quadrature.
 
-Volume detachment (optional): negative ions are formed at the rate S and lost at the rate 1/tau_ion each; a
-discharge sweeps them out. Below inception the count is only brought forward when needed, in closed form
-(survivors Binomial(K, exp(−Δ/tau_ion)), newcomers Poisson(S·tau_ion·(1 − exp(−Δ/tau_ion)))); above inception
-births and losses are drawn as competing exponentials and, between them, the start electrons are thinned with the
-ion term bounded by K·ν_d(max |x|) (ν_d rises with the field, 1 − η/α <= 1). Exact in distribution.
+Volume detachment (optional): ion pairs form a Poisson process of rate S (their times drawn one gap at a time and
+kept in the state), each leaving a negative ion lost at the rate 1/tau_ion; a discharge sweeps the ions out.
+Below inception the count is only brought forward when needed: present ions survive Binomial(K, exp(−Δ/tau_ion)),
+an ion formed at b survives with probability exp(−(t − b)/tau_ion). Above inception the count changes at the next
+birth and at losses (rate K/tau_ion, drawn only while K > 0); between changes the start electrons are thinned with
+the ion term bounded by K·ν_d(max |x|) (ν_d rises with the field, 1 − η/α <= 1). Exact in distribution; while no
+ion is present and none is formed, a window costs no extra draw.
 
 The helper functions are copies of those in :mod:`pdvoid.kernels.void_events` (numba's cache does not follow an
 edited callee in another module, so every njit function this kernel calls lives here). Random numbers come from
@@ -65,7 +67,8 @@ S_PHV = 8  # positive charge on the high-voltage-side wall at S_TQ [C]
 S_PGND = 9  # positive charge on the ground-side wall at S_TQ [C]
 S_NION = 10  # negative ions in the void at S_TION (volume detachment) [-]
 S_TION = 11  # reference time of S_NION [s]
-STATE_SIZE = 12
+S_TBIRTH = 12  # time of the next ion pair formed in the void [s] (0: not drawn yet)
+STATE_SIZE = 13
 
 # totals layout as in pdvoid.kernels.void_events
 T_COUNT = 0
@@ -703,23 +706,36 @@ def _thin(
 
 
 @njit_cached
+def _next_birth(state: np.ndarray, after: float, ion_source: float) -> float:
+    """The next ion pair after ``after``: the births form a Poisson process of rate S, independent of the
+    discharges (exponential gaps, drawn one at a time) [s]."""
+    if ion_source <= 0.0:
+        return math.inf
+    t = state[S_TBIRTH]
+    if t == 0.0:
+        t = after
+    return t + np.random.exponential(1.0) / ion_source
+
+
+@njit_cached
 def _ions_to(t: float, state: np.ndarray, ion_source: float, ion_tau: float) -> None:
-    """Bring the negative-ion count from its reference time to t (no detachment below inception): survivors of the
-    present ions, Binomial(K, exp(−Δ/τ)), plus those formed meanwhile that survive, Poisson(S·τ·(1 − exp(−Δ/τ)))
-    (S·Δ for τ = inf)."""
+    """Bring the negative-ion count from its reference time to t (no detachment below inception): each present ion
+    survives with probability exp(−Δ/τ) (Binomial), and each ion pair formed meanwhile, at its birth time b, with
+    probability exp(−(t − b)/τ); births before the reference time were swept out by a discharge."""
+    if state[S_TBIRTH] == 0.0:
+        state[S_TBIRTH] = _next_birth(state, state[S_TION], ion_source)
     dt = t - state[S_TION]
     if dt <= 0.0:
         return
     k = state[S_NION]
-    if ion_tau == math.inf:
-        mean_new = ion_source * dt
-    else:
-        surv = math.exp(-dt / ion_tau)
-        if k > 0.0:
-            k = float(np.random.binomial(int(k), surv))
-        mean_new = ion_source * ion_tau * (1.0 - surv)
-    if mean_new > 0.0:
-        k += float(np.random.poisson(mean_new))
+    if k > 0.0 and ion_tau != math.inf:
+        k = float(np.random.binomial(int(k), math.exp(-dt / ion_tau)))
+    while state[S_TBIRTH] < t:
+        b = state[S_TBIRTH]
+        if b >= state[S_TION]:
+            if ion_tau == math.inf or np.random.random() < math.exp(-(t - b) / ion_tau):
+                k += 1.0
+        state[S_TBIRTH] = _next_birth(state, b, ion_source)
     state[S_NION] = k
     state[S_TION] = t
 
@@ -731,9 +747,9 @@ def _consume(
     b_coef: np.ndarray, tau_q: float, detach: bool, ion_source: float, ion_tau: float, n_gas: float,
 ) -> float:
     """The discharge time in the above-threshold window [t0, t1] (|x| = x0, x1 at its ends), or -1.0 when the
-    window ends first. With ``detach`` the negative ions are brought to t0, and inside the window their count
-    changes by births (rate S) and losses (K/τ) drawn as competing exponentials; between those changes the start
-    electrons are thinned with the ion term K·ν_d·(1 − η/α) added."""
+    window ends first. With ``detach`` the negative ions are brought to t0; inside the window their count changes
+    at the next birth (the Poisson process of ion pairs) and at losses (rate K/τ, drawn only while K > 0);
+    between those changes the start electrons are thinned with the ion term K·ν_d·(1 − η/α) added."""
     amp = _wall_amplitude(pol, state, emit_coef, m_hv, m_gnd)
     if not detach:
         if amp == 0.0:
@@ -752,25 +768,28 @@ def _consume(
     xa = x0
     while t < t1:
         k = state[S_NION]
-        rate = ion_source
-        if ion_tau != math.inf:
-            rate += k / ion_tau
         end = t1
+        born = False
+        if state[S_TBIRTH] < end:
+            end = state[S_TBIRTH]
+            born = True
+        if k > 0.0 and ion_tau != math.inf:
+            t_loss = t + np.random.exponential(1.0) * ion_tau / k
+            if t_loss < end:
+                end = t_loss
+                born = False
         xb = x1
-        if rate > 0.0:
-            t_chg = t + np.random.exponential(1.0) / rate
-            if t_chg < t1:
-                end = t_chg
-                xb = abs(_x(end, gain, omega, orders, a_coef, b_coef, state[S_XQ0], state[S_TQ], tau_q))
+        if end < t1:
+            xb = abs(_x(end, gain, omega, orders, a_coef, b_coef, state[S_XQ0], state[S_TQ], tau_q))
         hit = _thin(t, end, xa, xb, pol, state, n_vol, amp, k, n_gas, emit_coef, beta, m_hv, m_gnd, gain, omega,
                     orders, a_coef, b_coef, tau_q)
         if hit >= 0.0:
             state[S_TION] = hit
             return hit
         if end < t1:
-            # a new ion (probability S/rate) or the loss of one
-            if np.random.random() * rate < ion_source:
+            if born:
                 state[S_NION] = k + 1.0
+                state[S_TBIRTH] = _next_birth(state, end, ion_source)
             else:
                 state[S_NION] = k - 1.0
         t = end
@@ -921,6 +940,11 @@ def run_memory_cycles(
             state = state_all[cell * STATE_SIZE:(cell + 1) * STATE_SIZE]
             if not decay and state[S_XQ0] + gv_max < x_inc and state[S_XQ0] + gv_min > -x_inc:
                 continue
+            c_t = -1.0  # cached g·V and x_q at the time c_t, and x_q at c_tb (valid until the next discharge)
+            c_gv = 0.0
+            c_xq = 0.0
+            c_tb = -1.0
+            c_xqb = 0.0
             for seg in range(n_seg):
                 ta = cycle_t + seg_fracs[seg] * period
                 tb = cycle_t + seg_fracs[seg + 1] * period
@@ -934,10 +958,19 @@ def run_memory_cycles(
                     if decay:
                         # exact skip: on [t, tb] V is monotone and x_q decays monotonically, so x stays between the
                         # sums of their end values; a piece inside (-x_inc, x_inc) holds no threshold crossing
-                        gva = gain * voltage(t, omega, orders, a_coef, b_coef)
+                        if t == c_t:
+                            gva = c_gv
+                            xqa = c_xq
+                        else:
+                            gva = gain * voltage(t, omega, orders, a_coef, b_coef)
+                            xqa = _xq(t, xq0, tq, tau_q)
                         gvb = gain * v_seg[seg + 1]
-                        xqa = _xq(t, xq0, tq, tau_q)
-                        xqb = _xq(tb, xq0, tq, tau_q)
+                        if tb == c_tb:
+                            xqb = c_xqb
+                        else:
+                            xqb = _xq(tb, xq0, tq, tau_q)
+                            c_tb = tb
+                            c_xqb = xqb
                         if max(gva, gvb) + max(xqa, xqb) < x_inc and min(gva, gvb) + min(xqa, xqb) > -x_inc:
                             break
                         # g·V and the decaying x_q moving the same way: x is monotone on the whole piece
@@ -950,8 +983,10 @@ def run_memory_cycles(
                             else:
                                 piece_end = _monotone_end(t, tb, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
                         xt = gva + xqa  # = _x(t, ...) bit for bit
-                        xe = gain * voltage(piece_end, omega, orders, a_coef, b_coef) + (
-                            xqb if piece_end == tb else _xq(piece_end, xq0, tq, tau_q))
+                        c_t = piece_end
+                        c_gv = gain * voltage(piece_end, omega, orders, a_coef, b_coef)
+                        c_xq = xqb if piece_end == tb else _xq(piece_end, xq0, tq, tau_q)
+                        xe = c_gv + c_xq
                         rising = xe >= xt
                     else:
                         xe = gain * v_seg[seg + 1] + xq0
@@ -1013,7 +1048,11 @@ def run_memory_cycles(
                             continue
                     # discharge at t_d
                     v_d = voltage(t_d, omega, orders, a_coef, b_coef)
-                    x_before = gain * v_d + _xq(t_d, xq0, tq, tau_q)
+                    shrink = 1.0
+                    if decay:
+                        shrink = math.exp(-(t_d - tq) / tau_q)
+                    # = gain·v_d + _xq(t_d, ...) bit for bit, with the decay factor computed once
+                    x_before = gain * v_d + (xq0 * shrink if decay and xq0 != 0.0 else xq0)
                     if lag_free and not decay:
                         x_before = pol * x_inc if abs(x_before) < x_inc else x_before
                     e_res = res_mean
@@ -1022,10 +1061,7 @@ def run_memory_cycles(
                     x_after = pol * e_res
                     dx = x_before - x_after
                     q = charge_per_unit * dx
-                    shrink = 1.0
-                    if decay:
-                        shrink = math.exp(-(t_d - tq) / tau_q)
-                    for k in range(S_EHV, STATE_SIZE):
+                    for k in range(S_EHV, S_PGND + 1):
                         state[k] *= shrink
                     dq = true_charge_per_field * abs(dx)
                     # electrons go to the high-voltage side in a positive discharge, ions to the ground side (the
@@ -1046,6 +1082,11 @@ def run_memory_cycles(
                         state[S_TION] = t_d
                     state[S_XQ0] = x_after - gain * v_d
                     state[S_TQ] = t_d
+                    # the state changed: g·V(t_d) is known, x_q(t_d) is the new S_XQ0 (decay factor exp(0) = 1)
+                    c_t = t_d
+                    c_gv = gain * v_d
+                    c_xq = state[S_XQ0]
+                    c_tb = -1.0
                     state[S_TLAST] = t_d
                     state[S_LASTPOL] = pol
                     state[S_COUNT] += 1.0
