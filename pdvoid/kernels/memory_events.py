@@ -261,16 +261,17 @@ def _root_x(
 def _root_x_sine(
     target: float, t0: float, t1: float, f0: float, f1: float, amp_g: float, cycle_t: float, seg: int,
     gain: float, omega: float, orders: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray, xq0: float, tq: float,
-    tau_q: float,
+    tau_q: float, xq_t0: float,
 ) -> float:
-    """:func:`_root_x` for a pure sine with decaying x_q, given f0 = x(t0) − target and f1 = x(t1) − target:
+    """:func:`_root_x` for a pure sine with decaying x_q, given f0 = x(t0) − target, f1 = x(t1) − target and
+    xq_t0 = x_q(t0):
     Newton started from the closed-form root of amp_g·sin(w t) + x_q(t*) = target with x_q frozen at the root
     t* of the same equation with x_q(t0) (x_q moves little over the piece)."""
     if f0 == 0.0:
         return t0
     if f1 == 0.0:
         return t1
-    g0 = _root_sine(target, t0, t1, amp_g, omega, cycle_t, seg, _xq(t0, xq0, tq, tau_q))
+    g0 = _root_sine(target, t0, t1, amp_g, omega, cycle_t, seg, xq_t0)
     t = _root_sine(target, t0, t1, amp_g, omega, cycle_t, seg, _xq(g0, xq0, tq, tau_q))
     return _newton_x(target, t0, t1, f0, t, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
 
@@ -511,7 +512,7 @@ def _piece_end_sine(
             return zs if zs < t_end else t_end
         if t < ze:
             b = ze if ze < t_end else t_end
-            d0 = _dx(t, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
+            d0 = gain * voltage_slope(t, omega, orders, a_coef, b_coef) - xqa / tau_q  # = _dx(t, ...) bit for bit
             d1 = _dx(b, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
             if (d1 > 0.0) == (d0 > 0.0) or d1 == 0.0:
                 return b
@@ -955,6 +956,7 @@ def run_memory_cycles(
                     piece_end = tb
                     xq0 = state[S_XQ0]
                     tq = state[S_TQ]
+                    xqa = xq0
                     if decay:
                         # exact skip: on [t, tb] V is monotone and x_q decays monotonically, so x stays between the
                         # sums of their end values; a piece inside (-x_inc, x_inc) holds no threshold crossing
@@ -1002,7 +1004,8 @@ def run_memory_cycles(
                             t_out = _root_sine(pol * x_inc, t, piece_end, amp_g, omega, cycle_t, seg, xq0)
                         elif pure_sine:
                             t_out = _root_x_sine(pol * x_inc, t, piece_end, xt - pol * x_inc, xe - pol * x_inc, amp_g,
-                                                 cycle_t, seg, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
+                                                 cycle_t, seg, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q,
+                                                 xqa)
                         else:
                             t_out = _root_x(pol * x_inc, t, piece_end, gain, omega, orders, a_coef, b_coef,
                                             xq0, tq, tau_q)
@@ -1023,7 +1026,8 @@ def run_memory_cycles(
                             t_in = _root_sine(pol * x_inc, t, piece_end, amp_g, omega, cycle_t, seg, xq0)
                         elif pure_sine:
                             t_in = _root_x_sine(pol * x_inc, t, piece_end, xt - pol * x_inc, xe - pol * x_inc, amp_g,
-                                                 cycle_t, seg, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q)
+                                                 cycle_t, seg, gain, omega, orders, a_coef, b_coef, xq0, tq, tau_q,
+                                                 xqa)
                         else:
                             t_in = _root_x(pol * x_inc, t, piece_end, gain, omega, orders, a_coef, b_coef,
                                            xq0, tq, tau_q)
