@@ -6,7 +6,7 @@ field model (numba, 0.1° steps) and to a plain-Python loop; cold and warm (cach
 memory of a 10⁶-cycle histogram-only run. Targets (issue "void models"): field model ≥ 1e6 cycles/s without
 field-assisted emission and ≥ 2e5 with it, at about 3 discharges per cycle, ≥ 30× the fixed-step implementation,
 warm first call ≤ 2 s, 10⁶-cycle histogram-only run under 200 MB; (issue 13) the wall-memory model at least a
-third of the field model's speed.
+third of the field model's speed (the richest form: the set niemeyer1995_full with volume detachment).
 
 Run: python benchmarks/run.py [--quick]
 """
@@ -52,6 +52,11 @@ def scenarios():
     mem_hv = pdvoid.Scenario(insulation=base.insulation, supply=base.supply, model=mem.model,
                              void=dataclasses.replace(base.void, height=base.void.height / 2,
                                                       position="high_voltage_electrode"))
+    from pdvoid.inputs.model_sets import model_from_set
+
+    # the richest form: set niemeyer1995_full (volume detachment; discharge spots, one spot in this sphere)
+    rich = dataclasses.replace(base, model=model_from_set("niemeyer1995_full",
+                                                          ionization_rate=base.model.ionization_rate))
     return {
         "field model": base,
         "field model, field-assisted": base.replace(**{"model.field_assisted": True,
@@ -60,20 +65,34 @@ def scenarios():
         "network model": net,
         "memory model (niemeyer1995)": mem,
         "memory model, on hv electrode": mem_hv,
+        "memory model, richest (full set)": rich,
     }
 
 
-def kernel_speed(cycles):
-    print(f"\n== event kernels ({cycles} cycles, histogram-only, best of 3)")
-    print(f"{'scenario':34s} {'events/cycle':>12s} {'cycles/s':>12s} {'events/s':>12s} {'vs field':>9s}")
-    rates = {}
-    for name, sc in scenarios().items():
+def kernel_speed(cycles, rounds=3):
+    print(f"\n== event kernels ({cycles} cycles, histogram-only, best of {rounds} interleaved rounds; 'vs field' by "
+          "wall time and by process CPU time, which other load on the machine disturbs less)")
+    print(f"{'scenario':34s} {'events/cycle':>12s} {'cycles/s':>12s} {'events/s':>12s} {'vs field':>9s} "
+          f"{'(CPU)':>7s}")
+    cases = scenarios()
+    for sc in cases.values():
         pdvoid.simulate(sc, cycles=10, seed=1, histogram=True)  # compile / load cache
-        dt, res = best_of(lambda sc=sc: pdvoid.simulate(sc, cycles=cycles, seed=1, histogram=True))
-        rates[name] = cycles / dt
+    wall = dict.fromkeys(cases, math.inf)
+    cpu = dict.fromkeys(cases, math.inf)
+    counts = {}
+    for _ in range(rounds):
+        for name, sc in cases.items():
+            t0, c0 = time.perf_counter(), time.process_time()
+            res = pdvoid.simulate(sc, cycles=cycles, seed=1, histogram=True)
+            wall[name] = min(wall[name], time.perf_counter() - t0)
+            cpu[name] = min(cpu[name], time.process_time() - c0)
+            counts[name] = res.event_count
+    rates = {name: cycles / wall[name] for name in cases}
+    for name in cases:
         # speed relative to today's field model, measured in this same run (target for the memory model: >= 1/3)
-        print(f"{name:34s} {res.event_count / cycles:12.3f} {cycles / dt:12.3e} {res.event_count / dt:12.3e} "
-              f"{rates[name] / rates['field model']:9.2f}")
+        events_per_s = counts[name] * rates[name] / cycles
+        print(f"{name:34s} {counts[name] / cycles:12.3f} {rates[name]:12.3e} {events_per_s:12.3e} "
+              f"{rates[name] / rates['field model']:9.2f} {cpu['field model'] / cpu[name]:7.2f}")
     return rates
 
 
@@ -145,7 +164,7 @@ def main():
     quick = "--quick" in sys.argv
     print(f"pdvoid {pdvoid.__version__} benchmarks; python {sys.version.split()[0]}; "
           f"{os.cpu_count()} cores (one used)")
-    kernel_speed(20_000 if quick else 200_000)
+    kernel_speed(20_000 if quick else 100_000, 3 if quick else 5)
     fixed_step_comparison(20_000 if quick else 100_000, 200 if quick else 2_000, 2 if quick else 10)
     first_call_times()
     memory(100_000 if quick else 1_000_000)

@@ -14,7 +14,7 @@ from typing import Protocol, runtime_checkable
 
 from pdvoid.core.errors import InputError
 
-__all__ = ["Reference", "REFERENCES", "HasReferences", "cite", "get_reference"]
+__all__ = ["Reference", "REFERENCES", "HasReferences", "HasParameterValues", "cite", "get_reference"]
 
 
 @dataclass(frozen=True)
@@ -195,6 +195,11 @@ REFERENCES: dict[str, Reference] = dict(
         _r("schottky1914", "W. Schottky, 'Über den Einfluß von Strukturwirkungen, besonders der Thomsonschen "
            "Bildkraft, auf die Elektronenemission der Metalle', Phys. Z. 15 (1914) 872-878 (image-force lowering "
            "of a surface barrier)", "from memory"),
+        _r("kossyi1992", "I. A. Kossyi, A. Yu. Kostinsky, A. A. Matveyev, V. P. Silakov, 'Kinetic scheme of the "
+           "non-equilibrium discharge in nitrogen-oxygen mixtures', Plasma Sources Sci. Technol. 1 (1992) 207-220 "
+           "(detachment of O2- by N2 and O2 as fits in E/N)", "from memory"),
+        _r("pancheshnyi2013", "S. Pancheshnyi, 'Effective ionization rate in nitrogen-oxygen mixtures', J. Phys. D: "
+           "Appl. Phys. 46 (2013) 155201 (uses the detachment fits of kossyi1992)", "from memory"),
         _r("memory_illustrative", "pdvoid, memory model: illustrative parameter values chosen to give a few to "
            "tens of discharges per cycle in mm-size voids at 50 Hz, fitted to no measurement (each value of the "
            "parameter set says which)", "common practice"),
@@ -242,8 +247,18 @@ class HasReferences(Protocol):
         ...
 
 
+@runtime_checkable
+class HasParameterValues(Protocol):
+    """Anything that can list the parameter-set values it used, each with its source and status (a Result)."""
+
+    def parameter_values(self) -> tuple[str, ...]:
+        """One line per value: name, value and unit, status and source."""
+        ...
+
+
 def cite(source: str | Iterable[str] | HasReferences) -> str:
-    """Full citations for a result, a scenario's coefficients, or an iterable of keys, one per line.
+    """Full citations for a result, a scenario's coefficients, or an iterable of keys, one per line; for a result
+    whose model comes from a parameter set, followed by the set's values as used, each with its source and status.
 
     Parameters
     ----------
@@ -271,4 +286,9 @@ def cite(source: str | Iterable[str] | HasReferences) -> str:
         ordered = list(dict.fromkeys(keys))
     except TypeError:
         raise InputError(f"cite() needs a Result, Coefficients or keys; got {type(source).__name__}") from None
-    return "\n".join(str(get_reference(k)) for k in ordered)
+    text = "\n".join(str(get_reference(k)) for k in ordered)
+    if isinstance(source, HasParameterValues):
+        lines = source.parameter_values()
+        if lines:
+            text += "\n\nParameter values used:\n" + "\n".join(lines)
+    return text

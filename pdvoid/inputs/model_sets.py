@@ -23,7 +23,7 @@ from pdvoid.inputs.materials import STATUSES, _read_toml
 from pdvoid.inputs.model_parameters import ModelParameters, model_class
 
 __all__ = ["SetValue", "ParameterSet", "load_model_sets", "list_parameter_sets", "get_parameter_set",
-           "model_from_set", "sets_matching"]
+           "model_from_set", "sets_matching", "parameter_value_lines"]
 
 SCHEMA = "pdvoid.model_sets/1"
 _SET_KEYS = {"model", "description", "references"}
@@ -259,6 +259,51 @@ def model_from_set(name: str, **overrides: Any) -> ModelParameters:
         kwargs["parameter_set"] = name
     kwargs.update(overrides)
     return cls(**kwargs)
+
+
+def parameter_value_lines(model: ModelParameters) -> list[str]:
+    """The parameter-set values a model uses, one line each with its unit, status and source (the sets of
+    :func:`sets_matching`); a value the model holds differently from its set is marked as given by the user.
+
+    Parameters
+    ----------
+    model : ModelParameters
+        A model instance.
+
+    Returns
+    -------
+    list of str
+        A heading per set, then one line per value; empty when the model matches no set.
+
+    Raises
+    ------
+    InputError
+        For anything but a model instance.
+    """
+    lines: list[str] = []
+    for name in sets_matching(model):
+        if name not in list_parameter_sets(model.kind):
+            continue
+        ps = get_parameter_set(name)
+        lines.append(f"parameter set {name} ({ps.model} model):")
+        for key, v in ps.values.items():
+            used = getattr(model, key)
+            shown = str(used).lower() if isinstance(used, bool) else f"{used:g}"
+            unit = f" {v.unit}" if v.unit else ""
+            if used == v.value:
+                lines.append(f"  {key} = {shown}{unit}  [{v.status}] {v.source}")
+            else:
+                given = str(v.value).lower() if isinstance(v.value, bool) else f"{v.value:g}"
+                lines.append(f"  {key} = {shown}{unit}  [given by the user; the set has {given}{unit}, "
+                             f"{v.status}: {v.source}]")
+        base = type(model)()
+        for f in fields(model):
+            if f.name in ps.values or f.name == "parameter_set" or getattr(model, f.name) == getattr(base, f.name):
+                continue
+            used = getattr(model, f.name)
+            shown = str(used).lower() if isinstance(used, bool) else f"{used:g}"
+            lines.append(f"  {f.name} = {shown}  [given by the user; not a value of the set]")
+    return lines
 
 
 def sets_matching(model: ModelParameters, ignore: tuple[str, ...] = ("ionization_rate", "lag_free")) -> list[str]:

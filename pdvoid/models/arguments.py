@@ -113,6 +113,17 @@ class KernelArguments:
         step = self.x_inc - self.x_res
         return int(np.ceil((swing + pieces * 2.0 * (vmax + self.x_inc)) / step)) + 4 * pieces + 4
 
+    def prepare_state(self, state: np.ndarray) -> None:
+        """Finish a new void state after the runner set up its first entries and seeded the generator (nothing
+        here; a kernel with more than one state block, such as the memory model's discharge spots, fills the
+        others).
+
+        Parameters
+        ----------
+        state : numpy.ndarray
+            The new state vector, updated in place.
+        """
+
     @property
     def state_size(self) -> int:
         """Length of the void state vector of this kernel [-] (:data:`pdvoid.kernels.void_events.STATE_SIZE`).

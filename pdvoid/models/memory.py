@@ -12,25 +12,29 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from typing import TYPE_CHECKING
+from typing import TYPE_CHECKING, Any
 
 import numpy as np
 
 from pdvoid.coefficients.record import Coefficients
-from pdvoid.core.errors import InputError, check_range
+from pdvoid.core.errors import InputError, check_bool, check_range
 from pdvoid.core.units import ATM, BOLTZMANN, ELEMENTARY_CHARGE, EPSILON_0
 from pdvoid.inputs.model_parameters import ModelParameters, register_model
-from pdvoid.models.arguments import KernelArguments, shared_arguments
+from pdvoid.models.arguments import KernelArguments, cathode_rate, shared_arguments
 from pdvoid.physics.surface_emission import schottky_coefficient, schottky_lowering, streamer_stability_field
 
 if TYPE_CHECKING:
     from pdvoid.inputs.scenario import Scenario
 
-__all__ = ["MemoryModel", "MemoryKernelArguments", "wall_weights", "wall_charges", "AIR_STABILITY_FIELD"]
+__all__ = ["MemoryModel", "MemoryKernelArguments", "wall_weights", "wall_charges", "AIR_STABILITY_FIELD",
+           "MAX_SPOTS"]
 
 #: Stability field of positive streamers in air at 101325 Pa and 293.15 K [V/m]: 0.5 kV/(mm·bar) (physics brief
 #: §3.2, from memory), the default of :attr:`MemoryModel.stability_field`.
 AIR_STABILITY_FIELD = 5.066e5
+
+#: Largest number of discharge spots of one void (the kernel runs each spot) [-].
+MAX_SPOTS = 400
 
 _UNUSED = ("residual_ratio", "surface_rate_same", "surface_rate_reversed", "surface_decay_time", "field_assisted")
 
@@ -114,6 +118,17 @@ class MemoryKernelArguments(KernelArguments):
         Schottky coefficient β: ΔΦ/(k_B T) = β·sqrt(|E|) [(V/m)^-1/2].
     recombination : float
         Fraction of the ions landing on a wall that neutralise electrons trapped there [-].
+    detach : bool
+        True for start electrons detached from negative ions in the void gas.
+    ion_source : float
+        Negative ions formed per second in the void [1/s].
+    ion_tau : float
+        Loss time of the negative ions [s].
+    n_gas : float
+        Gas number density [1/m³].
+    n_cells : int
+        Number of discharge spots of the void, each with its share (1/n_cells) of the charge per field drop and
+        of the electron supply [-].
     """
 
     res_width: float = 0.0
@@ -123,6 +138,11 @@ class MemoryKernelArguments(KernelArguments):
     emit_coef: float = 0.0
     beta: float = 0.0
     recombination: float = 0.0
+    detach: bool = False
+    ion_source: float = 0.0
+    ion_tau: float = math.inf
+    n_gas: float = 1.0
+    n_cells: int = 1
 
     def max_events_per_cycle(self, scale: float = 1.0) -> int:
         """An upper bound on discharges in one cycle (that of :class:`KernelArguments` with the largest residual
@@ -141,7 +161,24 @@ class MemoryKernelArguments(KernelArguments):
         import dataclasses
 
         widest = dataclasses.replace(self, x_res=self.x_res * (1.0 + self.res_width))
-        return KernelArguments.max_events_per_cycle(widest, scale)
+        return KernelArguments.max_events_per_cycle(widest, scale) * self.n_cells
+
+    def prepare_state(self, state: np.ndarray) -> None:
+        """Start the discharge spots after the first: each as the runner started the first (no discharge yet, a
+        fresh exponential wait drawn in spot order; nothing is drawn for a single spot).
+
+        Parameters
+        ----------
+        state : numpy.ndarray
+            The new state vector (``n_cells`` blocks), updated in place.
+        """
+        from pdvoid.kernels import memory_events as M
+
+        for k in range(1, self.n_cells):
+            block = state[k * M.STATE_SIZE:(k + 1) * M.STATE_SIZE]
+            block[M.S_TLAST] = -np.inf
+            if not self.lag_free:
+                M.start_wait(block)
 
     @property
     def state_size(self) -> int:
@@ -154,7 +191,7 @@ class MemoryKernelArguments(KernelArguments):
         """
         from pdvoid.kernels import memory_events as M
 
-        return M.STATE_SIZE
+        return M.STATE_SIZE * self.n_cells
 
     def advance(
         self, state: np.ndarray, cycle_start: int, cycle_stop: int, a_coef: np.ndarray, b_coef: np.ndarray,
@@ -193,13 +230,20 @@ class MemoryKernelArguments(KernelArguments):
         """
         from pdvoid.kernels import memory_events as M
 
-        return M.run_memory_cycles(
+        n, nxt = M.run_memory_cycles(
             state, cycle_start, cycle_stop, self.frequency, self.orders, a_coef, b_coef, self.seg_fracs,
             self.pure_sine, self.gain, self.x_inc, self.x_res, self.res_width, self.charge_per_unit,
             self.true_charge_per_field, self.m_hv, self.m_gnd, self.recombination, self.lag_free, self.n_vol_pos,
-            self.n_vol_neg, self.emit_coef, self.beta, self.tau_q, store_events, out_time, out_charge, out_before,
+            self.n_vol_neg, self.emit_coef, self.beta, self.tau_q, self.detach, self.ion_source, self.ion_tau,
+            self.n_gas, self.n_cells, store_events, out_time, out_charge, out_before,
             out_after, max_per_cycle, hist_counts, charge_edges, totals,
         )
+        if store_events and self.n_cells > 1 and n > 1:
+            # the kernel writes each cycle spot by spot: put the events of this call in time order
+            order = np.argsort(out_time[:n], kind="stable")
+            for buf in (out_time, out_charge, out_before, out_after):
+                buf[:n] = buf[:n][order]
+        return n, nxt
 
 
 @register_model
@@ -231,6 +275,21 @@ class MemoryModel(ModelParameters):
         (1: only the net negative charge of a wall emits; 0: electrons and ions sit in separate traps).
     charge_decay_time : float
         Decay time of the wall charge and its emission [s]; inf for none.
+    volume_detachment : bool
+        True for the volume supply through negative ions (air only): every ion pair of the volume ionisation
+        (``ionization_rate``, times ``electron_yield``) leaves an O2⁻ ion; the ions build up between discharges
+        with the loss time ``ion_lifetime`` and give start electrons above inception at the rate ν_d(E)·(1 − η/α)
+        per ion (:mod:`pdvoid.physics.detachment`); a discharge sweeps them out. False: today's constant volume
+        rate.
+    ion_lifetime : float
+        Loss time τ_ion of the negative ions (drift to the walls) [s], > 0, inf for none.
+    discharge_spots : bool
+        True to let a flat void discharge in spots: a spot of diameter ``spot_ratio`` times the gas gap (the void
+        height along the field), n = floor((diameter/spot diameter)²) spots that discharge independently, each with
+        1/n of the charge per field drop and of the electron supply (n = 1 when the spot is as wide as the void).
+        False: the whole void discharges at once.
+    spot_ratio : float
+        Spot diameter over the gas gap [-], in [0.5, 20].
     ionization_rate, cathode_emission_rate, ... :
         As :class:`ModelParameters`.
 
@@ -250,7 +309,9 @@ class MemoryModel(ModelParameters):
     field_units = {**ModelParameters.field_units, "parameter_set": (None, ""), "trap_depth": ("voltage", "V"),
                    "attempt_frequency": ("frequency", "Hz"), "stability_field": ("field", "V/m"),
                    "residual_scatter": ("dimensionless", ""),
-                   "recombination": ("dimensionless", "")}
+                   "recombination": ("dimensionless", ""), "volume_detachment": (None, ""),
+                   "ion_lifetime": ("time", "s"), "discharge_spots": (None, ""),
+                   "spot_ratio": ("dimensionless", "")}
 
     parameter_set: str = "niemeyer1995"
     trap_depth: float = 1.3
@@ -260,6 +321,10 @@ class MemoryModel(ModelParameters):
     recombination: float = 0.5
     charge_decay_time: float = 0.1
     cathode_emission_rate: float = 1e4
+    volume_detachment: bool = False
+    ion_lifetime: float = 1e-3
+    discharge_spots: bool = False
+    spot_ratio: float = 2.0
 
     def __post_init__(self) -> None:
         super().__post_init__()
@@ -280,6 +345,11 @@ class MemoryModel(ModelParameters):
         object.__setattr__(self, "residual_scatter", check_range("model.residual_scatter",
                                                                  self.residual_scatter, 0.0, 1.0))
         object.__setattr__(self, "recombination", check_range("model.recombination", self.recombination, 0.0, 1.0))
+        check_bool("model.volume_detachment", self.volume_detachment)
+        check_bool("model.discharge_spots", self.discharge_spots)
+        object.__setattr__(self, "spot_ratio", check_range("model.spot_ratio", self.spot_ratio, 0.5, 20.0))
+        object.__setattr__(self, "ion_lifetime", check_range("model.ion_lifetime", self.ion_lifetime, 0.0,
+                                                             math.inf, low_open=True, unit="s", allow_inf=True))
 
     def references(self) -> tuple[str, ...]:
         """The bibliography keys of the model and its parameter set.
@@ -292,12 +362,48 @@ class MemoryModel(ModelParameters):
         from pdvoid.inputs.model_sets import get_parameter_set, list_parameter_sets
 
         keys = ["niemeyer1995", "schottky1914", "lewis1979"]
+        if self.volume_detachment:
+            keys += ["kossyi1992", "pancheshnyi2013", "morrow1997"]
         if self.parameter_set in list_parameter_sets(self.kind):
             keys += list(get_parameter_set(self.parameter_set).references)
         else:
             raise InputError(f"model.parameter_set must be one of {list_parameter_sets(self.kind)!r}; "
                              f"got {self.parameter_set!r}")
         return tuple(dict.fromkeys(keys))
+
+    def spot_count(self, diameter: float, height: float) -> int:
+        """Number of discharge spots of a void: floor((D/(k·h))²) with k = ``spot_ratio``, at least 1; 1 without
+        ``discharge_spots``.
+
+        The rule takes a discharge in a flat void to cover a spot whose diameter is a few gas gaps (from memory:
+        the streamer's surface discharge spreads over about the gap length on either side of its foot; the
+        factor k is illustrative).
+
+        Parameters
+        ----------
+        diameter : float
+            Void diameter across the field D [m].
+        height : float
+            Void height along the field, the gas gap h [m].
+
+        Returns
+        -------
+        int
+            The number of spots [-].
+
+        Raises
+        ------
+        InputError
+            For more than :data:`MAX_SPOTS` spots (the kernel runs each one).
+        """
+        if not self.discharge_spots:
+            return 1
+        n = max(1, math.floor((diameter / (self.spot_ratio * height)) ** 2))
+        if n > MAX_SPOTS:
+            raise InputError(f"model.spot_ratio {self.spot_ratio:g} gives {n} discharge spots for a void of "
+                             f"diameter {diameter:g} m and height {height:g} m; at most {MAX_SPOTS} are allowed "
+                             f"(raise model.spot_ratio)")
+        return n
 
     def assumptions(self) -> tuple[str, str]:
         """What this model assumes about the residual field and the start electrons, in plain words.
@@ -307,11 +413,22 @@ class MemoryModel(ModelParameters):
         tuple of str
             The residual-field sentence and the start-electron sentence [-].
         """
-        return (
+        residual = (
             f"The residual field is the streamer stability field of the gas, {self.stability_field / 1e6:.3g} kV/mm "
             f"at 101.325 kPa and 293.15 K (from memory), scaled with the gas density and scattered uniformly by "
-            f"±{self.residual_scatter * 100:.0f} % (illustrative); it sets the charge per discharge.",
-            "Start electrons: volume ionisation, a metal cathode's emission and electrons detrapped from the "
+            f"±{self.residual_scatter * 100:.0f} % (illustrative); it sets the charge per discharge.")
+        if self.discharge_spots:
+            residual += (f" A discharge covers a spot {self.spot_ratio:g} gas gaps wide (from memory, illustrative "
+                         f"factor), and the spots of a wide flat void discharge independently, each with its own "
+                         f"wall charge whose field is taken as local to the spot.")
+        volume = "volume ionisation"
+        if self.volume_detachment:
+            volume = (f"negative ions from the volume ionisation, built up between discharges with a loss time of "
+                      f"{self.ion_lifetime:g} s (illustrative) and detached above inception (detachment rates "
+                      f"from memory)")
+        return (
+            residual,
+            f"Start electrons: {volume}, a metal cathode's emission and electrons detrapped from the "
             "charge earlier discharges left on the cathode-side wall (Niemeyer-type, Schottky-lowered); "
             + self.caveat + ".",
         )
@@ -369,12 +486,29 @@ class MemoryModel(ModelParameters):
         emit = self.attempt_frequency * math.exp(-self.trap_depth * ELEMENTARY_CHARGE / (BOLTZMANN * t_wall))
         m_hv, m_gnd = wall_weights(void.position)
         shared = shared_arguments(scenario, c.volume_electron_rate)
+        detach: dict[str, Any] = {}
+        if self.volume_detachment:
+            if void.gas != "air":
+                raise InputError(f"model.volume_detachment applies to air (detachment from O2-); got void.gas "
+                                 f"{void.gas!r}")
+            # the volume ion pairs feed the negative ions; the constant rate keeps only the metal cathode's part
+            shared.update(n_vol_pos=cathode_rate(scenario, +1.0), n_vol_neg=cathode_rate(scenario, -1.0))
+            detach = {"detach": True, "ion_source": c.volume_electron_rate, "ion_tau": self.ion_lifetime,
+                      "n_gas": void.gas_pressure / (BOLTZMANN * void.temperature)}
         shared.update(n_same=0.0, n_rev=0.0, tau_s=math.inf, field_assisted=False)
+        n_cells = self.spot_count(void.diameter, void.height)
+        if n_cells > 1:
+            # each spot: its share of the charge per field drop and of the supply (volume, cathode area, ions)
+            shared.update(n_vol_pos=shared["n_vol_pos"] / n_cells, n_vol_neg=shared["n_vol_neg"] / n_cells)
+            if detach:
+                detach["ion_source"] = detach["ion_source"] / n_cells
+            true_per_field /= n_cells
         return MemoryKernelArguments(
             **shared,
             gain=c.field_enhancement / scenario.insulation.thickness,
-            x_inc=e_inc, x_res=e_st, charge_per_unit=c.charge_per_field, x_to_field=1.0,
+            x_inc=e_inc, x_res=e_st, charge_per_unit=c.charge_per_field / n_cells, x_to_field=1.0, n_cells=n_cells,
             references=tuple(dict.fromkeys(c.references + ("crichton1989", "pedersen1991") + self.references())),
             res_width=self.residual_scatter, true_charge_per_field=true_per_field, m_hv=m_hv, m_gnd=m_gnd,
             emit_coef=emit / ELEMENTARY_CHARGE, beta=schottky_coefficient(t_wall), recombination=self.recombination,
+            **detach,
         )

@@ -215,6 +215,20 @@ class Result:
         """
         return compute_coefficients(self.scenario)
 
+    def parameter_values(self) -> tuple[str, ...]:
+        """The parameter-set values the run's model used, each with its unit, status and source (printed by
+        :func:`pdvoid.cite` after the references).
+
+        Returns
+        -------
+        tuple of str
+            One line per value, under a heading per set (:func:`pdvoid.inputs.model_sets.parameter_value_lines`);
+            empty when the model matches no built-in set.
+        """
+        from pdvoid.inputs.model_sets import parameter_value_lines
+
+        return tuple(parameter_value_lines(self.scenario.model))
+
     # ---- files -------------------------------------------------------------------------------------------
     def save(self, path: str | os.PathLike[str]) -> Path:
         """Write an NPZ file: event arrays, histogram arrays and a JSON metadata entry (scenario, seed, version,

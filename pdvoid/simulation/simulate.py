@@ -66,6 +66,7 @@ class VoidRunner:
         K.seed_generator(self.seed)
         if not self.args.lag_free:
             K.start_wait(self.state)
+        self.args.prepare_state(self.state)
 
     def run(self, cycles: int, *, scale: float = 1.0, store: bool = True, counts: np.ndarray | None = None,
             charge_edges: np.ndarray | None = None

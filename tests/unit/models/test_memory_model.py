@@ -355,14 +355,16 @@ _JIT_SCRIPT = """
 import sys, numpy as np, pdvoid
 sc = pdvoid.Scenario(insulation=pdvoid.Insulation(thickness=6e-3, permittivity=4.2),
                      void=pdvoid.Void(diameter=1.5e-3, height=0.75e-3, position="{position}"),
-                     supply=pdvoid.Sine(rms=18e3), model=pdvoid.MemoryModel(ionization_rate=3e10))
+                     supply=pdvoid.Sine(rms=18e3), model=pdvoid.MemoryModel({model}))
 r = pdvoid.simulate(sc, cycles=40, seed=2)
 np.save(sys.argv[1], np.stack([r.time, r.charge, r.field_before, r.field_after]))
 """
 
 
-@pytest.mark.parametrize("position", ["centred", "high_voltage_electrode"])
-def test_jit_disabled_gives_the_same_events(tmp_path, position):
+@pytest.mark.parametrize(("position", "model"), [
+    ("centred", "ionization_rate=3e10"), ("high_voltage_electrode", "ionization_rate=3e10"),
+    ("centred", "ionization_rate=5e11, volume_detachment=True")], ids=["centred", "on-hv-electrode", "detachment"])
+def test_jit_disabled_gives_the_same_events(tmp_path, position, model):
     # the memory kernel's source run as plain Python (NUMBA_DISABLE_JIT=1) must give the same events
     import os
     import subprocess
@@ -371,7 +373,7 @@ def test_jit_disabled_gives_the_same_events(tmp_path, position):
     out = {}
     for jit in ("0", "1"):
         path = tmp_path / f"jit{jit}.npy"
-        subprocess.run([sys.executable, "-c", _JIT_SCRIPT.format(position=position), str(path)],
+        subprocess.run([sys.executable, "-c", _JIT_SCRIPT.format(position=position, model=model), str(path)],
                        env=dict(os.environ, NUMBA_DISABLE_JIT=jit), check=True, timeout=300)
         out[jit] = np.load(path)
     assert out["0"].shape[1] > 20
@@ -412,3 +414,62 @@ def test_turning_point_of_the_sine_path_matches_the_scan():
         assert zone == pytest.approx(scan, rel=1e-12, abs=1e-15)
         turned += scan < tb
     assert turned > 200
+
+
+def test_piece_end_of_the_sine_path_gives_monotone_or_quiet_pieces():
+    # every piece _piece_end_sine returns is, on 400 sample points (a hand check independent of its zone bounds),
+    # either monotone in x or inside (-x_inc, x_inc); and the pieces make progress to the end of the V piece
+    from pdvoid.kernels import memory_events as M
+
+    rng = np.random.default_rng(2)
+    omega = 2 * math.pi * 50.0
+    orders, b = np.array([1.0]), np.array([0.0])
+    fr = (0.0, 0.25, 0.75, 1.0)
+    quiet = monotone = 0
+    for _ in range(600):
+        gain, amp = 300.0, rng.uniform(5e3, 3e4)
+        a = np.array([amp])
+        tau, xq0 = 10 ** rng.uniform(-3, 0), rng.uniform(-3e6, 3e6)
+        x_inc = gain * amp * rng.uniform(0.3, 1.2)
+        cycle_t = int(rng.integers(0, 50)) * 0.02
+        tq = cycle_t - rng.uniform(0, 0.02)
+        seg = int(rng.integers(0, 3))
+        ta, tb = cycle_t + fr[seg] * 0.02, cycle_t + fr[seg + 1] * 0.02
+        t = rng.uniform(ta, tb)
+        steps = 0
+        while t < tb and steps < 20:
+            gva = gain * M.voltage(t, omega, orders, a, b)
+            xqa = M._xq(t, xq0, tq, tau)
+            end = M._piece_end_sine(t, tb, gain * amp, cycle_t, gain, omega, orders, a, b, xq0, tq, tau, x_inc,
+                                    gva, xqa)
+            assert t < end <= tb
+            s = np.linspace(t, end, 400)
+            x = np.array([M._x(u, gain, omega, orders, a, b, xq0, tq, tau) for u in s])
+            dx = np.diff(x)
+            tol = 1e-9 * np.abs(x).max()
+            if np.all(np.abs(x) < x_inc):
+                quiet += 1
+            else:
+                assert np.all(dx >= -tol) or np.all(dx <= tol)
+                monotone += 1
+            t, steps = end, steps + 1
+        assert t == tb
+    assert quiet > 100 and monotone > 100
+
+
+def test_cite_of_a_run_lists_the_parameter_set_values_with_source_and_status():
+    # the set's values as used, each with its status and source; a value given by the user is marked as such
+    res = pdvoid.simulate(_scenario(pdvoid.MemoryModel(ionization_rate=1e9, volume_detachment=True)), cycles=2,
+                          seed=1)
+    text = pdvoid.cite(res)
+    assert "Parameter values used:" in text
+    assert "parameter set niemeyer1995 (memory model):" in text
+    assert "  trap_depth = 1.3 V  [tuned] effective trap depth" in text
+    assert "  attempt_frequency = 1e+14 Hz  [from memory]" in text
+    assert "  ionization_rate = 1e+09 1/(m3 s)  [given by the user; the set has 1e+07 1/(m3 s), confirmed:" in text
+    assert "  volume_detachment = true  [given by the user; not a value of the set]" in text
+    # today's field model at its defaults: the set field_defaults
+    field = pdvoid.simulate(_scenario(pdvoid.FieldModel()), cycles=2, seed=1)
+    assert "  residual_ratio = 0.25  [common practice]" in pdvoid.cite(field)
+    # keys alone: citations only
+    assert "Parameter values used" not in pdvoid.cite(["niemeyer1995"])
