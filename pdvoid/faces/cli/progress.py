@@ -11,7 +11,10 @@ import sys
 from types import TracebackType
 from typing import IO, Any
 
-__all__ = ["ProgressBar", "QUIET_HELP", "progress_enabled"]
+__all__ = ["ProgressBar", "QUIET_HELP", "DELAY", "progress_enabled"]
+
+#: seconds a run lasts before its bar appears [s]
+DELAY = 1.0
 
 #: help text of the ``--quiet`` option of every long command
 QUIET_HELP = ("no progress bar on stderr (default: a bar with count and ETA when stderr is a terminal and the run "
@@ -55,12 +58,12 @@ class ProgressBar:
         True for no bar at all [-].
     stream : file object, optional
         Where the bar goes; default ``sys.stderr`` [-].
-    delay : float
-        Seconds before the bar first appears [s]; quick runs show none.
+    delay : float, optional
+        Seconds before the bar first appears [s]; default :data:`DELAY`, so quick runs show none.
     """
 
     def __init__(self, total: int, what: str, unit: str, *, quiet: bool = False, stream: IO[str] | None = None,
-                 delay: float = 1.0) -> None:
+                 delay: float | None = None) -> None:
         self.stream = sys.stderr if stream is None else stream
         self.enabled = progress_enabled(quiet, self.stream)
         self.total = int(total)
@@ -68,7 +71,8 @@ class ProgressBar:
         if self.enabled:
             from tqdm import tqdm  # the plain terminal bar: never a notebook widget from the command line
 
-            self._bar = tqdm(total=self.total, desc=what, unit=unit, file=self.stream, delay=delay,
+            self._bar = tqdm(total=self.total, desc=what, unit=unit, file=self.stream,
+                             delay=DELAY if delay is None else delay,
                              dynamic_ncols=True, leave=False, unit_scale=self.total >= 100_000)
 
     def update_to(self, done: int, total: int | None = None) -> None:

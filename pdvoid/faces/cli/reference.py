@@ -122,8 +122,8 @@ def bibtex_like(entries: list[dict[str, str]]) -> str:
     def esc(text: str) -> str:
         return text.replace("\\", "\\\\").replace("{", "\\{").replace("}", "\\}")
 
-    return "\n\n".join(f"@misc{{{e['key']},\n  note = {{{esc(e['citation'])}}},\n  pdvoid_status = {{{e['status']}}}\n}}"
-                       for e in entries)
+    return "\n\n".join(f"@misc{{{e['key']},\n  note = {{{esc(e['citation'])}}},\n"
+                       f"  pdvoid_status = {{{e['status']}}}\n}}" for e in entries)
 
 
 def _cmd_cite(ns: argparse.Namespace) -> int:

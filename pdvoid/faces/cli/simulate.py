@@ -132,9 +132,9 @@ def _cmd_simulate(ns: argparse.Namespace) -> int:
     _check_out_folder(out, ns.force)
     with FolderLock(out):
         _check_out_folder(out, ns.force)  # again under the lock: another run may have finished meanwhile
-        mode = {"histogram": True, "phase_bins": ns.phase_bins or DEFAULT_PHASE_BINS} if ns.histogram else {}
         with validity_notes() as notes, ProgressBar(ns.cycles, "simulating", "cycle", quiet=ns.quiet) as bar:
-            res = simulate(sc, cycles=ns.cycles, seed=ns.seed, progress=bar.update_to, **mode)
+            res = simulate(sc, cycles=ns.cycles, seed=ns.seed, progress=bar.update_to,
+                           histogram=ns.histogram, phase_bins=ns.phase_bins or DEFAULT_PHASE_BINS)
             c = compute_coefficients(sc)
         # an overwritten folder is marked incomplete first: a run killed from here on leaves a folder that
         # readers refuse, never a mix of old and new files that looks complete
