@@ -11,10 +11,12 @@ import sys
 from types import TracebackType
 from typing import IO, Any
 
-__all__ = ["ProgressBar", "QUIET_HELP", "DELAY", "progress_enabled"]
+__all__ = ["ProgressBar", "QUIET_HELP", "DELAY", "MIN_INTERVAL", "progress_enabled"]
 
 #: seconds a run lasts before its bar appears [s]
 DELAY = 1.0
+#: least time between two redraws of the bar [s]
+MIN_INTERVAL = 0.1
 
 #: help text of the ``--quiet`` option of every long command
 QUIET_HELP = ("no progress bar on stderr (default: a bar with count and ETA when stderr is a terminal and the run "
@@ -72,7 +74,7 @@ class ProgressBar:
             from tqdm import tqdm  # the plain terminal bar: never a notebook widget from the command line
 
             self._bar = tqdm(total=self.total, desc=what, unit=unit, file=self.stream,
-                             delay=DELAY if delay is None else delay,
+                             delay=DELAY if delay is None else delay, mininterval=MIN_INTERVAL,
                              dynamic_ncols=True, leave=False, unit_scale=self.total >= 100_000)
 
     def update_to(self, done: int, total: int | None = None) -> None:

@@ -133,8 +133,10 @@ def _cmd_cite(ns: argparse.Namespace) -> int:
     elif ns.format == "bibtex":
         print(bibtex_like(entries))
     else:
-        what = f"references a simulation of {ns.scenario} relies on" if ns.scenario else "the whole bibliography"
-        print(f"{len(entries)} {what} (status in brackets):")
+        if ns.scenario:
+            print(f"{len(entries)} references a simulation of {ns.scenario} relies on (status in brackets):")
+        else:
+            print(f"the whole bibliography of pdvoid, {len(entries)} references (status in brackets):")
         for e in entries:
             print(f"[{e['key']}] {e['citation']} ({e['status']})")
         print(f"status: {_STATUS_WORDS}")
