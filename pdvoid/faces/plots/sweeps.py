@@ -131,6 +131,6 @@ def sweep_plot(ds: Any, metric: str = "discharges_per_cycle", parameter: str | N
     ax.set_ylabel(y_label)
     title = metric
     points = int(np.size(y_all))
-    note = f"; {failed} of {points} points failed or undefined, not drawn" if failed else ""
-    ax.set_title(f"{title} ({attrs['design']} sweep, {points} points{note})", fontsize=9)
+    note = f"\n{failed} of the points have no value (failed, or undefined there) and are not drawn" if failed else ""
+    ax.set_title(f"{title}: {attrs['design']} sweep of {points} points{note}", fontsize=9)
     return ax
