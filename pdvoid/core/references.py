@@ -66,6 +66,14 @@ REFERENCES: dict[str, Reference] = dict(
            "13 (1932) 425", "from memory"),
         _r("kreuger1989", "F. H. Kreuger, Partial Discharge Detection in High-Voltage Equipment, Butterworths, "
            "London 1989 (three-capacitance model)", "from memory"),
+        _r("wilson1927", "E. B. Wilson, 'Probable inference, the law of succession, and statistical inference', "
+           "J. Amer. Stat. Assoc. 22 (1927) 209-212 (the score interval of a binomial proportion; as cited by "
+           "scipy.stats.BinomTestResult.proportion_ci)", "confirmed"),
+        _r("breiman1984", "L. Breiman, J. H. Friedman, R. A. Olshen, C. J. Stone, Classification and Regression "
+           "Trees, Wadsworth, Belmont 1984 (the one-standard-error rule, section 3.4.3)", "from memory"),
+        _r("hastie2009", "T. Hastie, R. Tibshirani, J. Friedman, The Elements of Statistical Learning, 2nd ed., "
+           "Springer, New York 2009 (cross-validation and the one-standard-error rule, section 7.10)",
+           "from memory"),
         _r("kuffel2000", "E. Kuffel, W. S. Zaengl, J. Kuffel, High Voltage Engineering: Fundamentals, 2nd ed., "
            "Newnes, Oxford 2000 (PD measurement chapter; gas breakdown chapter)", "from memory"),
         _r("kuffel2000_fields", "E. Kuffel, W. S. Zaengl, J. Kuffel, High Voltage Engineering: Fundamentals, "
@@ -190,6 +198,12 @@ REFERENCES: dict[str, Reference] = dict(
         _r("memory_illustrative", "pdvoid, memory model: illustrative parameter values chosen to give a few to "
            "tens of discharges per cycle in mm-size voids at 50 Hz, fitted to no measurement (each value of the "
            "parameter set says which)", "common practice"),
+        _r("breiman1984", "L. Breiman, J. H. Friedman, R. A. Olshen, C. J. Stone, Classification and Regression "
+           "Trees, Wadsworth 1984, §3.4.3 (the one-standard-error rule)", "from memory"),
+        _r("hastie2009", "T. Hastie, R. Tibshirani, J. Friedman, The Elements of Statistical Learning, 2nd ed., "
+           "Springer 2009, §7.10 (cross-validation and the one-standard-error rule)", "from memory"),
+        _r("wilson1927", "E. B. Wilson, 'Probable inference, the law of succession, and statistical inference', "
+           "J. Am. Stat. Assoc. 22 (1927) 209-212 (the score interval of a binomial proportion)", "from memory"),
     ]
 )
 

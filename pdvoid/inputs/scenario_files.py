@@ -164,6 +164,9 @@ def _from_dict(data: dict, source: str) -> dict[str, Any]:
     if unknown:
         raise InputError(f"{source}: unknown top-level keys {sorted(unknown)}; allowed: name, insulation, void, "
                          "supply, model")
+    if isinstance(data.get("void"), list):
+        raise InputError(f"{source}: the file holds an array of [[void]] tables (several voids); read it with "
+                         "pdvoid.MultiVoidScenario.from_file, or give one [void] table")
     for part in ("insulation", "void", "supply"):
         if part not in data:
             raise InputError(f"{source}: missing [{part}] table")

@@ -38,6 +38,8 @@ def _events():
 
 
 SC, EV = _scenario(), _events()
+MULTI = pdvoid.MultiVoidScenario.from_scenario(SC, (SC.void, pdvoid.Void(diameter=0.8e-3, height=0.8e-3)))
+POPULATION = pdvoid.VoidPopulation(voids_per_part=2.0, diameters=(0.3e-3, 1.5e-3))
 # name -> (callable, valid keyword arguments, {parameter: its valid values}, parameters that are numbers)
 CATALOGUE = {
     "Insulation": (pdvoid.Insulation, {"thickness": 6e-3, "permittivity": 4.2},
@@ -91,6 +93,23 @@ CATALOGUE = {
                                                         "confidence": [0.9, 0.95]}, {"parameters", "confidence"}),
     "compare": (pdvoid.compare, {"simulated": EV, "measured": EV}, {"threshold": [0.0], "phase_bins": [18, 36]},
                 {"threshold", "phase_bins"}),
+    "MultiVoidScenario": (pdvoid.MultiVoidScenario, {"insulation": SC.insulation, "voids": (SC.void,),
+                                                     "supply": SC.supply},
+                          {"voids": [(SC.void,), [SC.void, pdvoid.Void(diameter=0.5e-3, height=0.5e-3)]],
+                           "model": [SC.model], "name": ["", "x"]}, set()),
+    "simulate_voids": (pdvoid.simulate_voids, {"scenario": MULTI, "cycles": 3},
+                       {"cycles": [1, 3], "seed": [0, 2**32 - 1]}, {"cycles", "seed"}),
+    "VoidPopulation": (pdvoid.VoidPopulation, {"voids_per_part": 2.0, "diameters": (1e-3, 2e-4)},
+                       {"voids_per_part": [0.0, 1.0, 3.0], "count": ["poisson", "fixed"],
+                        "aspect_ratio": [None, 0.5, 2.0]},
+                       {"voids_per_part", "aspect_ratio"}),
+    "acceptance_probability": (pdvoid.acceptance_probability,
+                               {"scenario": SC, "population": POPULATION, "level": 1e-10, "duration": 0.04,
+                                "parts": 2},
+                               {"level": [1e-12, 1e-9], "duration": [0.02, 0.04], "parts": [1, 2],
+                                "voltage": [None, 15e3], "quantity": ["largest", "repeated"],
+                                "confidence": [0.9, 0.95], "seed": [0, 7]},
+                               {"level", "duration", "parts", "voltage", "confidence", "seed"}),
 }
 
 
