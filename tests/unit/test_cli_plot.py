@@ -38,7 +38,8 @@ def test_png_of_a_result_is_white_and_of_the_asked_resolution(run, tmp_path, cap
 
     out = tmp_path / "pattern.png"
     assert main(["plot", str(run / "result.npz"), "-o", str(out), "--dpi", "100"]) == 0
-    assert "wrote" in capsys.readouterr().out
+    said = capsys.readouterr().out
+    assert "wrote" in said and "high voltage can kill" in said
     data = out.read_bytes()
     assert data[:8] == PNG_MAGIC
     img = imread(io.BytesIO(data))

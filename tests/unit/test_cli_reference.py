@@ -40,6 +40,7 @@ def test_materials_text_and_kind(capsys):
     for name in list_materials() + list_gases():
         assert f"\n{name} (" in text
     assert "from memory" in text and "source:" in text and "kV/mm" in text and "nan" not in text
+    assert text.rstrip().endswith("licensed practice prevail.")  # the safety note closes the report
     assert main(["materials", "--kind", "gases", "--json"]) == 0
     rows = json.loads(capsys.readouterr().out)["rows"]
     assert rows and {r["kind"] for r in rows} == {"gas"}

@@ -21,6 +21,7 @@ from typing import Any
 from pdvoid.core.errors import InputError
 from pdvoid.core.limits import MAX_CYCLES
 from pdvoid.faces.cli import options
+from pdvoid.faces.cli.output import SAFETY
 
 __all__ = ["register", "FORMATS", "input_kind"]
 
@@ -164,6 +165,7 @@ def _cmd_plot(ns: argparse.Namespace) -> int:
     with atomic_write(out, "wb") as fh:
         fig.savefig(fh, format=fmt, dpi=ns.dpi, facecolor="white")
     print(f"wrote {out} ({what}, {fmt.upper()})")
+    print(SAFETY)
     return 0
 
 

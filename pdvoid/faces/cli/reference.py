@@ -7,7 +7,7 @@ import argparse
 import json
 from typing import Any
 
-from pdvoid.faces.cli.output import json_safe
+from pdvoid.faces.cli.output import SAFETY, json_safe
 
 __all__ = ["register", "material_rows", "citation_entries", "bibtex_like"]
 
@@ -65,7 +65,8 @@ def material_rows(kind: str = "all") -> list[dict[str, Any]]:
 def _cmd_materials(ns: argparse.Namespace) -> int:
     rows = material_rows(ns.kind)
     if ns.json:
-        print(json.dumps(json_safe({"rows": rows, "statuses": _STATUS_WORDS}), indent=2, allow_nan=False))
+        doc = {"rows": rows, "statuses": _STATUS_WORDS, "safety": SAFETY}
+        print(json.dumps(json_safe(doc), indent=2, allow_nan=False))
         return 0
     last = None
     for r in rows:
@@ -76,6 +77,9 @@ def _cmd_materials(ns: argparse.Namespace) -> int:
         print(f"  {r['quantity']:<34s} {r['value']:>11.6g} {r['unit']:<10s} {r['status']:<15s}{rng}")
         print(f"      source: {r['source']}")
     print(f"\nstatus: {_STATUS_WORDS}")
+    print("These are typical values, not data of a particular product; permittivity and strength vary with "
+          "frequency, temperature, filler, moisture and thickness.")
+    print(SAFETY)
     return 0
 
 
