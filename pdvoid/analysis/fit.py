@@ -167,19 +167,28 @@ _Item = TypeVar("_Item")
 class _RecordingMap:
     """The map differential evolution evaluates its population with: records every (point, score)."""
 
-    def __init__(self, workers: int | None, client: Any) -> None:
+    def __init__(self, workers: int | None, client: Any,
+                 progress: Callable[[int, int], None] | None = None, total: int = 0) -> None:
         self.workers = workers
         self.client = client
         self.points: list[np.ndarray] = []
         self.scores: list[float] = []
+        self.progress = progress
+        self.total = total
+        self.done = 0
 
     def run(self, func: Callable[[_Item], float], items: list[_Item]) -> list[float]:
         """Evaluate without recording."""
         if (self.workers == 1 and self.client is None) or len(items) == 1:
-            return [func(x) for x in items]
-        from pdvoid.simulation.parallel import parallel_map
+            out = [func(x) for x in items]
+        else:
+            from pdvoid.simulation.parallel import parallel_map
 
-        return parallel_map(func, items, workers=self.workers, client=self.client)
+            out = parallel_map(func, items, workers=self.workers, client=self.client)
+        self.done += len(items)
+        if self.progress is not None:
+            self.progress(min(self.done, self.total), self.total)
+        return out
 
     def __call__(self, func: Callable[[np.ndarray], float], iterable: Iterable[ArrayLike]) -> list[float]:
         items = [np.array(x, dtype=float) for x in iterable]
@@ -305,6 +314,7 @@ def fit(
     tolerance: float = 0.005,
     workers: int | None = 1,
     client: Any = None,
+    progress: Callable[[int, int], None] | None = None,
 ) -> FitResult:
     """Find the values of ``vary`` whose simulated pattern best matches ``measured``.
 
@@ -345,6 +355,9 @@ def fit(
         processes for the population (1 = in this process; None = all local cores).
     client : Any
         a dask.distributed Client or scheduler address (then ``workers`` is ignored).
+    progress : Callable[[int, int], None], optional
+        called as progress(simulations_done, at_most) after each batch of simulations; ``at_most`` is the
+        budget of the start, every generation, the polish and the noise seeds (an early stop ends below it).
 
     Returns
     -------
@@ -392,7 +405,11 @@ def fit(
     start = {s.name: float(_get(scenario, s.name)) for s in specs}
     x0 = np.array([min(max(s.to_unit(start[s.name]), 0.0), 1.0) if start[s.name] > 0 or not s.log else 0.5
                    for s in specs])
-    mapper = _RecordingMap(workers, client)
+    if progress is not None and not callable(progress):
+        raise InputError(f"progress must be callable or None; got {type(progress).__name__}")
+    # scipy's population is popsize × parameters; the polish is capped at maxfev (Nelder-Mead may run a few more)
+    budget = (1 + popsize * len(specs) * (maxiter + 1) + (40 * len(specs) if polish else 0) + noise_seeds)
+    mapper = _RecordingMap(workers, client, progress, budget)
     start_score = mapper(objective, [x0])[0]
     de = differential_evolution(
         objective, [(0.0, 1.0)] * len(specs), popsize=popsize, maxiter=maxiter, tol=1e-3, seed=seed, x0=x0,

@@ -12,7 +12,7 @@ from __future__ import annotations
 
 import itertools
 import math
-from collections.abc import Iterable, Sized
+from collections.abc import Callable, Iterable, Sized
 from dataclasses import dataclass
 from typing import Any, Literal, overload
 
@@ -198,6 +198,7 @@ def ramp_test(
     repeat_count: int = 10,
     seeds: Iterable[int] = (0,),
     max_voltage: float | None = None,
+    progress: Callable[[int, int], None] | None = None,
 ) -> RampTest:
     """Simulate a stepped-voltage test as a test lab runs it, with the void's memory carried between steps.
 
@@ -224,6 +225,8 @@ def ramp_test(
         seeds of the repeated tests [-] (spread over seeds = statistical scatter of the test).
     max_voltage : float or None
         highest level tried [V rms]; default 3 × the analytic inception voltage.
+    progress : Callable[[int, int], None], optional
+        called as progress(tests_done, tests) after each seed's test.
 
     Returns
     -------
@@ -263,9 +266,13 @@ def ramp_test(
     if not 1 <= len(seed_list) <= MAX_SEEDS:
         raise InputError(f"seeds must hold 1 to {MAX_SEEDS} seeds; got "
                          f"{len(seed_list) if len(seed_list) <= MAX_SEEDS else 'more than ' + str(MAX_SEEDS)}")
-    runs = [
-        _one_ramp(scenario, s, start, step, dwell_cycles, threshold, repeat_count, max_voltage) for s in seed_list
-    ]
+    if progress is not None and not callable(progress):
+        raise InputError(f"progress must be callable or None; got {type(progress).__name__}")
+    runs = []
+    for s in seed_list:
+        runs.append(_one_ramp(scenario, s, start, step, dwell_cycles, threshold, repeat_count, max_voltage))
+        if progress is not None:
+            progress(len(runs), len(seed_list))
     incs_a = np.array([ui for ui, _, _, _ in runs])
     exts_a = np.array([ue for _, ue, _, _ in runs])
     first = (runs[0][2], runs[0][3])  # the levels and counts of the first seed

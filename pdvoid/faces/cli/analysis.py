@@ -11,6 +11,7 @@ import numpy as np
 from pdvoid.core.errors import InputError
 from pdvoid.faces.cli import options
 from pdvoid.faces.cli.output import SAFETY, emit, fmt, notes_lines, validity_notes
+from pdvoid.faces.cli.progress import QUIET_HELP, ProgressBar
 
 if TYPE_CHECKING:
     from pdvoid.analysis.verdict import InceptionBand
@@ -114,8 +115,9 @@ def _cmd_inception(ns: argparse.Namespace) -> int:
         band = band_from_coefficients(coef)
         r = None
         if ns.ramp:
-            r = inception(sc, ramp=True, step=ns.step, dwell=ns.dwell, threshold=ns.threshold,
-                          repeat_count=ns.repeat_count, seeds=range(ns.seeds))
+            with ProgressBar(ns.seeds, "stepped tests", "test", quiet=ns.quiet) as bar:
+                r = inception(sc, ramp=True, step=ns.step, dwell=ns.dwell, threshold=ns.threshold,
+                              repeat_count=ns.repeat_count, seeds=range(ns.seeds), progress=bar.update_to)
     analytic = {
         "inception voltage [V rms]": est.inception_voltage,
         "inception voltage, streamer criterion [V rms]": est.inception_voltage_streamer,
@@ -217,40 +219,48 @@ def register(sub: argparse._SubParsersAction[argparse.ArgumentParser]) -> None:
     """
     p = sub.add_parser("pattern", help="phase-resolved pattern, IEC 60270 quantities and descriptors of a result "
                        "(.npz) or an events file")
-    p.add_argument("file")
+    p.add_argument("file", help="result (.npz, e.g. run1/result.npz) or events file (e.g. measured.csv)")
     p.add_argument("--cycles", type=options.integer(1), default=None,
                    help="observed cycles, for event files without time (a count, e.g. 500)")
     p.add_argument("--frequency", type=options.frequency, default=None,
                    help="supply frequency for event files, e.g. 50Hz")
-    p.add_argument("--phase-bins", type=options.integer(1, 3600), default=72, help="phase bins (default 72)")
-    p.add_argument("--charge-bins", type=options.integer(1, 10000), default=50, help="charge bins (default 50)")
-    p.add_argument("--charge-scale", choices=("log", "linear"), default="log")
-    p.add_argument("--json", action="store_true")
+    p.add_argument("--phase-bins", type=options.integer(1, 3600), default=72, help="phase bins, e.g. 36 (default 72)")
+    p.add_argument("--charge-bins", type=options.integer(1, 10000), default=50,
+                   help="charge bins, e.g. 40 (default 50)")
+    p.add_argument("--charge-scale", choices=("log", "linear"), default="log",
+                   help="charge bins: log (symmetric) or linear (default log)")
+    p.add_argument("--json", action="store_true", help="print JSON instead of text (default: text)")
     p.set_defaults(func=_cmd_pattern)
 
     i = sub.add_parser("inception", help="inception and extinction voltages: analytic, and a simulated "
                        "stepped-voltage test with --ramp")
-    i.add_argument("scenario")
-    i.add_argument("--ramp", action="store_true")
-    i.add_argument("--step", type=options.voltage, default=None, help="voltage step, e.g. 0.2kV")
+    i.add_argument("scenario", help="scenario TOML file, e.g. demo.toml")
+    i.add_argument("--ramp", action="store_true",
+                   help="also simulate a stepped-voltage test (default: the analytic estimate only)")
+    i.add_argument("--step", type=options.voltage, default=None,
+                   help="voltage step of --ramp, e.g. 0.2kV (default: 2 %% of the analytic inception voltage)")
     i.add_argument("--dwell", type=options.time, default=1.0, help="time per step, e.g. 1s (default 1s)")
-    i.add_argument("--threshold", type=options.charge, default=0.0, help="detection threshold, e.g. 5pC")
+    i.add_argument("--threshold", type=options.charge, default=0.0,
+                   help="detection threshold of --ramp, e.g. 5pC (default 0pC)")
     i.add_argument("--repeat-count", type=options.integer(1), default=10,
-                   help="pulses per dwell that count as repetitive (default 10)")
+                   help="pulses per dwell that count as repetitive, e.g. 20 (default 10)")
     i.add_argument("--seeds", type=options.integer(1, 1000), default=5,
-                   help="number of repeated tests, 1 to 1000 (default 5)")
-    i.add_argument("--json", action="store_true")
+                   help="number of repeated tests, 1 to 1000, e.g. 10 (default 5)")
+    i.add_argument("--quiet", action="store_true", help=QUIET_HELP)
+    i.add_argument("--json", action="store_true", help="print JSON instead of text (default: text)")
     i.set_defaults(func=_cmd_inception)
 
     m = sub.add_parser("margin", help="inception margin against a test level, and the largest discharge-free void")
-    m.add_argument("scenario")
+    m.add_argument("scenario", help="scenario TOML file, e.g. demo.toml")
     m.add_argument("--test-voltage", type=options.voltage, required=True,
                    help="test voltage, rms, with a unit, e.g. 18kV")
     m.add_argument("--nominal-voltage", type=options.voltage, default=None,
-                   help="nominal voltage, rms, with a unit, e.g. 10kV")
-    m.add_argument("--parameter", default="void.size", help="swept input (default void.size)")
-    m.add_argument("--values", default=None, help="comma-separated values with units, e.g. 0.2mm,0.5mm,1mm")
-    m.add_argument("--json", action="store_true")
+                   help="nominal voltage, rms, with a unit, e.g. 10kV (default: none)")
+    m.add_argument("--parameter", default="void.size", help="swept input, e.g. void.height (default void.size)")
+    m.add_argument("--values", default=None,
+                   help="comma-separated values with units, e.g. 0.2mm,0.5mm,1mm (default: 25 sizes "
+                   "from 0.1 to 5 mm for void.size)")
+    m.add_argument("--json", action="store_true", help="print JSON instead of text (default: text)")
     m.set_defaults(func=_cmd_margin)
 
 

@@ -8,6 +8,7 @@ import json
 from pdvoid.core.errors import InputError
 from pdvoid.faces.cli import options
 from pdvoid.faces.cli.output import SAFETY, json_safe, notes_lines, validity_notes
+from pdvoid.faces.cli.progress import QUIET_HELP, ProgressBar
 
 _DIMENSION = {"void.diameter": "length", "void.height": "length", "insulation.thickness": "length",
               "void.pressure": "pressure", "void.temperature": "temperature", "model.surface_rate_same": "rate",
@@ -61,9 +62,10 @@ def _cmd_fit(ns: argparse.Namespace) -> int:
         detector = {"noise": 0.0 if ns.noise is None else ns.noise,
                     "relative_noise": ns.relative_noise,
                     "phase_resolution_deg": 0.0 if ns.phase_resolution is None else ns.phase_resolution}
-    with validity_notes() as notes:  # trial designs outside the closed forms' range: notes, not raw warnings
+    # trial designs outside the closed forms' range: notes, not raw warnings
+    with validity_notes() as notes, ProgressBar(0, "fitting", "simulation", quiet=ns.quiet) as bar:
         r = fit(measured, sc, vary, threshold=threshold, cycles=ns.cycles, seed=ns.seed, detector=detector,
-                popsize=ns.popsize, maxiter=ns.maxiter, workers=ns.workers)
+                popsize=ns.popsize, maxiter=ns.maxiter, workers=ns.workers, progress=bar.update_to)
     truth = None
     try:
         hidden = hidden_parameters(measured)
@@ -97,26 +99,31 @@ def register(sub: argparse._SubParsersAction[argparse.ArgumentParser]) -> None:
     """
     f = sub.add_parser("fit", help="fit a void's parameters to a measured pattern file")
     f.add_argument("measured", help="events file (e.g. header 'phase [deg],charge [pC]')")
-    f.add_argument("--scenario", required=True, help="starting scenario TOML")
-    f.add_argument("--vary", action="append", required=True, help="NAME=LOW:HIGH with units; repeat")
+    f.add_argument("--scenario", required=True, help="starting scenario TOML, e.g. demo.toml")
+    f.add_argument("--vary", action="append", required=True,
+                   help="a parameter and its range, NAME=LOW:HIGH with units, e.g. "
+                   "void.diameter=0.5mm:3mm; repeat for more")
     f.add_argument("--threshold", type=options.charge, default="0C",
                    help="detection threshold of the measurement, e.g. 5pC (default 0C)")
-    f.add_argument("--noise", type=options.charge, default=None, help="charge noise of the detector model, e.g. 2pC")
+    f.add_argument("--noise", type=options.charge, default=None, help="charge noise of the detector model, e.g. 2pC "
+                   "(default: none)")
     f.add_argument("--relative-noise", type=options.number(0.0, 1.0), default=0.0,
                    help="relative charge noise of the detector model, a ratio, e.g. 0.05 (default 0)")
     f.add_argument("--phase-resolution", type=options.phase_angle, default=None,
-                   help="phase resolution of the detector model, e.g. 2deg")
+                   help="phase resolution of the detector model, e.g. 2deg (default: exact phases)")
     f.add_argument("--cycles", type=options.integer(10, 10_000_000), default=1000,
-                   help="simulated cycles per evaluation (default 1000)")
+                   help="simulated cycles per evaluation, e.g. 2000 (default 1000)")
     f.add_argument("--cycles-measured", type=options.integer(1), default=None,
-                   help="cycles of a phase-only measured file (a count, e.g. 500)")
+                   help="cycles of a phase-only measured file (a count, e.g. 500; default: from the file)")
     f.add_argument("--frequency", type=options.frequency, default=None,
-                   help="supply frequency of the measured file, e.g. 50Hz")
-    f.add_argument("--seed", type=options.seed, default=0, help="random seed (default 0)")
+                   help="supply frequency of the measured file, e.g. 50Hz (default: from the file)")
+    f.add_argument("--seed", type=options.seed, default=0, help="random seed, e.g. 7 (default 0)")
     f.add_argument("--popsize", type=options.integer(4, 200), default=8,
-                   help="population size per parameter, 4 to 200 (default 8)")
-    f.add_argument("--maxiter", type=options.integer(1, 10_000), default=30, help="generations (default 30)")
-    f.add_argument("--workers", type=options.integer(1, 1024), default=1, help="worker processes (default 1)")
-    f.add_argument("--out", default=None, help="write the fitted scenario (TOML) here")
-    f.add_argument("--json", action="store_true")
+                   help="population size per parameter, 4 to 200, e.g. 15 (default 8)")
+    f.add_argument("--maxiter", type=options.integer(1, 10_000), default=30, help="generations, e.g. 50 (default 30)")
+    f.add_argument("--workers", type=options.integer(1, 1024), default=1, help="worker processes, e.g. 2 (default 1)")
+    f.add_argument("--out", default=None, help="write the fitted scenario (TOML) here, e.g. fitted.toml (default: "
+                   "none)")
+    f.add_argument("--quiet", action="store_true", help=QUIET_HELP)
+    f.add_argument("--json", action="store_true", help="print JSON instead of text (default: text)")
     f.set_defaults(func=_cmd_fit)

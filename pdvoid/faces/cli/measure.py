@@ -84,31 +84,43 @@ def register(sub: argparse._SubParsersAction[argparse.ArgumentParser]) -> None:
     """
     p = sub.add_parser("measure", help="read a result (.npz) or events file through a simulated IEC 60270 test "
                        "circuit and instrument, and write the readings as an events file")
-    p.add_argument("file")
-    p.add_argument("-o", "--output", required=True, help="events file to write (.csv)")
+    p.add_argument("file", help="result (.npz, e.g. run1/result.npz) or events file (e.g. measured.csv)")
+    p.add_argument("-o", "--output", required=True, help="events file to write, e.g. readings.csv")
     p.add_argument("--cycles", type=options.integer(1), default=None,
-                   help="observed cycles, for event files without time (a count, e.g. 500)")
+                   help="observed cycles, for event files without time (a count, e.g. 500; default: from "
+                   "the file)")
     p.add_argument("--frequency", type=options.frequency, default=None,
-                   help="supply frequency for event files, e.g. 50Hz")
+                   help="supply frequency for event files, e.g. 50Hz (default: from the file)")
     p.add_argument("--test-object-capacitance", type=capacitance, required=True, help="C_a, e.g. 100pF")
     p.add_argument("--coupling-capacitance", type=capacitance, required=True, help="C_k, e.g. 1nF")
     p.add_argument("--stray-capacitance", type=options.quantity("capacitance", allow_zero=True), default=0.0,
                    help="C_s, e.g. 20pF (default 0)")
     p.add_argument("--arrangement", choices=("coupling-capacitor", "test-object"), default="coupling-capacitor",
-                   help="where the measuring impedance sits (default: in series with the coupling capacitor)")
+                   help="where the measuring impedance sits: coupling-capacitor (in series with C_k) or "
+                   "test-object (in series with C_a) (default coupling-capacitor)")
     p.add_argument("--calibrator-charge", type=options.charge, default=100e-12,
-                   help="charge of the calibrator, e.g. 100pC (default)")
-    p.add_argument("--instrument", choices=("wideband", "narrowband"), default="wideband")
-    p.add_argument("--f-low", type=options.frequency, default=None, help="lower limit frequency, e.g. 100kHz")
-    p.add_argument("--f-high", type=options.frequency, default=None, help="upper limit frequency, e.g. 500kHz")
-    p.add_argument("--centre", type=options.frequency, default=None, help="mid-band frequency, e.g. 100kHz")
-    p.add_argument("--bandwidth", type=options.frequency, default=None, help="bandwidth, e.g. 9kHz")
-    p.add_argument("--threshold", type=options.charge, default=0.0, help="smallest reading kept, e.g. 10pC")
-    p.add_argument("--noise", type=options.charge, default=0.0, help="white noise, RMS as read, e.g. 2pC")
-    p.add_argument("--phase-resolution", type=options.angle, default=0.0, help="phase bin width, e.g. 1deg")
+                   help="charge of the calibrator, e.g. 50pC (default 100pC)")
+    p.add_argument("--instrument", choices=("wideband", "narrowband"), default="wideband",
+                   help="instrument of IEC 60270: wideband or narrowband (default wideband)")
+    p.add_argument("--f-low", type=options.frequency, default=None, help="lower limit frequency, e.g. 50kHz "
+                   "(default 100kHz)")
+    p.add_argument("--f-high", type=options.frequency, default=None, help="upper limit frequency, e.g. 400kHz "
+                   "(default 500kHz)")
+    p.add_argument("--centre", type=options.frequency, default=None, help="mid-band frequency, e.g. 200kHz "
+                   "(default 100kHz; with --centre or --bandwidth the band is given by them)")
+    p.add_argument("--bandwidth", type=options.frequency, default=None, help="bandwidth, e.g. 20kHz "
+                   "(default 9kHz)")
+    p.add_argument("--threshold", type=options.charge, default=0.0,
+                   help="smallest reading kept, e.g. 10pC (default 0pC)")
+    p.add_argument("--noise", type=options.charge, default=0.0, help="white noise, RMS as read, e.g. 2pC (default 0pC)")
+    p.add_argument("--phase-resolution", type=options.angle, default=0.0,
+                   help="phase bin width, e.g. 1deg (default 0deg: exact phases)")
     p.add_argument("--gate", type=_gate, action="append", default=[],
-                   help="phase window not recorded, START:STOP, e.g. 170deg:190deg (repeatable)")
-    p.add_argument("--uncalibrated", action="store_true", help="write the readings before calibration")
-    p.add_argument("--seed", type=options.integer(0, 2**32 - 1), default=0, help="seed of the noise (default 0)")
-    p.add_argument("--json", action="store_true")
+                   help="phase window not recorded, START:STOP, e.g. 170deg:190deg (repeatable; default: "
+                   "none)")
+    p.add_argument("--uncalibrated", action="store_true",
+                   help="write the readings before calibration (default: calibrated)")
+    p.add_argument("--seed", type=options.integer(0, 2**32 - 1), default=0,
+                   help="seed of the noise, e.g. 7 (default 0)")
+    p.add_argument("--json", action="store_true", help="print JSON instead of text (default: text)")
     p.set_defaults(func=_cmd_measure)

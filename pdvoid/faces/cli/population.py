@@ -123,18 +123,20 @@ def register(sub: argparse._SubParsersAction[argparse.ArgumentParser]) -> None:
     """
     p = sub.add_parser("population", help="probability that a part with a population of voids passes a routine "
                        "test (acceptance level at a test voltage for a test duration)")
-    p.add_argument("scenario", help="design scenario TOML (insulation, model, supply; its void gives gas, shape, "
-                   "position and, unless --aspect-ratio, the height/diameter ratio)")
+    p.add_argument("scenario", help="design scenario TOML, e.g. demo.toml (insulation, model, supply; its void gives "
+                   "gas, shape, position and, unless --aspect-ratio, the height/diameter ratio)")
     p.add_argument("--level", type=options.quantity("charge"), required=True,
                    help="acceptance level: a part passes at or below it, e.g. 10pC")
     p.add_argument("--duration", type=options.time, required=True, help="test duration, e.g. 60s")
     p.add_argument("--voltage", type=options.voltage, default=None,
                    help="test voltage (rms), e.g. 18kV (default: the scenario's supply)")
     p.add_argument("--voids-per-part", type=options.number(0.0, 1000.0), required=True,
-                   help="mean number of voids per part (Poisson), or the number with --fixed-count")
-    p.add_argument("--fixed-count", action="store_true", help="every part holds exactly --voids-per-part voids")
+                   help="mean number of voids per part (Poisson), or the number with --fixed-count, e.g. 3")
+    p.add_argument("--fixed-count", action="store_true", help="every part holds exactly --voids-per-part voids "
+                   "(default: a Poisson number)")
     p.add_argument("--diameters", default=None, help="measured void diameters, comma-separated, e.g. 0.3mm,0.5mm")
-    p.add_argument("--diameters-file", default=None, help="text file of measured diameters, one per line with unit")
+    p.add_argument("--diameters-file", default=None, help="text file of measured diameters, one per line with unit, "
+                   "e.g. ct_sizes.txt")
     p.add_argument("--median", type=length, default=None, help="median diameter of a log-normal population, e.g. 0.4mm")
     p.add_argument("--sigma", type=options.number(0.01, 5.0), default=None,
                    help="standard deviation of ln(diameter) of the log-normal population, e.g. 0.5")
@@ -143,16 +145,16 @@ def register(sub: argparse._SubParsersAction[argparse.ArgumentParser]) -> None:
     p.add_argument("--largest", type=length, default=None,
                    help="largest diameter of the log-normal population, e.g. 2mm")
     p.add_argument("--aspect-ratio", type=options.number(0.01, 100.0), default=None,
-                   help="height/diameter of every void (default: that of the scenario's void)")
+                   help="height/diameter of every void, e.g. 0.5 (default: that of the scenario's void)")
     p.add_argument("--parts", type=options.integer(1, 1_000_000), default=1000,
-                   help="parts to simulate (default 1000)")
+                   help="parts to simulate, e.g. 5000 (default 1000)")
     p.add_argument("--quantity", choices=("largest", "repeated"), default="largest",
-                   help="a part's level: the largest apparent charge (default) or the largest repeatedly "
-                   "occurring one (100 per second)")
+                   help="a part's level: largest (the largest apparent charge) or repeated (the largest "
+                   "repeatedly occurring one, 100 per second) (default largest)")
     p.add_argument("--confidence", type=options.number(0.5, 0.9999), default=0.95,
-                   help="confidence level of the interval (default 0.95)")
-    p.add_argument("--seed", type=options.seed, default=0, help="random seed (default 0)")
+                   help="confidence level of the interval, e.g. 0.99 (default 0.95)")
+    p.add_argument("--seed", type=options.seed, default=0, help="random seed, e.g. 7 (default 0)")
     p.add_argument("--workers", type=options.integer(1, 1024), default=1,
-                   help="worker processes (default 1; the estimate is the same for any number)")
-    p.add_argument("--json", action="store_true")
+                   help="worker processes, e.g. 2 (default 1; the estimate is the same for any number)")
+    p.add_argument("--json", action="store_true", help="print JSON instead of text (default: text)")
     p.set_defaults(func=_cmd_population)

@@ -36,8 +36,8 @@ def register(subparsers: argparse._SubParsersAction[argparse.ArgumentParser]) ->
         "the test and service levels, margin chart, void field against time, phase-resolved pattern, "
         "sensitivity chart, assumptions, references and the safety note.",
     )
-    p.add_argument("scenario", help="scenario TOML file")
-    p.add_argument("--out", default="review.pdf", help="PDF file to write (default review.pdf)")
+    p.add_argument("scenario", help="scenario TOML file, e.g. demo.toml")
+    p.add_argument("--out", default="review.pdf", help="PDF file to write, e.g. pack.pdf (default review.pdf)")
     p.add_argument(
         "--test-voltage",
         type=options.voltage,
@@ -45,18 +45,18 @@ def register(subparsers: argparse._SubParsersAction[argparse.ArgumentParser]) ->
         help="test voltage, rms, with a unit, e.g. 18kV or '18 kV' (a bare number is refused)",
     )
     p.add_argument("--service-voltage", type=options.voltage, default=None,
-                   help="service voltage, rms, with a unit, e.g. 8kV")
+                   help="service voltage, rms, with a unit, e.g. 8kV (default: none)")
     p.add_argument(
         "--figures",
         choices=("png", "svg"),
         default=None,
-        help="also write each chart as PNG or SVG next to the PDF",
+        help="also write each chart as png or svg next to the PDF (default: none)",
     )
     p.add_argument(
         "--cycles", type=options.integer(1, 1_000_000), default=2000,
-        help="cycles simulated at the test voltage (default 2000)",
+        help="cycles simulated at the test voltage, e.g. 5000 (default 2000)",
     )
-    p.add_argument("--seed", type=options.seed, default=1, help="random seed (default 1)")
+    p.add_argument("--seed", type=options.seed, default=1, help="random seed, e.g. 7 (default 1)")
     p.set_defaults(func=_cmd_report)
     return p
 

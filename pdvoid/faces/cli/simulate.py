@@ -16,6 +16,7 @@ from pdvoid.core.files import MANIFEST_NAME, RUN_FILES, FolderLock, atomic_write
 from pdvoid.core.limits import MAX_CYCLES
 from pdvoid.faces.cli import options
 from pdvoid.faces.cli.output import SAFETY, json_safe, notes_lines, validity_notes
+from pdvoid.faces.cli.progress import QUIET_HELP, ProgressBar
 from pdvoid.inputs.demo import DEMO_SERVICE_RMS, DEMO_TEST_RMS, demo_scenario
 
 if TYPE_CHECKING:
@@ -120,21 +121,29 @@ def _check_out_folder(out: Path, force: bool) -> None:
 def _cmd_simulate(ns: argparse.Namespace) -> int:
     from pdvoid.inputs.scenario import Scenario
     from pdvoid.inputs.scenario_files import scenario_to_dict
-    from pdvoid.simulation.simulate import simulate
+    from pdvoid.simulation.simulate import DEFAULT_PHASE_BINS, simulate
 
+    if ns.phase_bins is not None and not ns.histogram:
+        raise InputError("--phase-bins sets the bins of --histogram; give --histogram with it")
     sc = Scenario.from_file(ns.scenario)
     out = Path(ns.out)
+    # --histogram keeps no event list, so there is no events.csv to write either
+    files = tuple(n for n in RUN_FILES if n != "events.csv" or not (ns.no_events or ns.histogram))
     _check_out_folder(out, ns.force)
     with FolderLock(out):
         _check_out_folder(out, ns.force)  # again under the lock: another run may have finished meanwhile
-        with validity_notes() as notes:
-            res = simulate(sc, cycles=ns.cycles, seed=ns.seed)
+        with validity_notes() as notes, ProgressBar(ns.cycles, "simulating", "cycle", quiet=ns.quiet) as bar:
+            res = simulate(sc, cycles=ns.cycles, seed=ns.seed, progress=bar.update_to,
+                           histogram=ns.histogram, phase_bins=ns.phase_bins or DEFAULT_PHASE_BINS)
             c = compute_coefficients(sc)
         # an overwritten folder is marked incomplete first: a run killed from here on leaves a folder that
         # readers refuse, never a mix of old and new files that looks complete
         (out / MANIFEST_NAME).unlink(missing_ok=True)
         res.save(out / "result.npz")
-        res.to_csv(out / "events.csv")
+        if "events.csv" in files:
+            res.to_csv(out / "events.csv")
+        else:  # an events.csv of an earlier run overwritten with --force is not part of this one
+            (out / "events.csv").unlink(missing_ok=True)
         summ = _run_summary(res)
         regime = _regime(res)
         doc = {"scenario": str(ns.scenario), "cycles": ns.cycles, "seed": ns.seed,
@@ -142,15 +151,17 @@ def _cmd_simulate(ns: argparse.Namespace) -> int:
                "summary": summ,
                "regime": regime, "inception regime": c.inception_regime, "inception reason": c.inception_reason,
                "validity_notes": notes,
-               "files": [str(out / n) for n in RUN_FILES] + [str(out / MANIFEST_NAME)],
+               "mode": "histogram" if ns.histogram else "events",
+               "files": [str(out / n) for n in files] + [str(out / MANIFEST_NAME)],
                "references": list(res.references), "safety": SAFETY}
         text = json.dumps(json_safe(doc), indent=2, allow_nan=False)
         with atomic_write(out / "summary.json", "w", encoding="utf-8", newline="\n") as fh:
             fh.write(text)
         digest = scenario_digest(json.dumps(json_safe(scenario_to_dict(sc)), sort_keys=True, allow_nan=False))
-        write_manifest(out, RUN_FILES, {
+        write_manifest(out, files, {
             "pdvoid_version": __version__, "scenario_file": str(ns.scenario), "scenario_sha256": digest,
             "seed": ns.seed, "cycles": res.cycles, "frequency_hz": sc.supply.frequency,
+            "mode": "histogram" if ns.histogram else "events", "events_file": "events.csv" in files,
         })
     if ns.json:
         print(text)
@@ -177,19 +188,32 @@ def register(sub: argparse._SubParsersAction[argparse.ArgumentParser]) -> None:
     sub : argparse._SubParsersAction
         The sub-parsers of the main parser (from ``ArgumentParser.add_subparsers``).
     """
-    d = sub.add_parser("demo", help="run the built-in demo scenario (an invented example)")
+    d = sub.add_parser("demo", help="run the built-in demo scenario (an invented example)",
+                       epilog="example: pdvoid demo --cycles 500 --json")
     d.add_argument("--cycles", type=options.integer(1, MAX_CYCLES), default=2000,
-                   help="AC cycles to simulate (default 2000)")
-    d.add_argument("--seed", type=options.seed, default=1, help="random seed (default 1)")
-    d.add_argument("--json", action="store_true", help="print JSON instead of text")
+                   help="AC cycles to simulate at each of the two voltages, e.g. 500 (default 2000)")
+    d.add_argument("--seed", type=options.seed, default=1,
+                   help="seed of the random generator, 0 to 2**32-1, e.g. 7 (default 1)")
+    d.add_argument("--json", action="store_true", help="print JSON instead of text (default: text)")
     d.set_defaults(func=_cmd_demo)
-    s = sub.add_parser("simulate", help="simulate a scenario file and write result, events CSV and summary")
-    s.add_argument("scenario", help="scenario TOML file")
+    s = sub.add_parser("simulate", help="simulate a scenario file and write result, events CSV and summary",
+                       epilog="example: pdvoid simulate demo.toml --out run1 --cycles 100000 --histogram")
+    s.add_argument("scenario", help="scenario TOML file, e.g. demo.toml (pdvoid/inputs/examples/)")
     s.add_argument("--cycles", type=options.integer(1, MAX_CYCLES), default=1000,
-                   help="AC cycles to simulate (default 1000)")
-    s.add_argument("--seed", type=options.seed, default=0, help="random seed (default 0)")
-    s.add_argument("--out", required=True, help="output folder: result.npz, events.csv, summary.json and, written "
-                   "last, manifest.json (file sizes and SHA-256); locked while the run writes")
+                   help="AC cycles to simulate, e.g. 100000 (default 1000)")
+    s.add_argument("--seed", type=options.seed, default=0,
+                   help="seed of the random generator, 0 to 2**32-1, e.g. 7 (default 0)")
+    s.add_argument("--out", required=True, help="output folder, e.g. run1: result.npz, events.csv, summary.json "
+                   "and, written last, manifest.json (file sizes and SHA-256); locked while the run writes")
+    s.add_argument("--histogram", action="store_true",
+                   help="keep only the phase-resolved count matrix and the IEC 60270 sums, not the event list "
+                   "(memory and files independent of the number of discharges, for long runs); writes no "
+                   "events.csv (default: keep every event)")
+    s.add_argument("--phase-bins", type=options.integer(1, 3600), default=None,
+                   help="phase bins over 0-360 deg of --histogram, e.g. 180 (default 72)")
+    s.add_argument("--no-events", action="store_true",
+                   help="write no events.csv (result.npz still holds the events; default: write it)")
     s.add_argument("--force", action="store_true", help="overwrite a run already in --out (default: refuse)")
-    s.add_argument("--json", action="store_true")
+    s.add_argument("--quiet", action="store_true", help=QUIET_HELP)
+    s.add_argument("--json", action="store_true", help="print the summary as JSON instead of text (default: text)")
     s.set_defaults(func=_cmd_simulate)

@@ -17,6 +17,7 @@ from pathlib import Path
 from pdvoid.core.errors import InputError
 from pdvoid.faces.cli import options
 from pdvoid.faces.cli.output import SAFETY, json_safe
+from pdvoid.faces.cli.progress import QUIET_HELP, progress_enabled
 from pdvoid.faces.cli.stopping import exit_status, signal_name
 
 __all__ = ["register", "run"]
@@ -44,12 +45,12 @@ def register(subparsers: argparse._SubParsersAction[argparse.ArgumentParser]) ->
         "Exit status 2 when every point failed. "
         'Needs the optional packages: pip install "pdvoid[sweep]".',
     )
-    p.add_argument("sweep_file", metavar="SWEEP.toml", help="sweep file (TOML)")
+    p.add_argument("sweep_file", metavar="SWEEP.toml", help="sweep file (TOML), e.g. demo_sweep.toml")
     p.add_argument("--out", required=True, help="NetCDF file to write, e.g. results.nc (finished points are kept "
                    "in results.nc.parts until it is written)")
     again = p.add_mutually_exclusive_group()
     again.add_argument("--resume", action="store_true", help="continue the interrupted sweep kept in OUT.parts "
-                       "(refused if it is another sweep)")
+                       "(refused if it is another sweep; default: refuse an existing one)")
     again.add_argument("--force", action="store_true", help="start over: discard OUT.parts and replace OUT "
                        "(default: refuse either)")
     where = p.add_mutually_exclusive_group()
@@ -64,10 +65,11 @@ def register(subparsers: argparse._SubParsersAction[argparse.ArgumentParser]) ->
         type=options.integer(1),
         default=None,
         metavar="N",
-        help="local worker processes (default: every core; 1 = serial)",
+        help="local worker processes, e.g. 2 (default: every core; 1 = serial)",
     )
-    p.add_argument("--no-progress", action="store_true", help="do not show a progress bar")
-    p.add_argument("--json", action="store_true", help="print a JSON summary instead of text")
+    p.add_argument("--no-progress", action="store_true", help="the same as --quiet (default: a progress bar)")
+    p.add_argument("--quiet", action="store_true", help=QUIET_HELP)
+    p.add_argument("--json", action="store_true", help="print a JSON summary instead of text (default: text)")
     p.set_defaults(func=run)
     return p
 
@@ -145,7 +147,7 @@ def run(ns: argparse.Namespace) -> int:
             out,
             client=ns.scheduler,
             workers=ns.workers,
-            progress=not ns.no_progress,
+            progress=progress_enabled(ns.quiet or ns.no_progress),
             resume=ns.resume,
             overwrite=ns.force,
             **spec.options(),

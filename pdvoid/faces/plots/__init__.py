@@ -14,6 +14,7 @@ from pdvoid.faces.plots.patterns import pattern_mesh, phase_pattern
 from pdvoid.faces.plots.sequence import pulse_sequence_plot
 from pdvoid.faces.plots.statistics import half_cycle, weibull_plot
 from pdvoid.faces.plots.style import new_axes, new_figure
+from pdvoid.faces.plots.sweeps import sweep_plot
 
 __all__ = [
     "field_time",
@@ -28,6 +29,7 @@ __all__ = [
     "sensitivity_chart",
     "crossings",
     "compare",
+    "sweep_plot",
     "new_figure",
     "new_axes",
 ]
