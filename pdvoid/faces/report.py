@@ -26,6 +26,7 @@ from pdvoid.core.errors import InputError, check_int, check_positive
 from pdvoid.core.references import cite
 from pdvoid.core.validity import collect_validity_notes
 from pdvoid.faces.summary_table import summary_dict
+from pdvoid.inputs.coaxial import Coaxial
 from pdvoid.inputs.materials import get_gas, get_material
 from pdvoid.inputs.measurement import Instrument, TestCircuit
 from pdvoid.inputs.model_sets import sets_matching
@@ -498,15 +499,15 @@ def _input_rows(scenario: Scenario, given: frozenset[str] | None = None) -> list
             return f"parameter set {own_set}"
         return "pdvoid default"
 
-    inner = getattr(ins, "inner_radius", None)
-    if inner is not None:  # a cable (Coaxial): the wall follows from the two radii
+    if isinstance(ins, Coaxial):  # a cable: the wall follows from the two radii
+        radial = void.radial_position
         rows = [
-            ["conductor radius (inner radius of the insulation)", f"{inner * 1e3:.4g}", "mm",
+            ["conductor radius (inner radius of the insulation)", f"{ins.inner_radius * 1e3:.4g}", "mm",
              origin("insulation.inner_radius")],
             ["outer radius of the insulation", f"{ins.outer_radius * 1e3:.4g}", "mm",
              origin("insulation.outer_radius")],
             ["insulation wall", f"{ins.thickness * 1e3:.4g}", "mm", "derived: outer minus inner radius"],
-            ["void centre from the cable axis", f"{void.radial_position * 1e3:.4g}", "mm",
+            ["void centre from the cable axis", "-" if radial is None else f"{radial * 1e3:.4g}", "mm",
              origin("void.radial_position")],
         ]
     else:
