@@ -30,24 +30,27 @@ from pdvoid.physics.network import flat_void_capacitances, spheroid_network_equi
 
 if TYPE_CHECKING:
     from pdvoid.inputs.parameters import Periodic, Sine
+    from pdvoid.inputs.supplies import TimeSupply
     from pdvoid.inputs.scenario import Scenario
 
 __all__ = ["compute_coefficients", "supply_peak_factor"]
 
 
-def supply_peak_factor(supply: Sine | Periodic) -> float:
+def supply_peak_factor(supply: Sine | Periodic | TimeSupply) -> float:
     """Peak of |V| divided by the rms value the supply is specified with [-].
 
     Parameters
     ----------
-    supply : Sine or Periodic
+    supply : Sine, Periodic or a supply without a period
         The supply.
 
     Returns
     -------
     float
-        peak |V| / rms [-] (√2 for a plain sine).
+        peak |V| / rms [-] (√2 for a plain sine; about 1 for DC).
     """
+    if not getattr(supply, "periodic", True):  # a supply without a period knows its own peak
+        return float(supply.peak) / float(supply.rms)
     orders, a, b = supply.fourier()
     return peak_value(orders, a, b) / supply.rms
 

@@ -10,6 +10,7 @@ from typing import Any
 from pdvoid.core.errors import InputError
 from pdvoid.inputs.model_parameters import ModelParameters, default_model
 from pdvoid.inputs.parameters import Insulation, Periodic, Sine, Void
+from pdvoid.inputs.supplies import TimeSupply
 from pdvoid.inputs.scenario_files import parts_from_dict, read_scenario_parts, write_scenario_file
 
 __all__ = ["Scenario", "with_changes", "read_scenario", "write_scenario", "scenario_from_dict"]
@@ -27,8 +28,8 @@ class Scenario:
         The host slab.
     void : pdvoid.Void
         The gas-filled void.
-    supply : pdvoid.Sine or pdvoid.Periodic
-        The applied voltage.
+    supply : pdvoid.Sine, pdvoid.Periodic, pdvoid.DC, pdvoid.PolarityReversal or pdvoid.PiecewiseLinear
+        The applied voltage (periodic supplies run for ``cycles``, the others for a ``duration``).
     model : pdvoid.FieldModel or pdvoid.NetworkModel, optional
         The void model and its parameters (default: the field model with default parameters).
     name : str, optional
@@ -46,12 +47,12 @@ class Scenario:
 
     insulation: Insulation
     void: Void
-    supply: Sine | Periodic
+    supply: Sine | Periodic | TimeSupply
     model: ModelParameters = field(default_factory=default_model)
     name: str = ""
 
     def __post_init__(self) -> None:
-        for attr, cls in (("insulation", Insulation), ("void", Void), ("supply", (Sine, Periodic)),
+        for attr, cls in (("insulation", Insulation), ("void", Void), ("supply", (Sine, Periodic, TimeSupply)),
                           ("model", ModelParameters)):
             if not isinstance(getattr(self, attr), cls):
                 raise InputError(f"scenario.{attr} has the wrong type: {type(getattr(self, attr)).__name__}")

@@ -6,10 +6,15 @@ files written by pdvoid carry SI units.
 Layout (every key optional unless the class requires it; bare numbers are SI)::
 
     name = "..."
-    [insulation]   thickness, permittivity, material, area, dielectric_strength
-    [void]         diameter, height, pressure, gas, temperature, shape, inception_length
-    [supply]       kind = "sine" | "periodic"; sine: rms, frequency, harmonics = [[order, fraction, phase_deg]]
+    [insulation]   thickness, permittivity, material, area, dielectric_strength, conductivity (S/m)
+    [void]         diameter, height, pressure, gas, temperature, shape, inception_length,
+                   surface_conductivity (S)
+    [supply]       kind = "sine" | "periodic" | "dc" | "polarity_reversal" | "piecewise_linear";
+                   sine: rms, frequency, harmonics = [[order, fraction, phase_deg]]
                    periodic: samples (V, one period), frequency, max_harmonic
+                   dc: voltage, ripple = [[order, fraction, phase_deg]], ripple_frequency, rise_time
+                   polarity_reversal: voltage, hold_time, ramp_time, reversals, rise_time, ripple,
+                   ripple_frequency; piecewise_linear: times (s), voltages (V)
     [model]        kind = "field" | "network"; residual_ratio, lag_free, ionization_rate, electron_yield,
                    surface_rate_same, surface_rate_reversed, surface_decay_time, field_assisted,
                    charge_decay_time, inception_criterion; network: capacitance_void, capacitance_series
@@ -30,6 +35,7 @@ from pdvoid.core.limits import MAX_TEXT_FILE_BYTES
 from pdvoid.core.units import parse_quantity
 from pdvoid.inputs.model_parameters import model_class, model_kinds
 from pdvoid.inputs.parameters import Insulation, Periodic, Sine, Void
+from pdvoid.inputs.supplies import TimeSupply, supply_class, supply_kinds
 
 if TYPE_CHECKING:
     from pdvoid.inputs.scenario import Scenario
@@ -43,16 +49,20 @@ MAX_FILE_BYTES = MAX_TEXT_FILE_BYTES  #: largest scenario file [bytes] (see pdvo
 _DIMS: dict[str, dict[str, tuple[str | None, str]]] = {
     "insulation": {"thickness": ("length", "m"), "permittivity": ("dimensionless", ""),
                    "material": (None, ""), "area": ("area", "m2"),
-                   "dielectric_strength": ("field", "V/m")},
+                   "dielectric_strength": ("field", "V/m"), "conductivity": ("conductivity", "S/m")},
     "void": {"diameter": ("length", "m"), "height": ("length", "m"), "pressure": ("pressure", "Pa"),
              "gas": (None, ""), "temperature": ("temperature", "K"), "shape": (None, ""),
              "inception_length": ("length", "m"), "position": (None, ""),
              "field_enhancement": ("dimensionless", ""), "charge_per_field": ("charge per field", "C/(V/m)"),
              "sealed": (None, ""), "fill_temperature": ("temperature", "K"),
-             "secondary_emission": ("dimensionless", "")},
+             "secondary_emission": ("dimensionless", ""), "surface_conductivity": ("conductance", "S")},
     "sine": {"rms": ("voltage", "V"), "frequency": ("frequency", "Hz"), "harmonics": (None, "")},
     "periodic": {"samples": (None, ""), "frequency": ("frequency", "Hz"), "max_harmonic": (None, "")},
 }
+
+
+#: keys written only when not zero (their default), so files of lossless scenarios read as before
+_OMIT_WHEN_ZERO = ("conductivity", "surface_conductivity")
 
 
 def field_schema(part: str, obj: Any) -> dict[str, tuple[str | None, str]]:
@@ -73,6 +83,8 @@ def field_schema(part: str, obj: Any) -> dict[str, tuple[str | None, str]]:
     if part == "model":
         return dict(obj.field_units)
     if part == "supply":
+        if isinstance(obj, TimeSupply):
+            return dict(obj.field_units)
         return dict(_DIMS["sine" if isinstance(obj, Sine) else "periodic"])
     if part not in _DIMS:
         raise InputError(f"the part must be insulation, void, supply or model; got {part!r}")
@@ -159,12 +171,22 @@ def _from_dict(data: dict, source: str) -> dict[str, Any]:
             if not isinstance(h, list):
                 raise InputError(f"{source}: supply.harmonics must be a list of [order, fraction, phase_deg]")
             kw["harmonics"] = tuple(tuple(x) if isinstance(x, list) else x for x in h)
-        supply: Sine | Periodic = _build(Sine, kw, "supply", source)
+        supply: Sine | Periodic | TimeSupply = _build(Sine, kw, "supply", source)
     elif kind == "periodic":
         kw = _section(data, "supply", _DIMS["periodic"], source)
         supply = _build(Periodic, kw, "supply", source)
+    elif kind in supply_kinds():
+        scls = supply_class(kind)
+        kw = _section(data, "supply", scls.field_units, source)
+        if "ripple" in kw:
+            r = kw["ripple"]
+            if not isinstance(r, list):
+                raise InputError(f"{source}: supply.ripple must be a list of [order, fraction, phase_deg]")
+            kw["ripple"] = tuple(tuple(x) if isinstance(x, list) else x for x in r)
+        supply = _build(scls, kw, "supply", source)
     else:
-        raise InputError(f"{source}: supply.kind must be 'sine' or 'periodic'; got {kind!r}")
+        allowed = ", ".join(repr(k) for k in ("sine", "periodic", *supply_kinds()))
+        raise InputError(f"{source}: supply.kind must be one of {allowed}; got {kind!r}")
     mod = data.get("model", {})
     mkind = mod.get("kind", model_kinds()[0]) if isinstance(mod, dict) else None
     try:
@@ -236,11 +258,24 @@ def scenario_to_dict(s: Scenario) -> dict[str, Any]:
         out[part] = {}
         for f in fields(obj):
             v = getattr(obj, f.name)
-            if v is None:
+            if v is None or (f.name in _OMIT_WHEN_ZERO and v == 0.0):
                 continue
             dim, unit = schema[f.name]
             out[part][f.name] = _q(v, unit) if dim is not None and unit else v
-    if isinstance(s.supply, Sine):
+    if isinstance(s.supply, TimeSupply):
+        sup = s.supply
+        out["supply"] = {"kind": sup.kind}
+        for f in fields(sup):
+            v = getattr(sup, f.name)
+            dim, unit = sup.field_units[f.name]
+            if f.name == "ripple":
+                if v:
+                    out["supply"]["ripple"] = [list(h) for h in v]
+            elif dim is None and hasattr(v, "tolist"):
+                out["supply"][f.name] = [float(x) for x in v]
+            else:
+                out["supply"][f.name] = _q(v, unit) if dim is not None and unit else v
+    elif isinstance(s.supply, Sine):
         out["supply"] = {"kind": "sine", "rms": _q(s.supply.rms, "V"), "frequency": _q(s.supply.frequency, "Hz")}
         if s.supply.harmonics:
             out["supply"]["harmonics"] = [list(h) for h in s.supply.harmonics]

@@ -1,0 +1,30 @@
+"""Supplies without a period (DC, polarity reversal, piecewise-linear), one module each, and their registry.
+
+Each supply is a frozen dataclass with a ``kind`` (its name in scenario files), ``field_units`` (its file
+schema), ``peak`` and ``rms`` [V], and :meth:`pieces`, which describes V(t) from t = 0 (the instant of
+energisation: V = 0 before) as pieces ``V(t) = level_k + slope_k (t − t_k)`` plus a ripple
+``Σ_m a_m sin(m ω t) + b_m cos(m ω t)`` common to all pieces (:class:`SupplyPieces`). The kernels run on these
+pieces exactly (closed forms on each piece, bracketed roots), with no time step.
+
+- :mod:`~pdvoid.inputs.supplies.dc`: :class:`DC` (with ripple and a rise time at energisation);
+- :mod:`~pdvoid.inputs.supplies.reversal`: :class:`PolarityReversal` (DC reversed with a linear ramp);
+- :mod:`~pdvoid.inputs.supplies.piecewise`: :class:`PiecewiseLinear` (samples, e.g. a measured supply from CSV).
+"""
+
+# ruff: noqa: I001  (the import order below is the registration order)
+from __future__ import annotations
+
+from pdvoid.inputs.supplies.registry import (
+    SupplyPieces,
+    check_ripple,
+    register_supply,
+    supply_class,
+    supply_kinds,
+    TimeSupply,
+)
+from pdvoid.inputs.supplies.dc import DC
+from pdvoid.inputs.supplies.reversal import PolarityReversal
+from pdvoid.inputs.supplies.piecewise import PiecewiseLinear
+
+__all__ = ["DC", "PiecewiseLinear", "PolarityReversal", "SupplyPieces", "TimeSupply", "check_ripple",
+           "register_supply", "supply_class", "supply_kinds"]
