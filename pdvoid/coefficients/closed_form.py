@@ -17,6 +17,7 @@ from pdvoid.coefficients.limits import (
 from pdvoid.coefficients.record import Coefficients
 from pdvoid.core.errors import InputError
 from pdvoid.inputs.materials import GasData, get_gas
+from pdvoid.inputs.supplies import TimeSupply
 from pdvoid.inputs.waveform import peak_value
 from pdvoid.physics.electrons import volume_electron_rate
 from pdvoid.physics.geometry import (
@@ -30,7 +31,6 @@ from pdvoid.physics.network import flat_void_capacitances, spheroid_network_equi
 
 if TYPE_CHECKING:
     from pdvoid.inputs.parameters import Periodic, Sine
-    from pdvoid.inputs.supplies import TimeSupply
     from pdvoid.inputs.scenario import Scenario
 
 __all__ = ["compute_coefficients", "supply_peak_factor"]
@@ -49,7 +49,7 @@ def supply_peak_factor(supply: Sine | Periodic | TimeSupply) -> float:
     float
         peak |V| / rms [-] (√2 for a plain sine; about 1 for DC).
     """
-    if not getattr(supply, "periodic", True):  # a supply without a period knows its own peak
+    if isinstance(supply, TimeSupply):  # a supply without a period knows its own peak
         return float(supply.peak) / float(supply.rms)
     orders, a, b = supply.fourier()
     return peak_value(orders, a, b) / supply.rms

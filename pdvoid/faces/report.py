@@ -447,7 +447,7 @@ _MODEL_UNITS = {
 
 
 def _input_rows(scenario: Scenario) -> list[list[str]]:
-    ins, void, sup, model = scenario.insulation, scenario.void, scenario.supply, scenario.model
+    ins, void, sup, model = scenario.insulation, scenario.void, scenario.periodic_supply, scenario.model
     src = "scenario input"
     rows = [
         ["insulation thickness", f"{ins.thickness * 1e3:.4g}", "mm", src],

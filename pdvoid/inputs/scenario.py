@@ -10,8 +10,8 @@ from typing import Any
 from pdvoid.core.errors import InputError
 from pdvoid.inputs.model_parameters import ModelParameters, default_model
 from pdvoid.inputs.parameters import Insulation, Periodic, Sine, Void
-from pdvoid.inputs.supplies import TimeSupply
 from pdvoid.inputs.scenario_files import parts_from_dict, read_scenario_parts, write_scenario_file
+from pdvoid.inputs.supplies import TimeSupply
 
 __all__ = ["Scenario", "with_changes", "read_scenario", "write_scenario", "scenario_from_dict"]
 
@@ -63,6 +63,21 @@ class Scenario:
             )
         if not isinstance(self.name, str) or len(self.name) > 200:
             raise InputError(f"scenario.name must be text of at most 200 characters; got {self.name!r}")
+
+    @property
+    def periodic_supply(self) -> Sine | Periodic:
+        """The supply when it is periodic (:class:`pdvoid.Sine` or :class:`pdvoid.Periodic`).
+
+        Raises
+        ------
+        pdvoid.InputError
+            For a supply without a period (DC, polarity reversal, piecewise-linear), naming it: analyses built on
+            the supply's period (phase, cycles, ramp tests) do not apply to it.
+        """
+        if isinstance(self.supply, (Sine, Periodic)):
+            return self.supply
+        raise InputError(f"this needs a periodic supply (sine or periodic); scenario.supply is a "
+                         f"{type(self.supply).__name__}, which has no period")
 
     def replace(self, **changes: Any) -> Scenario:
         """A copy with dotted-path changes, e.g. ``replace(**{"void.diameter": 2e-3})``.

@@ -265,7 +265,7 @@ def scenario_to_dict(s: Scenario) -> dict[str, Any]:
     if isinstance(s.supply, TimeSupply):
         sup = s.supply
         out["supply"] = {"kind": sup.kind}
-        for f in fields(sup):
+        for f in fields(sup):  # type: ignore[arg-type]  # every registered supply is a dataclass
             v = getattr(sup, f.name)
             dim, unit = sup.field_units[f.name]
             if f.name == "ripple":
