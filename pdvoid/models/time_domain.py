@@ -103,7 +103,7 @@ def conduction_coefficients(scenario: Scenario, c: Coefficients) -> ConductionCo
         raise InputError(f"conduction needs the void's depolarisation factor; this scenario gives {n!r} (a field "
                          "enhancement supplied without one, or a host of permittivity 1)")
     sigma_i = equivalent_void_conductivity(sigma_s, void.diameter) if sigma_s > 0.0 else 0.0
-    if sigma_s > 0.0:
+    if sigma_s > 0.0 and (void.shape != "spheroid" or void.diameter != void.height):
         notes.append("the wall's surface conductance acts as a gas conductivity 4·σ_s/diameter (exact for a sphere "
                      "and for a cylinder's side wall along the field; an approximation otherwise)")
     tau = void_relaxation_time(er, n, sigma, sigma_i)
