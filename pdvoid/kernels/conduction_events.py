@@ -13,12 +13,14 @@ z(t) = P(t) + C·exp(−(t − t_z)/τ) with the particular solution
 P(t) = G·[level + slope·(t − t_k − τ)] + G·Σ_m [(a_m + b_m r_m) sin + (b_m − a_m r_m) cos]/(1 + r_m²),
 r_m = m ω τ, and C set by the continuity of z at the start of the piece. Nothing is integrated with a step.
 
-Each piece is scanned in sub-intervals (1/16 of the period of the highest ripple harmonic, and at most 1/16 of
-the piece); where dx/dt changes sign inside one it is cut at the turning point (bisection), so x is monotone
-on every part. On a monotone part the windows with ``|x|`` >= x_inc are bounded by bracketed Newton/bisection roots
-of x = ±x_inc; the start-electron hazard is spent over them exactly as in :mod:`pdvoid.kernels.void_events`
-(closed form for a decaying surface emission, thinning for the field-assisted factor). A discharge sets x to
-sign(x)·x_res by changing q.
+Each piece is scanned in sub-intervals (1/16 of the period of the highest ripple harmonic, and 1/16 of a piece
+longer than a tenth of a decay time; a shorter piece without ripple is one sub-interval); where dx/dt changes
+sign inside one it is cut at the turning point (bisection), so x is monotone on every part. On a monotone part
+the windows with ``|x|`` >= x_inc are bounded by bracketed Newton/bisection roots of x = ±x_inc; the
+start-electron hazard is spent over them exactly as in :mod:`pdvoid.kernels.void_events` (closed form for a
+decaying surface emission, thinning for the field-assisted factor). On constant pieces with ripple, spans where
+``|x|`` provably stays below x_inc are skipped, and spans where it provably stays above are one window, from a
+bound of the ripple and of the decay. A discharge sets x to sign(x)·x_res by changing q.
 
 All functions that call each other live in this one module (numba's cache; see the toolchain notes).
 """
@@ -514,7 +516,9 @@ def run_time(
         piece_end = breaks[k + 1]
         if piece_end > t_stop:
             piece_end = t_stop
-        h = (breaks[k + 1] - breaks[k]) / 16.0
+        h = breaks[k + 1] - breaks[k]
+        if h > 0.1 * par[P_TAU] or h > 0.1 * par[P_TAUQ]:
+            h /= 16.0  # the decaying parts may turn x inside a long piece: scan it
         if par[P_SCAN] < h:
             h = par[P_SCAN]
             if slope[k] == 0.0:

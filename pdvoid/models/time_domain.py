@@ -47,8 +47,10 @@ def needs_time_domain(scenario: Scenario) -> bool:
     bool
         Whether :func:`time_domain_arguments` applies.
     """
+    from pdvoid.inputs.supplies import TimeSupply
+
     return (scenario.insulation.conductivity > 0.0 or scenario.void.surface_conductivity > 0.0
-            or not getattr(scenario.supply, "periodic", True))
+            or isinstance(scenario.supply, TimeSupply))
 
 
 @dataclass(frozen=True)
@@ -176,15 +178,14 @@ class TimeDomainArguments:
 
 
 def _pieces(scenario: Scenario, end: float) -> SupplyPieces:
-    from pdvoid.inputs.supplies import SupplyPieces
+    from pdvoid.inputs.supplies import SupplyPieces, TimeSupply
 
     supply = scenario.supply
-    if not getattr(supply, "periodic", True):
-        return supply.pieces(end)  # type: ignore[union-attr]
-    orders, a, b = supply.fourier()  # type: ignore[union-attr]
+    if isinstance(supply, TimeSupply):
+        return supply.pieces(end)
+    orders, a, b = supply.fourier()
     z = np.zeros(1)
-    return SupplyPieces(np.array([0.0, end]), z, z.copy(), float(supply.frequency),  # type: ignore[union-attr]
-                        orders, a, b)
+    return SupplyPieces(np.array([0.0, end]), z, z.copy(), float(supply.frequency), orders, a, b)
 
 
 def time_domain_arguments(scenario: Scenario, c: Coefficients, end: float) -> TimeDomainArguments:

@@ -6,8 +6,7 @@ holds for complex permittivities ε̃ = ε + σ/s in the Laplace domain (Maxwell
 relaxation), which turns the field enhancement into a first-order transfer function from the applied field to
 the void field.
 
-Derivation (also in the user guide, "Conducting insulation and DC supplies")
----------------------------------------------------------------------------
+Derivation (also in the user guide, "Conducting insulation and DC supplies"):
 For an ellipsoid of depolarisation factor N along a uniform far field E0, with interior permittivity ε_i and
 exterior ε_e, the interior field is uniform: ``E_in = E0 · ε_e / (ε_e (1 − N) + N ε_i)`` (Stratton 1941).
 Quasi-statics with conduction (∇·(σE + ∂(εE)/∂t) = 0, zero initial charge) is the same problem in the

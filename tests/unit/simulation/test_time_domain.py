@@ -230,3 +230,39 @@ def test_jit_disabled_gives_the_same_events(tmp_path, fa):
         out[jit] = np.load(path)
     assert out["0"].shape[1] > 10
     np.testing.assert_allclose(out["0"], out["1"], rtol=1e-12, atol=0)
+
+
+def test_square_wave_lag_free_discharges_per_edge_against_a_hand_count():
+    # Perfect dielectric, lag-free, no decay: the void field swings between about +-A = +-f V/d like the sine of
+    # the physics brief §1.4 (which counts only the extremes), so in the steady state each edge carries
+    # 2·n1 discharges, n1 = floor((A - E_res)/(E_inc - E_res)), and the first half-edge from 0 carries n1.
+    for volts, ratio in ((40e3, 0.2), (70e3, 0.3), (90e3, 0.1)):
+        sup = pdvoid.SquareWave(volts, frequency=1e3, rise_time=2e-6)
+        s = pdvoid.Scenario(pdvoid.Insulation(D_SLAB, ER), pdvoid.Void(DIA, DIA), sup,
+                            pdvoid.FieldModel(lag_free=True, residual_ratio=ratio))
+        c = pdvoid.compute_coefficients(s)
+        a = c.field_enhancement * volts / D_SLAB
+        n1 = math.floor((a - c.residual_field) / (c.inception_field - c.residual_field))
+        r = pdvoid.simulate(s, cycles=6)
+        assert n1 >= 1
+        # edges: rising centred on k ms, falling on k + 0.5 ms; each event lies on one
+        edge = np.round(r.time / 0.5e-3)
+        assert np.all(np.abs(r.time - edge * 0.5e-3) <= 1e-6 + 1e-15)
+        counts = np.bincount(edge.astype(int), minlength=12)
+        assert counts[0] == n1 and np.all(counts[1:12] == 2 * n1)
+        assert np.all(np.sign(r.charge) == np.where(edge % 2 == 0, 1.0, -1.0))
+
+
+def test_square_wave_rms_and_pieces():
+    # trapezoid rms written out: bipolar V sqrt(1 - 4 r f/3), unipolar V sqrt(d - r f/3)
+    b = pdvoid.SquareWave(1e3, 50.0, 1e-3)
+    u = pdvoid.SquareWave(1e3, 50.0, 1e-3, duty=0.3, bipolar=False)
+    t = np.linspace(0.0, 0.02, 200001)
+    for sup, expected in ((b, 1e3 * math.sqrt(1 - 4 * 1e-3 * 50 / 3)), (u, 1e3 * math.sqrt(0.3 - 1e-3 * 50 / 3))):
+        assert sup.rms == pytest.approx(expected, rel=1e-12)
+        v = sup.pieces(0.04).voltage(t + 0.02)  # one period away from energisation
+        assert np.sqrt(np.mean(v[:-1] ** 2)) == pytest.approx(expected, rel=1e-4)
+    with pytest.raises(pdvoid.InputError, match="rise_time"):
+        pdvoid.SquareWave(1e3, 1e3, 0.6e-3)
+    with pytest.raises(pdvoid.InputError):
+        pdvoid.simulate(pdvoid.Scenario(pdvoid.Insulation(D_SLAB, ER), pdvoid.Void(DIA, DIA), b), duration=1.0)
