@@ -197,8 +197,10 @@ def test_save_and_load_a_dc_result(tmp_path):
     lambda dc, ac: pdvoid.simulate(dc, duration="1 s"),
     lambda dc, ac: pdvoid.simulate(dc, duration=10.0, histogram=True),
     lambda dc, ac: pdvoid.simulate(dc, duration=10.0, should_stop=lambda: False),
-    lambda dc, ac: pdvoid.simulate(dc.replace(**{"model": None}) if False else pdvoid.Scenario(
-        dc.insulation, dc.void, dc.supply, pdvoid.NetworkModel()), duration=10.0),
+    lambda dc, ac: pdvoid.simulate(pdvoid.Scenario(dc.insulation, dc.void, dc.supply, pdvoid.NetworkModel()),
+                                   duration=10.0),
+    lambda dc, ac: pdvoid.models.kernel_arguments(dc),  # the cycle kernel's arguments do not apply
+    lambda dc, ac: pdvoid.simulation.simulate.VoidRunner(dc),
 ])
 def test_wrong_run_length_or_mode_is_refused(call):
     dc = _dc()
