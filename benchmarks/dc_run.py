@@ -49,6 +49,16 @@ def main() -> None:
     ac = timed("for scale: AC 50 Hz, same peak, 100 s (cycle kernel)",
                lambda: pdvoid.simulate(scenario(0.0, pdvoid.Sine(peak / math.sqrt(2))), cycles=5000))
     print()
+    print("Periodic supplies, side by side (the time-domain kernel against the cycle kernel):")
+    lossless = timed("AC 50 Hz, 2000 cycles, perfect dielectric (cycle kernel)",
+                     lambda: pdvoid.simulate(scenario(0.0, pdvoid.Sine(peak / math.sqrt(2))), cycles=2000))
+    lossy = timed("AC 50 Hz, 2000 cycles, sigma 1e-30 S/m (time-domain kernel)",
+                  lambda: pdvoid.simulate(scenario(1e-30, pdvoid.Sine(peak / math.sqrt(2))), cycles=2000))
+    del lossless, lossy
+    sq = pdvoid.SquareWave(peak, frequency=1e3, rise_time=1e-6)
+    timed("square wave 1 kHz, 1 us edges, 1e5 edges, lag-free", lambda: pdvoid.simulate(
+        scenario(0.0, sq, True), cycles=50_000))
+    print()
     print("DC repetition rate against conductivity (lag-free and with the statistical lag; 1e5 s runs):")
     print(f"{'sigma [S/m]':>12s} {'tau [s]':>12s} {'lag-free [1/s]':>16s} {'with lag [1/s]':>16s} {'AC/DC (lag)':>12s}")
     for sigma in (1e-16, 1e-15, 1e-14, 1e-13, 1e-12, 1e-11, 1e-10):
