@@ -8,10 +8,13 @@ The void field is x(t) = g_cap·V(t) + z(t) + q(t) [V/m]:
 * q: the field of the charge deposited by discharges, q(t) = q0·exp(−(t − t0)/τ_q).
 
 (:mod:`pdvoid.physics.conduction` derives H(s) = f_cap + (f_res − f_cap)/(1 + s τ).) On each piece of the supply,
-V = level + slope·(t − t_k) + Σ_m a_m sin(m ω t) + b_m cos(m ω t), z has the closed form
+V = level + slope·(t − t_k) + c·sin(w (t − t_k) + φ) + Σ_m a_m sin(m ω t) + b_m cos(m ω t) (a sinusoid of the
+piece's own, e.g. a cosine transition, and a ripple common to all pieces), z has the closed form
 z(t) = P(t) + C·exp(−(t − t_z)/τ) with the particular solution
-P(t) = G·[level + slope·(t − t_k − τ)] + G·Σ_m [(a_m + b_m r_m) sin + (b_m − a_m r_m) cos]/(1 + r_m²),
-r_m = m ω τ, and C set by the continuity of z at the start of the piece. Nothing is integrated with a step.
+P(t) = G·[level + slope·(t − t_k − τ) + c (sin θ − wτ cos θ)/(1 + w²τ²)]
+       + G·Σ_m [(a_m + b_m r_m) sin + (b_m − a_m r_m) cos]/(1 + r_m²),
+θ = w (t − t_k) + φ, r_m = m ω τ, and C set by the continuity of z at the start of the piece. Nothing is
+integrated with a step.
 
 Each piece is scanned in sub-intervals (1/16 of the period of the highest ripple harmonic, and 1/16 of a piece
 longer than a tenth of a decay time; a shorter piece without ripple is one sub-interval); where dx/dt changes
@@ -45,6 +48,14 @@ S_LASTPOL = 7  # polarity of the last discharge (+1, -1, 0 = none)
 S_REMAIN = 8  # remaining exponential hazard of the current wait
 S_COUNT = 9  # events so far
 STATE_SIZE = 12
+
+# per-piece table layout (columns of pw): V = level + slope (t - t_k) + amp sin(omega (t - t_k) + phase) + ripple
+PW_LEVEL = 0
+PW_SLOPE = 1
+PW_AMP = 2
+PW_OMEGA = 3
+PW_PHASE = 4
+PW_SIZE = 5
 
 # parameter vector layout
 P_GCAP = 0  # f_cap/d [1/m]
@@ -97,7 +108,7 @@ def start_wait(state: np.ndarray) -> None:
 
 
 @njit_cached
-def piece_voltage(t: float, k: int, breaks: np.ndarray, level: np.ndarray, slope: np.ndarray, omega: float,
+def piece_voltage(t: float, k: int, breaks: np.ndarray, pw: np.ndarray, omega: float,
                   orders: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray) -> float:
     """V(t) on piece k [V].
 
@@ -107,7 +118,7 @@ def piece_voltage(t: float, k: int, breaks: np.ndarray, level: np.ndarray, slope
         Time from energisation [s].
     k : int
         Piece index [-].
-    breaks, level, slope : numpy.ndarray
+    breaks, pw : numpy.ndarray
         Piece starts [s], levels [V] and slopes [V/s].
     omega : float
         Ripple angular frequency [rad/s].
@@ -119,7 +130,10 @@ def piece_voltage(t: float, k: int, breaks: np.ndarray, level: np.ndarray, slope
     float
         The voltage [V].
     """
-    v = level[k] + slope[k] * (t - breaks[k])
+    u = t - breaks[k]
+    v = pw[k, PW_LEVEL] + pw[k, PW_SLOPE] * u
+    if pw[k, PW_AMP] != 0.0:
+        v += pw[k, PW_AMP] * math.sin(pw[k, PW_OMEGA] * u + pw[k, PW_PHASE])
     for i in range(orders.size):
         ph = orders[i] * omega * t
         v += a_coef[i] * math.sin(ph) + b_coef[i] * math.cos(ph)
@@ -127,9 +141,12 @@ def piece_voltage(t: float, k: int, breaks: np.ndarray, level: np.ndarray, slope
 
 
 @njit_cached
-def _dv(t: float, k: int, slope: np.ndarray, omega: float, orders: np.ndarray, a_coef: np.ndarray,
-        b_coef: np.ndarray) -> float:
-    d = slope[k]
+def _dv(t: float, k: int, breaks: np.ndarray, pw: np.ndarray, omega: float, orders: np.ndarray,
+        a_coef: np.ndarray, b_coef: np.ndarray) -> float:
+    d = pw[k, PW_SLOPE]
+    if pw[k, PW_AMP] != 0.0:
+        w = pw[k, PW_OMEGA]
+        d += pw[k, PW_AMP] * w * math.cos(w * (t - breaks[k]) + pw[k, PW_PHASE])
     for i in range(orders.size):
         w = orders[i] * omega
         ph = w * t
@@ -138,7 +155,7 @@ def _dv(t: float, k: int, slope: np.ndarray, omega: float, orders: np.ndarray, a
 
 
 @njit_cached
-def _particular(t: float, k: int, breaks: np.ndarray, level: np.ndarray, slope: np.ndarray, orders: np.ndarray,
+def _particular(t: float, k: int, breaks: np.ndarray, pw: np.ndarray, orders: np.ndarray,
                 a_coef: np.ndarray, b_coef: np.ndarray, par: np.ndarray) -> float:
     """P(t): the particular solution of tau dz/dt = G V - z on piece k."""
     g = par[P_G]
@@ -146,7 +163,13 @@ def _particular(t: float, k: int, breaks: np.ndarray, level: np.ndarray, slope: 
         return 0.0
     tau = par[P_TAU]
     omega = par[P_OMEGA]
-    p = level[k] + slope[k] * (t - breaks[k] - tau) if slope[k] != 0.0 else level[k]
+    u = t - breaks[k]
+    p = pw[k, PW_LEVEL] + pw[k, PW_SLOPE] * (u - tau) if pw[k, PW_SLOPE] != 0.0 else pw[k, PW_LEVEL]
+    if pw[k, PW_AMP] != 0.0:
+        # response to c sin(th), th = w u + phase: c (sin th - r cos th)/(1 + r^2), r = w tau
+        r = pw[k, PW_OMEGA] * tau
+        th = pw[k, PW_OMEGA] * u + pw[k, PW_PHASE]
+        p += pw[k, PW_AMP] * (math.sin(th) - r * math.cos(th)) / (1.0 + r * r)
     for i in range(orders.size):
         w = orders[i] * omega
         r = w * tau
@@ -156,11 +179,11 @@ def _particular(t: float, k: int, breaks: np.ndarray, level: np.ndarray, slope: 
 
 
 @njit_cached
-def _z(t: float, k: int, breaks: np.ndarray, level: np.ndarray, slope: np.ndarray, orders: np.ndarray,
+def _z(t: float, k: int, breaks: np.ndarray, pw: np.ndarray, orders: np.ndarray,
        a_coef: np.ndarray, b_coef: np.ndarray, par: np.ndarray, state: np.ndarray) -> float:
     if par[P_G] == 0.0:
         return 0.0
-    return _particular(t, k, breaks, level, slope, orders, a_coef, b_coef, par) + state[S_CZ] * math.exp(
+    return _particular(t, k, breaks, pw, orders, a_coef, b_coef, par) + state[S_CZ] * math.exp(
         -(t - state[S_TZ]) / par[P_TAU])
 
 
@@ -172,7 +195,7 @@ def _q(t: float, par: np.ndarray, state: np.ndarray) -> float:
 
 
 @njit_cached
-def void_field(t: float, k: int, breaks: np.ndarray, level: np.ndarray, slope: np.ndarray, orders: np.ndarray,
+def void_field(t: float, k: int, breaks: np.ndarray, pw: np.ndarray, orders: np.ndarray,
                a_coef: np.ndarray, b_coef: np.ndarray, par: np.ndarray, state: np.ndarray) -> float:
     """x(t) = g_cap V + z + q on piece k [V/m].
 
@@ -182,7 +205,7 @@ def void_field(t: float, k: int, breaks: np.ndarray, level: np.ndarray, slope: n
         Time [s].
     k : int
         Piece index [-].
-    breaks, level, slope : numpy.ndarray
+    breaks, pw : numpy.ndarray
         Piece starts [s], levels [V] and slopes [V/s].
     orders, a_coef, b_coef : numpy.ndarray
         Ripple orders [-] and amplitudes [V].
@@ -196,18 +219,18 @@ def void_field(t: float, k: int, breaks: np.ndarray, level: np.ndarray, slope: n
     float
         The void field [V/m].
     """
-    v = piece_voltage(t, k, breaks, level, slope, par[P_OMEGA], orders, a_coef, b_coef)
-    return par[P_GCAP] * v + _z(t, k, breaks, level, slope, orders, a_coef, b_coef, par, state) + _q(t, par, state)
+    v = piece_voltage(t, k, breaks, pw, par[P_OMEGA], orders, a_coef, b_coef)
+    return par[P_GCAP] * v + _z(t, k, breaks, pw, orders, a_coef, b_coef, par, state) + _q(t, par, state)
 
 
 @njit_cached
-def _dx(t: float, k: int, breaks: np.ndarray, level: np.ndarray, slope: np.ndarray, orders: np.ndarray,
+def _dx(t: float, k: int, breaks: np.ndarray, pw: np.ndarray, orders: np.ndarray,
         a_coef: np.ndarray, b_coef: np.ndarray, par: np.ndarray, state: np.ndarray) -> float:
     omega = par[P_OMEGA]
-    d = par[P_GCAP] * _dv(t, k, slope, omega, orders, a_coef, b_coef)
+    d = par[P_GCAP] * _dv(t, k, breaks, pw, omega, orders, a_coef, b_coef)
     if par[P_G] != 0.0:
-        v = piece_voltage(t, k, breaks, level, slope, omega, orders, a_coef, b_coef)
-        z = _z(t, k, breaks, level, slope, orders, a_coef, b_coef, par, state)
+        v = piece_voltage(t, k, breaks, pw, omega, orders, a_coef, b_coef)
+        z = _z(t, k, breaks, pw, orders, a_coef, b_coef, par, state)
         d += (par[P_G] * v - z) / par[P_TAU]
     if par[P_TAUQ] != math.inf:
         d -= _q(t, par, state) / par[P_TAUQ]
@@ -215,11 +238,11 @@ def _dx(t: float, k: int, breaks: np.ndarray, level: np.ndarray, slope: np.ndarr
 
 
 @njit_cached
-def _root(target: float, t0: float, t1: float, k: int, breaks: np.ndarray, level: np.ndarray, slope: np.ndarray,
+def _root(target: float, t0: float, t1: float, k: int, breaks: np.ndarray, pw: np.ndarray,
           orders: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray, par: np.ndarray, state: np.ndarray) -> float:
     """Root of x(t) = target on [t0, t1] where x is monotone and brackets it: Newton with a bisection guard."""
-    f0 = void_field(t0, k, breaks, level, slope, orders, a_coef, b_coef, par, state) - target
-    f1 = void_field(t1, k, breaks, level, slope, orders, a_coef, b_coef, par, state) - target
+    f0 = void_field(t0, k, breaks, pw, orders, a_coef, b_coef, par, state) - target
+    f1 = void_field(t1, k, breaks, pw, orders, a_coef, b_coef, par, state) - target
     if f0 == 0.0:
         return t0
     if f1 == 0.0:
@@ -230,7 +253,7 @@ def _root(target: float, t0: float, t1: float, k: int, breaks: np.ndarray, level
     for _ in range(200):
         if not (lo < t < hi):
             t = 0.5 * (lo + hi)
-        f = void_field(t, k, breaks, level, slope, orders, a_coef, b_coef, par, state) - target
+        f = void_field(t, k, breaks, pw, orders, a_coef, b_coef, par, state) - target
         if f == 0.0:
             return t
         if (f > 0.0) == (flo > 0.0):
@@ -239,7 +262,7 @@ def _root(target: float, t0: float, t1: float, k: int, breaks: np.ndarray, level
             hi = t
         if hi - lo <= 4e-16 * max(abs(hi), 1e-300) + 1e-300:
             return 0.5 * (lo + hi)
-        d = _dx(t, k, breaks, level, slope, orders, a_coef, b_coef, par, state)
+        d = _dx(t, k, breaks, pw, orders, a_coef, b_coef, par, state)
         tn = t - f / d if d != 0.0 else 0.5 * (lo + hi)
         if abs(tn - t) <= 2e-16 * abs(t) + 1e-300:
             return tn if lo <= tn <= hi else t
@@ -248,13 +271,13 @@ def _root(target: float, t0: float, t1: float, k: int, breaks: np.ndarray, level
 
 
 @njit_cached
-def _turn(t0: float, t1: float, d0: float, k: int, breaks: np.ndarray, level: np.ndarray, slope: np.ndarray,
+def _turn(t0: float, t1: float, d0: float, k: int, breaks: np.ndarray, pw: np.ndarray,
           orders: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray, par: np.ndarray, state: np.ndarray) -> float:
     """The turning point of x in (t0, t1] given opposite slope signs at the ends (bisection)."""
     lo, hi = t0, t1
     for _ in range(200):
         mid = 0.5 * (lo + hi)
-        dm = _dx(mid, k, breaks, level, slope, orders, a_coef, b_coef, par, state)
+        dm = _dx(mid, k, breaks, pw, orders, a_coef, b_coef, par, state)
         if (dm > 0.0) == (d0 > 0.0) and dm != 0.0:
             lo = mid
         else:
@@ -265,7 +288,7 @@ def _turn(t0: float, t1: float, d0: float, k: int, breaks: np.ndarray, level: np
 
 
 @njit_cached
-def _safe_skip(t: float, k: int, level: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray, orders: np.ndarray,
+def _safe_skip(t: float, k: int, pw: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray, orders: np.ndarray,
                par: np.ndarray, state: np.ndarray) -> tuple[float, bool]:
     """On a constant piece with ripple: (span, False) with a time span from t in which ``|x|`` cannot reach
     x_inc, or (span, True) with one in which ``|x|`` stays >= x_inc with the sign of x(t); (0, False) if neither.
@@ -288,7 +311,7 @@ def _safe_skip(t: float, k: int, level: np.ndarray, a_coef: np.ndarray, b_coef: 
     qn = _q(t, par, state)
     if par[P_TAUQ] != math.inf:
         rate += abs(qn) / par[P_TAUQ]
-    slow = (par[P_GCAP] + g) * level[k] + cz + qn
+    slow = (par[P_GCAP] + g) * pw[k, PW_LEVEL] + cz + qn
     margin = par[P_XINC] - abs(slow) - r_bound
     inside = False
     if margin <= 0.0:
@@ -302,13 +325,13 @@ def _safe_skip(t: float, k: int, level: np.ndarray, a_coef: np.ndarray, b_coef: 
 
 
 @njit_cached
-def _discharge(t_d: float, pol: float, k: int, breaks: np.ndarray, level: np.ndarray, slope: np.ndarray,
+def _discharge(t_d: float, pol: float, k: int, breaks: np.ndarray, pw: np.ndarray,
                orders: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray, par: np.ndarray, state: np.ndarray,
                lag_free: bool, n_written: int, out_time: np.ndarray, out_charge: np.ndarray,
                out_before: np.ndarray, out_after: np.ndarray, out_voltage: np.ndarray, totals: np.ndarray) -> None:
     """A discharge of polarity pol at t_d: x falls to pol·x_res (through q); the event is written at n_written."""
-    v_d = piece_voltage(t_d, k, breaks, level, slope, par[P_OMEGA], orders, a_coef, b_coef)
-    x_before = void_field(t_d, k, breaks, level, slope, orders, a_coef, b_coef, par, state)
+    v_d = piece_voltage(t_d, k, breaks, pw, par[P_OMEGA], orders, a_coef, b_coef)
+    x_before = void_field(t_d, k, breaks, pw, orders, a_coef, b_coef, par, state)
     if abs(x_before) < par[P_XINC]:
         x_before = pol * par[P_XINC]  # a root a rounding error short of the threshold
     x_after = pol * par[P_XRES]
@@ -375,7 +398,7 @@ def _invert_closed(t0: float, t1: float, need: float, ns: float, n_vol: float, t
 
 @njit_cached
 def _consume(t0: float, t1: float, x0: float, x1: float, pol: float, k: int, breaks: np.ndarray,
-             level: np.ndarray, slope: np.ndarray, orders: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray,
+             pw: np.ndarray, orders: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray,
              par: np.ndarray, state: np.ndarray, field_assisted: bool) -> float:
     """Spend the remaining hazard over the above-threshold window [t0, t1] (``|x|`` = x0, x1 at its ends): the
     discharge time, or -1.0 when the window ends first (the hazard spent is subtracted)."""
@@ -397,8 +420,8 @@ def _consume(t0: float, t1: float, x0: float, x1: float, pol: float, k: int, bre
         sub_end = t1
         if tau_s != math.inf and t + tau_s < t1:
             sub_end = t + tau_s
-        xa = x0 if t == t0 else abs(void_field(t, k, breaks, level, slope, orders, a_coef, b_coef, par, state))
-        xb = x1 if sub_end == t1 else abs(void_field(sub_end, k, breaks, level, slope, orders, a_coef, b_coef, par,
+        xa = x0 if t == t0 else abs(void_field(t, k, breaks, pw, orders, a_coef, b_coef, par, state))
+        xb = x1 if sub_end == t1 else abs(void_field(sub_end, k, breaks, pw, orders, a_coef, b_coef, par,
                                                      state))
         hi = max(xa, xb) / x_inc
         lo = min(xa, xb) / x_inc
@@ -415,7 +438,7 @@ def _consume(t0: float, t1: float, x0: float, x1: float, pol: float, k: int, bre
             u = np.random.random() * lam
             if u <= floor:
                 return t
-            x = abs(void_field(t, k, breaks, level, slope, orders, a_coef, b_coef, par, state))
+            x = abs(void_field(t, k, breaks, pw, orders, a_coef, b_coef, par, state))
             expo = x / x_inc
             if tau_s != math.inf:
                 expo -= (t - t_last) / tau_s
@@ -425,18 +448,18 @@ def _consume(t0: float, t1: float, x0: float, x1: float, pol: float, k: int, bre
 
 
 @njit_cached
-def _enter_piece(k: int, t: float, zval: float, breaks: np.ndarray, level: np.ndarray, slope: np.ndarray,
+def _enter_piece(k: int, t: float, zval: float, breaks: np.ndarray, pw: np.ndarray,
                  orders: np.ndarray, a_coef: np.ndarray, b_coef: np.ndarray, par: np.ndarray,
                  state: np.ndarray) -> None:
     """Start piece k at time t with the conduction part z = zval (continuous across pieces)."""
     state[S_K] = k
     if par[P_G] != 0.0:
-        state[S_CZ] = zval - _particular(t, k, breaks, level, slope, orders, a_coef, b_coef, par)
+        state[S_CZ] = zval - _particular(t, k, breaks, pw, orders, a_coef, b_coef, par)
         state[S_TZ] = t
 
 
 @njit_cached
-def initialise(state: np.ndarray, breaks: np.ndarray, level: np.ndarray, slope: np.ndarray, orders: np.ndarray,
+def initialise(state: np.ndarray, breaks: np.ndarray, pw: np.ndarray, orders: np.ndarray,
                a_coef: np.ndarray, b_coef: np.ndarray, par: np.ndarray) -> None:
     """An uncharged void in an unpolarised host at t = 0 (the instant of energisation).
 
@@ -444,7 +467,7 @@ def initialise(state: np.ndarray, breaks: np.ndarray, level: np.ndarray, slope: 
     ----------
     state : numpy.ndarray
         The state vector (layout ``S_*``), set in place.
-    breaks, level, slope : numpy.ndarray
+    breaks, pw : numpy.ndarray
         Piece starts [s], levels [V] and slopes [V/s].
     orders, a_coef, b_coef : numpy.ndarray
         Ripple orders [-] and amplitudes [V].
@@ -453,7 +476,7 @@ def initialise(state: np.ndarray, breaks: np.ndarray, level: np.ndarray, slope: 
     """
     state[:] = 0.0
     state[S_TLAST] = -math.inf
-    _enter_piece(0, 0.0, 0.0, breaks, level, slope, orders, a_coef, b_coef, par, state)
+    _enter_piece(0, 0.0, 0.0, breaks, pw, orders, a_coef, b_coef, par, state)
 
 
 @njit_cached
@@ -461,8 +484,7 @@ def run_time(
     state: np.ndarray,
     t_stop: float,
     breaks: np.ndarray,
-    level: np.ndarray,
-    slope: np.ndarray,
+    pw: np.ndarray,
     orders: np.ndarray,
     a_coef: np.ndarray,
     b_coef: np.ndarray,
@@ -484,7 +506,7 @@ def run_time(
         The state vector (layout ``S_*``; :func:`initialise`), updated in place.
     t_stop : float
         End of this call [s], at most ``breaks[-1]``.
-    breaks, level, slope : numpy.ndarray
+    breaks, pw : numpy.ndarray
         Piece starts with the end appended [s] (K + 1), levels [V] and slopes [V/s] (K).
     orders, a_coef, b_coef : numpy.ndarray
         Ripple orders [-] and sine and cosine amplitudes [V].
@@ -507,7 +529,7 @@ def run_time(
     capacity = out_time.size
     n_written = 0
     x_inc = par[P_XINC]
-    n_pieces = level.size
+    n_pieces = pw.shape[0]
     t = state[S_T]
     k = int(state[S_K])
     while t < t_stop:
@@ -519,45 +541,47 @@ def run_time(
         h = breaks[k + 1] - breaks[k]
         if h > 0.1 * par[P_TAU] or h > 0.1 * par[P_TAUQ]:
             h /= 16.0  # the decaying parts may turn x inside a long piece: scan it
+        if pw[k, PW_AMP] != 0.0 and h > 0.4 / pw[k, PW_OMEGA]:
+            h = 0.4 / pw[k, PW_OMEGA]  # 1/16 of the period of the piece's own sinusoid
         if par[P_SCAN] < h:
             h = par[P_SCAN]
-            if slope[k] == 0.0:
-                skip, inside = _safe_skip(t, k, level, a_coef, b_coef, orders, par, state)
+            if pw[k, PW_SLOPE] == 0.0 and pw[k, PW_AMP] == 0.0:
+                skip, inside = _safe_skip(t, k, pw, a_coef, b_coef, orders, par, state)
                 if inside and not lag_free and not field_assisted and skip > 4.0 * h:
                     # one window over the whole span: the hazard does not depend on x
                     w1 = t + skip if t + skip < piece_end else piece_end
-                    pol = 1.0 if void_field(t, k, breaks, level, slope, orders, a_coef, b_coef, par, state) > 0.0 \
+                    pol = 1.0 if void_field(t, k, breaks, pw, orders, a_coef, b_coef, par, state) > 0.0 \
                         else -1.0
-                    t_d = _consume(t, w1, 0.0, 0.0, pol, k, breaks, level, slope, orders, a_coef, b_coef, par,
+                    t_d = _consume(t, w1, 0.0, 0.0, pol, k, breaks, pw, orders, a_coef, b_coef, par,
                                    state, False)
                     if t_d >= 0.0:
-                        _discharge(t_d, pol, k, breaks, level, slope, orders, a_coef, b_coef, par, state, lag_free,
+                        _discharge(t_d, pol, k, breaks, pw, orders, a_coef, b_coef, par, state, lag_free,
                                    n_written, out_time, out_charge, out_before, out_after, out_voltage, totals)
                         n_written += 1
                         t = t_d
                         continue
                     t = w1
                     if t >= breaks[k + 1] and k + 1 < n_pieces:
-                        zval = _z(t, k, breaks, level, slope, orders, a_coef, b_coef, par, state)
+                        zval = _z(t, k, breaks, pw, orders, a_coef, b_coef, par, state)
                         k += 1
-                        _enter_piece(k, t, zval, breaks, level, slope, orders, a_coef, b_coef, par, state)
+                        _enter_piece(k, t, zval, breaks, pw, orders, a_coef, b_coef, par, state)
                     continue
                 if not inside and skip > 4.0 * h:
                     t = t + skip if t + skip < piece_end else piece_end
                     if t >= breaks[k + 1] and k + 1 < n_pieces:
-                        zval = _z(t, k, breaks, level, slope, orders, a_coef, b_coef, par, state)
+                        zval = _z(t, k, breaks, pw, orders, a_coef, b_coef, par, state)
                         k += 1
-                        _enter_piece(k, t, zval, breaks, level, slope, orders, a_coef, b_coef, par, state)
+                        _enter_piece(k, t, zval, breaks, pw, orders, a_coef, b_coef, par, state)
                     continue
         b = t + h
         if b > piece_end or piece_end - b < 1e-9 * h:
             b = piece_end
-        d0 = _dx(t, k, breaks, level, slope, orders, a_coef, b_coef, par, state)
-        d1 = _dx(b, k, breaks, level, slope, orders, a_coef, b_coef, par, state)
+        d0 = _dx(t, k, breaks, pw, orders, a_coef, b_coef, par, state)
+        d1 = _dx(b, k, breaks, pw, orders, a_coef, b_coef, par, state)
         if d0 != 0.0 and d1 != 0.0 and (d0 > 0.0) != (d1 > 0.0):
-            b = _turn(t, b, d0, k, breaks, level, slope, orders, a_coef, b_coef, par, state)
-        xa = void_field(t, k, breaks, level, slope, orders, a_coef, b_coef, par, state)
-        xb = void_field(b, k, breaks, level, slope, orders, a_coef, b_coef, par, state)
+            b = _turn(t, b, d0, k, breaks, pw, orders, a_coef, b_coef, par, state)
+        xa = void_field(t, k, breaks, pw, orders, a_coef, b_coef, par, state)
+        xb = void_field(b, k, breaks, pw, orders, a_coef, b_coef, par, state)
         rising = xb >= xa
         t_d = -1.0
         pol = 0.0
@@ -576,35 +600,35 @@ def run_time(
                 if pol * xb >= x_inc:
                     w1 = b
                 else:
-                    w1 = _root(pol * x_inc, t, b, k, breaks, level, slope, orders, a_coef, b_coef, par, state)
+                    w1 = _root(pol * x_inc, t, b, k, breaks, pw, orders, a_coef, b_coef, par, state)
                 x0, x1 = abs(xa), (abs(xb) if w1 == b else x_inc)
             else:
                 w1 = b
                 if pol * xa >= x_inc:
                     w0 = t
                 else:
-                    w0 = _root(pol * x_inc, t, b, k, breaks, level, slope, orders, a_coef, b_coef, par, state)
+                    w0 = _root(pol * x_inc, t, b, k, breaks, pw, orders, a_coef, b_coef, par, state)
                 x0, x1 = (abs(xa) if w0 == t else x_inc), abs(xb)
             if lag_free:
                 t_d = w0
                 break
             if w1 <= w0:
                 continue
-            t_d = _consume(w0, w1, x0, x1, pol, k, breaks, level, slope, orders, a_coef, b_coef, par, state,
+            t_d = _consume(w0, w1, x0, x1, pol, k, breaks, pw, orders, a_coef, b_coef, par, state,
                            field_assisted)
             if t_d >= 0.0:
                 break
         if t_d >= 0.0:
-            _discharge(t_d, pol, k, breaks, level, slope, orders, a_coef, b_coef, par, state, lag_free, n_written,
+            _discharge(t_d, pol, k, breaks, pw, orders, a_coef, b_coef, par, state, lag_free, n_written,
                        out_time, out_charge, out_before, out_after, out_voltage, totals)
             n_written += 1
             t = t_d
             continue
         t = b
         if t >= breaks[k + 1] and k + 1 < n_pieces:
-            zval = _z(t, k, breaks, level, slope, orders, a_coef, b_coef, par, state)
+            zval = _z(t, k, breaks, pw, orders, a_coef, b_coef, par, state)
             k += 1
-            _enter_piece(k, t, zval, breaks, level, slope, orders, a_coef, b_coef, par, state)
+            _enter_piece(k, t, zval, breaks, pw, orders, a_coef, b_coef, par, state)
     state[S_T] = t
     state[S_K] = k
     return n_written

@@ -129,8 +129,10 @@ class TimeDomainArguments:
 
     Attributes
     ----------
-    breaks, level, slope : numpy.ndarray
-        Supply pieces: starts with the end appended [s], levels [V], slopes [V/s].
+    breaks : numpy.ndarray
+        Supply pieces: starts with the end appended [s].
+    pw : numpy.ndarray
+        Per-piece table (level [V], slope [V/s], own sinusoid; ``PW_*`` columns of the kernel module).
     orders, a_coef, b_coef : numpy.ndarray
         Ripple (or periodic supply) orders [-] and sine and cosine amplitudes [V].
     params : numpy.ndarray
@@ -144,8 +146,7 @@ class TimeDomainArguments:
     """
 
     breaks: np.ndarray
-    level: np.ndarray
-    slope: np.ndarray
+    pw: np.ndarray
     orders: np.ndarray
     a_coef: np.ndarray
     b_coef: np.ndarray
@@ -171,8 +172,8 @@ class TimeDomainArguments:
         from pdvoid.kernels import conduction_events as K
 
         t = np.asarray(t, dtype=float)
-        k = np.clip(np.searchsorted(self.breaks, t, side="right") - 1, 0, self.level.size - 1)
-        return np.array([K.piece_voltage(float(ti), int(ki), self.breaks, self.level, self.slope,
+        k = np.clip(np.searchsorted(self.breaks, t, side="right") - 1, 0, self.pw.shape[0] - 1)
+        return np.array([K.piece_voltage(float(ti), int(ki), self.breaks, self.pw,
                                          float(self.params[K.P_OMEGA]), self.orders, self.a_coef, self.b_coef)
                          for ti, ki in zip(t, k, strict=True)])
 
@@ -244,7 +245,7 @@ def time_domain_arguments(scenario: Scenario, c: Coefficients, end: float) -> Ti
     if scenario.void.surface_conductivity > 0.0:
         refs += ("okonski1960",)
     return TimeDomainArguments(
-        breaks=p.breaks, level=p.level, slope=p.slope, orders=p.orders, a_coef=p.a_coef, b_coef=p.b_coef,
+        breaks=p.breaks, pw=p.table(), orders=p.orders, a_coef=p.a_coef, b_coef=p.b_coef,
         params=par, lag_free=m.lag_free, field_assisted=m.field_assisted, conduction=cond,
         references=tuple(dict.fromkeys(refs)),
     )

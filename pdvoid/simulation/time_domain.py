@@ -83,7 +83,7 @@ def simulate_time_domain(
     totals = np.zeros(K.TOTALS_SIZE)
     totals[K.T_FIRST] = np.nan
     K.seed_generator(seed)
-    K.initialise(state, args.breaks, args.level, args.slope, args.orders, args.a_coef, args.b_coef, args.params)
+    K.initialise(state, args.breaks, args.pw, args.orders, args.a_coef, args.b_coef, args.params)
     if not args.lag_free:
         K.start_wait(state)
     pieces: list[tuple[np.ndarray, ...]] = []
@@ -94,7 +94,7 @@ def simulate_time_domain(
         while finite and state[K.S_T] < t_stop:
             bufs = [np.empty(_BUFFER) for _ in range(5)]
             t_before = state[K.S_T]
-            n = K.run_time(state, t_stop, args.breaks, args.level, args.slope, args.orders, args.a_coef,
+            n = K.run_time(state, t_stop, args.breaks, args.pw, args.orders, args.a_coef,
                            args.b_coef, args.params, args.lag_free, args.field_assisted, *bufs, totals)
             if n == 0 and state[K.S_T] <= t_before:
                 raise RuntimeError("internal error: the time-domain kernel made no progress; please report this")

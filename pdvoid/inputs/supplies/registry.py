@@ -17,8 +17,8 @@ _REGISTRY: dict[str, type] = {}
 
 @dataclass(frozen=True, eq=False)
 class SupplyPieces:
-    """V(t) on [0, end] as pieces ``level_k + slope_k·(t − breaks_k)`` on [breaks_k, breaks_k+1) plus a ripple
-    ``Σ_m a_m sin(m ω t) + b_m cos(m ω t)`` on every piece.
+    """V(t) on [0, end] as pieces ``level_k + slope_k·(t − breaks_k) + amp_k·sin(omega_k·(t − breaks_k) + phase_k)``
+    on [breaks_k, breaks_k+1) plus a ripple ``Σ_m a_m sin(m ω t) + b_m cos(m ω t)`` on every piece.
 
     Attributes
     ----------
@@ -34,6 +34,9 @@ class SupplyPieces:
         Ripple harmonic orders m [-] (possibly empty).
     a_coef, b_coef : numpy.ndarray
         Sine and cosine amplitudes of each order [V].
+    amp, omega, phase : numpy.ndarray or None
+        The piece's own sinusoid: amplitude [V], angular frequency [rad/s] (> 0 where amp is not 0) and phase
+        [rad] (K values each), or None for none.
     """
 
     breaks: np.ndarray
@@ -43,6 +46,22 @@ class SupplyPieces:
     orders: np.ndarray
     a_coef: np.ndarray
     b_coef: np.ndarray
+    amp: np.ndarray | None = None
+    omega: np.ndarray | None = None
+    phase: np.ndarray | None = None
+
+    def table(self) -> np.ndarray:
+        """The per-piece table of the kernel: rows (level, slope, amp, omega, phase).
+
+        Returns
+        -------
+        numpy.ndarray
+            Shape (K, 5), float64.
+        """
+        k = self.level.size
+        z = np.zeros(k)
+        cols = [self.level, self.slope] + [z if c is None else c for c in (self.amp, self.omega, self.phase)]
+        return np.ascontiguousarray(np.stack([np.asarray(c, dtype=float) for c in cols], axis=1))
 
     def voltage(self, t: np.ndarray) -> np.ndarray:
         """V at times ``t`` [V] (t in [0, end]).
@@ -59,7 +78,10 @@ class SupplyPieces:
         """
         t = np.asarray(t, dtype=float)
         k = np.clip(np.searchsorted(self.breaks, t, side="right") - 1, 0, self.level.size - 1)
-        v = self.level[k] + self.slope[k] * (t - self.breaks[k])
+        u = t - self.breaks[k]
+        v = self.level[k] + self.slope[k] * u
+        if self.amp is not None and self.omega is not None and self.phase is not None:
+            v = v + self.amp[k] * np.sin(self.omega[k] * u + self.phase[k])
         w = 2.0 * math.pi * self.ripple_frequency
         for m, a, b in zip(self.orders, self.a_coef, self.b_coef, strict=True):
             v = v + a * np.sin(m * w * t) + b * np.cos(m * w * t)
