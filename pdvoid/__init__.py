@@ -26,7 +26,7 @@ from pdvoid.core.versions import show_versions
 from pdvoid.inputs.measurement import Instrument, TestCircuit
 from pdvoid.inputs.parameters import Insulation, Periodic, Sine, Void
 from pdvoid.inputs.scenario import Scenario
-from pdvoid.inputs.supplies import DC, PiecewiseLinear, PolarityReversal, SquareWave
+from pdvoid.inputs.supplies import DC, CosineRectangular, PiecewiseLinear, PolarityReversal, SquareWave
 from pdvoid.models import FieldModel, MemoryModel, NetworkModel
 from pdvoid.simulation.events import Events
 from pdvoid.simulation.results import Result, load
@@ -65,7 +65,7 @@ _SUBPACKAGES = {
 
 __all__ = [
     "__version__", "InputError", "ValidityWarning", "cite", "show_versions", "Insulation", "Void", "Sine", "Periodic",
-    "DC", "PolarityReversal", "PiecewiseLinear", "SquareWave",
+    "DC", "PolarityReversal", "PiecewiseLinear", "SquareWave", "CosineRectangular",
     "FieldModel", "MemoryModel", "NetworkModel", "Scenario", "Coefficients", "compute_coefficients", "Events",
     "simulate", "Result",
     "load",

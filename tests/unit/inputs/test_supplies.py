@@ -64,7 +64,8 @@ def test_scenario_file_names_the_supply_kinds(tmp_path):
     p.write_text(text.replace('rise_time = "2 s"', 'rise_time = "2 s"\nfrequency = "50 Hz"'), encoding="utf-8")
     with pytest.raises(pdvoid.InputError, match="supply.frequency"):
         pdvoid.Scenario.from_file(p)
-    assert supply_kinds() == ("dc", "polarity_reversal", "piecewise_linear", "square_wave")
+    assert supply_kinds() == ("dc", "polarity_reversal", "piecewise_linear", "square_wave",
+                             "cosine_rectangular")
 
 
 def test_lossless_files_are_written_as_before(tmp_path):
@@ -78,7 +79,8 @@ def test_polarity_reversal_and_piecewise_round_trip(tmp_path):
     for sup in (pdvoid.PolarityReversal(30e3, hold_time=100.0, ramp_time=5.0, reversals=3, rise_time=1.0,
                                         ripple=((6, 0.01, 0.0),), ripple_frequency=50.0),
                 pdvoid.PiecewiseLinear([0.0, 1.0, 3.0], [0.0, 2e4, -1e4]),
-                pdvoid.SquareWave(2e3, 2e4, 1e-7, duty=0.2, bipolar=False)):
+                pdvoid.SquareWave(2e3, 2e4, 1e-7, duty=0.2, bipolar=False),
+                pdvoid.CosineRectangular(2e4, 0.1, 0.05)):
         s = pdvoid.Scenario(pdvoid.Insulation(6e-3, 4.2), pdvoid.Void(1e-3, 1e-3), sup)
         assert pdvoid.Scenario.from_file(s.to_file(tmp_path / "s.toml")) == s
 
@@ -129,6 +131,9 @@ def test_piecewise_from_csv(tmp_path):
     lambda: pdvoid.PiecewiseLinear([0.0, 1.0], [0.0, 0.0]),
     lambda: pdvoid.PiecewiseLinear([0.0, 1.0, 2.0], [0.0, 1.0]),
     lambda: pdvoid.SquareWave(1e3, 1e3, 0.0),
+    lambda: pdvoid.CosineRectangular(1e3, 0.1, 5.0),
+    lambda: pdvoid.CosineRectangular(1e3, 0.1, 0.0),
+    lambda: pdvoid.CosineRectangular(0.0, 0.1, 0.01),
     lambda: pdvoid.SquareWave(1e3, 1e3, 1e-6, duty=1.0),
     lambda: pdvoid.SquareWave(1e3, 2e6, 1e-9),
     lambda: pdvoid.SquareWave(1e3, 1e3, 1e-6, bipolar="yes"),
