@@ -23,12 +23,16 @@ from pdvoid.core.errors import InputError
 from pdvoid.core.references import cite
 from pdvoid.core.validity import ValidityWarning
 from pdvoid.core.versions import show_versions
+from pdvoid.inputs.coaxial import Coaxial
 from pdvoid.inputs.measurement import Instrument, TestCircuit
+from pdvoid.inputs.multi_void import MultiVoidScenario
 from pdvoid.inputs.parameters import Insulation, Periodic, Sine, Void
+from pdvoid.inputs.population import VoidPopulation
 from pdvoid.inputs.scenario import Scenario
 from pdvoid.inputs.supplies import DC, CosineRectangular, PiecewiseLinear, PolarityReversal, SquareWave
 from pdvoid.models import FieldModel, MemoryModel, NetworkModel
 from pdvoid.simulation.events import Events
+from pdvoid.simulation.multi_void import MultiVoidResult, simulate_voids
 from pdvoid.simulation.results import Result, load
 from pdvoid.simulation.simulate import simulate
 
@@ -46,6 +50,8 @@ _LAZY = {
     "run_summary": "pdvoid.analysis.summary",
     "compare": "pdvoid.analysis.compare",
     "fit": "pdvoid.analysis.fit",
+    "void_count": "pdvoid.analysis.void_count",
+    "acceptance_probability": "pdvoid.analysis.population",
     "read_events": "pdvoid.io",
     "read_pattern_matrix": "pdvoid.io",
     "sweep": "pdvoid.sweeps",
@@ -67,8 +73,8 @@ __all__ = [
     "__version__", "InputError", "ValidityWarning", "cite", "show_versions", "Insulation", "Void", "Sine", "Periodic",
     "DC", "PolarityReversal", "PiecewiseLinear", "SquareWave", "CosineRectangular",
     "FieldModel", "MemoryModel", "NetworkModel", "Scenario", "Coefficients", "compute_coefficients", "Events",
-    "simulate", "Result",
-    "load",
+    "simulate", "Result", "MultiVoidScenario", "simulate_voids", "MultiVoidResult", "VoidPopulation",
+    "load", "Coaxial",
     "TestCircuit", "Instrument",
     *_LAZY,
 ]

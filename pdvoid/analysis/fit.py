@@ -25,7 +25,7 @@ from __future__ import annotations
 import math
 import time
 from collections.abc import Callable, Iterable, Sequence
-from dataclasses import dataclass, fields
+from dataclasses import dataclass
 from typing import Any, TypeVar
 
 import numpy as np
@@ -37,9 +37,11 @@ from pdvoid.analysis.measured import measure
 from pdvoid.analysis.synthetic import measurement_effects
 from pdvoid.core.errors import InputError, check_bool, check_int, check_nonnegative, check_positive
 from pdvoid.inputs.measurement import Instrument, TestCircuit
+from pdvoid.inputs.multi_void import MultiVoidScenario, numeric_parameters, parameter_value
 from pdvoid.inputs.parameters import check_seed
 from pdvoid.inputs.scenario import Scenario
 from pdvoid.simulation.events import Events
+from pdvoid.simulation.multi_void import MultiVoidResult, simulate_voids
 from pdvoid.simulation.simulate import simulate
 
 __all__ = ["FitResult", "fit", "FitObjective", "PENALTY"]
@@ -76,7 +78,7 @@ class FitObjective:
     ----------
     measured : Events, Result, PatternMatrix or PatternSummary
         The measured pattern; summarised once with ``threshold`` [-].
-    scenario : Scenario
+    scenario : Scenario or MultiVoidScenario
         The starting scenario; the varied parameters replace its values [-].
     specs : tuple of _Spec
         The varied parameters with their ranges (normalised coordinate 0 = low, 1 = high) [-].
@@ -93,7 +95,7 @@ class FitObjective:
         ``detector`` [-].
     """
 
-    def __init__(self, measured: PatternSource, scenario: Scenario, specs: tuple[_Spec, ...], *,
+    def __init__(self, measured: PatternSource, scenario: Scenario | MultiVoidScenario, specs: tuple[_Spec, ...], *,
                  threshold: float, cycles: int, seed: int, detector: dict | None,
                  measurement: tuple[TestCircuit, Instrument] | None = None) -> None:
         self.measurement = measurement
@@ -105,7 +107,7 @@ class FitObjective:
         self.detector = detector
         self.measured = summarise(measured, threshold)
 
-    def scenario_at(self, u: Sequence[float] | np.ndarray) -> Scenario:
+    def scenario_at(self, u: Sequence[float] | np.ndarray) -> Scenario | MultiVoidScenario:
         """The scenario at normalised coordinates ``u``.
 
         Parameters
@@ -143,14 +145,16 @@ class FitObjective:
         seed = self.seed if seed is None else seed
         try:
             sc = self.scenario_at(u)
-            res = simulate(sc, cycles=self.cycles, seed=seed)
+            res = (simulate_voids(sc, cycles=self.cycles, seed=seed) if isinstance(sc, MultiVoidScenario)
+                   else simulate(sc, cycles=self.cycles, seed=seed))
         except InputError:
             return PENALTY
         ev: Events | Any = res
         if self.measurement is not None:
             ev = measure(res, self.measurement[0], self.measurement[1], seed=seed)
         elif self.detector is not None:
-            ev = measurement_effects(res, seed, threshold=self.threshold, **self.detector)
+            ev = measurement_effects(res.events if isinstance(res, MultiVoidResult) else res, seed,
+                                     threshold=self.threshold, **self.detector)
         return float(compare(ev, self.measured, self.threshold).score)
 
     def __call__(self, u: Sequence[float] | np.ndarray) -> float:
@@ -211,7 +215,7 @@ class FitResult:
         simulations spent [-].
     elapsed : float
         wall time of the fit [s].
-    scenario : Scenario
+    scenario : Scenario or MultiVoidScenario
         the starting scenario with the best values.
     points, scores : numpy.ndarray
         every evaluated parameter set (SI, one row each) and its score.
@@ -227,7 +231,7 @@ class FitResult:
     bounds: dict[str, tuple[float, float]]
     runs: int
     elapsed: float
-    scenario: Scenario
+    scenario: Scenario | MultiVoidScenario
     points: np.ndarray
     scores: np.ndarray
 
@@ -259,13 +263,12 @@ class FitResult:
         return "\n".join(lines)
 
 
-def _specs(scenario: Scenario, vary: dict) -> tuple[_Spec, ...]:
+def _specs(scenario: Scenario | MultiVoidScenario, vary: dict) -> tuple[_Spec, ...]:
     if not isinstance(vary, dict) or not vary:
         raise InputError("vary must be a non-empty dict {'void.diameter': (low, high), ...}")
     if len(vary) > 20:
         raise InputError(f"vary may hold at most 20 parameters; got {len(vary)}")
-    numeric = {f"{part}.{f.name}" for part in ("insulation", "void", "model") for f in fields(getattr(scenario, part))
-               if isinstance(getattr(getattr(scenario, part), f.name), float)}
+    numeric = numeric_parameters(scenario)
     specs = []
     for name, bounds in vary.items():
         if name not in numeric:
@@ -285,7 +288,7 @@ _DETECTOR_KEYS = {"noise", "relative_noise", "phase_resolution_deg"}
 
 def fit(
     measured: PatternSource,
-    scenario: Scenario,
+    scenario: Scenario | MultiVoidScenario,
     vary: dict,
     *,
     threshold: float = 0.0,
@@ -309,8 +312,9 @@ def fit(
     ----------
     measured : Events, Result, PatternMatrix or PatternSummary
         measured events (:func:`pdvoid.read_events`), a Result, or a count matrix.
-    scenario : Scenario
-        the starting scenario (its other parameters stay fixed).
+    scenario : Scenario or MultiVoidScenario
+        the starting scenario (its other parameters stay fixed); a MultiVoidScenario is simulated with
+        :func:`pdvoid.simulate_voids` and its voids' parameters are named ``"voids[i].diameter"``.
     vary : dict
         {dotted parameter: (low, high)} in SI.
     threshold : float
@@ -352,8 +356,9 @@ def fit(
     InputError
         For a bad scenario, ``vary``, threshold, detector or run settings (checked before any simulation).
     """
-    if not isinstance(scenario, Scenario):
-        raise InputError(f"scenario must be a pdvoid.Scenario; got {type(scenario).__name__}")
+    if not isinstance(scenario, (Scenario, MultiVoidScenario)):
+        raise InputError(f"scenario must be a pdvoid.Scenario or pdvoid.MultiVoidScenario; got "
+                         f"{type(scenario).__name__}")
     specs = _specs(scenario, vary)
     threshold = check_nonnegative("threshold", threshold, "C")
     cycles = check_int("cycles", cycles, 10, 10_000_000)
@@ -436,6 +441,5 @@ class _SeededScore:
         return self.objective.score(self.u, seed=int(seed))
 
 
-def _get(scenario: Scenario, name: str) -> float:
-    part, field_name = name.split(".")
-    return getattr(getattr(scenario, part), field_name)
+def _get(scenario: Scenario | MultiVoidScenario, name: str) -> float:
+    return float(parameter_value(scenario, name))

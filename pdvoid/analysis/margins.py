@@ -16,6 +16,7 @@ from scipy.optimize import brentq
 from pdvoid.analysis.verdict import band_from_coefficients
 from pdvoid.coefficients import Coefficients, compute_coefficients
 from pdvoid.coefficients.closed_form import supply_peak_factor
+from pdvoid.coefficients.coaxial import proximity_thickness
 from pdvoid.coefficients.limits import HOST_STRENGTH_MARK, warn_host_strength
 from pdvoid.core.errors import InputError, check_array, check_positive
 from pdvoid.core.validity import collect_validity_notes, warn_validity
@@ -242,8 +243,9 @@ def largest_pd_free_void(scenario: Scenario, test_voltage: float) -> LargestVoid
     host_note = warn_host_strength(scenario.insulation, test_voltage * supply_peak_factor(scenario.supply),
                                    "at the test level")
     aspect = scenario.void.height / scenario.void.diameter
-    # the closed forms need a void small compared with the insulation: search up to half its thickness
-    d_max = min(0.5 * scenario.insulation.thickness / aspect, 1.0)
+    # the closed forms need a void small compared with the insulation: search up to half its thickness (in a
+    # coaxial insulation: up to the distance from the void centre to the nearer conductor)
+    d_max = min(0.5 * proximity_thickness(scenario.insulation, scenario.void) / aspect, 1.0)
     # the smallest void Void accepts (diameter and height >= 0.1 µm), with a margin against rounding in d·aspect
     d_min = max(1e-6, 1e-7 / min(aspect, 1.0)) * (1.0 + 1e-9)
 

@@ -67,7 +67,9 @@ class InstrumentResponse:
     calibration_reading : float
         uncalibrated reading of the calibrator's charge [C].
     scale : float
-        calibration factor |q_0 / calibration_reading|, signed so that a lone positive pulse reads positive
+        the factor every uncalibrated reading is multiplied by: the calibration factor
+        ``|q_0 / calibration_reading|`` (:attr:`calibration_factor`, positive) times the :attr:`polarity`, so
+        that a lone positive pulse reads positive
         (a narrow-band output's carrier can put the calibrator's and a discharge's largest half-wave at
         opposite signs; polarity is referred to a lone discharge's response) [-].
     dt : float
@@ -93,6 +95,19 @@ class InstrumentResponse:
     window: float
     hold: float
     noise_moments: tuple[float, float]
+
+    @property
+    def calibration_factor(self) -> float:
+        """The calibration factor q_0 / ``|calibration_reading|``: the calibrator's charge over the magnitude of
+        its uncalibrated reading, always positive [-]."""
+        return abs(self.scale)
+
+    @property
+    def polarity(self) -> float:
+        """+1 when a lone positive discharge's largest output half-wave is positive, -1 when it is negative (a
+        narrow-band output's carrier can do that); the readings are referred to it so that a positive discharge
+        reads positive [-]."""
+        return math.copysign(1.0, self.peak)
 
 
 def _unit_response(poles: np.ndarray, residues: np.ndarray, t: np.ndarray) -> np.ndarray:
@@ -225,7 +240,8 @@ def measure(
     Events
         the readings as a measured file holds them: ``phase_deg`` (rounded to the phase resolution), signed
         ``charge`` (as read) [C], ``cycle``, ``time`` of each reading's peak [s], the input's label with
-        "(as measured)", ``extra["instrument"]`` recording the chain (transfer ratio, calibration factor,
+        "(as measured)", ``extra["instrument"]`` recording the chain (transfer ratio, calibration factor
+        q_0 / ``|reading|`` (positive) and the polarity the readings were referred to,
         hold and window times, counts) and ``extra["threshold"]`` the threshold in the units read [C].
 
     Raises
@@ -261,7 +277,7 @@ def measure(
         time = np.concatenate([time, it[keep]])
         q = np.concatenate([q, iq[keep]])
     order = np.argsort(time, kind="stable")
-    gain = abs(resp.scale)
+    gain = resp.calibration_factor
     trigger = inst.threshold / gain
     t_read, raw, _ = bandpass_readings(
         np.ascontiguousarray(time[order]), np.ascontiguousarray(q[order] * resp.transfer_ratio), resp.poles,
@@ -288,7 +304,7 @@ def measure(
         raw = np.concatenate([raw, sign * mag])
         o = np.argsort(t_read, kind="stable")
         t_read, raw = t_read[o], raw[o]
-    reading = raw * resp.scale if calibrate else raw * math.copysign(1.0, resp.peak)
+    reading = raw * resp.scale if calibrate else raw * resp.polarity
     threshold_read = inst.threshold if calibrate else trigger
     cycle = np.floor(t_read * f)
     phase = 360.0 * (t_read * f - cycle)
@@ -304,7 +320,8 @@ def measure(
         "f_high": inst.f_high,
         "order": inst.order,
         "transfer_ratio": resp.transfer_ratio,
-        "calibration_factor": resp.scale,
+        "calibration_factor": resp.calibration_factor,
+        "reading_polarity": resp.polarity,
         "calibrated": calibrate,
         "hold": resp.hold,
         "window": resp.window,

@@ -7,6 +7,7 @@ import dataclasses
 import math
 from typing import TYPE_CHECKING
 
+from pdvoid.coefficients.coaxial import local_gap, proximity_thickness, warn_coaxial_limits
 from pdvoid.coefficients.cylinder import cylinder_coefficients
 from pdvoid.coefficients.limits import (
     warn_closed_form_limits,
@@ -16,6 +17,7 @@ from pdvoid.coefficients.limits import (
 )
 from pdvoid.coefficients.record import Coefficients
 from pdvoid.core.errors import InputError
+from pdvoid.inputs.coaxial import Coaxial
 from pdvoid.inputs.materials import GasData, get_gas
 from pdvoid.inputs.supplies import TimeSupply
 from pdvoid.inputs.waveform import peak_value
@@ -85,6 +87,13 @@ def compute_coefficients(scenario: Scenario) -> Coefficients:
         raise InputError("insulation.permittivity or insulation.material must be given; got neither")
     D, h = void.diameter, void.height
     refs = ["niemeyer1995", "gutfleisch1995", "hess1951"]
+    # the plane slab with the applied and weighting fields of the void centre: d itself for a plane slab,
+    # r ln(R/r_i) in a coaxial insulation (pdvoid.coefficients.coaxial)
+    coax = isinstance(ins, Coaxial)
+    d_loc = local_gap(ins, void)
+    if coax:
+        refs += ["kuffel2000_fields", "pedersen1991"]
+        warn_coaxial_limits(ins, void)
 
     if void.shape == "spheroid":
         # a void on an electrode is half a spheroid; with its mirror image in the equipotential electrode it is a
@@ -94,17 +103,19 @@ def compute_coefficients(scenario: Scenario) -> Coefficients:
         n = float(depolarization_spheroid(D, h_full))
         f = float(field_enhancement(er, n))
         omega = float(spheroid_volume(D, h_full)) * (h / h_full)
-        c_field = float(induced_charge_per_field(er, n, omega, d))
-        if f * h < d:
+        c_field = float(induced_charge_per_field(er, n, omega, d_loc))
+        if f * h < d_loc:
             if void.position == "centred":
-                equivalent = spheroid_network_equivalent(D, h, d, er)
+                equivalent = spheroid_network_equivalent(D, h, d_loc, er)
                 c_b, c_c = float(equivalent.c_b), float(equivalent.c_c)
             else:
                 c_b, c_c = c_field / h, c_field / h * (d / (f * h) - 1.0)
         elif model.gain_from_network and model.network_capacitances() is None:
             raise InputError(
                 f"void.height {h:g} m is too large for the network equivalent of a spheroid in "
-                f"insulation.thickness {d:g} m (needs f·height < thickness; f = {f:.4g})"
+                + (f"the local gap r ln(R/r_i) = {d_loc:g} m of the coaxial insulation (needs f·height < gap; "
+                   if coax else f"insulation.thickness {d:g} m (needs f·height < thickness; ")
+                + f"f = {f:.4g})"
             )
         else:
             c_b = c_c = math.nan  # the field model does not need the network equivalent
@@ -113,21 +124,21 @@ def compute_coefficients(scenario: Scenario) -> Coefficients:
         # a void on an electrode: the same image construction as for the spheroid (mirrored void of height 2h
         # centred in a slab 2d thick; same field, same charge per field)
         mirror = 1.0 if void.position == "centred" else 2.0
-        cyl = cylinder_coefficients(D, mirror * h, mirror * d, er)
+        cyl = cylinder_coefficients(D, mirror * h, mirror * d_loc, er)
         f, n, c_field = cyl.field_enhancement, cyl.depolarization, cyl.charge_per_field
         omega = cyl.volume / mirror
         c_b = c_field / h
-        k_eq = f * h / d
+        k_eq = f * h / d_loc
         c_c = c_b * (1.0 / k_eq - 1.0) if k_eq < 1.0 else math.nan
         refs += ["cylinder_table", "crichton1989", "pedersen1991", "stratton1941", "gemant1932", "kreuger1989",
                  "kuffel2000"]
     if void.field_enhancement is None:
-        warn_closed_form_limits(void.shape, D, h, d, er, void.position, n)
+        warn_closed_form_limits(void.shape, D, h, proximity_thickness(ins, void), er, void.position, n)
     # a numerical field solution replaces the closed forms (Void requires both values together)
     if void.field_enhancement is not None and void.charge_per_field is not None:
         f, c_field = void.field_enhancement, void.charge_per_field
         n = (er / f - er) / (1.0 - er) if er > 1.0 and f != er else math.nan
-        k_eq = f * h / d
+        k_eq = f * h / d_loc
         c_b = c_field / h
         c_c = c_b * (1.0 / k_eq - 1.0) if k_eq < 1.0 else math.nan
         refs.append("pedersen1991")
@@ -178,7 +189,7 @@ def compute_coefficients(scenario: Scenario) -> Coefficients:
         gain_field = k / h  # void field per applied volt
         refs += ["gemant1932", "kreuger1989"]
     else:
-        gain_field = f / d
+        gain_field = f / d_loc
     pf = supply_peak_factor(scenario.supply)
 
     def u_inc(e: float) -> float:
@@ -191,7 +202,8 @@ def compute_coefficients(scenario: Scenario) -> Coefficients:
         warn_host_strength(scenario.insulation, e_inc / gain_field, "at the inception voltage")
     n_vol = float(volume_electron_rate(omega, p_gas, void.temperature,
                                        ionization_rate=model.ionization_rate, electron_yield=model.electron_yield))
-    f_eff = gain_field * d if model.gain_from_network else f
+    # the field enhancement is per mean field V/d; in a coaxial insulation it includes the local field factor
+    f_eff = gain_field * d if model.gain_from_network or coax else f
     return Coefficients(
         field_enhancement=f_eff,
         depolarization=n,
@@ -218,6 +230,7 @@ def compute_coefficients(scenario: Scenario) -> Coefficients:
         inception_reason=chosen.reason,
         inception_voltage_streamer_range=(u_inc(e_range[0]), u_inc(e_range[1])),
         critical_field_range=cr_range,
+        local_field_factor=d / d_loc if coax else 1.0,
     )
 
 

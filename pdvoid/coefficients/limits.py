@@ -23,8 +23,10 @@ from __future__ import annotations
 import math
 from typing import TYPE_CHECKING
 
+from pdvoid.coefficients.coaxial import peak_field_per_volt
 from pdvoid.coefficients.cylinder import TABLE_ASPECT_RANGE, electrode_proximity_error
 from pdvoid.core.validity import warn_validity
+from pdvoid.inputs.coaxial import Coaxial
 
 if TYPE_CHECKING:
     from pdvoid.inputs.parameters import Insulation
@@ -246,13 +248,19 @@ def warn_host_strength(insulation: Insulation, peak_voltage: float, situation: s
     if known is None:
         return None
     strength, source = known
-    field = peak_voltage / insulation.thickness
+    coaxial = isinstance(insulation, Coaxial)  # the field is highest at the inner conductor
+    if coaxial:
+        field = peak_voltage * peak_field_per_volt(insulation)
+        where = f"at the inner conductor, {peak_voltage / 1e3:.4g} kV over a {_mm(insulation.thickness)} wall"
+    else:
+        field = peak_voltage / insulation.thickness
+        where = f"{peak_voltage / 1e3:.4g} kV over {_mm(insulation.thickness)}"
     ratio = field / strength
     if ratio < STRENGTH_FRACTION:
         return None
     message = (
-        f"{situation} the mean field in the host is {field / 1e6:.3g} kV/mm peak ({peak_voltage / 1e3:.4g} kV over "
-        f"{_mm(insulation.thickness)}), which is {ratio * 100:.0f} % {HOST_STRENGTH_MARK} "
+        f"{situation} the {'highest' if coaxial else 'mean'} field in the host is {field / 1e6:.3g} kV/mm peak "
+        f"({where}), which is {ratio * 100:.0f} % {HOST_STRENGTH_MARK} "
         f"{strength / 1e6:.3g} kV/mm ({source}): the insulation itself may fail, which the void model does "
         "not describe"
     )

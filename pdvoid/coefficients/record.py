@@ -23,7 +23,8 @@ class Coefficients:
     Attributes
     ----------
     field_enhancement : float
-        Void field per applied uniform field V/d [-].
+        Void field per applied uniform field V/d [-] (per mean field V/(R − r_i) in a coaxial insulation; see
+        ``local_field_factor``).
     depolarization : float
         Depolarisation factor N along the field [-] (an effective value for a cylinder or a solved outline).
     volume : float
@@ -81,6 +82,10 @@ class Coefficients:
         memory); (NaN, NaN) when the gas quotes no spread.
     critical_field_range : tuple of float
         That spread of (E/p)_cr [V/(Pa m)], (NaN, NaN) when none is quoted.
+    local_field_factor : float
+        Applied field at the void centre per mean field V/thickness [-]: 1 in a plane slab; in a coaxial
+        insulation (R − r_i)/(r ln(R/r_i)), which ``field_enhancement`` includes (the void's own enhancement is
+        ``field_enhancement / local_field_factor``).
     """
 
     field_enhancement: float
@@ -109,6 +114,7 @@ class Coefficients:
     inception_reason: str = ""
     inception_voltage_streamer_range: tuple[float, float] = (math.nan, math.nan)
     critical_field_range: tuple[float, float] = (math.nan, math.nan)
+    local_field_factor: float = 1.0
 
     def as_dict(self) -> dict[str, Any]:
         """The numbers as a plain dictionary (the numerical solution, if any, left out).

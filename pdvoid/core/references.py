@@ -68,6 +68,9 @@ REFERENCES: dict[str, Reference] = dict(
            "London 1989 (three-capacitance model)", "from memory"),
         _r("kuffel2000", "E. Kuffel, W. S. Zaengl, J. Kuffel, High Voltage Engineering: Fundamentals, 2nd ed., "
            "Newnes, Oxford 2000 (PD measurement chapter; gas breakdown chapter)", "from memory"),
+        _r("kuffel2000_fields", "E. Kuffel, W. S. Zaengl, J. Kuffel, High Voltage Engineering: Fundamentals, "
+           "2nd ed., Newnes, Oxford 2000 (electrostatic fields chapter: the coaxial cylindrical field "
+           "E = V/(r ln(R/r_i)))", "from memory"),
         _r("niemeyer1995", "L. Niemeyer, 'A generalized approach to partial discharge modeling', IEEE Trans. "
            "Dielectr. Electr. Insul. 2(4) (1995) 510-528", "confirmed"),
         _r("gutfleisch1995", "F. Gutfleisch, L. Niemeyer, 'Measurement and simulation of PD in epoxy voids', "
@@ -204,6 +207,12 @@ REFERENCES: dict[str, Reference] = dict(
         _r("conduction_derived", "pdvoid, derived: void field in a conducting host as the response "
            "H(s) = f_cap + (f_res - f_cap)/(1 + s tau) of the complex-permittivity ellipsoid solution (docs, "
            "guide 'Conducting insulation and DC supplies')", "derived"),
+        _r("breiman1984", "L. Breiman, J. H. Friedman, R. A. Olshen, C. J. Stone, Classification and Regression "
+           "Trees, Wadsworth 1984, §3.4.3 (the one-standard-error rule)", "from memory"),
+        _r("hastie2009", "T. Hastie, R. Tibshirani, J. Friedman, The Elements of Statistical Learning, 2nd ed., "
+           "Springer 2009, §7.10 (cross-validation and the one-standard-error rule)", "from memory"),
+        _r("wilson1927", "E. B. Wilson, 'Probable inference, the law of succession, and statistical inference', "
+           "J. Am. Stat. Assoc. 22 (1927) 209-212 (the score interval of a binomial proportion)", "from memory"),
     ]
 )
 

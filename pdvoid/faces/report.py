@@ -96,7 +96,8 @@ def sensitivity(scenario: Scenario, change: float = 0.2) -> list[SensitivityRow]
     lowered and raised by ``change``, all else kept.
 
     Recomputed from the coefficients of ``scenario.replace(...)``; a variation that makes the scenario invalid
-    gives NaN.
+    gives NaN. For a cable (:class:`~pdvoid.Coaxial`) the insulation wall is varied by moving the outer radius,
+    the conductor radius and the void's radial position kept.
 
     Parameters
     ----------
@@ -126,9 +127,16 @@ def sensitivity(scenario: Scenario, change: float = 0.2) -> list[SensitivityRow]
         part, name = path.split(".")
         value = float(getattr(getattr(scenario, part), name))
         out = []
+        inner = getattr(scenario.insulation, "inner_radius", None)
+        if path == "insulation.thickness" and inner is not None:
+            label = "insulation wall (outer radius moved)"  # a cable: the wall is outer minus inner radius
         for factor in (1.0 - change, 1.0 + change):
             try:
-                c = compute_coefficients(scenario.replace(**{path: value * factor}))
+                if path == "insulation.thickness" and inner is not None:
+                    varied = scenario.replace(**{"insulation.outer_radius": inner + value * factor})
+                else:
+                    varied = scenario.replace(**{path: value * factor})
+                c = compute_coefficients(varied)
                 out.append((c.inception_voltage, c.charge_per_discharge))
             except InputError:
                 out.append((math.nan, math.nan))
@@ -250,6 +258,7 @@ def design_review(
     figures: str | None = None,
     circuit: TestCircuit | None = None,
     instrument: Instrument | None = None,
+    scenario_file: str | os.PathLike[str] | None = None,
 ) -> ReviewPack:
     """Write the design-review pack of ``scenario`` as a multi-page PDF.
 
@@ -280,6 +289,10 @@ def design_review(
     circuit, instrument : TestCircuit and Instrument, optional
         the measuring chain whose assumptions the assumptions page states; without them the page says that
         charges are apparent charges read by an ideal instrument [-].
+    scenario_file : str or os.PathLike, optional
+        The file ``scenario`` was read from: the scenario table then gives each input's origin (scenario file,
+        parameter set or pdvoid default) from the keys the file sets, not from the values; without it the
+        origin is the Scenario object [-].
 
     Returns
     -------
@@ -303,6 +316,9 @@ def design_review(
     cycles = check_int("cycles", cycles, 1, 1_000_000)
     seed = check_seed(seed)
     path, fmt = _check_out(out, figures)
+    if scenario_file is not None and not isinstance(scenario_file, (str, os.PathLike)):
+        raise InputError(f"scenario_file must be a path to the scenario's TOML file; got {scenario_file!r}")
+    given = None if scenario_file is None else _file_keys(scenario_file)
     measurement_notes: tuple[str, ...] = ()
     if circuit is not None or instrument is not None:
         if not isinstance(circuit, TestCircuit) or not isinstance(instrument, Instrument):
@@ -337,7 +353,7 @@ def design_review(
         tables=tables,
         material=_material_rows(scenario),
         gas=_gas_rows(scenario),
-        inputs=_input_rows(scenario),
+        inputs=_input_rows(scenario, given),
         references=cite(result),
         safety=SAFETY_NOTE,
         version=__version__,
@@ -446,39 +462,83 @@ _MODEL_UNITS = {
 }
 
 
-def _input_rows(scenario: Scenario) -> list[list[str]]:
+def _file_keys(path: str | os.PathLike[str]) -> frozenset[str]:
+    """The keys a scenario file sets, as "part.key" (e.g. "model.residual_ratio")."""
+    from pdvoid.core.files import read_toml_file
+    from pdvoid.inputs.scenario_files import MAX_FILE_BYTES
+
+    data = read_toml_file(Path(path), MAX_FILE_BYTES, "scenario file")
+    return frozenset(f"{part}.{key}" for part in ("insulation", "void", "supply", "model")
+                     if isinstance(data.get(part), dict) for key in data[part])
+
+
+def _input_rows(scenario: Scenario, given: frozenset[str] | None = None) -> list[list[str]]:
+    """The scenario table: input, value, unit and origin. With ``given`` (the keys the scenario file sets) the
+    origin says where each value came from: "scenario file", "parameter set <name>" (a memory model's values
+    from its named set) or "pdvoid default"; without it (a Scenario built in Python) every value is the
+    Scenario object's, and a model value equal to pdvoid's default says so."""
     ins, void, sup, model = scenario.insulation, scenario.void, scenario.periodic_supply, scenario.model
-    src = "scenario input"
-    rows = [
-        ["insulation thickness", f"{ins.thickness * 1e3:.4g}", "mm", src],
-        ["void diameter (across the field)", f"{void.diameter * 1e3:.4g}", "mm", src],
-        ["void height (along the field)", f"{void.height * 1e3:.4g}", "mm", src],
-        ["void shape", void.shape, "-", src],
-        ["gas", void.gas, "-", src],
-        ["gas pressure", f"{void.pressure / 1e3:.4g}", "kPa", src],
-        ["gas temperature", f"{void.temperature:.4g}", "K", src],
+    own_set = getattr(model, "parameter_set", None)
+    set_values: frozenset[str] = frozenset()
+    if isinstance(own_set, str):
+        from pdvoid.inputs.model_sets import get_parameter_set
+
+        set_values = frozenset(get_parameter_set(own_set).values)
+    defaults = type(model)()
+
+    def origin(key: str) -> str:
+        if given is None:
+            part, _, name = key.partition(".")
+            if part == "model" and getattr(defaults, name, None) == getattr(model, name):
+                return "Scenario object (default value)"
+            return "Scenario object"
+        if key in given:
+            return "scenario file"
+        if key.startswith("model.") and key[6:] in set_values:
+            return f"parameter set {own_set}"
+        return "pdvoid default"
+
+    inner = getattr(ins, "inner_radius", None)
+    if inner is not None:  # a cable (Coaxial): the wall follows from the two radii
+        rows = [
+            ["conductor radius (inner radius of the insulation)", f"{inner * 1e3:.4g}", "mm",
+             origin("insulation.inner_radius")],
+            ["outer radius of the insulation", f"{ins.outer_radius * 1e3:.4g}", "mm",
+             origin("insulation.outer_radius")],
+            ["insulation wall", f"{ins.thickness * 1e3:.4g}", "mm", "derived: outer minus inner radius"],
+            ["void centre from the cable axis", f"{void.radial_position * 1e3:.4g}", "mm",
+             origin("void.radial_position")],
+        ]
+    else:
+        rows = [["insulation thickness", f"{ins.thickness * 1e3:.4g}", "mm", origin("insulation.thickness")]]
+    rows += [
+        ["void diameter (across the field)", f"{void.diameter * 1e3:.4g}", "mm", origin("void.diameter")],
+        ["void height (along the field)", f"{void.height * 1e3:.4g}", "mm", origin("void.height")],
+        ["void shape", void.shape, "-", origin("void.shape")],
+        ["gas", void.gas, "-", origin("void.gas")],
+        ["gas pressure", f"{void.pressure / 1e3:.4g}", "kPa", origin("void.pressure")],
+        ["gas temperature", f"{void.temperature:.4g}", "K", origin("void.temperature")],
         [
             "streamer length",
             f"{void.streamer_length * 1e3:.4g}",
             "mm",
-            src if void.inception_length is not None else "default: the void height",
+            origin("void.inception_length") if void.inception_length is not None else "default: the void height",
         ],
     ]
     if isinstance(sup, Periodic):
-        rows.append(["supply waveform", f"periodic, {sup.samples.size} samples", "-", src])
+        rows.append(["supply waveform", f"periodic, {sup.samples.size} samples", "-", origin("supply.samples")])
     else:
         harm = ", ".join(f"{m}: {h:g} at {p:g} deg" for m, h, p in sup.harmonics) or "none"
-        rows.append(["supply harmonics (order: fraction at phase)", harm, "-", src])
-    rows.append(["supply frequency", f"{sup.frequency:g}", "Hz", src])
+        rows.append(["supply harmonics (order: fraction at phase)", harm, "-", origin("supply.harmonics")])
+    rows.append(["supply frequency", f"{sup.frequency:g}", "Hz", origin("supply.frequency")])
     kind = model.title
-    rows.append(["model", kind, "-", src])
+    rows.append(["model", kind, "-", origin("model.kind")])
     named = sets_matching(model)
     rows.append(["model parameter set", ", ".join(named) or "none (values as given)", "-",
-                 "its values' sources: pdvoid.cite" if named else src])
-    defaults = type(model)()
+                 "its values' sources: pdvoid.cite" if named else origin("model.parameter_set")])
     for f in fields(model):
         v = getattr(model, f.name)
-        if v is None:
+        if v is None or f.name == "parameter_set":
             continue
         unit, scale = _MODEL_UNITS.get(f.name, ("-", 1.0))
         if isinstance(v, bool) or isinstance(v, str):
@@ -487,6 +547,5 @@ def _input_rows(scenario: Scenario) -> list[list[str]]:
             text = "none (no decay)" if "decay" in f.name else "inf"
         else:
             text = f"{v / scale:.4g}"
-        origin = "pdvoid default" if getattr(defaults, f.name) == v else src
-        rows.append([f"model: {f.name.replace('_', ' ')}", text, unit, origin])
+        rows.append([f"model: {f.name.replace('_', ' ')}", text, unit, origin(f"model.{f.name}")])
     return rows

@@ -114,6 +114,9 @@ class Void:
     position : str
         "centred" (far from both electrodes), or "high_voltage_electrode" / "ground_electrode" for a
         void whose flat side lies on that electrode (a half spheroid; closed forms by the image method).
+    radial_position : float or None
+        distance of the void centre from the cable axis [m], for a void in a :class:`pdvoid.Coaxial` insulation
+        (required there, refused for a plane slab); the void must lie inside the wall, r_i < r ∓ height/2 < R.
     field_enhancement : float or None
         void field / (V/d) [-] from a numerical field solution (pdvoid.fields), replacing
         the closed form for geometries it does not cover; give it together with ``charge_per_field``.
@@ -151,6 +154,7 @@ class Void:
     sealed: bool = False
     fill_temperature: float | None = None
     secondary_emission: float | None = None
+    radial_position: float | None = None
     surface_conductivity: float = 0.0
 
     def __post_init__(self) -> None:
@@ -164,6 +168,9 @@ class Void:
             _set(self, "inception_length",
                  check_range("void.inception_length", self.inception_length, 1e-7, 1.0, unit="m"))
         check_choice("void.position", self.position, VOID_POSITIONS)
+        if self.radial_position is not None:
+            _set(self, "radial_position", check_range("void.radial_position", self.radial_position, 0.0, 5.0,
+                                                      low_open=True, unit="m"))
         given = (self.field_enhancement is not None, self.charge_per_field is not None)
         if given[0] != given[1]:
             raise InputError("void.field_enhancement and void.charge_per_field must be given together")

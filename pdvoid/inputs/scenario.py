@@ -8,6 +8,7 @@ from pathlib import Path
 from typing import Any
 
 from pdvoid.core.errors import InputError
+from pdvoid.inputs.geometries import check_void_placement
 from pdvoid.inputs.model_parameters import ModelParameters, default_model
 from pdvoid.inputs.parameters import Insulation, Periodic, Sine, Void
 from pdvoid.inputs.scenario_files import parts_from_dict, read_scenario_parts, write_scenario_file
@@ -24,8 +25,8 @@ class Scenario:
 
     Attributes
     ----------
-    insulation : pdvoid.Insulation
-        The host slab.
+    insulation : pdvoid.Insulation or pdvoid.Coaxial
+        The host slab, or a cable's coaxial insulation (then ``void.radial_position`` places the void).
     void : pdvoid.Void
         The gas-filled void.
     supply : pdvoid.Sine, pdvoid.Periodic, pdvoid.DC, pdvoid.PolarityReversal or pdvoid.PiecewiseLinear
@@ -61,6 +62,7 @@ class Scenario:
             raise InputError(
                 f"void.height must be smaller than insulation.thickness ({d:g} m); got {self.void.height:g} m"
             )
+        check_void_placement(self.insulation, self.void)
         if not isinstance(self.name, str) or len(self.name) > 200:
             raise InputError(f"scenario.name must be text of at most 200 characters; got {self.name!r}")
 
@@ -214,6 +216,9 @@ def with_changes(scenario: Scenario, changes: dict[str, Any]) -> Scenario:
         obj = getattr(scenario, part)
         if name not in {f.name for f in fields(obj)}:
             raise InputError(f"{key!r}: {type(obj).__name__} has no field {name!r}")
+        if name not in {f.name for f in fields(obj) if f.init}:
+            raise InputError(f"{key!r} is derived in a {type(obj).__name__} and cannot be changed; change what it is "
+                             f"derived from ({', '.join(f.name for f in fields(obj) if f.init)})")
         parts.setdefault(part, {})[name] = value
     new = {part: replace(getattr(scenario, part), **kv) for part, kv in parts.items()}
     return replace(scenario, **new)

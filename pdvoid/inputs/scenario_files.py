@@ -6,11 +6,13 @@ files written by pdvoid carry SI units.
 Layout (every key optional unless the class requires it; bare numbers are SI)::
 
     name = "..."
-    [insulation]   thickness, permittivity, material, area, dielectric_strength, conductivity (S/m)
-    [void]         diameter, height, pressure, gas, temperature, shape, inception_length,
-                   surface_conductivity (S)
-    [supply]       kind = "sine" | "periodic" | "dc" | "polarity_reversal" | "piecewise_linear";
-                   sine: rms, frequency, harmonics = [[order, fraction, phase_deg]]
+    [insulation]   kind = "slab" (default) | "coaxial"; slab: thickness, permittivity, material, area,
+                   dielectric_strength, conductivity (S/m); coaxial: inner_radius, outer_radius, permittivity,
+                   material, dielectric_strength
+    [void]         diameter, height, pressure, gas, temperature, shape, inception_length, radial_position
+                   (coaxial only), surface_conductivity (S)
+    [supply]       kind = "sine" | "periodic" | "dc" | "polarity_reversal" | "piecewise_linear" | "square_wave"
+                   | "cosine_rectangular"; sine: rms, frequency, harmonics = [[order, fraction, phase_deg]]
                    periodic: samples (V, one period), frequency, max_harmonic
                    dc: voltage, ripple = [[order, fraction, phase_deg]], ripple_frequency, rise_time
                    polarity_reversal: voltage, hold_time, ramp_time, reversals, rise_time, ripple,
@@ -33,6 +35,8 @@ from pdvoid.core.errors import InputError
 from pdvoid.core.files import atomic_write, read_toml_file
 from pdvoid.core.limits import MAX_TEXT_FILE_BYTES
 from pdvoid.core.units import parse_quantity
+from pdvoid.inputs.coaxial import Coaxial
+from pdvoid.inputs.geometries import insulation_class, insulation_kind
 from pdvoid.inputs.model_parameters import model_class, model_kinds
 from pdvoid.inputs.parameters import Insulation, Periodic, Sine, Void
 from pdvoid.inputs.supplies import TimeSupply, supply_class, supply_kinds
@@ -53,6 +57,7 @@ _DIMS: dict[str, dict[str, tuple[str | None, str]]] = {
     "void": {"diameter": ("length", "m"), "height": ("length", "m"), "pressure": ("pressure", "Pa"),
              "gas": (None, ""), "temperature": ("temperature", "K"), "shape": (None, ""),
              "inception_length": ("length", "m"), "position": (None, ""),
+             "radial_position": ("length", "m"),
              "field_enhancement": ("dimensionless", ""), "charge_per_field": ("charge per field", "C/(V/m)"),
              "sealed": (None, ""), "fill_temperature": ("temperature", "K"),
              "secondary_emission": ("dimensionless", ""), "surface_conductivity": ("conductance", "S")},
@@ -63,6 +68,17 @@ _DIMS: dict[str, dict[str, tuple[str | None, str]]] = {
 
 #: keys written only when not zero (their default), so files of lossless scenarios read as before
 _OMIT_WHEN_ZERO = ("conductivity", "surface_conductivity")
+
+
+#: keys of a coaxial insulation that a plane slab does not have
+_COAXIAL_DIMS: dict[str, tuple[str | None, str]] = {"inner_radius": ("length", "m"), "outer_radius": ("length", "m")}
+
+
+def _insulation_schema(cls: type) -> dict[str, tuple[str | None, str]]:
+    """The [insulation] keys of an insulation class: the slab's, or the coaxial ones (no thickness or area)."""
+    if issubclass(cls, Coaxial):
+        return {**{k: v for k, v in _DIMS["insulation"].items() if k not in ("thickness", "area")}, **_COAXIAL_DIMS}
+    return dict(_DIMS["insulation"])
 
 
 def field_schema(part: str, obj: Any) -> dict[str, tuple[str | None, str]]:
@@ -86,6 +102,8 @@ def field_schema(part: str, obj: Any) -> dict[str, tuple[str | None, str]]:
         if isinstance(obj, TimeSupply):
             return dict(obj.field_units)
         return dict(_DIMS["sine" if isinstance(obj, Sine) else "periodic"])
+    if part == "insulation":
+        return _insulation_schema(type(obj))
     if part not in _DIMS:
         raise InputError(f"the part must be insulation, void, supply or model; got {part!r}")
     return dict(_DIMS[part])
@@ -117,7 +135,7 @@ def _section(data: dict, key: str, schema: dict, source: str) -> dict:
         raise InputError(f"{source}: [{key}] must be a table")
     out = {}
     for k, v in sec.items():
-        if k == "kind" and key in ("supply", "model"):
+        if k == "kind" and key in ("supply", "model", "insulation"):
             continue
         if k not in schema:
             raise InputError(f"{source}: unknown key {key}.{k}; allowed: {', '.join(sorted(schema))}")
@@ -157,10 +175,15 @@ def _from_dict(data: dict, source: str) -> dict[str, Any]:
     if unknown:
         raise InputError(f"{source}: unknown top-level keys {sorted(unknown)}; allowed: name, insulation, void, "
                          "supply, model")
+    if isinstance(data.get("void"), list):
+        raise InputError(f"{source}: the file holds an array of [[void]] tables (several voids); read it with "
+                         "pdvoid.MultiVoidScenario.from_file, or give one [void] table")
     for part in ("insulation", "void", "supply"):
         if part not in data:
             raise InputError(f"{source}: missing [{part}] table")
-    ins = _build(Insulation, _section(data, "insulation", _DIMS["insulation"], source), "insulation", source)
+    isec = data["insulation"]
+    ins_cls = insulation_class(isec.get("kind", "slab")) if isinstance(isec, dict) else Insulation
+    ins = _build(ins_cls, _section(data, "insulation", _insulation_schema(ins_cls), source), "insulation", source)
     void = _build(Void, _section(data, "void", _DIMS["void"], source), "void", source)
     sup = data["supply"]
     kind = sup.get("kind", "sine") if isinstance(sup, dict) else None
@@ -254,11 +277,14 @@ def scenario_to_dict(s: Scenario) -> dict[str, Any]:
         The TOML document as a dictionary.
     """
     out: dict[str, Any] = {"name": s.name}
-    for part, obj, schema in (("insulation", s.insulation, _DIMS["insulation"]), ("void", s.void, _DIMS["void"])):
+    for part, obj, schema in (("insulation", s.insulation, _insulation_schema(type(s.insulation))),
+                              ("void", s.void, _DIMS["void"])):
         out[part] = {}
+        if part == "insulation" and isinstance(obj, Coaxial):
+            out[part]["kind"] = insulation_kind(obj)
         for f in fields(obj):
             v = getattr(obj, f.name)
-            if v is None or (f.name in _OMIT_WHEN_ZERO and v == 0.0):
+            if v is None or not f.init or (f.name in _OMIT_WHEN_ZERO and v == 0.0):
                 continue
             dim, unit = schema[f.name]
             out[part][f.name] = _q(v, unit) if dim is not None and unit else v

@@ -176,12 +176,17 @@ def _local_only(route) -> None:
 
 
 def _set_slider(page, name: str, value: str) -> float:
-    """Type ``value`` into the readout of slider ``name`` and press Enter; returns the time [s]."""
-    readout = page.locator(f".pdvoid-{name} .widget-readout")
-    readout.click()
-    readout.fill(value)
+    """Type ``value`` into the entry box beside slider ``name`` and press Enter; returns the time [s]."""
+    return _type_into(page, f".pdvoid-{name}-entry input", value)
+
+
+def _type_into(page, selector: str, value: str) -> float:
+    """Type ``value`` into the input ``selector`` and press Enter; returns the time [s]."""
+    box = page.locator(selector)
+    box.click()
+    box.fill(value)
     t0 = time.perf_counter()
-    readout.press("Enter")
+    box.press("Enter")
     return t0
 
 
@@ -242,6 +247,28 @@ def test_workbench_reacts_to_void_size_and_pressure(playwright_api, lab):
             page.locator(".pdvoid-workbench").evaluate("e => e.scrollIntoView({block: 'start'})")
             page.wait_for_timeout(300)
             page.screenshot(path=str(ARTIFACTS / "workbench.png"))
+
+            # no label carries the tooltip "null" (ipywidgets writes an unset tooltip so)
+            assert page.locator(".pdvoid-workbench [title='null']").count() == 0
+
+            # a seed of 1.5 is refused in words, and the old views are greyed and marked out of date
+            _type_into(page, ".pdvoid-seed input", "1.5")
+            page.wait_for_function("() => document.querySelector('.pdvoid-error').innerText.includes('seed')")
+            assert "not a whole number" in page.locator(".pdvoid-error").inner_text()
+            assert page.locator("img.pdvoid-image-pattern.pdvoid-stale").count() == 1
+            assert "Out of date" in page.locator(".pdvoid-stale-note").inner_text()
+            page.locator(".pdvoid-stale-note").evaluate("e => e.scrollIntoView({block: 'start'})")
+            page.screenshot(path=str(ARTIFACTS / "workbench-stale.png"))
+            _type_into(page, ".pdvoid-seed input", "1")
+
+            # a void taller than the wall: the message in mm, not in metres
+            _set_slider(page, "height_mm", "7")
+            page.wait_for_function("() => document.querySelector('.pdvoid-error').innerText.includes('7 mm')")
+            assert "void height must be smaller than insulation thickness (6 mm)" in page.locator(
+                ".pdvoid-error").inner_text()
+            _set_slider(page, "height_mm", "1.5")
+            _wait_updated(page, ["void 2.5 mm × 1.5 mm"])
+            assert page.locator("img.pdvoid-stale").count() == 0
 
             # below inception the panel says so in words, not only with zero discharges
             _set_slider(page, "voltage_kV", "8")

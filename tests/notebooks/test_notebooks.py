@@ -54,9 +54,18 @@ def test_notebook_runs_and_draws(name, tmp_path):
     nb = _execute(name, tmp_path)
     outputs = [o for c in nb.cells if c.cell_type == "code" for o in c.outputs]
     assert not [o for o in outputs if o.output_type == "error"]
+    # a figure left as a cell's value is drawn, not shown as its text ("<Figure size 1000x760 with 6 Axes>")
+    for cell in (c for c in nb.cells if c.cell_type == "code"):
+        for o in cell.outputs:
+            data = o.get("data", {})
+            shown = data.get("text/plain", "")
+            if shown.startswith(("<Figure", "<Axes", "[<Axes")):
+                assert "image/png" in data, f"{name}: {shown!r} instead of the picture, from\n{cell.source}"
+    plotting = [c for c in nb.cells if c.cell_type == "code" and (".figure" in c.source or "plt.show" in c.source)]
+    images = [o for o in outputs if "image/png" in o.get("data", {})]
+    assert len(images) >= len(plotting), f"{name}: {len(images)} pictures from {len(plotting)} figure cells"
     if name not in NAMES:
         return  # another notebook: executing cleanly is the check
-    images = [o for o in outputs if "image/png" in o.get("data", {})]
     assert len(images) >= 2, f"{name} showed {len(images)} figures"
     text = "".join(o.get("text", "") for o in outputs if o.output_type == "stream")
     assert "kV" in text or "pC" in text or "[-]" in text

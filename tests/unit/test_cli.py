@@ -97,3 +97,49 @@ def test_simulate_says_waiting_for_a_start_electron(tmp_path, capsys):
     assert doc["regime"]["mean wait for a first start electron [cycles]"] > 1000
     assert main(["simulate", str(path), "--cycles", "40", "--out", str(tmp_path / "b")]) == 0
     assert "regime: above inception" in capsys.readouterr().out
+
+
+def test_version_prints_the_package_version(capsys):
+    with pytest.raises(SystemExit) as stop:
+        main(["--version"])
+    assert stop.value.code == 0
+    assert capsys.readouterr().out.strip() == f"pdvoid {pdvoid.__version__}"
+
+
+def test_pattern_of_a_file_without_voltage_says_why_there_is_no_power(tmp_path, capsys):
+    # an invented event list with phase and charge only: P = sum q_i u_i / T_ref (IEC 60270 clause 3) needs the
+    # instantaneous voltage u_i at each discharge, which this file does not give
+    path = tmp_path / "measured.csv"
+    path.write_text("# cycles = 10\n# frequency = 50\nphase [deg],charge [pC]\n45.0,120\n80.5,95\n225.0,-110\n"
+                    "260.0,-80\n", encoding="utf-8")
+    assert main(["pattern", str(path)]) == 0
+    text = capsys.readouterr().out
+    power = next(line for line in text.splitlines() if "discharge power P" in line)
+    assert "nan" not in text.lower().replace("nanos", "")
+    assert "cannot be computed" in power and "no applied voltage" in power
+    # the other IEC 60270 quantities need no voltage: I = sum |q| / T_ref = 405 pC / 0.2 s = 2.025 nA
+    current = next(line for line in text.splitlines() if "average discharge current" in line)
+    assert float(current.split()[-1]) == pytest.approx(405e-12 / 0.2, rel=1e-3)
+    assert main(["pattern", str(path), "--json"]) == 0
+    doc = json.loads(capsys.readouterr().out, parse_constant=_refuse)
+    assert doc["iec60270"]["discharge power P [W]"] is None
+    assert "no applied voltage" in doc["not computed"]["discharge power P [W]"]
+
+
+def test_measure_narrowband_prints_a_positive_calibration_factor(tmp_path, capsys):
+    # IEC 60270 calibration: factor = calibrator charge / |its reading| > 0, also when a 200 kHz narrow band
+    # turns a positive pulse's main half-wave negative
+    src = tmp_path / "pulses.csv"
+    src.write_text("# cycles = 2\n# frequency = 50\ncycle [-],phase [deg],charge [pC]\n0,40,80\n1,220,-60\n",
+                   encoding="utf-8")
+    argv = ["measure", str(src), "-o", str(tmp_path / "read.csv"), "--test-object-capacitance", "100pF",
+            "--coupling-capacitance", "1nF", "--instrument", "narrowband", "--centre", "200kHz",
+            "--bandwidth", "9kHz"]
+    assert main(argv) == 0
+    text = capsys.readouterr().out
+    factor = float(text.split("calibration factor ")[1].split()[0])
+    assert factor > 0.0 and "-" not in text.split("calibration factor ")[1].split()[0]
+    assert main([*argv, "--json"]) == 0
+    doc = json.loads(capsys.readouterr().out, parse_constant=_refuse)
+    assert doc["calibration factor [-]"] == pytest.approx(factor, rel=1e-3) and doc["reading polarity [-]"] == -1
+    assert "calibration_factor = -" not in (tmp_path / "read.csv").read_text(encoding="utf-8")

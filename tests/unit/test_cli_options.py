@@ -15,7 +15,7 @@ from pdvoid.inputs.demo import demo_scenario, demo_scenario_path
 
 # one value with a unit per dimension (SI prefixes, common practice)
 WITH_UNIT = {"voltage": "18kV", "charge": "5pC", "time": "1s", "frequency": "50Hz", "angle": "2deg",
-             "capacitance": "100pF"}
+             "capacitance": "100pF", "length": "1mm"}
 
 
 def _subparsers(parser: argparse.ArgumentParser) -> dict[str, argparse.ArgumentParser]:
@@ -95,7 +95,7 @@ def test_a_value_with_a_unit_is_accepted(command, option):
     text = WITH_UNIT[action.type.dimension]
     ns = build_parser().parse_args([command, *_required(sub, action), option, text])
     # 18 kV = 18000 V, 5 pC = 5e-12 C, 1 s, 50 Hz, 2 deg, 100 pF = 1e-10 F (SI prefixes, common practice)
-    expected = {"18kV": 18e3, "5pC": 5e-12, "1s": 1.0, "50Hz": 50.0, "2deg": 2.0, "100pF": 1e-10}[text]
+    expected = {"18kV": 18e3, "5pC": 5e-12, "1s": 1.0, "50Hz": 50.0, "2deg": 2.0, "100pF": 1e-10, "1mm": 1e-3}[text]
     assert getattr(ns, action.dest) == pytest.approx(expected, rel=1e-12)
 
 
@@ -103,6 +103,8 @@ def test_a_value_with_a_unit_is_accepted(command, option):
 @pytest.mark.parametrize("bad", ["18 furlong", "nanV", "-3kV"])
 def test_a_wrong_unit_or_a_negative_value_is_refused(command, option, bad, capsys):
     sub, action = _action(command, option)
+    if bad == "18 furlong" and action.type.dimension == "length":  # a furlong is a length: a mass is the wrong unit
+        bad = "18 kg"
     with pytest.raises(SystemExit) as exc:
         build_parser().parse_args([command, *_required(sub, action), f"{option}={bad}"])
     assert exc.value.code == 2

@@ -5,6 +5,7 @@ from __future__ import annotations
 import argparse
 import dataclasses
 import math
+from pathlib import Path
 
 import matplotlib
 
@@ -102,7 +103,7 @@ def test_summary_numbers_come_from_the_analysis(demo_pack):
 
     # the pack prints the analysis' numbers (pdvoid.analysis.inception; both criteria) and the margin
     est = inception(demo_scenario())
-    page = _flat(demo_pack.page_texts[0] + "\n" + demo_pack.page_texts[1])
+    page = _flat("\n".join(demo_pack.page_texts[:3]))  # the summary and its continuation pages
     for v in (est.inception_voltage_streamer, est.inception_voltage_integral, est.extinction_voltage):
         assert f"{v / 1e3:.3g}" in page
     assert demo_pack.margin == pytest.approx(est.inception_voltage / 18e3)
@@ -380,3 +381,81 @@ def test_assumptions_page_states_the_measuring_circuit(tmp_path):
     assert "ideal instrument" in page
     with pytest.raises(pdvoid.InputError, match="together"):
         design_review(sc, test_voltage=18e3, cycles=20, out=tmp_path / "x.pdf", circuit=circuit)
+
+
+def test_input_origin_follows_the_file_not_the_value(tmp_path):
+    from pdvoid.faces.report import _file_keys, _input_rows
+    from pdvoid.inputs.demo import demo_scenario_path
+
+    # the demo file sets residual_ratio = 0.25 and surface_rate_same = 1e4, both equal to pdvoid's defaults: they
+    # come from the file all the same; electron_yield and charge_decay_time it does not set
+    path = demo_scenario_path()
+    rows = {r[0]: r[3] for r in _input_rows(pdvoid.Scenario.from_file(path), _file_keys(path))}
+    assert rows["model: residual ratio"] == "scenario file"
+    assert rows["model: surface rate same"] == "scenario file"
+    assert rows["void diameter (across the field)"] == "scenario file"
+    assert rows["model: electron yield"] == "pdvoid default"
+    assert rows["model: charge decay time"] == "pdvoid default"
+    assert rows["supply harmonics (order: fraction at phase)"] == "pdvoid default"
+    # a memory model naming its set: values the file leaves out come from the set
+    mem = tmp_path / "memory.toml"
+    mem.write_text(path.read_text(encoding="utf-8").split("[model]")[0]
+                   + '[model]\nkind = "memory"\ntrap_depth = "1.2 V"\n', encoding="utf-8")
+    rows = {r[0]: r[3] for r in _input_rows(pdvoid.Scenario.from_file(mem), _file_keys(mem))}
+    assert rows["model: trap depth"] == "scenario file"
+    assert rows["model: attempt frequency"] == "parameter set niemeyer1995"
+    # without a file the origin is the Scenario object, and a value equal to the default says so
+    rows = {r[0]: r[3] for r in _input_rows(pdvoid.Scenario.from_file(path))}
+    assert rows["model: residual ratio"] == "Scenario object (default value)"
+    assert "pdvoid default" not in rows["void diameter (across the field)"]
+
+
+def test_input_table_of_a_cable_gives_its_radii():
+    from importlib import resources
+
+    from pdvoid.faces.report import _file_keys, _input_rows
+
+    # the invented example cable sets the two radii and the void's radial position; the wall is derived from the
+    # radii (R - r_i = 13.5 mm - 8 mm = 5.5 mm, by hand), not a default
+    path = Path(str(resources.files("pdvoid.inputs") / "examples" / "cable.toml"))
+    rows = {r[0]: r for r in _input_rows(pdvoid.Scenario.from_file(path), _file_keys(path))}
+    assert rows["conductor radius (inner radius of the insulation)"][1:] == ["8", "mm", "scenario file"]
+    assert rows["outer radius of the insulation"][1:] == ["13.5", "mm", "scenario file"]
+    assert rows["insulation wall"][1] == "5.5" and rows["insulation wall"][3].startswith("derived")
+    assert rows["void centre from the cable axis"][1:] == ["10.5", "mm", "scenario file"]
+    assert "insulation thickness" not in rows
+
+
+def test_cli_pack_labels_file_inputs_and_has_no_nan(tmp_path, capsys, scenario_factory):
+    from pdvoid.inputs.demo import demo_scenario_path
+
+    out = tmp_path / "cli.pdf"
+    ns = _parser().parse_args(["report", str(demo_scenario_path()), "--out", str(out), "--test-voltage", "8kV",
+                               "--cycles", "20"])
+    assert ns.func(ns) == 0  # 8 kV: below the demo's inception (about 13 kV), so no discharge is simulated
+    texts = _pdf_page_texts(out)
+    table = next(t for t in texts if "scenario input value unit origin" in t)
+    assert "residual ratio 0.25 - scenario file" in table
+    assert "mean / largest apparent charge none: no discharge in the simulated run" in " ".join(texts)
+    for i, text in enumerate(texts):  # no "nan" as a word anywhere (plain words instead)
+        assert " nan " not in f" {text} " and "/ nan" not in text, i
+
+
+def test_sensitivity_of_a_cable_moves_the_outer_radius():
+    import warnings
+    from importlib import resources
+
+    from pdvoid.faces.report import sensitivity
+
+    path = Path(str(resources.files("pdvoid.inputs") / "examples" / "cable.toml"))
+    sc = pdvoid.Scenario.from_file(path)
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", pdvoid.ValidityWarning)
+        row = {r.parameter: r for r in sensitivity(sc)}["insulation.thickness"]
+    assert row.label.startswith("insulation wall")
+    # the local field of a cable, E = V / (r ln(R / r_i)) (cylindrical capacitor, Kuffel, Zaengl & Kuffel 2000,
+    # from memory): with r and r_i kept, the inception voltage scales as ln(R' / r_i) / ln(R / r_i)
+    a, b, wall = 8e-3, 13.5e-3, 5.5e-3
+    for factor, got in ((0.8, row.inception_low), (1.2, row.inception_high)):
+        expected = row.inception_base * math.log((a + factor * wall) / a) / math.log(b / a)
+        assert got == pytest.approx(expected, rel=1e-9)

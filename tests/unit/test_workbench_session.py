@@ -116,17 +116,22 @@ def test_void_taller_than_the_insulation_shows_the_message_not_an_exception(sess
     session.set(height_mm=7.0)  # the demo wall is 6 mm thick
     out = session.run()
     assert not out.ok and out.result is None and out.summary == {}
-    assert "void.height must be smaller than insulation.thickness" in out.error
+    # in the panel's labels and units: 7 mm against the 6 mm wall, not 0.007 m against 0.006 m
+    assert out.error == "void height must be smaller than insulation thickness (6 mm); got 7 mm"
 
 
 @pytest.mark.parametrize(
     ("changes", "words"),
     [
-        ({"permittivity": 0.5}, "insulation.permittivity"),
+        ({"permittivity": 0.5}, "relative permittivity must lie in [1, 100]; got 0.5"),
         ({"pressure_kPa": float("nan")}, "gas pressure must be finite"),
         ({"cycles": 0}, "cycles"),
-        ({"residual_ratio": 1.0}, "model.residual_ratio"),
-        ({"frequency_Hz": -50.0}, "supply.frequency"),
+        ({"residual_ratio": 1.0}, "residual / inception must lie in [0, 1)"),
+        ({"frequency_Hz": -50.0}, "frequency must lie in [0.01, 10000] Hz"),
+        ({"diameter_mm": -1.0}, "void diameter must lie in [0.0001, 1000] mm; got -1 mm"),
+        ({"voltage_kV": -3.0}, "applied voltage must lie in (0, 10000] kV rms; got -3 kV rms"),
+        ({"pressure_kPa": 2000.0}, "gas pressure must lie in [0.1, 1000] kPa; got 2000 kPa"),
+        ({"surface_decay_time_ms": 0.0}, "surface decay time must lie in (0, inf] ms; got 0 ms"),
         ({"test_voltage_kV": 0.0}, "test level"),
     ],
 )
@@ -135,6 +140,50 @@ def test_invalid_values_give_input_error_messages(session, changes, words):
     out = session.run()
     assert not out.ok
     assert words in out.error
+    assert not any(key in out.error for key in ("void.", "insulation.", "supply.", "model."))  # no SI keys
+
+
+def test_panel_messages_convert_si_values_to_the_panel_units():
+    from pdvoid.faces.workbench.messages import panel_message
+
+    # 1 mm = 1e-3 m, 1 kPa = 1e3 Pa, 1 kV = 1e3 V, 1 pF = 1e-12 F (SI prefixes, common practice)
+    assert panel_message("void.height must be smaller than insulation.thickness (0.006 m); got 0.008 m") == (
+        "void height must be smaller than insulation thickness (6 mm); got 8 mm")
+    assert panel_message("void.pressure must lie in [100, 1e+06] Pa; got 0.0") == (
+        "gas pressure must lie in [0.1, 1000] kPa; got 0 kPa")
+    assert panel_message("model.capacitance_void must be > 0 F; got -2e-12 F") == (
+        "void capacitance C_c must be > 0 pF; got -2 pF")
+    assert panel_message("seed must be a whole number in [0, 4294967295]; got -1") == (
+        "seed must be a whole number in [0, 4294967295]; got -1")  # nothing to convert
+
+
+def test_whole_numbers_are_parsed_strictly():
+    from pdvoid.faces.workbench.controls import parse_whole_number
+
+    assert parse_whole_number("seed", " 42 ", 0, 100) == 42
+    assert parse_whole_number("cycles", "1 000_000", 1, 10**7) == 1_000_000
+    for bad in ("1.5", "1e3", "ten", "", "15.", "1,5"):
+        with pytest.raises(pdvoid.InputError, match="not a whole number"):
+            parse_whole_number("seed", bad, 0, 100)
+    with pytest.raises(pdvoid.InputError, match="seed must be a whole number from 0 to 100; got 101"):
+        parse_whole_number("seed", "101", 0, 100)
+
+
+def test_network_model_uses_typed_capacitances(session):
+    session.set(model="network")
+    geometry = session.run()
+    c_c, c_b = geometry.network_capacitances
+    assert geometry.scenario.model.network_capacitances() is None  # from the geometry
+    assert session.controls.capacitance_void_pF == pytest.approx(c_c / 1e-12, rel=1e-12)
+    session.set(capacitance_void_pF=0.5 * c_c / 1e-12)  # typing one unticks "from the geometry"
+    assert session.controls.network_from_geometry is False
+    typed = session.run()
+    assert typed.scenario.model.network_capacitances() == pytest.approx((0.5 * c_c, c_b), rel=1e-12)
+    # k = C_b / (C_b + C_c) rises when C_c falls (Gemant and Philippoff 1932): more void voltage per applied
+    # volt, so a lower inception voltage
+    k_geo, k_typed = c_b / (c_b + c_c), c_b / (c_b + 0.5 * c_c)
+    u_geo, u_typed = geometry.summary["inception voltage [kV rms]"], typed.summary["inception voltage [kV rms]"]
+    assert u_typed == pytest.approx(u_geo * k_geo / k_typed, rel=1e-9)
 
 
 def test_unknown_control_is_an_input_error(session):

@@ -25,12 +25,16 @@ from typing import TYPE_CHECKING, Any
 import numpy as np
 
 from pdvoid.coefficients.closed_form import compute_coefficients
+from pdvoid.coefficients.coaxial import local_gap
 from pdvoid.coefficients.fields.geometry import Region, RoundedCylinder, Spheroid
 from pdvoid.coefficients.fields.layout import ELECTRODES, Layout, grid_for, specimen_layout
 from pdvoid.coefficients.fields.maps import field_magnitude, region_mask
 from pdvoid.coefficients.fields.solver import FieldSolver
 from pdvoid.coefficients.record import Coefficients
 from pdvoid.core.errors import InputError, check_bool, check_choice, check_positive, check_range
+from pdvoid.core.validity import warn_validity
+from pdvoid.inputs.coaxial import Coaxial
+from pdvoid.physics.coaxial import coaxial_field_variation
 
 if TYPE_CHECKING:
     from pdvoid.inputs.scenario import Scenario
@@ -433,7 +437,18 @@ def solve_scenario(scenario: Scenario, **options: Any) -> FieldSolution:
 
     Reads ``scenario.insulation.thickness``, ``scenario.insulation.permittivity``, ``scenario.void.diameter``,
     ``scenario.void.height``, ``scenario.void.shape`` and ``scenario.void.position`` (a void on an electrode is
-    the half of a spheroid of twice its height that lies in the insulation); every other option of
+    the half of a spheroid of twice its height that lies in the insulation).
+
+    A void in a :class:`pdvoid.Coaxial` insulation is not axisymmetric about its own (radial) axis, and the
+    solver is: it is solved in the **local plane slab**, a slab of the wall thickness R − r_i with the void at
+    its distance r − r_i from the high-voltage (inner) electrode, and scaled to the cable's applied and
+    weighting fields at the void centre, V/(r ln(R/r_i)) and 1/(r ln(R/r_i)): ``field_enhancement`` is then
+    the void field per local applied field, and ``charge_per_field`` the apparent charge at the cable terminals
+    (slab value × (R − r_i)/(r ln(R/r_i))). This keeps the void shape and the nearness of the conductors and
+    neglects the 1/r change of the applied field across the void (h/r between its walls; the mean void field
+    and the charge change in second order, about (h/r)²/20 for a sphere, checked against a two-dimensional
+    cross-section solution in the tests) and the curvature of the conductors; a ValidityWarning says so
+    every time. The other capacitances of the solution are those of the modelled slab disc. Every other option of
     :func:`coefficients_for` (rim_radius, needle, inclusions, grid settings, measuring electrode,
     extrapolation) passes through.
 
@@ -463,6 +478,8 @@ def solve_scenario(scenario: Scenario, **options: Any) -> FieldSolution:
     for name in ("thickness", "permittivity", "void_diameter", "void_height"):
         if name in options:
             raise InputError(f"{name} comes from the scenario; do not pass it as an option")
+    if isinstance(ins, Coaxial):
+        return _coaxial_solution(scenario, options)
     position = getattr(void, "position", "centred")
     if position != "centred" and "void_center" not in options:
         height = 2.0 * height
@@ -470,6 +487,35 @@ def solve_scenario(scenario: Scenario, **options: Any) -> FieldSolution:
     if "void_shape" not in options:
         options["void_shape"] = getattr(void, "shape", "spheroid")
     return coefficients_for(thickness, permittivity, diameter, height, **options)
+
+
+def _coaxial_solution(scenario: Scenario, options: dict[str, Any]) -> FieldSolution:
+    """The local plane-slab solution of a void in a coaxial insulation (see :func:`solve_scenario`)."""
+    ins, void = scenario.insulation, scenario.void
+    if not isinstance(ins, Coaxial) or ins.permittivity is None:  # solve_scenario sends only a Coaxial here
+        raise InputError("a coaxial solution needs a pdvoid.Coaxial insulation with its permittivity")
+    if "void_center" in options or "measuring_electrode" in options:
+        raise InputError("void_center and measuring_electrode come from the coaxial scenario (the void's "
+                         "radial_position; the inner conductor); do not pass them as options")
+    if void.radial_position is None:  # the Scenario requires it for a coaxial insulation
+        raise InputError("void.radial_position is required for a coaxial insulation; got None")
+    r = float(void.radial_position)
+    d, d_loc = ins.thickness, local_gap(ins, void)
+    options.setdefault("void_shape", void.shape)
+    # the inner conductor is the high-voltage electrode at z = d, the outer one the earthed electrode at z = 0
+    slab = coefficients_for(d, ins.permittivity, void.diameter, void.height, void_center=ins.outer_radius - r,
+                            measuring_electrode="high", **options)
+    warn_validity(
+        f"coaxial insulation: the field solver solved the void in the local plane slab ({d * 1e3:.4g} mm thick, the "
+        f"void {(r - ins.inner_radius) * 1e3:.4g} mm from the high-voltage side) and scaled it to the cable's local "
+        f"field and weighting field at r = {r * 1e3:.4g} mm (factor {d / d_loc:.4g}); it neglects the 1/r change "
+        f"of the field across the void ({float(coaxial_field_variation(void.height, r)) * 100:.2g} % here; the "
+        "mean void field and the apparent charge are affected in second order, about (h/r)^2/20) and the "
+        "curvature of the conductors"
+    )
+    cpf = slab.charge_per_field * d / d_loc
+    return replace(slab, charge_per_field=cpf, capacitance_series=cpf / slab.void_height,
+                   references=slab.references + ("kuffel2000_fields",))
 
 
 def coefficients(scenario: Scenario, **options: Any) -> Coefficients:

@@ -52,15 +52,35 @@ def _cmd_pattern(ns: argparse.Namespace) -> int:
         "fingerprint": fingerprint(ev),
         "safety": SAFETY,
     }
+    reasons = {"discharge power P [W]": _power_gap(events)} if not np.isfinite(q.power) else {}
+    if reasons:
+        doc["not computed"] = reasons
     lines = [f"{ns.file}: {events.count} events over {events.cycles:g} cycles "
              f"({events.count / events.cycles:.4g} per cycle)"]
     for k, v in doc["iec60270"].items():
-        lines.append(f"  {k:<40s} {v:.4g}")
+        lines.append(f"  {k:<40s} {_number_or_reason(v, reasons.get(k))}")
     lines.append("  descriptors:")
     for k, v in doc["fingerprint"].items():
-        lines.append(f"    {k:<38s} {v:.4g}")
+        lines.append(f"    {k:<38s} {_number_or_reason(v)}")
     emit(doc, ns.json, lines)
     return 0
+
+
+def _power_gap(events: Events) -> str:
+    """Why the discharge power P = sum q_i u_i / T_ref cannot be computed for ``events``, in words."""
+    u = events.voltage
+    if u is None or not np.any(np.isfinite(u)):
+        return ("cannot be computed: the file gives no applied voltage at the discharges (P needs the "
+                "instantaneous voltage u_i of each one; add a voltage column, e.g. 'voltage [kV]')")
+    return ("cannot be computed: some discharges in the file have no applied voltage (P needs the instantaneous "
+            "voltage u_i of each one)")
+
+
+def _number_or_reason(value: float, reason: str | None = None) -> str:
+    """A table cell: the number, or why there is none (never "nan")."""
+    if np.isfinite(value):
+        return f"{value:.4g}"
+    return reason or "not defined for these events"
 
 
 def _inception_text(regime: str, reason: str, voltage: float) -> str:
@@ -90,7 +110,8 @@ def _cmd_inception(ns: argparse.Namespace) -> int:
     with validity_notes() as notes:
         sc = Scenario.from_file(ns.scenario)
         est = inception(sc)
-        band = band_from_coefficients(compute_coefficients(sc))
+        coef = compute_coefficients(sc)
+        band = band_from_coefficients(coef)
         r = None
         if ns.ramp:
             r = inception(sc, ramp=True, step=ns.step, dwell=ns.dwell, threshold=ns.threshold,
@@ -102,6 +123,8 @@ def _cmd_inception(ns: argparse.Namespace) -> int:
         "extinction voltage estimate [V rms]": est.extinction_voltage,
         "inception field [V/m]": est.inception_field, "residual field [V/m]": est.residual_field,
         "field enhancement [-]": est.field_enhancement}
+    if coef.local_field_factor != 1.0:  # a coaxial insulation: the enhancement is per mean field V/(R - r_i)
+        analytic["local field at the void per mean field [-]"] = coef.local_field_factor
     doc: dict[str, object] = {"scenario": ns.scenario, "analytic": {**analytic, **_band_doc(band)}}
     said = _inception_text(est.inception_regime, est.inception_reason, est.inception_voltage)
     lines = [f"{ns.scenario}: analytic", f"  inception voltage: {said}"]

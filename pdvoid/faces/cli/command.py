@@ -13,13 +13,13 @@ from collections.abc import Sequence
 
 from pdvoid._version import __version__
 from pdvoid.core.errors import InputError
-from pdvoid.faces.cli import analysis, fit, measure, report, simulate, sweep
+from pdvoid.faces.cli import analysis, fit, measure, population, report, simulate, sweep
 from pdvoid.faces.cli.output import SAFETY
 from pdvoid.faces.cli.stopping import exit_status, signal_name, sigterm_raises
 
 __all__ = ["build_parser", "main"]
 
-COMMAND_MODULES = (simulate, analysis, fit, measure, report, sweep)
+COMMAND_MODULES = (simulate, analysis, fit, measure, report, sweep, population)
 
 
 def build_parser() -> argparse.ArgumentParser:

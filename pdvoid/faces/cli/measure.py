@@ -48,6 +48,7 @@ def _cmd_measure(ns: argparse.Namespace) -> int:
         "instrument.f_low": f"{instrument.f_low!r} Hz",
         "instrument.f_high": f"{instrument.f_high!r} Hz",
         "instrument.calibration_factor": repr(rec["calibration_factor"]),
+        "instrument.reading_polarity": repr(rec["reading_polarity"]),
         "instrument.transfer_ratio": repr(rec["transfer_ratio"]),
         "instrument.noise": f"{instrument.noise!r} C",
         "instrument.phase_resolution": f"{instrument.phase_resolution_deg!r} deg",
@@ -60,11 +61,14 @@ def _cmd_measure(ns: argparse.Namespace) -> int:
                        comments=comments)
     doc = {"file": ns.file, "output": str(out), "input pulses": rec["input pulses"], "readings": ev.count,
            "noise peaks": rec["noise peaks"], "calibration factor [-]": rec["calibration_factor"],
+           "reading polarity [-]": rec["reading_polarity"],
            "charge transfer ratio [-]": rec["transfer_ratio"], "peak detector hold [s]": rec["hold"],
            "assumptions": circuit.describe() + instrument.describe(), "safety": SAFETY}
     lines = [f"{ns.file}: {rec['input pulses']} pulses -> {ev.count} readings written to {out}",
              f"  charge transfer ratio {rec['transfer_ratio']:.4g}, calibration factor "
-             f"{rec['calibration_factor']:.4g}, noise peaks {rec['noise peaks']}",
+             f"{rec['calibration_factor']:.4g} (calibrator charge / its reading), noise peaks {rec['noise peaks']}",
+             *(["  the band-pass turns a positive pulse's largest half-wave negative; readings are referred to it, "
+                "so a positive discharge reads positive"] if rec["reading_polarity"] < 0 else []),
              *("  " + s for s in circuit.describe() + instrument.describe())]
     emit(doc, ns.json, lines)
     return 0

@@ -76,6 +76,7 @@ def _cmd_report(ns: argparse.Namespace) -> int:
         seed=ns.seed,
         out=ns.out,
         figures=ns.figures,
+        scenario_file=ns.scenario,
     )
     est = pack.estimate
     if pack.band is not None:  # always set by design_review

@@ -131,6 +131,23 @@ def _number(v: float) -> str:
     return f"{v:.3g}" if math.isfinite(v) else "none"
 
 
+def _field_pair(streamer: float, integral: float) -> str:
+    """The inception fields of both criteria [V/m] in kV/mm; a criterion without a solution said in words."""
+    def one(v: float) -> str:
+        return f"{v / 1e6:.3g}" if math.isfinite(v) else "no solution"
+
+    return f"{one(streamer)} / {one(integral)}"
+
+
+def _charges(summary: dict[str, float]) -> str:
+    """Mean and largest simulated apparent charge [pC], or that the run had no discharge (never "nan")."""
+    mean = summary.get("mean apparent charge [pC]", math.nan)
+    largest = summary.get("largest apparent charge [pC]", math.nan)
+    if summary.get("discharges per cycle [-]", 0.0) == 0.0 or not math.isfinite(largest):
+        return "none: no discharge in the simulated run"
+    return f"{mean:.3g} / {largest:.3g}"
+
+
 def _kv(v: float | None) -> str:
     return "n/a" if v is None or not math.isfinite(v) else f"{v / 1e3:.3g}"
 
@@ -214,7 +231,7 @@ def _summary_page(w: PageWriter, ctx: Context) -> None:
         ["extinction voltage estimate, (E_inc + E_res)/2", _kv(est.extinction_voltage), "kV rms"],
         [
             "inception field in the void, streamer / integral",
-            f"{c.inception_field_streamer / 1e6:.3g} / {c.inception_field_integral / 1e6:.3g}",
+            _field_pair(c.inception_field_streamer, c.inception_field_integral),
             "kV/mm",
         ],
         ["residual field in the void", f"{c.residual_field / 1e6:.3g}", "kV/mm"],
@@ -253,7 +270,7 @@ def _summary_page(w: PageWriter, ctx: Context) -> None:
         ],
         [
             "simulated: mean / largest apparent charge",
-            f"{s['mean apparent charge [pC]']:.3g} / {s.get('largest apparent charge [pC]', math.nan):.3g}",
+            _charges(s),
             "pC",
         ],
         ["simulated: first discharge after", _number(s.get("first discharge after [s]", math.nan)), "s"],

@@ -6,23 +6,67 @@ entry.
 from __future__ import annotations
 
 import math
+import re
 from dataclasses import dataclass, fields, replace
 from typing import Any
 
-from pdvoid.core.errors import InputError, check_choice, check_int, check_real
+from pdvoid.core.errors import InputError, check_bool, check_choice, check_int, check_real
+from pdvoid.inputs.coaxial import Coaxial
 from pdvoid.inputs.materials import get_material, list_materials
 from pdvoid.inputs.model_parameters import model_class, model_kinds
 from pdvoid.inputs.model_sets import get_parameter_set, list_parameter_sets, model_from_set
-from pdvoid.inputs.parameters import GASES, Periodic, Sine, check_seed
+from pdvoid.inputs.parameters import GASES, Insulation, Periodic, Sine, check_seed
 from pdvoid.inputs.scenario import Scenario
 
-__all__ = ["Controls", "ControlSpec", "SPECS", "GROUPS", "CUSTOM_MATERIAL", "PANEL_VALUES", "MAX_CYCLES"]
+__all__ = ["Controls", "ControlSpec", "SPECS", "GROUPS", "CUSTOM_MATERIAL", "PANEL_VALUES", "MAX_CYCLES",
+           "NETWORK_CONTROLS", "parse_whole_number"]
 
 CUSTOM_MATERIAL = "(custom permittivity)"  #: the material choice that means "permittivity as typed"
 PANEL_VALUES = "(panel values)"  #: the parameter-set choice that means "the model parameters as typed"
 MAX_CYCLES = 10_000_000  #: most cycles one workbench run may ask for [-]
 
-_MM, _KPA, _KV, _MS = 1e-3, 1e3, 1e3, 1e-3
+_MM, _KPA, _KV, _MS, _PF = 1e-3, 1e3, 1e3, 1e-3, 1e-12
+#: the controls that only the network model reads
+NETWORK_CONTROLS = ("network_from_geometry", "capacitance_void_pF", "capacitance_series_pF")
+_WHOLE = re.compile(r"[+-]?\d+")
+
+
+def parse_whole_number(label: str, text: object, low: int, high: int) -> int:
+    """A whole number typed into the panel: digits only (spaces and ``_`` between digit groups allowed), inside
+    [low, high]. "1.5", "1e3" or "ten" are refused, never rounded or stripped to digits.
+
+    Parameters
+    ----------
+    label : str
+        The control's name as the panel shows it, for the message [-].
+    text : object
+        What was typed (a str; an int is accepted as is) [-].
+    low, high : int
+        Inclusive bounds [-].
+
+    Returns
+    -------
+    int
+        The number [-].
+
+    Raises
+    ------
+    InputError
+        Naming the control, what was typed and what is allowed.
+    """
+    allowed = f"a whole number from {low} to {high}"
+    if isinstance(text, bool) or not isinstance(text, (str, int)):
+        raise InputError(f"{label} must be {allowed}; got {text!r}")
+    raw = text if isinstance(text, int) else None
+    if raw is None:
+        assert isinstance(text, str)
+        cleaned = re.sub(r"(?<=\d)[ _](?=\d)", "", text.strip())
+        if not _WHOLE.fullmatch(cleaned):
+            raise InputError(f"{label} must be {allowed}; got {text.strip()!r} (not a whole number)")
+        raw = int(cleaned)
+    if not low <= raw <= high:
+        raise InputError(f"{label} must be {allowed}; got {raw}")
+    return raw
 
 
 @dataclass(frozen=True)
@@ -54,16 +98,43 @@ class ControlSpec:
 
 
 SPECS: dict[str, ControlSpec] = {
-    "diameter_mm": ControlSpec("void diameter [mm]", "slider", 0.05, 10.0, 0.05),
-    "height_mm": ControlSpec("void height [mm]", "slider", 0.05, 10.0, 0.05),
-    "gas": ControlSpec("gas in the void", "choice", choices=GASES),
-    "pressure_kPa": ControlSpec("gas pressure [kPa]", "slider", 1.0, 1000.0, 0.5),
-    "material": ControlSpec("host material", "choice", choices=(CUSTOM_MATERIAL, *list_materials())),
-    "permittivity": ControlSpec("relative permittivity [-]", "number"),
-    "thickness_mm": ControlSpec("insulation thickness [mm]", "number"),
-    "voltage_kV": ControlSpec("applied voltage [kV rms]", "slider", 0.5, 100.0, 0.1),
-    "frequency_Hz": ControlSpec("frequency [Hz]", "number"),
-    "model": ControlSpec("void model", "choice", choices=model_kinds()),
+    "diameter_mm": ControlSpec(
+        "void diameter [mm]", "slider", 0.05, 10.0, 0.05,
+        tooltip="size of the void across the applied field (drag, or type a value into the box beside)"),
+    "height_mm": ControlSpec(
+        "void height [mm]", "slider", 0.05, 10.0, 0.05,
+        tooltip="size of the void along the applied field; it must be smaller than the insulation thickness"),
+    "gas": ControlSpec("gas in the void", "choice", choices=GASES, tooltip="the gas filling the void"),
+    "pressure_kPa": ControlSpec(
+        "gas pressure [kPa]", "slider", 1.0, 1000.0, 0.5,
+        tooltip="absolute gas pressure in the void; 101.325 kPa is one atmosphere"),
+    "material": ControlSpec(
+        "host material", "choice", choices=(CUSTOM_MATERIAL, *list_materials()),
+        tooltip="the solid insulation around the void; choosing one sets its permittivity"),
+    "permittivity": ControlSpec(
+        "relative permittivity [-]", "number",
+        tooltip="relative permittivity of the host insulation; typing a value switches the material to custom"),
+    "thickness_mm": ControlSpec(
+        "insulation thickness [mm]", "number", tooltip="distance between the electrodes through the insulation"),
+    "voltage_kV": ControlSpec(
+        "applied voltage [kV rms]", "slider", 0.5, 100.0, 0.1,
+        tooltip="rms value of the applied AC voltage (drag, or type a value into the box beside)"),
+    "frequency_Hz": ControlSpec("frequency [Hz]", "number", tooltip="frequency of the applied voltage"),
+    "model": ControlSpec(
+        "void model", "choice", choices=model_kinds(),
+        tooltip="field: Pedersen's induced charge; network: the three-capacitance circuit (its capacitances "
+                "below); memory: wall memory of earlier discharges"),
+    "network_from_geometry": ControlSpec(
+        "C_c and C_b from the geometry", "bool",
+        tooltip="network model: take the capacitances from the void and insulation geometry (then the pattern "
+                "equals the field model's, by construction); untick to type C_c and C_b"),
+    "capacitance_void_pF": ControlSpec(
+        "void capacitance C_c [pF]", "number",
+        tooltip="network model: capacitance of the void itself (C_c); used when 'from the geometry' is unticked"),
+    "capacitance_series_pF": ControlSpec(
+        "series capacitance C_b [pF]", "number",
+        tooltip="network model: capacitance of the sound insulation in series with the void (C_b); used when "
+                "'from the geometry' is unticked"),
     "parameter_set": ControlSpec(
         "parameter set", "choice", choices=(PANEL_VALUES, *list_parameter_sets()),
         tooltip="a named set of model parameters, each value with its source (pdvoid.cite lists them); the set "
@@ -90,17 +161,21 @@ SPECS: dict[str, ControlSpec] = {
     "lag_free": ControlSpec(
         "no time lag (unlimited electrons)", "bool",
         tooltip="a discharge exactly when the void field reaches the inception field"),
-    "cycles": ControlSpec("cycles [-]", "int"),
-    "seed": ControlSpec("seed [-]", "int"),
-    "test_voltage_kV": ControlSpec("test level [kV rms]", "number"),
+    "cycles": ControlSpec(
+        "cycles [-]", "int", tooltip="AC cycles per run, a whole number from 1 to 10000000"),
+    "seed": ControlSpec(
+        "seed [-]", "int",
+        tooltip="seed of the random numbers, a whole number from 0 to 4294967295; the same seed repeats a run"),
+    "test_voltage_kV": ControlSpec(
+        "test level [kV rms]", "number", tooltip="the test voltage the margin U_inc / U_test refers to"),
 }
 
 #: the controls in the order and groups the panel shows them
 GROUPS: dict[str, tuple[str, ...]] = {
     "void": ("diameter_mm", "height_mm", "gas", "pressure_kPa"),
     "insulation": ("material", "permittivity", "thickness_mm"),
-    "supply and run": ("voltage_kV", "frequency_Hz", "model", "parameter_set", "cycles", "seed",
-                       "test_voltage_kV"),
+    "supply and run": ("voltage_kV", "frequency_Hz", "model", "network_from_geometry", "capacitance_void_pF",
+                       "capacitance_series_pF", "parameter_set", "cycles", "seed", "test_voltage_kV"),
     "model parameters": (
         "residual_ratio",
         "ionization_rate",
@@ -142,6 +217,11 @@ class Controls:
         Supply frequency [Hz].
     model : str
         Void model kind [-].
+    network_from_geometry : bool
+        Network model: the capacitances C_c and C_b from the geometry (True) or as typed (False) [-].
+    capacitance_void_pF, capacitance_series_pF : float
+        Network model: C_c of the void and C_b of the insulation in series with it; with
+        ``network_from_geometry`` they show the geometry's values after a run (0 before the first) [pF].
     parameter_set : str
         A parameter set for that model (:func:`pdvoid.inputs.model_sets.list_parameter_sets`), or
         :data:`PANEL_VALUES` for the model parameters as shown [-].
@@ -175,6 +255,9 @@ class Controls:
     voltage_kV: float = 18.0
     frequency_Hz: float = 50.0
     model: str = "field"
+    network_from_geometry: bool = True
+    capacitance_void_pF: float = 0.0
+    capacitance_series_pF: float = 0.0
     parameter_set: str = PANEL_VALUES
     residual_ratio: float = 0.25
     ionization_rate: float = 1e9
@@ -220,6 +303,7 @@ class Controls:
         if ins.permittivity is None:  # Insulation always sets it (from its material when not given)
             raise InputError("scenario.insulation.permittivity is not set")
         material = ins.material if ins.material in SPECS["material"].choices else CUSTOM_MATERIAL
+        caps = mod.network_capacitances()
         return cls(
             diameter_mm=void.diameter / _MM,
             height_mm=void.height / _MM,
@@ -231,6 +315,9 @@ class Controls:
             voltage_kV=sup.rms / _KV,
             frequency_Hz=sup.frequency,
             model=mod.kind,
+            network_from_geometry=caps is None,
+            capacitance_void_pF=0.0 if caps is None else caps[0] / _PF,
+            capacitance_series_pF=0.0 if caps is None else caps[1] / _PF,
             parameter_set=getattr(mod, "parameter_set", PANEL_VALUES),
             residual_ratio=mod.residual_ratio,
             ionization_rate=mod.ionization_rate,
@@ -304,12 +391,16 @@ class Controls:
         check_choice("host material", self.material, SPECS["material"].choices)
         eps = check_real("relative permittivity", self.permittivity)
         material = self.material if self.material_permittivity() == eps else None
-        ins = replace(
-            base.insulation,
-            thickness=check_real("insulation thickness", self.thickness_mm) * _MM,
-            permittivity=eps,
-            material=material,
-        )
+        thickness = check_real("insulation thickness", self.thickness_mm) * _MM
+        ins: Insulation
+        if isinstance(base.insulation, Coaxial):
+            # a cable's wall: the inner radius is kept, the outer one follows the thickness shown
+            cable = base.insulation
+            same = math.isclose(thickness, cable.thickness, rel_tol=1e-12)
+            outer = cable.outer_radius if same else cable.inner_radius + thickness
+            ins = replace(cable, outer_radius=outer, permittivity=eps, material=material)
+        else:
+            ins = replace(base.insulation, thickness=thickness, permittivity=eps, material=material)
         void = replace(
             base.void,
             diameter=check_real("void diameter", self.diameter_mm) * _MM,
@@ -340,6 +431,8 @@ class Controls:
             field_assisted=self.field_assisted,
             lag_free=self.lag_free,
         )
+        if "capacitance_void" in {g.name for g in fields(model_class(self.model))}:
+            shared.update(self._network_capacitances())
         check_choice("parameter set", self.parameter_set, SPECS["parameter_set"].choices)
         if self.parameter_set == PANEL_VALUES:
             model = model_class(self.model)(**shared)
@@ -355,6 +448,20 @@ class Controls:
                 model = model_from_set(self.parameter_set, ionization_rate=self.ionization_rate,
                                        lag_free=self.lag_free)
         return Scenario(insulation=ins, void=void, supply=supply, model=model, name=base.name)
+
+    def _network_capacitances(self) -> dict[str, float | None]:
+        """The network model's capacitances: None (from the geometry) or the typed values, checked [F]."""
+        if check_bool("C_c and C_b from the geometry", self.network_from_geometry):
+            return {"capacitance_void": None, "capacitance_series": None}
+        out: dict[str, float | None] = {}
+        for key, label, value in (("capacitance_void", "void capacitance C_c", self.capacitance_void_pF),
+                                  ("capacitance_series", "series capacitance C_b", self.capacitance_series_pF)):
+            v = check_real(label, value)
+            if v <= 0.0:
+                raise InputError(f"{label} must be > 0 pF when the capacitances are not taken from the geometry; "
+                                 f"got {v:g} pF (tick 'C_c and C_b from the geometry' or type a positive value)")
+            out[key] = v * _PF
+        return out
 
     def run_settings(self) -> tuple[int, int, float]:
         """The run settings, checked.

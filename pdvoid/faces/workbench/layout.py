@@ -21,10 +21,14 @@ if TYPE_CHECKING:
 
     from pdvoid.analysis.compare import Comparison
 
-__all__ = ["Panel", "build_panel", "control_widget", "summary_html", "message_html"]
+__all__ = ["Panel", "build_panel", "control_widget", "entry_widget", "summary_html", "message_html", "STALE_CSS"]
 
 _LABEL_WIDTH = "190px"
 _CONTROL_WIDTH = "370px"
+_SLIDER_WIDTH = "296px"
+_ENTRY_WIDTH = "70px"
+#: how a view or number from an earlier, valid input is shown while the controls hold an input error
+STALE_CSS = ".pdvoid-stale{opacity:0.35;filter:grayscale(100%);}"
 _VIEW_WIDTH = "704px"
 
 _W = TypeVar("_W", bound="widgets.DOMWidget")
@@ -65,29 +69,66 @@ def control_widget(name: str, value: float | str | bool) -> widgets.DOMWidget:
         low = min(spec.low, float(value))
         high = max(spec.high, float(value))
         digits = max(0, -math.floor(math.log10(spec.step))) if spec.step < 1 else 0
+        common["layout"] = w.Layout(width=_SLIDER_WIDTH)
         widget = w.FloatSlider(
             value=float(value),
             min=low,
             max=high,
             step=spec.step,
             continuous_update=False,
+            readout=False,  # typed values go into the entry beside it, which does not clamp (entry_widget)
             readout_format=f".{digits + 1}f",
             **common,
         )
     elif spec.kind == "number":
         widget = w.FloatText(value=float(value), **common)
     elif spec.kind == "int":
-        widget = w.IntText(value=int(value), **common)
+        # text, parsed by the panel: a number widget would turn "1.5" into 15 in the browser
+        widget = w.Text(value=str(int(value)), continuous_update=False, **common)
     elif spec.kind == "choice":
         widget = w.Dropdown(options=list(spec.choices), value=value, **common)
     else:
         widget = w.Checkbox(
             value=bool(value), description=spec.label, indent=False, layout=w.Layout(width=_CONTROL_WIDTH)
         )
-    if spec.tooltip:
-        widget.tooltip = spec.tooltip
+    widget.tooltip = spec.tooltip  # a real tooltip; "" for none (None would show as "null")
     widget.add_class(f"pdvoid-{name}")
     return widget
+
+
+def entry_widget(name: str, value: float) -> widgets.FloatText:
+    """The typed-entry box beside slider ``name``: it shows the slider's value and takes typed values without
+    clamping them (the panel widens the slider's range or says why a value is refused).
+
+    Parameters
+    ----------
+    name : str
+        A slider's key in :data:`pdvoid.faces.workbench.controls.SPECS` [-].
+    value : float
+        The value shown [the display unit in the control's label].
+
+    Returns
+    -------
+    ipywidgets.FloatText
+        The box, with the CSS class ``pdvoid-<name>-entry``.
+    """
+    w = require("ipywidgets")
+    unit = SPECS[name].label.rpartition("[")[2].rstrip("]")
+    box = w.FloatText(value=float(value), layout=w.Layout(width=_ENTRY_WIDTH),
+                      tooltip=f"type a value [{unit}]; values beyond the slider's range extend it")
+    box.add_class(f"pdvoid-{name}-entry")
+    return box
+
+
+def _no_null_tooltips(root: widgets.Widget) -> None:
+    """Give every widget in ``root`` whose tooltip is unset the tooltip "" (ipywidgets shows None as the text
+    "null")."""
+    stack = [root]
+    while stack:
+        item = stack.pop()
+        if getattr(item, "tooltip", "") is None:
+            item.tooltip = ""
+        stack.extend(getattr(item, "children", ()))
 
 
 @dataclass
@@ -102,8 +143,14 @@ class Panel:
         One widget per control, by control name (see :data:`pdvoid.faces.workbench.controls.SPECS`).
     images : dict of str to ipywidgets.Image
         The "field", "pattern" and "sequence" views.
+    entries : dict of str to ipywidgets.FloatText
+        The typed-entry box beside each slider, by control name.
     summary, status, error : ipywidgets.HTML
         The summary table, the status line and the error message.
+    notice : ipywidgets.HTML
+        A remark on the last typed value (e.g. that a slider's range was widened to hold it).
+    stale : ipywidgets.HTML
+        The line that says the views and numbers are from an earlier input ("" when they are current).
     progress : ipywidgets.IntProgress
         Cycles run.
     stop : ipywidgets.Button
@@ -112,15 +159,18 @@ class Panel:
         The measured-pattern section: "upload", "path", "cycles", "frequency", "load", "clear", "message",
         "image".
     export : dict of str to ipywidgets.DOMWidget
-        The export section: "folder", "png", "svg", "button", "message".
+        The export section: "folder", "png", "svg", "overwrite", "button", "message".
     """
 
     root: widgets.VBox
     controls: dict[str, widgets.DOMWidget]
+    entries: dict[str, widgets.FloatText]
     images: dict[str, widgets.Image]
     summary: widgets.HTML
     status: widgets.HTML
     error: widgets.HTML
+    notice: widgets.HTML
+    stale: widgets.HTML
     progress: widgets.IntProgress
     stop: widgets.Button
     measured: dict[str, widgets.DOMWidget]
@@ -145,7 +195,7 @@ def _labelled(widget: _W, cls: str) -> _W:
     return widget
 
 
-def build_panel(controls: Controls, title: str) -> Panel:
+def build_panel(controls: Controls, title: str, export_folder: str = "") -> Panel:
     """All widgets of the workbench, arranged: controls on the left, views and summary on the right, the
     measured-pattern and export sections folded below.
 
@@ -155,6 +205,8 @@ def build_panel(controls: Controls, title: str) -> Panel:
         The values the controls show.
     title : str
         The scenario's name, shown in the header [-].
+    export_folder : str
+        The folder the export field shows at first [-].
 
     Returns
     -------
@@ -164,12 +216,17 @@ def build_panel(controls: Controls, title: str) -> Panel:
     w = require("ipywidgets")
     values = controls.__dict__
     ctl = {name: control_widget(name, values[name]) for name in SPECS}
+    entries = {name: entry_widget(name, values[name]) for name, spec in SPECS.items() if spec.kind == "slider"}
+
+    def row(n: str) -> widgets.DOMWidget:
+        return w.HBox([ctl[n], entries[n]]) if n in entries else ctl[n]
+
     left = []
     for group, names in GROUPS.items():
         if group == "model parameters":
             continue
         left.append(_heading(group))
-        left.extend(ctl[n] for n in names)
+        left.extend(row(n) for n in names)
     model_box = w.VBox([ctl[n] for n in GROUPS["model parameters"]])
     fold = w.Accordion(
         children=[model_box],
@@ -184,6 +241,7 @@ def build_panel(controls: Controls, title: str) -> Panel:
             min=0,
             max=max(int(controls.cycles), 1),
             description="cycles run",
+            tooltip="cycles simulated so far in this run",
             style=_style(),
             layout=w.Layout(width="300px"),
         ),
@@ -204,10 +262,14 @@ def build_panel(controls: Controls, title: str) -> Panel:
     summary = _labelled(w.HTML(layout=w.Layout(width="370px")), "pdvoid-summary")
     status = _labelled(w.HTML(), "pdvoid-status")
     error = _labelled(w.HTML(), "pdvoid-error")
+    notice = _labelled(w.HTML(), "pdvoid-notice")
+    stale = _labelled(w.HTML(), "pdvoid-stale-note")
     right = w.VBox(
         [
             status,
             error,
+            notice,
+            stale,
             images["field"],
             images["pattern"],
             w.HBox([images["sequence"], summary], layout=w.Layout(align_items="flex-start")),
@@ -217,13 +279,15 @@ def build_panel(controls: Controls, title: str) -> Panel:
 
     measured = {
         "upload": _labelled(
-            w.FileUpload(accept=".csv,.txt,.tsv,.dat,.npz", multiple=False, description="upload file"),
+            w.FileUpload(accept=".csv,.txt,.tsv,.dat,.npz", multiple=False, description="upload file",
+                         tooltip="choose an event file on this computer; it is compared as soon as it arrives"),
             "pdvoid-upload",
         ),
         "path": _labelled(
             w.Text(
                 placeholder="or a path to the file",
                 description="file path",
+                tooltip="a file on the machine that runs the kernel; press 'Load and compare' to read it",
                 style=_style(),
                 layout=w.Layout(width="520px"),
             ),
@@ -243,8 +307,11 @@ def build_panel(controls: Controls, title: str) -> Panel:
             style=_style(),
             layout=w.Layout(width=_CONTROL_WIDTH),
         ),
-        "load": _labelled(w.Button(description="Load and compare", button_style="primary"), "pdvoid-load"),
-        "clear": w.Button(description="Clear"),
+        "load": _labelled(w.Button(description="Load and compare", button_style="primary",
+                                   tooltip="read the file last chosen (upload or typed path) and compare"),
+                          "pdvoid-load"),
+        "clear": _labelled(w.Button(description="Clear", tooltip="forget the measured pattern and the upload"),
+                           "pdvoid-clear"),
         "message": _labelled(w.HTML(), "pdvoid-measured-message"),
         "image": _image("comparison"),
     }
@@ -268,12 +335,21 @@ def build_panel(controls: Controls, title: str) -> Panel:
     export = {
         "folder": _labelled(
             w.Text(
-                value="pdvoid_export", description="folder", style=_style(), layout=w.Layout(width="520px")
+                value=export_folder, description="folder", style=_style(), layout=w.Layout(width="520px"),
+                tooltip="folder to write into (created if missing); a relative path is taken from the kernel's "
+                        "working folder",
             ),
             "pdvoid-export-folder",
         ),
-        "png": w.Checkbox(value=True, description="figures as PNG", indent=False),
-        "svg": w.Checkbox(value=True, description="figures as SVG", indent=False),
+        "png": w.Checkbox(value=True, description="figures as PNG", indent=False,
+                          tooltip="write each view as a PNG picture"),
+        "svg": w.Checkbox(value=True, description="figures as SVG", indent=False,
+                          tooltip="write each view as an SVG drawing"),
+        "overwrite": _labelled(
+            w.Checkbox(value=False, description="replace existing files", indent=False,
+                       tooltip="without it, an export that would replace files stops and names them"),
+            "pdvoid-export-overwrite",
+        ),
         "button": _labelled(
             w.Button(
                 description="Export",
@@ -285,7 +361,7 @@ def build_panel(controls: Controls, title: str) -> Panel:
         "message": _labelled(w.HTML(), "pdvoid-export-message"),
     }
     e = export
-    export_box = w.VBox([e["folder"], w.HBox([e["png"], e["svg"]]), e["button"], e["message"]])
+    export_box = w.VBox([e["folder"], w.HBox([e["png"], e["svg"], e["overwrite"]]), e["button"], e["message"]])
     lower = w.Accordion(
         children=[measured_box, export_box],
         titles=("compare with a measured pattern", "export figures, scenario and result"),
@@ -295,19 +371,24 @@ def build_panel(controls: Controls, title: str) -> Panel:
         f"<h3 style='margin:4px 0'>pdvoid workbench</h3><div>{html.escape(title)}</div>"
         "<div style='color:#8a1c1c;font-size:90%'>Engineering estimates from idealised models. "
         "Test and acceptance levels come from the applicable standards. High voltage can kill.</div>"
+        f"<style>{STALE_CSS}</style>"
     )
     # the views move below the controls when the notebook is narrower than both columns
     left_box = w.VBox(left, layout=w.Layout(width="390px"))
     columns = w.HBox([left_box, right], layout=w.Layout(flex_flow="row wrap"))
     root = w.VBox([header, columns, lower])
     root.add_class("pdvoid-workbench")
+    _no_null_tooltips(root)
     return Panel(
         root=root,
         controls=ctl,
+        entries=entries,
         images=images,
         summary=summary,
         status=status,
         error=error,
+        notice=notice,
+        stale=stale,
         progress=progress,
         stop=stop,
         measured=measured,

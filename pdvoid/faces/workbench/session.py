@@ -19,6 +19,7 @@ from pdvoid.core.errors import InputError
 from pdvoid.core.validity import collect_validity_notes
 from pdvoid.faces.summary_table import summary_dict
 from pdvoid.faces.workbench.controls import CUSTOM_MATERIAL, PANEL_VALUES, Controls
+from pdvoid.faces.workbench.messages import panel_message
 from pdvoid.inputs.scenario import Scenario
 from pdvoid.simulation.events import Events
 from pdvoid.simulation.results import Result
@@ -60,6 +61,11 @@ class Outcome:
     regime : str
         The run's regime in words (:func:`pdvoid.analysis.regime.discharge_regime`: below inception, waiting for
         a start electron, discharging); "" when invalid.
+    network_capacitances : tuple of float or None
+        (C_c, C_b) the network model ran with, from the geometry or as typed; None for other models [F].
+    model_note : str
+        What the model's parameters mean for this run, in words (e.g. that the network model with capacitances
+        from a spheroid's geometry reproduces the field model); "" when there is nothing to say.
     """
 
     controls: Controls
@@ -73,6 +79,8 @@ class Outcome:
     comparison_error: str = ""
     regime: str = ""
     validity_notes: tuple[str, ...] = ()
+    network_capacitances: tuple[float, float] | None = None
+    model_note: str = ""
 
     @property
     def ok(self) -> bool:
@@ -118,6 +126,25 @@ def summary_numbers(scenario: Scenario, result: Result, test_voltage: float) -> 
     return out
 
 
+def _network_state(scenario: Scenario) -> tuple[tuple[float, float] | None, str]:
+    """(C_c, C_b) [F] of a network-model scenario and what they mean in words; (None, "") for other models."""
+    model = scenario.model
+    if not model.gain_from_network:
+        return None, ""
+    from pdvoid.coefficients import compute_coefficients
+
+    c = compute_coefficients(scenario)
+    caps = (float(c.capacitance_void), float(c.capacitance_series))
+    values = f"C_c = {caps[0] / 1e-12:.4g} pF, C_b = {caps[1] / 1e-12:.4g} pF"
+    if model.network_capacitances() is not None:
+        return caps, f"network model with the typed capacitances {values}"
+    note = f"network model with the capacitances from the geometry ({values})"
+    if scenario.void.shape == "spheroid":
+        note += ("; for a spheroid they are chosen to reproduce the field model's induced charge, so the pattern "
+                 "equals the field model's; untick 'C_c and C_b from the geometry' to set them")
+    return caps, note
+
+
 def describe(controls: Controls) -> str:
     """A one-line description of the controls that matter most (the panel's status marker).
 
@@ -136,6 +163,8 @@ def describe(controls: Controls) -> str:
         f"{controls.pressure_kPa:g} kPa, εr {controls.permittivity:g}, {controls.thickness_mm:g} mm, "
         f"{controls.voltage_kV:g} kV rms, {controls.model} model"
         + ("" if controls.parameter_set == PANEL_VALUES else f" (parameter set {controls.parameter_set})")
+        + (f" (C_c {controls.capacitance_void_pF:.4g} pF, C_b {controls.capacitance_series_pF:.4g} pF)"
+           if controls.model == "network" and not controls.network_from_geometry else "")
     )
 
 
@@ -193,7 +222,8 @@ class WorkbenchSession:
     # ---- controls ------------------------------------------------------------------------------------------
     def set(self, **values: Any) -> Controls:
         """Change control values. Choosing a host material sets its permittivity; typing a permittivity that
-        is not the material's switches the material to the custom choice.
+        is not the material's switches the material to the custom choice. Typing a network capacitance unticks
+        "from the geometry"; unticking it starts the typed capacitances from the geometry's.
 
         Parameters
         ----------
@@ -215,6 +245,19 @@ class WorkbenchSession:
             new = new.changed(permittivity=new.material_permittivity())
         elif "permittivity" in values and new.material_permittivity() != new.permittivity:
             new = new.changed(material=CUSTOM_MATERIAL)
+        typed_caps = {"capacitance_void_pF", "capacitance_series_pF"} & set(values)
+        if typed_caps and "network_from_geometry" not in values and any(
+                values[k] != getattr(self.controls, k) for k in typed_caps):
+            new = new.changed(network_from_geometry=False)  # a typed capacitance is meant to be used
+        if values.get("network_from_geometry") is False and min(new.capacitance_void_pF,
+                                                                 new.capacitance_series_pF) <= 0.0:
+            try:  # start the typed values from the geometry's
+                caps, _ = _network_state(new.changed(network_from_geometry=True, model="network")
+                                         .to_scenario(self.base))
+            except InputError:
+                caps = None
+            if caps is not None:
+                new = new.changed(capacitance_void_pF=caps[0] / 1e-12, capacitance_series_pF=caps[1] / 1e-12)
         self.controls = new
         return new
 
@@ -275,16 +318,25 @@ class WorkbenchSession:
                 )
                 summary = summary_numbers(scenario, result, test)
                 regime = discharge_regime(scenario, result).text
+                caps, model_note = _network_state(scenario)
             except InputError as exc:
-                error: str | None = str(exc)
+                error: str | None = panel_message(str(exc))
             else:
                 error = None
         if error is not None:
             outcome = Outcome(controls=controls, error=error, seconds=time.perf_counter() - t0)
         else:
             comp, comp_err = self._compare(result)
+            if caps is not None and controls.network_from_geometry:
+                # show the geometry's capacitances (they become the typed values when the box is unticked)
+                shown = {"capacitance_void_pF": caps[0] / 1e-12, "capacitance_series_pF": caps[1] / 1e-12}
+                if self.controls is controls:
+                    self.controls = controls.changed(**shown)
+                controls = controls.changed(**shown)
             outcome = Outcome(
                 controls=controls,
+                network_capacitances=caps,
+                model_note=model_note,
                 scenario=scenario,
                 result=result,
                 summary=summary,

@@ -8,12 +8,14 @@ from __future__ import annotations
 
 import io
 import math
+import os
 import textwrap
 from collections.abc import Iterator
 from pathlib import Path
 from typing import TYPE_CHECKING
 
 from pdvoid.core.errors import InputError
+from pdvoid.core.files import atomic_write
 from pdvoid.faces.workbench.session import Outcome
 from pdvoid.simulation.events import Events
 from pdvoid.simulation.results import Result
@@ -226,9 +228,14 @@ def export(
     measured: Result | Events | None = None,
     formats: tuple[str, ...] = ("png", "svg"),
     stem: str = "pdvoid",
+    overwrite: bool = False,
 ) -> list[Path]:
     """Write the figures (``formats`` from png, svg, pdf), the scenario (TOML, :meth:`Scenario.to_file`) and
     the result (:meth:`Result.save`, NPZ) of ``outcome`` into ``folder`` (created if missing).
+
+    Every file is written to a temporary file beside its target and renamed into place, so an interrupted
+    export leaves no half-written file. Files that exist already are replaced only with ``overwrite``;
+    otherwise nothing is written and the error names them.
 
     Parameters
     ----------
@@ -242,6 +249,8 @@ def export(
         Figure formats, from "png", "svg", "pdf" [-].
     stem : str
         File-name prefix [-].
+    overwrite : bool
+        Replace files of the same names; False: refuse and name them [-].
 
     Returns
     -------
@@ -251,8 +260,8 @@ def export(
     Raises
     ------
     InputError
-        When there is no result, a format is unknown, the stem is not a plain prefix or the folder cannot be
-        created.
+        When there is no result, a format is unknown, the stem is not a plain prefix, the folder cannot be
+        created or (without ``overwrite``) a file to write exists already.
     """
     if outcome is None or outcome.result is None or outcome.scenario is None:
         raise InputError(
@@ -264,21 +273,32 @@ def export(
         raise InputError(f"choose at least one figure format from png, svg, pdf; got {formats!r}")
     if not isinstance(stem, str) or not stem or any(c in stem for c in "/\\:"):
         raise InputError(f"stem must be a plain file-name prefix; got {stem!r}")
+    if not isinstance(overwrite, bool):
+        raise InputError(f"overwrite must be True or False; got {overwrite!r}")
+    if not isinstance(folder, (str, os.PathLike)) or not str(folder).strip():
+        raise InputError(f"export folder must be a folder path; got {folder!r}")
     out = Path(folder).expanduser().resolve()
+    names = list(VIEW_NAMES) + (["comparison"] if measured is not None else [])
+    targets = [out / f"{stem}_{name}.{fmt}" for name in names for fmt in formats]
+    scenario_path, result_path = out / f"{stem}_scenario.toml", out / f"{stem}_result.npz"
+    existing = [p for p in (*targets, scenario_path, result_path) if p.exists()]
+    if existing and not overwrite:
+        raise InputError(f"export stopped, nothing written: {len(existing)} file(s) in {str(out)!r} exist already "
+                         f"({', '.join(p.name for p in existing)}); choose another folder or tick 'replace "
+                         "existing files'")
     try:
         out.mkdir(parents=True, exist_ok=True)
     except OSError as exc:
         raise InputError(f"export folder {str(out)!r} cannot be created: {exc}") from None
     written: list[Path] = []
-    names = list(VIEW_NAMES) + (["comparison"] if measured is not None else [])
     for name in names:
         fig = view_figure(name, outcome.result, measured)
         for fmt in formats:
             path = out / f"{stem}_{name}.{fmt}"
-            fig.savefig(path, format=fmt, dpi=EXPORT_DPI, facecolor="white")
+            with atomic_write(path, "wb") as fh:
+                fig.savefig(fh, format=fmt, dpi=EXPORT_DPI, facecolor="white")
             written.append(path)
-    scenario_path = out / f"{stem}_scenario.toml"
-    outcome.scenario.to_file(scenario_path)
+    outcome.scenario.to_file(scenario_path)  # both write atomically (pdvoid.core.files.atomic_write)
     written.append(scenario_path)
-    written.append(outcome.result.save(out / f"{stem}_result.npz"))
+    written.append(outcome.result.save(result_path))
     return written

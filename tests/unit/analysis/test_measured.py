@@ -195,3 +195,20 @@ def test_jit_disabled_gives_the_same_readings(tmp_path):
         out[jit] = np.load(path)
     assert out["0"].size >= 8
     np.testing.assert_allclose(out["0"], out["1"], rtol=1e-12, atol=1e-24)
+
+
+def test_calibration_factor_is_positive_for_a_narrowband_output_with_a_negative_main_half_wave():
+    # IEC 60270 calibration: the factor is the calibrator's charge over its reading's magnitude, so positive;
+    # at 200 kHz / 9 kHz the band-pass's largest half-wave of a positive pulse is negative (the carrier)
+    # (with C_a = 100 pF and C_k = 1 nF, the case the command line printed as -1.101)
+    inst = pdvoid.Instrument(kind="narrowband", centre=200e3, bandwidth=9e3)
+    circuit = pdvoid.TestCircuit(test_object_capacitance=100e-12, coupling_capacitance=1e-9)
+    resp = instrument_response(circuit, inst)
+    assert resp.peak < 0.0 and resp.polarity == -1.0
+    assert resp.calibration_factor > 0.0
+    assert resp.calibration_factor == pytest.approx(circuit.calibrator_charge / abs(resp.calibration_reading),
+                                                    rel=1e-15)
+    m = pdvoid.measure(_lone([50e-12, -20e-12]), circuit=circuit, instrument=inst)
+    rec = m.extra["instrument"]
+    assert rec["calibration_factor"] == resp.calibration_factor > 0.0 and rec["reading_polarity"] == -1.0
+    np.testing.assert_allclose(m.charge, [50e-12, -20e-12], rtol=0.01)  # readings keep the discharge's sign

@@ -38,17 +38,25 @@ def _events():
 
 
 SC, EV = _scenario(), _events()
+MULTI = pdvoid.MultiVoidScenario.from_scenario(SC, (SC.void, pdvoid.Void(diameter=0.8e-3, height=0.8e-3)))
+POPULATION = pdvoid.VoidPopulation(voids_per_part=2.0, diameters=(0.3e-3, 1.5e-3))
 # name -> (callable, valid keyword arguments, {parameter: its valid values}, parameters that are numbers)
 CATALOGUE = {
     "Insulation": (pdvoid.Insulation, {"thickness": 6e-3, "permittivity": 4.2},
                    {"thickness": [1e-4, 6e-3, 0.1], "permittivity": [1.0, 4.2, 100.0], "area": [None, 1e-2],
                     "dielectric_strength": [None, 2e7]},
                    {"thickness", "permittivity", "area", "dielectric_strength"}),
+    "Coaxial": (pdvoid.Coaxial, {"inner_radius": 8e-3, "outer_radius": 13.5e-3, "permittivity": 2.3},
+                {"inner_radius": [1e-3, 8e-3], "outer_radius": [9e-3, 13.5e-3, 0.5], "permittivity": [1.0, 2.3],
+                 "material": [None, "xlpe"], "dielectric_strength": [None, 2e7], "area": [None]},
+                {"inner_radius", "outer_radius", "permittivity", "dielectric_strength"}),
     "Void": (pdvoid.Void, {"diameter": 1e-3, "height": 1e-3},
              {"diameter": [1e-5, 1e-3, 1e-2], "height": [1e-5, 1e-3], "pressure": [1e3, 101325.0, 1e6],
               "temperature": [250.0, 293.15], "gas": ["air", "SF6", "N2"], "shape": ["spheroid", "cylinder"],
-              "sealed": [True, False], "field_enhancement": [None, 1.5], "secondary_emission": [None, 0.01]},
-             {"diameter", "height", "pressure", "temperature", "field_enhancement", "secondary_emission"}),
+              "sealed": [True, False], "field_enhancement": [None, 1.5], "secondary_emission": [None, 0.01],
+              "radial_position": [None, 1e-2]},
+             {"diameter", "height", "pressure", "temperature", "field_enhancement", "secondary_emission",
+              "radial_position"}),
     "Sine": (pdvoid.Sine, {"rms": 1e4}, {"rms": [1.0, 1e4, 1e6], "frequency": [1.0, 50.0, 1e4],
                                          "harmonics": [(), ((3, 0.1, 0.0),)]}, {"rms", "frequency"}),
     "Periodic": (pdvoid.Periodic, {"samples": [0.0, 1.0, 0.0, -1.0]},
@@ -85,6 +93,23 @@ CATALOGUE = {
                                                         "confidence": [0.9, 0.95]}, {"parameters", "confidence"}),
     "compare": (pdvoid.compare, {"simulated": EV, "measured": EV}, {"threshold": [0.0], "phase_bins": [18, 36]},
                 {"threshold", "phase_bins"}),
+    "MultiVoidScenario": (pdvoid.MultiVoidScenario, {"insulation": SC.insulation, "voids": (SC.void,),
+                                                     "supply": SC.supply},
+                          {"voids": [(SC.void,), [SC.void, pdvoid.Void(diameter=0.5e-3, height=0.5e-3)]],
+                           "model": [SC.model], "name": ["", "x"]}, set()),
+    "simulate_voids": (pdvoid.simulate_voids, {"scenario": MULTI, "cycles": 3},
+                       {"cycles": [1, 3], "seed": [0, 2**32 - 1]}, {"cycles", "seed"}),
+    "VoidPopulation": (pdvoid.VoidPopulation, {"voids_per_part": 2.0, "diameters": (1e-3, 2e-4)},
+                       {"voids_per_part": [0.0, 1.0, 3.0], "count": ["poisson", "fixed"],
+                        "aspect_ratio": [None, 0.5, 2.0]},
+                       {"voids_per_part", "aspect_ratio"}),
+    "acceptance_probability": (pdvoid.acceptance_probability,
+                               {"scenario": SC, "population": POPULATION, "level": 1e-10, "duration": 0.04,
+                                "parts": 2},
+                               {"level": [1e-12, 1e-9], "duration": [0.02, 0.04], "parts": [1, 2],
+                                "voltage": [None, 15e3], "quantity": ["largest", "repeated"],
+                                "confidence": [0.9, 0.95], "seed": [0, 7]},
+                               {"level", "duration", "parts", "voltage", "confidence", "seed"}),
 }
 
 
