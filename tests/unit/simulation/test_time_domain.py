@@ -343,3 +343,22 @@ def test_cosine_rectangular_counts_and_conduction_against_lsim():
     # extrapolated from the last grid point before the event by one grid step (fast polarity changes)
     step = np.abs(x[idx] - x[idx - 1])
     assert np.all(np.abs(np.abs(x[idx]) - c.inception_field) <= tol + step)
+
+
+def test_dc_interval_in_a_cable():
+    # A small spherical void at radius r in a coaxial insulation sees the local field V/(r ln(R/r_i)) (uniform
+    # conductivity: the DC and the capacitive field distributions of the wall agree); the lag-free DC interval
+    # follows the same hand formula with E_inf = (3/2) V/(r ln(R/r_i)) and tau = eps0 (2 er + 1)/(2 sigma).
+    sigma, er, r_i, r_o, r = 1e-13, 2.3, 10e-3, 15.5e-3, 12e-3
+    cable = pdvoid.Coaxial(inner_radius=r_i, outer_radius=r_o, permittivity=er, conductivity=sigma)
+    s = pdvoid.Scenario(cable, pdvoid.Void(0.5e-3, 0.5e-3, radial_position=r), pdvoid.DC(60e3),
+                        pdvoid.FieldModel(lag_free=True))
+    with warnings.catch_warnings():
+        warnings.simplefilter("ignore", pdvoid.ValidityWarning)  # the closed forms at the local field
+        c = pdvoid.compute_coefficients(s)
+        res = pdvoid.simulate(s, duration=5000.0)
+    e_inf = 1.5 * 60e3 / (r * math.log(r_o / r_i))
+    tau = EPS0 * (2 * er + 1) / (2 * sigma)
+    expected = tau * math.log((e_inf - c.residual_field) / (e_inf - c.inception_field))
+    assert res.event_count > 10
+    np.testing.assert_allclose(np.diff(res.time), expected, rtol=1e-6)
