@@ -293,6 +293,8 @@ def scenario_to_dict(s: Scenario) -> dict[str, Any]:
         out["supply"] = {"kind": sup.kind}
         for f in fields(sup):  # type: ignore[arg-type]  # every registered supply is a dataclass
             v = getattr(sup, f.name)
+            if v is None:
+                continue
             dim, unit = sup.field_units[f.name]
             if f.name == "ripple":
                 if v:

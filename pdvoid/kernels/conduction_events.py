@@ -8,10 +8,11 @@ The void field is x(t) = g_cap·V(t) + z(t) + q(t) [V/m]:
 * q: the field of the charge deposited by discharges, q(t) = q0·exp(−(t − t0)/τ_q).
 
 (:mod:`pdvoid.physics.conduction` derives H(s) = f_cap + (f_res − f_cap)/(1 + s τ).) On each piece of the supply,
-V = level + slope·(t − t_k) + c·sin(w (t − t_k) + φ) + Σ_m a_m sin(m ω t) + b_m cos(m ω t) (a sinusoid of the
-piece's own, e.g. a cosine transition, and a ripple common to all pieces), z has the closed form
+V = level + slope·(t − t_k) + c·sin(w (t − t_k) + φ) + e·exp(−(t − t_k)/τ_p) + Σ_m a_m sin(m ω t) + b_m cos(m ω t)
+(a sinusoid of the piece's own, e.g. a cosine transition, an exponential, e.g. a decay after switch-off, and a
+ripple common to all pieces), z has the closed form
 z(t) = P(t) + C·exp(−(t − t_z)/τ) with the particular solution
-P(t) = G·[level + slope·(t − t_k − τ) + c (sin θ − wτ cos θ)/(1 + w²τ²)]
+P(t) = G·[level + slope·(t − t_k − τ) + c (sin θ − wτ cos θ)/(1 + w²τ²) + e τ_p/(τ_p − τ) exp(−(t − t_k)/τ_p)]
        + G·Σ_m [(a_m + b_m r_m) sin + (b_m − a_m r_m) cos]/(1 + r_m²),
 θ = w (t − t_k) + φ, r_m = m ω τ, and C set by the continuity of z at the start of the piece. Nothing is
 integrated with a step.
@@ -49,13 +50,16 @@ S_REMAIN = 8  # remaining exponential hazard of the current wait
 S_COUNT = 9  # events so far
 STATE_SIZE = 12
 
-# per-piece table layout (columns of pw): V = level + slope (t - t_k) + amp sin(omega (t - t_k) + phase) + ripple
+# per-piece table layout (columns of pw):
+# V = level + slope (t - t_k) + amp sin(omega (t - t_k) + phase) + exp_amp exp(-(t - t_k)/exp_tau) + ripple
 PW_LEVEL = 0
 PW_SLOPE = 1
 PW_AMP = 2
 PW_OMEGA = 3
 PW_PHASE = 4
-PW_SIZE = 5
+PW_EXP = 5  # amplitude of an exponential term exp_amp·exp(-(t - t_k)/exp_tau) [V]
+PW_EXPTAU = 6  # its time constant [s]
+PW_SIZE = 7
 
 # parameter vector layout
 P_GCAP = 0  # f_cap/d [1/m]
@@ -134,6 +138,8 @@ def piece_voltage(t: float, k: int, breaks: np.ndarray, pw: np.ndarray, omega: f
     v = pw[k, PW_LEVEL] + pw[k, PW_SLOPE] * u
     if pw[k, PW_AMP] != 0.0:
         v += pw[k, PW_AMP] * math.sin(pw[k, PW_OMEGA] * u + pw[k, PW_PHASE])
+    if pw[k, PW_EXP] != 0.0:
+        v += pw[k, PW_EXP] * math.exp(-u / pw[k, PW_EXPTAU])
     for i in range(orders.size):
         ph = orders[i] * omega * t
         v += a_coef[i] * math.sin(ph) + b_coef[i] * math.cos(ph)
@@ -147,6 +153,8 @@ def _dv(t: float, k: int, breaks: np.ndarray, pw: np.ndarray, omega: float, orde
     if pw[k, PW_AMP] != 0.0:
         w = pw[k, PW_OMEGA]
         d += pw[k, PW_AMP] * w * math.cos(w * (t - breaks[k]) + pw[k, PW_PHASE])
+    if pw[k, PW_EXP] != 0.0:
+        d -= pw[k, PW_EXP] / pw[k, PW_EXPTAU] * math.exp(-(t - breaks[k]) / pw[k, PW_EXPTAU])
     for i in range(orders.size):
         w = orders[i] * omega
         ph = w * t
@@ -170,6 +178,13 @@ def _particular(t: float, k: int, breaks: np.ndarray, pw: np.ndarray, orders: np
         r = pw[k, PW_OMEGA] * tau
         th = pw[k, PW_OMEGA] * u + pw[k, PW_PHASE]
         p += pw[k, PW_AMP] * (math.sin(th) - r * math.cos(th)) / (1.0 + r * r)
+    if pw[k, PW_EXP] != 0.0:
+        # response to c exp(-u/tp): c tp/(tp - tau) exp(-u/tp); at tp = tau: c (u/tau) exp(-u/tau)
+        tp = pw[k, PW_EXPTAU]
+        if abs(tp - tau) <= 1e-9 * tau:
+            p += pw[k, PW_EXP] * (u / tau) * math.exp(-u / tau)
+        else:
+            p += pw[k, PW_EXP] * tp / (tp - tau) * math.exp(-u / tp)
     for i in range(orders.size):
         w = orders[i] * omega
         r = w * tau
@@ -541,11 +556,13 @@ def run_time(
         h = breaks[k + 1] - breaks[k]
         if h > 0.1 * par[P_TAU] or h > 0.1 * par[P_TAUQ]:
             h /= 16.0  # the decaying parts may turn x inside a long piece: scan it
+        if pw[k, PW_EXP] != 0.0 and h > 0.1 * pw[k, PW_EXPTAU]:
+            h /= 16.0
         if pw[k, PW_AMP] != 0.0 and h > 0.4 / pw[k, PW_OMEGA]:
             h = 0.4 / pw[k, PW_OMEGA]  # 1/16 of the period of the piece's own sinusoid
         if par[P_SCAN] < h:
             h = par[P_SCAN]
-            if pw[k, PW_SLOPE] == 0.0 and pw[k, PW_AMP] == 0.0:
+            if pw[k, PW_SLOPE] == 0.0 and pw[k, PW_AMP] == 0.0 and pw[k, PW_EXP] == 0.0:
                 skip, inside = _safe_skip(t, k, pw, a_coef, b_coef, orders, par, state)
                 if inside and not lag_free and not field_assisted and skip > 4.0 * h:
                     # one window over the whole span: the hazard does not depend on x

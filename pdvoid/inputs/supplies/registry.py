@@ -37,6 +37,9 @@ class SupplyPieces:
     amp, omega, phase : numpy.ndarray or None
         The piece's own sinusoid: amplitude [V], angular frequency [rad/s] (> 0 where amp is not 0) and phase
         [rad] (K values each), or None for none.
+    exp_amp, exp_tau : numpy.ndarray or None
+        The piece's own exponential ``exp_amp·exp(−(t − breaks_k)/exp_tau)``: amplitude [V] and time constant [s]
+        (> 0 where exp_amp is not 0), or None for none.
     """
 
     breaks: np.ndarray
@@ -49,18 +52,21 @@ class SupplyPieces:
     amp: np.ndarray | None = None
     omega: np.ndarray | None = None
     phase: np.ndarray | None = None
+    exp_amp: np.ndarray | None = None
+    exp_tau: np.ndarray | None = None
 
     def table(self) -> np.ndarray:
-        """The per-piece table of the kernel: rows (level, slope, amp, omega, phase).
+        """The per-piece table of the kernel: rows (level, slope, amp, omega, phase, exp_amp, exp_tau).
 
         Returns
         -------
         numpy.ndarray
-            Shape (K, 5), float64.
+            Shape (K, 7), float64.
         """
         k = self.level.size
         z = np.zeros(k)
         cols = [self.level, self.slope] + [z if c is None else c for c in (self.amp, self.omega, self.phase)]
+        cols += [z if self.exp_amp is None else self.exp_amp, np.ones(k) if self.exp_tau is None else self.exp_tau]
         return np.ascontiguousarray(np.stack([np.asarray(c, dtype=float) for c in cols], axis=1))
 
     def voltage(self, t: np.ndarray) -> np.ndarray:
@@ -82,6 +88,8 @@ class SupplyPieces:
         v = self.level[k] + self.slope[k] * u
         if self.amp is not None and self.omega is not None and self.phase is not None:
             v = v + self.amp[k] * np.sin(self.omega[k] * u + self.phase[k])
+        if self.exp_amp is not None and self.exp_tau is not None:
+            v = v + self.exp_amp[k] * np.exp(-u / self.exp_tau[k])
         w = 2.0 * math.pi * self.ripple_frequency
         for m, a, b in zip(self.orders, self.a_coef, self.b_coef, strict=True):
             v = v + a * np.sin(m * w * t) + b * np.cos(m * w * t)

@@ -80,7 +80,8 @@ def test_polarity_reversal_and_piecewise_round_trip(tmp_path):
                                         ripple=((6, 0.01, 0.0),), ripple_frequency=50.0),
                 pdvoid.PiecewiseLinear([0.0, 1.0, 3.0], [0.0, 2e4, -1e4]),
                 pdvoid.SquareWave(2e3, 2e4, 1e-7, duty=0.2, bipolar=False),
-                pdvoid.CosineRectangular(2e4, 0.1, 0.05)):
+                pdvoid.CosineRectangular(2e4, 0.1, 0.05),
+                pdvoid.DC(-3e4, rise_time=1.0, off_time=50.0, decay_time=2.0)):
         s = pdvoid.Scenario(pdvoid.Insulation(6e-3, 4.2), pdvoid.Void(1e-3, 1e-3), sup)
         assert pdvoid.Scenario.from_file(s.to_file(tmp_path / "s.toml")) == s
 
@@ -123,6 +124,10 @@ def test_piecewise_from_csv(tmp_path):
     lambda: pdvoid.DC(1e4, ripple=[1, 0.1, 0.0]),
     lambda: pdvoid.DC(1e4, ripple_frequency=0.0),
     lambda: pdvoid.DC(1e4, rise_time=-1.0),
+    lambda: pdvoid.DC(1e4, off_time=10.0, ripple=((1, 0.01, 0.0),)),
+    lambda: pdvoid.DC(1e4, decay_time=5.0),
+    lambda: pdvoid.DC(1e4, rise_time=20.0, off_time=10.0),
+    lambda: pdvoid.DC(1e4, off_time=0.0),
     lambda: pdvoid.PolarityReversal(1e4, hold_time=10.0, ramp_time=0.0),
     lambda: pdvoid.PolarityReversal(1e4, hold_time=10.0, ramp_time=1.0, reversals=0),
     lambda: pdvoid.PolarityReversal(1e4, hold_time=10.0, ramp_time=1.0, rise_time=20.0),

@@ -362,3 +362,40 @@ def test_dc_interval_in_a_cable():
     expected = tau * math.log((e_inf - c.residual_field) / (e_inf - c.inception_field))
     assert res.event_count > 10
     np.testing.assert_allclose(np.diff(res.time), expected, rtol=1e-6)
+
+
+def test_switch_off_discharges_follow_the_exponential_decay():
+    # Perfect dielectric, lag-free: the step to V at t = 0 discharges once and leaves x = E_res, i.e. a deposited
+    # field E_res - gV (g V = f_cap V/d). After switching off at t_off, V = V exp(-u/t_p) and
+    # x(u) = g V exp(-u/t_p) + E_res - g V reaches -E_inc at u = t_p ln(g V/(g V - E_res - E_inc)) (hand
+    # derivation): a discharge of the reversed polarity after switching off; with a step off (t_p = 0) at once.
+    for decay in (0.0, 5.0, 40.0):
+        s = _dc(sigma=0.0, supply=pdvoid.DC(50e3, off_time=100.0, decay_time=decay))
+        c = pdvoid.compute_coefficients(s)
+        g_v = c.field_enhancement * 50e3 / D_SLAB
+        r = pdvoid.simulate(s, duration=400.0)
+        assert r.event_count == 2 and r.charge[0] > 0 > r.charge[1]
+        expected = 100.0 + decay * math.log(g_v / (g_v - c.residual_field - c.inception_field))
+        assert r.time[1] == pytest.approx(expected, rel=1e-12, abs=1e-12)
+    # with conduction (tau = 4000 s against a 3 s decay: the deposited charge outlives the supply) the decay and
+    # the relaxation combine: against the lsim-rebuilt field (as above)
+    from scipy import signal
+
+    sigma = 1e-14
+    sup = pdvoid.DC(50e3, off_time=60.0, decay_time=3.0)
+    s = _dc(sigma=sigma, supply=sup)
+    c = pdvoid.compute_coefficients(s)
+    r = pdvoid.simulate(s, duration=120.0)
+    f_cap, f_res, tau = _sphere(sigma)
+    t = np.linspace(0.0, 120.0, 480_001)
+    v = sup.pieces(120.0).voltage(t)
+    _, z, _ = signal.lsim(([(f_res - f_cap) / D_SLAB], [tau, 1.0]), v, t)
+    x = f_cap * v / D_SLAB + z
+    for ti, dj in zip(r.time, r.field_after - r.field_before, strict=True):
+        x[t >= ti] += dj * np.exp(-(t[t >= ti] - ti) / tau)
+    tol = 2e-3 * c.inception_field
+    edges = np.concatenate([r.time, [120.0]])
+    assert np.any(r.charge[r.time > 60.0] < 0)
+    for lo, hi in zip(edges[:-1], edges[1:], strict=True):
+        inside = (t > lo + 1e-3) & (t < hi - 1e-3)
+        assert np.max(np.abs(x[inside]), initial=0.0) < c.inception_field + tol
