@@ -29,6 +29,7 @@ from pdvoid.inputs.multi_void import MultiVoidScenario
 from pdvoid.inputs.parameters import Insulation, Periodic, Sine, Void
 from pdvoid.inputs.population import VoidPopulation
 from pdvoid.inputs.scenario import Scenario
+from pdvoid.inputs.supplies import DC, CosineRectangular, PiecewiseLinear, PolarityReversal, SquareWave
 from pdvoid.models import FieldModel, MemoryModel, NetworkModel
 from pdvoid.simulation.events import Events
 from pdvoid.simulation.multi_void import MultiVoidResult, simulate_voids
@@ -70,6 +71,7 @@ _SUBPACKAGES = {
 
 __all__ = [
     "__version__", "InputError", "ValidityWarning", "cite", "show_versions", "Insulation", "Void", "Sine", "Periodic",
+    "DC", "PolarityReversal", "PiecewiseLinear", "SquareWave", "CosineRectangular",
     "FieldModel", "MemoryModel", "NetworkModel", "Scenario", "Coefficients", "compute_coefficients", "Events",
     "simulate", "Result", "MultiVoidScenario", "simulate_voids", "MultiVoidResult", "VoidPopulation",
     "load", "Coaxial",

@@ -253,7 +253,7 @@ def ramp_test(
         raise InputError(f"step {step:g} V is too small for the range {start:g}..{max_voltage:g} V "
                          "(more than 10000 levels)")
     dwell = check_positive("dwell", dwell, "s")
-    dwell_cycles = max(1, round(dwell * scenario.supply.frequency))
+    dwell_cycles = max(1, round(dwell * scenario.periodic_supply.frequency))
     if dwell_cycles > 10_000_000:
         raise InputError(f"dwell must be at most 1e7 cycles; got {dwell_cycles}")
     threshold = check_nonnegative("threshold", threshold, "C")
@@ -287,7 +287,7 @@ def ramp_test(
     return RampTest(
         inception_voltages=incs_a, extinction_voltages=exts_a, inception_voltage=mi, extinction_voltage=me,
         inception_voltage_std=si, extinction_voltage_std=se, step=step, dwell=dwell_cycles /
-        scenario.supply.frequency, threshold=threshold, repeat_count=repeat_count,
+        scenario.periodic_supply.frequency, threshold=threshold, repeat_count=repeat_count,
         levels=np.array(first[0]), counts=np.array(first[1]),
     )
 
@@ -323,7 +323,7 @@ def time_above_inception_fraction(scenario: Scenario, voltage: float) -> float:
         return 1.0 - 2.0 / math.pi * math.asin(u_inc / voltage)
     from pdvoid.inputs.waveform import evaluate
 
-    orders, a, b = scenario.supply.fourier()
+    orders, a, b = scenario.periodic_supply.fourier()
     v = evaluate(np.linspace(0.0, 1.0, 20001)[:-1], orders, a, b) * (voltage / scenario.supply.rms)
     c = compute_coefficients(scenario)
     gain = c.field_enhancement / scenario.insulation.thickness

@@ -279,7 +279,7 @@ def acceptance_probability(
                          "void.charge_per_field, which belong to its own size; leave them unset so that each void "
                          "of the population gets its own")
     test_voltage = float(scenario.supply.rms)
-    f = float(scenario.supply.frequency)
+    f = float(scenario.periodic_supply.frequency)
     cycles = max(1, math.ceil(duration * f * (1.0 - 1e-12)))
     if cycles > 100_000_000:
         raise InputError(f"duration {duration!r} s is {cycles} cycles at {f!r} Hz; at most 1e8 cycles")

@@ -192,7 +192,7 @@ def discharge_regime(scenario: Scenario, result: Result | None = None) -> Discha
     if not isinstance(model, VoidModel):
         raise InputError(f"scenario.model {type(model).__name__} does not implement the void-model protocol")
     c = compute_coefficients(scenario)
-    f = float(scenario.supply.frequency)
+    f = float(scenario.periodic_supply.frequency)
     period = 1.0 / f
     extra: dict[str, float] = {}
     if result is not None:

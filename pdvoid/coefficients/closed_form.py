@@ -19,6 +19,7 @@ from pdvoid.coefficients.record import Coefficients
 from pdvoid.core.errors import InputError
 from pdvoid.inputs.coaxial import Coaxial
 from pdvoid.inputs.materials import GasData, get_gas
+from pdvoid.inputs.supplies import TimeSupply
 from pdvoid.inputs.waveform import peak_value
 from pdvoid.physics.electrons import volume_electron_rate
 from pdvoid.physics.geometry import (
@@ -37,19 +38,21 @@ if TYPE_CHECKING:
 __all__ = ["compute_coefficients", "supply_peak_factor"]
 
 
-def supply_peak_factor(supply: Sine | Periodic) -> float:
+def supply_peak_factor(supply: Sine | Periodic | TimeSupply) -> float:
     """Peak of |V| divided by the rms value the supply is specified with [-].
 
     Parameters
     ----------
-    supply : Sine or Periodic
+    supply : Sine, Periodic or a supply without a period
         The supply.
 
     Returns
     -------
     float
-        peak |V| / rms [-] (√2 for a plain sine).
+        peak |V| / rms [-] (√2 for a plain sine; about 1 for DC).
     """
+    if isinstance(supply, TimeSupply):  # a supply without a period knows its own peak
+        return float(supply.peak) / float(supply.rms)
     orders, a, b = supply.fourier()
     return peak_value(orders, a, b) / supply.rms
 

@@ -203,6 +203,23 @@ REFERENCES: dict[str, Reference] = dict(
         _r("memory_illustrative", "pdvoid, memory model: illustrative parameter values chosen to give a few to "
            "tens of discharges per cycle in mm-size voids at 50 Hz, fitted to no measurement (each value of the "
            "parameter set says which)", "common practice"),
+        _r("maxwell_wagner", "K. W. Wagner, 'Erklärung der dielektrischen Nachwirkungsvorgänge auf Grund "
+           "Maxwellscher Vorstellungen', Arch. Elektrotech. 2 (1914) 371-387; R. W. Sillars, 'The properties of a "
+           "dielectric containing semiconducting particles of various shapes', J. IEE 80 (1937) 378-394 "
+           "(interfacial relaxation of an ellipsoid in a lossy host: complex permittivities in the electrostatic "
+           "ellipsoid solution)", "from memory"),
+        _r("okonski1960", "C. T. O'Konski, 'Electric properties of macromolecules. V. Theory of ionic "
+           "polarization in polyelectrolytes', J. Phys. Chem. 64 (1960) 605-619 (a sphere of radius a with "
+           "surface conductance K_s acts as a sphere of conductivity sigma + 2 K_s/a)", "from memory"),
+        _r("eoll1975", "C. K. Eoll, 'Theory of stress distribution in insulation of high-voltage DC cables: "
+           "Part I', IEEE Trans. Electr. Insul. EI-10(1) (1975) 27-35 (conductivity exp(alpha T + gamma E))",
+           "from memory"),
+        _r("jeroense1998", "M. J. P. Jeroense, P. H. F. Morshuis, 'Electric fields in HVDC paper-insulated "
+           "cables', IEEE Trans. Dielectr. Electr. Insul. 5(2) (1998) 225-236 (Arrhenius-type conductivity "
+           "sigma0 exp(-Ea/(k T)) exp(gamma E) of HVDC cable insulation)", "from memory"),
+        _r("conduction_derived", "pdvoid, derived: void field in a conducting host as the response "
+           "H(s) = f_cap + (f_res - f_cap)/(1 + s tau) of the complex-permittivity ellipsoid solution (docs, "
+           "guide 'Conducting insulation and DC supplies')", "derived"),
         _r("breiman1984", "L. Breiman, J. H. Friedman, R. A. Olshen, C. J. Stone, Classification and Regression "
            "Trees, Wadsworth 1984, §3.4.3 (the one-standard-error rule)", "from memory"),
         _r("hastie2009", "T. Hastie, R. Tibshirani, J. Friedman, The Elements of Statistical Learning, 2nd ed., "

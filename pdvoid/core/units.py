@@ -77,6 +77,8 @@ DIMENSIONS: dict[str, tuple[str, str]] = {
     "rate": ("1/s", "'100 1/s', '0.1 1/ms'"),
     "rate density": ("1/(m**3 * s)", "'2e6 1/(m3 s)', '2 1/(cm3 s)'"),
     "dimensionless": ("dimensionless", "'0.3', '30 %'"),
+    "conductivity": ("S/m", "'1e-14 S/m', '1e-12 S/cm'"),
+    "conductance": ("S", "'1e-15 S', '1 fS'"),
 }
 
 #: longest quantity text accepted (a scenario value or CLI option, never a document)
@@ -136,8 +138,8 @@ def parse_quantity(text: float | str, dimension: str, *, name: str = "value") ->
     dimension : str
         One of the keys of :data:`DIMENSIONS`: ``"length"``, ``"area"``, ``"voltage"``, ``"field"``,
         ``"frequency"``, ``"pressure"``, ``"temperature"``, ``"time"``, ``"charge"``, ``"capacitance"``,
-        ``"charge per field"``, ``"angle"``, ``"rate"``, ``"rate density"`` or ``"dimensionless"`` (which also
-        takes ``"%"``).
+        ``"charge per field"``, ``"angle"``, ``"rate"``, ``"rate density"``, ``"conductivity"``, ``"conductance"``
+        or ``"dimensionless"`` (which also takes ``"%"``).
     name : str
         What to name in an error message (a parameter, option or file key).
 

@@ -478,7 +478,7 @@ def _input_rows(scenario: Scenario, given: frozenset[str] | None = None) -> list
     origin says where each value came from: "scenario file", "parameter set <name>" (a memory model's values
     from its named set) or "pdvoid default"; without it (a Scenario built in Python) every value is the
     Scenario object's, and a model value equal to pdvoid's default says so."""
-    ins, void, sup, model = scenario.insulation, scenario.void, scenario.supply, scenario.model
+    ins, void, sup, model = scenario.insulation, scenario.void, scenario.periodic_supply, scenario.model
     own_set = getattr(model, "parameter_set", None)
     set_values: frozenset[str] = frozenset()
     if isinstance(own_set, str):

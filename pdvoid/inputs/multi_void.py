@@ -154,7 +154,7 @@ class MultiVoidScenario:
         if not isinstance(scenario, Scenario):
             raise InputError(f"scenario must be a pdvoid.Scenario; got {type(scenario).__name__}")
         return cls(insulation=scenario.insulation, voids=(scenario.void,) if voids is None else tuple(voids),
-                   supply=scenario.supply, model=scenario.model, name=scenario.name)
+                   supply=scenario.periodic_supply, model=scenario.model, name=scenario.name)
 
     def replace(self, **changes: Any) -> MultiVoidScenario:
         """A copy with dotted-path changes: ``"voids[1].diameter"`` for one void, ``"insulation.thickness"``,
@@ -190,7 +190,7 @@ class MultiVoidScenario:
         for i, kv in per_void.items():
             voids[i] = replace(voids[i], **kv)
         base = with_changes(self.scenario(0), shared) if shared else self.scenario(0)
-        return MultiVoidScenario(insulation=base.insulation, voids=tuple(voids), supply=base.supply,
+        return MultiVoidScenario(insulation=base.insulation, voids=tuple(voids), supply=base.periodic_supply,
                                  model=base.model, name=self.name)
 
     @classmethod

@@ -55,6 +55,12 @@ class Insulation:
         typical short-time dielectric strength of the host [V/m], 0.1 kV/mm to 10 MV/mm, optional; when omitted,
         the material's tabulated value (if any) is used. Only the warning that the mean field approaches the
         strength of the host itself uses it (:func:`pdvoid.coefficients.limits.warn_host_strength`).
+    conductivity : float
+        bulk conductivity σ of the host [S/m], 0 to 1 S/m; 0 (default) is a perfect dielectric (today's model).
+        With σ > 0 the void field relaxes from the capacitive to the resistive enhancement with the time constant
+        of :func:`pdvoid.physics.conduction.void_relaxation_time` (field model only). For a temperature- or
+        field-dependent σ evaluate :func:`~pdvoid.physics.conduction.arrhenius_conductivity` or
+        :func:`~pdvoid.physics.conduction.exponential_conductivity` at the operating point.
     """
 
     thickness: float
@@ -62,6 +68,7 @@ class Insulation:
     material: str | None = None
     area: float | None = None
     dielectric_strength: float | None = None
+    conductivity: float = 0.0
 
     def __post_init__(self) -> None:
         _set(self, "thickness", check_range("insulation.thickness", self.thickness, 1e-6, 1.0, unit="m"))
@@ -79,6 +86,7 @@ class Insulation:
         if self.dielectric_strength is not None:
             _set(self, "dielectric_strength", check_range("insulation.dielectric_strength",
                                                           self.dielectric_strength, 1e5, 1e10, unit="V/m"))
+        _set(self, "conductivity", check_range("insulation.conductivity", self.conductivity, 0.0, 1.0, unit="S/m"))
 
 
 @dataclass(frozen=True)
@@ -126,6 +134,11 @@ class Void:
         secondary-emission coefficient γ of the void wall as cathode [-], in (0, 1], for the Townsend branch of
         the inception criterion; default: the gas's reference γ (0.01 for air, see
         :data:`pdvoid.physics.townsend.WALL_SECONDARY_EMISSION`).
+    surface_conductivity : float
+        surface conductance σ_s of the void wall [S], 0 to 1 S; 0 (default) for none. It acts as a gas
+        conductivity 4·σ_s/diameter (:func:`pdvoid.physics.conduction.equivalent_void_conductivity`; exact for a
+        sphere, an approximation for other shapes), lowering the steady DC void field and shortening the
+        relaxation time (field model only).
     """
 
     diameter: float
@@ -142,6 +155,7 @@ class Void:
     fill_temperature: float | None = None
     secondary_emission: float | None = None
     radial_position: float | None = None
+    surface_conductivity: float = 0.0
 
     def __post_init__(self) -> None:
         _set(self, "diameter", check_range("void.diameter", self.diameter, 1e-7, 1.0, unit="m"))
@@ -175,6 +189,8 @@ class Void:
         if self.secondary_emission is not None:
             _set(self, "secondary_emission", check_range("void.secondary_emission", self.secondary_emission, 0.0,
                                                          1.0, low_open=True))
+        _set(self, "surface_conductivity", check_range("void.surface_conductivity", self.surface_conductivity, 0.0,
+                                                       1.0, unit="S"))
 
     @property
     def gas_pressure(self) -> float:

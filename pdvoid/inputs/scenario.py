@@ -12,6 +12,7 @@ from pdvoid.inputs.geometries import check_void_placement
 from pdvoid.inputs.model_parameters import ModelParameters, default_model
 from pdvoid.inputs.parameters import Insulation, Periodic, Sine, Void
 from pdvoid.inputs.scenario_files import parts_from_dict, read_scenario_parts, write_scenario_file
+from pdvoid.inputs.supplies import TimeSupply
 
 __all__ = ["Scenario", "with_changes", "read_scenario", "write_scenario", "scenario_from_dict"]
 
@@ -28,8 +29,8 @@ class Scenario:
         The host slab, or a cable's coaxial insulation (then ``void.radial_position`` places the void).
     void : pdvoid.Void
         The gas-filled void.
-    supply : pdvoid.Sine or pdvoid.Periodic
-        The applied voltage.
+    supply : pdvoid.Sine, pdvoid.Periodic, pdvoid.DC, pdvoid.PolarityReversal or pdvoid.PiecewiseLinear
+        The applied voltage (periodic supplies run for ``cycles``, the others for a ``duration``).
     model : pdvoid.FieldModel or pdvoid.NetworkModel, optional
         The void model and its parameters (default: the field model with default parameters).
     name : str, optional
@@ -47,12 +48,12 @@ class Scenario:
 
     insulation: Insulation
     void: Void
-    supply: Sine | Periodic
+    supply: Sine | Periodic | TimeSupply
     model: ModelParameters = field(default_factory=default_model)
     name: str = ""
 
     def __post_init__(self) -> None:
-        for attr, cls in (("insulation", Insulation), ("void", Void), ("supply", (Sine, Periodic)),
+        for attr, cls in (("insulation", Insulation), ("void", Void), ("supply", (Sine, Periodic, TimeSupply)),
                           ("model", ModelParameters)):
             if not isinstance(getattr(self, attr), cls):
                 raise InputError(f"scenario.{attr} has the wrong type: {type(getattr(self, attr)).__name__}")
@@ -64,6 +65,21 @@ class Scenario:
         check_void_placement(self.insulation, self.void)
         if not isinstance(self.name, str) or len(self.name) > 200:
             raise InputError(f"scenario.name must be text of at most 200 characters; got {self.name!r}")
+
+    @property
+    def periodic_supply(self) -> Sine | Periodic:
+        """The supply when it is periodic (:class:`pdvoid.Sine` or :class:`pdvoid.Periodic`).
+
+        Raises
+        ------
+        pdvoid.InputError
+            For a supply without a period (DC, polarity reversal, piecewise-linear), naming it: analyses built on
+            the supply's period (phase, cycles, ramp tests) do not apply to it.
+        """
+        if isinstance(self.supply, (Sine, Periodic)):
+            return self.supply
+        raise InputError(f"this needs a periodic supply (sine or periodic); scenario.supply is a "
+                         f"{type(self.supply).__name__}, which has no period")
 
     def replace(self, **changes: Any) -> Scenario:
         """A copy with dotted-path changes, e.g. ``replace(**{"void.diameter": 2e-3})``.

@@ -7,12 +7,16 @@ Layout (every key optional unless the class requires it; bare numbers are SI)::
 
     name = "..."
     [insulation]   kind = "slab" (default) | "coaxial"; slab: thickness, permittivity, material, area,
-                   dielectric_strength; coaxial: inner_radius, outer_radius, permittivity, material,
-                   dielectric_strength
+                   dielectric_strength, conductivity (S/m); coaxial: inner_radius, outer_radius, permittivity,
+                   material, dielectric_strength
     [void]         diameter, height, pressure, gas, temperature, shape, inception_length, radial_position
-                   (coaxial only)
-    [supply]       kind = "sine" | "periodic"; sine: rms, frequency, harmonics = [[order, fraction, phase_deg]]
+                   (coaxial only), surface_conductivity (S)
+    [supply]       kind = "sine" | "periodic" | "dc" | "polarity_reversal" | "piecewise_linear" | "square_wave"
+                   | "cosine_rectangular"; sine: rms, frequency, harmonics = [[order, fraction, phase_deg]]
                    periodic: samples (V, one period), frequency, max_harmonic
+                   dc: voltage, ripple = [[order, fraction, phase_deg]], ripple_frequency, rise_time
+                   polarity_reversal: voltage, hold_time, ramp_time, reversals, rise_time, ripple,
+                   ripple_frequency; piecewise_linear: times (s), voltages (V)
     [model]        kind = "field" | "network"; residual_ratio, lag_free, ionization_rate, electron_yield,
                    surface_rate_same, surface_rate_reversed, surface_decay_time, field_assisted,
                    charge_decay_time, inception_criterion; network: capacitance_void, capacitance_series
@@ -35,6 +39,7 @@ from pdvoid.inputs.coaxial import Coaxial
 from pdvoid.inputs.geometries import insulation_class, insulation_kind
 from pdvoid.inputs.model_parameters import model_class, model_kinds
 from pdvoid.inputs.parameters import Insulation, Periodic, Sine, Void
+from pdvoid.inputs.supplies import TimeSupply, supply_class, supply_kinds
 
 if TYPE_CHECKING:
     from pdvoid.inputs.scenario import Scenario
@@ -48,17 +53,21 @@ MAX_FILE_BYTES = MAX_TEXT_FILE_BYTES  #: largest scenario file [bytes] (see pdvo
 _DIMS: dict[str, dict[str, tuple[str | None, str]]] = {
     "insulation": {"thickness": ("length", "m"), "permittivity": ("dimensionless", ""),
                    "material": (None, ""), "area": ("area", "m2"),
-                   "dielectric_strength": ("field", "V/m")},
+                   "dielectric_strength": ("field", "V/m"), "conductivity": ("conductivity", "S/m")},
     "void": {"diameter": ("length", "m"), "height": ("length", "m"), "pressure": ("pressure", "Pa"),
              "gas": (None, ""), "temperature": ("temperature", "K"), "shape": (None, ""),
              "inception_length": ("length", "m"), "position": (None, ""),
              "radial_position": ("length", "m"),
              "field_enhancement": ("dimensionless", ""), "charge_per_field": ("charge per field", "C/(V/m)"),
              "sealed": (None, ""), "fill_temperature": ("temperature", "K"),
-             "secondary_emission": ("dimensionless", "")},
+             "secondary_emission": ("dimensionless", ""), "surface_conductivity": ("conductance", "S")},
     "sine": {"rms": ("voltage", "V"), "frequency": ("frequency", "Hz"), "harmonics": (None, "")},
     "periodic": {"samples": (None, ""), "frequency": ("frequency", "Hz"), "max_harmonic": (None, "")},
 }
+
+
+#: keys written only when not zero (their default), so files of lossless scenarios read as before
+_OMIT_WHEN_ZERO = ("conductivity", "surface_conductivity")
 
 
 #: keys of a coaxial insulation that a plane slab does not have
@@ -90,6 +99,8 @@ def field_schema(part: str, obj: Any) -> dict[str, tuple[str | None, str]]:
     if part == "model":
         return dict(obj.field_units)
     if part == "supply":
+        if isinstance(obj, TimeSupply):
+            return dict(obj.field_units)
         return dict(_DIMS["sine" if isinstance(obj, Sine) else "periodic"])
     if part == "insulation":
         return _insulation_schema(type(obj))
@@ -183,12 +194,22 @@ def _from_dict(data: dict, source: str) -> dict[str, Any]:
             if not isinstance(h, list):
                 raise InputError(f"{source}: supply.harmonics must be a list of [order, fraction, phase_deg]")
             kw["harmonics"] = tuple(tuple(x) if isinstance(x, list) else x for x in h)
-        supply: Sine | Periodic = _build(Sine, kw, "supply", source)
+        supply: Sine | Periodic | TimeSupply = _build(Sine, kw, "supply", source)
     elif kind == "periodic":
         kw = _section(data, "supply", _DIMS["periodic"], source)
         supply = _build(Periodic, kw, "supply", source)
+    elif kind in supply_kinds():
+        scls = supply_class(kind)
+        kw = _section(data, "supply", scls.field_units, source)
+        if "ripple" in kw:
+            r = kw["ripple"]
+            if not isinstance(r, list):
+                raise InputError(f"{source}: supply.ripple must be a list of [order, fraction, phase_deg]")
+            kw["ripple"] = tuple(tuple(x) if isinstance(x, list) else x for x in r)
+        supply = _build(scls, kw, "supply", source)
     else:
-        raise InputError(f"{source}: supply.kind must be 'sine' or 'periodic'; got {kind!r}")
+        allowed = ", ".join(repr(k) for k in ("sine", "periodic", *supply_kinds()))
+        raise InputError(f"{source}: supply.kind must be one of {allowed}; got {kind!r}")
     mod = data.get("model", {})
     mkind = mod.get("kind", model_kinds()[0]) if isinstance(mod, dict) else None
     try:
@@ -263,11 +284,26 @@ def scenario_to_dict(s: Scenario) -> dict[str, Any]:
             out[part]["kind"] = insulation_kind(obj)
         for f in fields(obj):
             v = getattr(obj, f.name)
-            if v is None or not f.init:  # a derived field (a coaxial wall's thickness) is not written
+            if v is None or not f.init or (f.name in _OMIT_WHEN_ZERO and v == 0.0):
                 continue
             dim, unit = schema[f.name]
             out[part][f.name] = _q(v, unit) if dim is not None and unit else v
-    if isinstance(s.supply, Sine):
+    if isinstance(s.supply, TimeSupply):
+        sup = s.supply
+        out["supply"] = {"kind": sup.kind}
+        for f in fields(sup):  # type: ignore[arg-type]  # every registered supply is a dataclass
+            v = getattr(sup, f.name)
+            if v is None:
+                continue
+            dim, unit = sup.field_units[f.name]
+            if f.name == "ripple":
+                if v:
+                    out["supply"]["ripple"] = [list(h) for h in v]
+            elif dim is None and hasattr(v, "tolist"):
+                out["supply"][f.name] = [float(x) for x in v]
+            else:
+                out["supply"][f.name] = _q(v, unit) if dim is not None and unit else v
+    elif isinstance(s.supply, Sine):
         out["supply"] = {"kind": "sine", "rms": _q(s.supply.rms, "V"), "frequency": _q(s.supply.frequency, "Hz")}
         if s.supply.harmonics:
             out["supply"]["harmonics"] = [list(h) for h in s.supply.harmonics]

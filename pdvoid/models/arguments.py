@@ -255,9 +255,9 @@ def shared_arguments(scenario: Scenario, volume_electron_rate: float) -> dict[st
         charge per unit, ``x_to_field`` and references).
     """
     m = scenario.model
-    orders, a, b, seg, pure = supply_arrays(scenario.supply)
+    orders, a, b, seg, pure = supply_arrays(scenario.periodic_supply)
     return {
-        "frequency": scenario.supply.frequency, "orders": orders, "a_coef": a, "b_coef": b, "seg_fracs": seg,
+        "frequency": scenario.periodic_supply.frequency, "orders": orders, "a_coef": a, "b_coef": b, "seg_fracs": seg,
         "pure_sine": pure, "lag_free": m.lag_free,
         "n_vol_pos": volume_electron_rate + cathode_rate(scenario, +1.0),
         "n_vol_neg": volume_electron_rate + cathode_rate(scenario, -1.0),

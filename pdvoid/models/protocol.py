@@ -76,6 +76,11 @@ def kernel_arguments(scenario: Scenario) -> KernelArguments:
     KernelArguments
         What the event kernel needs, from the model's own :meth:`VoidModel.kernel_arguments`.
     """
+    from pdvoid.models.time_domain import needs_time_domain
+
+    if needs_time_domain(scenario):
+        raise InputError("a conducting host or a supply without a period runs in the time domain: use "
+                         "pdvoid.simulate(scenario, ...) (the cycle kernel and its runner do not apply)")
     model = scenario.model
     if not isinstance(model, VoidModel):
         raise InputError(f"scenario.model {type(model).__name__} does not implement the void-model protocol")

@@ -253,6 +253,9 @@ class Result:
             "version": self.version, "references": list(self.references), "event_count": self.event_count,
             "sum_abs_charge": self.sum_abs_charge.hex(), "sum_charge_squared": self.sum_charge_squared.hex(),
             "sum_charge_voltage": self.sum_charge_voltage.hex(), "label": self.events.label,
+            # a supply without a period: the events' frequency is 1/duration (one observation window)
+            "window_frequency": (None if getattr(self.scenario.supply, "periodic", True)
+                                 else float(self.events.frequency).hex()),
             "first_discharge_time": (None if math.isnan(self.first_discharge_time)
                                      else float(self.first_discharge_time).hex()),
             "histogram": None if self.histogram is None else {"below": self.histogram.below,
@@ -349,7 +352,13 @@ def load(path: str | os.PathLike[str]) -> Result:
         requested = _meta_int(meta, "requested_cycles", 1)
         if cycles > requested:
             raise InputError(f"{p}: {cycles} cycles simulated but only {requested} requested")
-        _check_events(p, data, cycles, scenario.supply.frequency)
+        if getattr(scenario.supply, "periodic", True):  # every periodic supply has a frequency
+            frequency = float(getattr(scenario.supply, "frequency"))  # noqa: B009
+        else:  # a supply without a period: one observation window of the run's duration
+            frequency = _hex_float(meta, "window_frequency")
+            if frequency <= 0.0:
+                raise InputError(f"{p}: window_frequency must be > 0 in the metadata")
+        _check_events(p, data, cycles, frequency)
         event_count = _meta_int(meta, "event_count", 0)
         stored = int(data["charge"].size)
         hist = None
@@ -358,7 +367,7 @@ def load(path: str | os.PathLike[str]) -> Result:
         elif stored != event_count:
             raise InputError(f"{p}: metadata counts {event_count} discharges but {stored} events are stored")
         ev = Events(
-            phase_deg=data["phase_deg"], charge=data["charge"], frequency=scenario.supply.frequency,
+            phase_deg=data["phase_deg"], charge=data["charge"], frequency=frequency,
             cycles=float(cycles), time=data["time"],
             cycle=data["cycle"], voltage=data["voltage"], field_before=data["field_before"],
             field_after=data["field_after"], label=_meta_str(meta, "label", ""),
@@ -366,7 +375,7 @@ def load(path: str | os.PathLike[str]) -> Result:
         if "first_discharge_time" in meta:  # written since the field exists; None: no discharge
             first = meta["first_discharge_time"]
             first_time = math.nan if first is None else _hex_float(meta, "first_discharge_time")
-            if not math.isnan(first_time) and not 0.0 <= first_time <= cycles / scenario.supply.frequency:
+            if not math.isnan(first_time) and not 0.0 <= first_time <= cycles / frequency:
                 raise InputError(f"{p}: first discharge at {first_time!r} s lies outside the run")
         else:  # older file: the first stored event, else unknown
             first_time = float(ev.time[0]) if ev.time is not None and ev.time.size else math.nan

@@ -18,8 +18,10 @@ from pdvoid.inputs.waveform import evaluate
 from pdvoid.kernels import void_events as K
 from pdvoid.models import kernel_arguments
 from pdvoid.models.arguments import KernelArguments
+from pdvoid.models.time_domain import needs_time_domain
 from pdvoid.simulation.events import Events
 from pdvoid.simulation.results import Histogram, Result
+from pdvoid.simulation.time_domain import MAX_DURATION, simulate_time_domain
 
 __all__ = ["simulate", "VoidRunner", "MAX_CYCLES"]
 
@@ -142,9 +144,10 @@ DEFAULT_PHASE_BINS = 72
 
 def simulate(
     scenario: Scenario,
-    cycles: int = 1000,
+    cycles: int | None = None,
     seed: int = 0,
     *,
+    duration: float | None = None,
     histogram: bool = False,
     phase_bins: int = DEFAULT_PHASE_BINS,
     charge_edges: np.ndarray | None = None,
@@ -152,16 +155,26 @@ def simulate(
     should_stop: Callable[[], bool] | None = None,
     chunk_cycles: int | None = None,
 ) -> Result:
-    """Simulate ``cycles`` AC cycles of ``scenario`` from an uncharged void at the positive-going zero crossing.
+    """Simulate ``cycles`` AC cycles of ``scenario`` from an uncharged void at the positive-going zero crossing,
+    or, for a supply without a period (:class:`pdvoid.DC`, :class:`pdvoid.PolarityReversal`,
+    :class:`pdvoid.PiecewiseLinear`), ``duration`` seconds from energisation.
+
+    A conducting host or void wall (``insulation.conductivity`` or ``void.surface_conductivity`` > 0) runs the
+    field model's time-domain kernel (:mod:`pdvoid.kernels.conduction_events`), also under a periodic supply;
+    a perfect dielectric under a periodic supply runs the cycle kernel exactly as before.
 
     Parameters
     ----------
     scenario : Scenario
         the insulation, void, supply and model.
     cycles : int, optional
-        number of whole AC cycles [-], 1 to 1e9.
+        number of whole AC cycles [-], 1 to 1e9 (default 1000), for periodic supplies only.
     seed : int, optional
         seed of the random generator [-]; the same seed gives bit-identical results.
+    duration : float, optional
+        simulated time from energisation [s], 1 ns to 1e9 s; required for supplies without a period and refused
+        for periodic ones. The result then holds one observation window (``Result.cycles`` = 1, event "phase" =
+        fraction of the run × 360 deg).
     histogram : bool, optional
         True to keep only the phase-resolved counts and the IEC 60270 sums (memory independent of
         the number of events); False to keep every event.
@@ -184,8 +197,30 @@ def simulate(
     """
     if not isinstance(scenario, Scenario):
         raise InputError(f"scenario must be a pdvoid.Scenario; got {type(scenario).__name__}")
-    cycles = check_int("cycles", cycles, 1, MAX_CYCLES)
+    if getattr(scenario.supply, "periodic", True):
+        if duration is not None:
+            raise InputError(f"duration= is for supplies without a period; this {type(scenario.supply).__name__} "
+                             f"supply is periodic: give cycles= instead (got duration={duration!r})")
+        cycles = check_int("cycles", 1000 if cycles is None else cycles, 1, MAX_CYCLES)
+    else:
+        if cycles is not None:
+            raise InputError(f"cycles= is for periodic supplies; a {type(scenario.supply).__name__} supply has no "
+                             f"period: give duration= [s] instead (got cycles={cycles!r})")
+        if duration is None:
+            raise InputError(f"a {type(scenario.supply).__name__} supply has no period: give duration= [s]")
+        duration = check_range("duration", duration, 1e-9, MAX_DURATION, unit="s")
     seed = check_seed(seed)
+    if needs_time_domain(scenario):
+        if histogram or charge_edges is not None or phase_bins != DEFAULT_PHASE_BINS:
+            raise InputError("histogram mode is not available for a conducting host or a supply without a period "
+                             "(every event is kept); leave histogram, phase_bins and charge_edges unset")
+        if chunk_cycles is not None:
+            chunk_cycles = check_int("chunk_cycles", chunk_cycles, 1, MAX_CYCLES)
+        warn_host_strength(scenario.insulation, scenario.supply.rms * supply_peak_factor(scenario.supply),
+                           "at the supply's peak")
+        return simulate_time_domain(scenario, seed=seed, cycles=cycles, duration=duration, progress=progress,
+                                    should_stop=should_stop, chunk_cycles=chunk_cycles)
+    assert cycles is not None
     if not isinstance(histogram, bool):
         raise InputError(f"histogram must be True or False; got {histogram!r}")
     if not histogram and (charge_edges is not None or phase_bins != DEFAULT_PHASE_BINS):

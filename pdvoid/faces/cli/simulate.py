@@ -160,7 +160,7 @@ def _cmd_simulate(ns: argparse.Namespace) -> int:
         digest = scenario_digest(json.dumps(json_safe(scenario_to_dict(sc)), sort_keys=True, allow_nan=False))
         write_manifest(out, files, {
             "pdvoid_version": __version__, "scenario_file": str(ns.scenario), "scenario_sha256": digest,
-            "seed": ns.seed, "cycles": res.cycles, "frequency_hz": sc.supply.frequency,
+            "seed": ns.seed, "cycles": res.cycles, "frequency_hz": res.frequency,
             "mode": "histogram" if ns.histogram else "events", "events_file": "events.csv" in files,
         })
     if ns.json:

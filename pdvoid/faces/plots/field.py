@@ -171,7 +171,7 @@ def void_field_trace(
     c = compute_coefficients(scenario)
     gain = c.field_enhancement / scenario.insulation.thickness
     tau = float(scenario.model.charge_decay_time)
-    orders, a, b = scenario.supply.fourier()
+    orders, a, b = scenario.periodic_supply.fourier()
     f = ev.frequency
     t0 = start_cycle / f
     t1 = (start_cycle + cycles) / f

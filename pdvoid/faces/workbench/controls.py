@@ -299,7 +299,7 @@ class Controls:
         """
         if not isinstance(scenario, Scenario):
             raise InputError(f"scenario must be a pdvoid.Scenario; got {type(scenario).__name__}")
-        ins, void, sup, mod = scenario.insulation, scenario.void, scenario.supply, scenario.model
+        ins, void, sup, mod = scenario.insulation, scenario.void, scenario.periodic_supply, scenario.model
         if ins.permittivity is None:  # Insulation always sets it (from its material when not given)
             raise InputError("scenario.insulation.permittivity is not set")
         material = ins.material if ins.material in SPECS["material"].choices else CUSTOM_MATERIAL

@@ -104,8 +104,8 @@ BASE = {"insulation": {"kind": "coaxial", "inner_radius": "8 mm", "outer_radius"
     ("insulation", "kind", "cable", r"insulation.kind must be one of 'slab', 'coaxial'; got 'cable'"),
     ("insulation", "outer_radius", "7 mm", r"insulation.inner_radius must be smaller than "
                                           r"insulation.outer_radius \(0.007 m\); got 0.008 m"),
-    ("insulation", "thickness", "5 mm", r"unknown key insulation.thickness; allowed: dielectric_strength, "
-                                        r"inner_radius, material, outer_radius, permittivity"),
+    ("insulation", "thickness", "5 mm", r"unknown key insulation.thickness; allowed: conductivity, "
+                                        r"dielectric_strength, inner_radius, material, outer_radius, permittivity"),
     ("insulation", "inner_radius", "8 kV", r"insulation.inner_radius"),
     ("void", "radial_position", "14 mm", r"void.radial_position must keep the void .* got 0.014 m"),
     ("void", "radial_position", "-1 mm", r"void.radial_position must lie in \(0, 5\] m; got -0.001"),
