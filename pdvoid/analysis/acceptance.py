@@ -138,8 +138,8 @@ def _rests_on(result: Result, *, supply: bool, model: bool, criteria: bool) -> t
     if model:
         named = sets_matching(m)
         where = f"parameter set {', '.join(named)}" if named else "values as given, no named parameter set"
-        out.append(f"the {m.title} ({where}; residual field E_res = {m.residual_ratio:g}·E_inc), which sets the "
-                   "charge per discharge")
+        out.append(f"the {m.title}, with {where} and the residual field E_res = {m.residual_ratio:g}·E_inc, which "
+                   "sets the charge per discharge")
     if supply:
         if m.lag_free:
             out.append("unlimited start electrons (lag-free), an idealisation: a real void waits for a start "

@@ -51,6 +51,7 @@ __all__ = [
     "at_voltage",
     "InputFile",
     "iso_date",
+    "pattern_assumptions",
 ]
 
 #: printed on the first and last page of every pack and by the command line
@@ -625,6 +626,15 @@ _SUPPLY_FIELDS = {
 }
 
 
+def _short(v: float) -> str:
+    """A number in 3 significant digits with a plain exponent ("1e9", not "1e+09")."""
+    text = f"{v:.3g}"
+    if "e" in text:
+        mantissa, exponent = text.split("e")
+        return f"{mantissa}e{int(exponent)}"
+    return text
+
+
 def pattern_assumptions(scenario: Scenario, given: frozenset[str] | None = None, cycles: int = 2000,
                         seed: int = 1) -> tuple[str, ...]:
     """What the simulated pattern of ``scenario`` rests on, in plain words: the model and its parameter set, the
@@ -670,10 +680,10 @@ def pattern_assumptions(scenario: Scenario, given: frozenset[str] | None = None,
             value = getattr(m, name, None)
             if value is None or (name == "cathode_emission_rate" and value == 0.0):
                 continue
-            text = "no decay" if math.isinf(value) else f"{value / scale:.3g}{' ' + unit if unit else ''}"
+            text = "no decay" if math.isinf(value) else f"{_short(value / scale)}{' ' + unit if unit else ''}"
             key = f"model.{name}"
             origin = ("" if given is None else " (scenario file)" if key in given else " (pdvoid's default)")
-            parts.append(f"{words} {text}{origin}")
+            parts.append(f"{words} = {text}{origin}")
         if getattr(m, "field_assisted", False):
             parts.append("surface emission field-assisted, × exp(|E_v|/E_inc)")
         defaults = given is not None and not any(f"model.{k}" in given for k in _SUPPLY_FIELDS)

@@ -288,9 +288,15 @@ def _acceptance_section(w: PageWriter, ctx: Context) -> None:
         ["largest repeatedly occurring magnitude (pdvoid's counting rule, below)", rep],
         ["apparent charge of a lag-free discharge", _pc(a.lag_free_charge)],
         ["largest single discharge in the run", largest],
-        ["discharges in the run at the acceptance voltage", f"{a.discharges} in {a.cycles} cycles"],
+        ["discharges in the run at the acceptance voltage",
+         f"{a.discharges} in {a.cycles} cycles" + (
+             "" if a.voltage == a.test_voltage else
+             " (a run of its own, same cycles and seed; the chart pages show the run at the test voltage)")],
         ["inception band (both criteria)", a.band.describe()],
         ["the band at the acceptance voltage", a.band_verdict],
+        ["validity of the design's own numbers",
+         f"{len(ctx.validity_notes)} validity note(s), listed below" if ctx.validity_notes else
+         "within the verified range of the closed forms (no validity note on the design itself)"],
         ["why", a.reason],
         ["the verdict rests on", "; ".join(a.rests_on)],
     ]
