@@ -35,7 +35,7 @@ MEETS = "meets the acceptance criterion"
 #: the run fails the criterion
 FAILS = "fails the acceptance criterion"
 #: the estimate cannot decide
-NOT_SHOWN = "not shown: this estimate cannot decide"
+NOT_SHOWN = "not shown (this estimate cannot decide)"
 
 #: pdvoid's counting rule for the largest repeatedly occurring magnitude, in words
 COUNTING_RULE = (
@@ -47,7 +47,7 @@ COUNTING_RULE = (
 
 
 def _pc(q: float) -> str:
-    return f"{q * 1e12:.3g} pC"
+    return f"{q * 1e12:.4g} pC"
 
 
 def _kv(u: float) -> str:
@@ -235,9 +235,11 @@ def acceptance_verdict(
         rests = _rests_on(result, supply=False, model=True, criteria=True)
     elif q_rep == 0.0:
         outcome = NOT_SHOWN
+        few = "no discharge" if n == 0 else f"only {n} discharge{'s' if n > 1 else ''}"
         reason = (f"{_kv(voltage)} lies above the inception voltage of the criterion used ({_kv(u_inc)}), but "
-                  f"the run has only {n} discharges in {result.cycles} cycles, too few for any magnitude to repeat "
-                  f"{rate:g} times per second; {lag_words}")
+                  f"the run has {few} in {result.cycles} cycles, too few for any magnitude to repeat {rate:g} "
+                  f"times per second; {lag_words}. A longer run, or a start-electron supply fitted to a measured "
+                  "pattern, would decide")
         rests = _rests_on(result, supply=True, model=True, criteria=False)
     elif q_lag > limit:
         outcome = NOT_SHOWN

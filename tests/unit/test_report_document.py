@@ -114,9 +114,9 @@ def test_acceptance_verdict_is_read_back_from_the_pdf(file_pack):
     first = _pdf_texts(pack.path)[0]
     assert "Acceptance verdict: fails the acceptance criterion" in first
     assert "Criterion ≤ 10 pC at 1.1 × U_test, i.e. at most 10 pC at 19.8 kV rms" in first
-    assert f"largest repeatedly occurring magnitude (pdvoid's counting rule, below) {q_rep * 1e12:.3g} pC" in first
+    assert f"largest repeatedly occurring magnitude (pdvoid's counting rule, below) {q_rep * 1e12:.4g} pC" in first
     c = pdvoid.compute_coefficients(res.scenario)
-    assert f"apparent charge of a lag-free discharge {c.charge_per_discharge * 1e12:.3g} pC" in first
+    assert f"apparent charge of a lag-free discharge {c.charge_per_discharge * 1e12:.4g} pC" in first
     assert "pdvoid's own counting rule" in first
     # the band of both criteria next to the verdict (pdvoid.analysis.verdict), and what the verdict rests on
     assert "inception band (both criteria) inception band" in first and "ionisation integral" in first
@@ -290,7 +290,7 @@ def test_above_inception_without_repeated_discharges_is_not_shown(scenario_facto
     assert res.event_count == 0
     v = acceptance_verdict(res, AcceptanceCriterion(1e-9, 1.0), 18e3)
     assert v.outcome == NOT_SHOWN and v.largest_repeated == 0.0
-    assert "too few for any magnitude to repeat 100 times per second" in v.reason
+    assert "no discharge in 20 cycles, too few for any magnitude to repeat 100 times per second" in v.reason
     assert any("start-electron supply" in r for r in v.rests_on)
 
 

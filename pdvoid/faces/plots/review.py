@@ -264,7 +264,7 @@ def _document_section(w: PageWriter, ctx: Context) -> None:
 
 
 def _pc(q: float) -> str:
-    return f"{q * 1e12:.3g} pC"
+    return f"{q * 1e12:.4g} pC"
 
 
 def _acceptance_section(w: PageWriter, ctx: Context) -> None:
