@@ -137,17 +137,15 @@ def _rests_on(result: Result, *, supply: bool, model: bool, criteria: bool) -> t
         out.append("the inception criteria and their constants (streamer criterion and ionisation integral)")
     if model:
         named = sets_matching(m)
-        where = f"parameter set {', '.join(named)}" if named else "values as given, no named parameter set"
-        out.append(f"the {m.title}, with {where} and the residual field E_res = {m.residual_ratio:g}·E_inc, which "
-                   "sets the charge per discharge")
+        where = f"parameter set {', '.join(named)}" if named else "values as given (no named parameter set)"
+        out.append(f"the {m.title}, {where}, E_res = {m.residual_ratio:g}·E_inc (sets the charge per discharge)")
     if supply:
         if m.lag_free:
             out.append("unlimited start electrons (lag-free), an idealisation: a real void waits for a start "
                        "electron")
         else:
-            out.append("the start-electron supply assumed (volume ionisation and surface emission rates, "
-                       "illustrative unless fitted to a measured pattern), which sets how often and how far above "
-                       "inception discharges start")
+            out.append("the start-electron supply assumed (illustrative rates unless fitted to a measured pattern; "
+                       "it sets how often, and how far above inception, discharges start)")
     return tuple(out)
 
 

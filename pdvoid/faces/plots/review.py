@@ -243,9 +243,8 @@ def _document_section(w: PageWriter, ctx: Context) -> None:
         name, digest = "none: the scenario was given as a Python object, not read from a file", "none (no file)"
     else:
         name, digest = ctx.input_name, ctx.input_sha256 or "none"
-    w.heading("Document control", size=10.5)
     w.table(
-        ["field", "value"],
+        ["document control", ""],
         [
             ["date of the run (ISO 8601, UTC)", ctx.date or BLANK],
             ["revision", rev or BLANK],
@@ -290,8 +289,7 @@ def _acceptance_section(w: PageWriter, ctx: Context) -> None:
         ["largest single discharge in the run", largest],
         ["discharges in the run at the acceptance voltage",
          f"{a.discharges} in {a.cycles} cycles" + (
-             "" if a.voltage == a.test_voltage else
-             " (a run of its own, same cycles and seed; the chart pages show the run at the test voltage)")],
+             "" if a.voltage == a.test_voltage else " (a run of its own, same cycles and seed)")],
         ["inception band (both criteria)", a.band.describe()],
         ["the band at the acceptance voltage", a.band_verdict],
         ["validity of the design's own numbers",
@@ -301,7 +299,8 @@ def _acceptance_section(w: PageWriter, ctx: Context) -> None:
         ["the verdict rests on", "; ".join(a.rests_on)],
     ]
     w.table(["acceptance", "value"], rows, [0.34, 0.66], size=7.5)
-    w.paragraph(f"Counting rule: the {a.counting_rule}.", size=7.0, colour="#444444")
+    w.paragraph(f"Counting rule: the {a.counting_rule}. The chart pages show the run at the test voltage.",
+                size=7.0, colour="#444444")
 
 
 def _summary_page(w: PageWriter, ctx: Context) -> None:
