@@ -502,7 +502,7 @@ def standalone_chart(ctx: Context, name: str) -> Figure:
 
 
 _ASSUMPTIONS = (
-    "The void is an idealised {shape} {where} a plane slab between plane electrodes, its axis along the "
+    "The void is an idealised {shape} {where}, its axis along the "
     "field; the host is a homogeneous linear dielectric. Other geometries need the numerical field solver.",
     "Field enhancement and induced (apparent) charge use closed forms valid for a void small compared with "
     "its distance to the electrodes (here height/thickness = {h_d:.2f}; the margin chart stops where the "
@@ -522,6 +522,20 @@ _ASSUMPTIONS = (
 )
 
 
+def _where(sc: Scenario) -> str:
+    """Where the void sits, in words: in a plane slab, or in a cable's coaxial insulation."""
+    ins = sc.insulation
+    inner, outer = getattr(ins, "inner_radius", None), getattr(ins, "outer_radius", None)
+    r = sc.void.radial_position
+    if inner is not None and outer is not None and r is not None:
+        return (f"in the coaxial insulation of a cable (conductor radius {inner * 1e3:.4g} mm, screen radius "
+                f"{outer * 1e3:.4g} mm), its centre {r * 1e3:.4g} mm from the axis, in the local radial field "
+                "V/(r ln(R/r_i))")
+    where = {"centred": "centred in", "high_voltage_electrode": "on the high-voltage electrode of",
+             "ground_electrode": "on the ground electrode of"}[sc.void.position]
+    return f"{where} a plane slab between plane electrodes"
+
+
 def _assumptions_page(w: PageWriter, ctx: Context) -> None:
     sc, est = ctx.scenario, ctx.estimate
     a, b = est.inception_voltage_streamer, est.inception_voltage_integral
@@ -530,8 +544,7 @@ def _assumptions_page(w: PageWriter, ctx: Context) -> None:
     h_d = sc.void.height / sc.insulation.thickness
     values = {
         "shape": "spheroid" if sc.void.shape == "spheroid" else "flat cylinder (disc)",
-        "where": {"centred": "centred in", "high_voltage_electrode": "on the high-voltage electrode of",
-                  "ground_electrode": "on the ground electrode of"}[sc.void.position],
+        "where": _where(sc),
         "h_d": h_d,
         "l_mm": sc.void.streamer_length * 1e3,
         "spread": spread,
