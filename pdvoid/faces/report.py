@@ -482,7 +482,7 @@ def design_review(
         input_name=None if source is None else source.name,
         input_sha256=None if source is None else source.sha256,
         acceptance=judged,
-        pattern_notes=pattern_assumptions(scenario, given, cycles, seed),
+        pattern_notes=pattern_assumptions(scenario, given),
     )
     # the pages recompute coefficients of designs computed above, whose notes ctx already holds
     with collect_validity_notes():
@@ -635,11 +635,10 @@ def _short(v: float) -> str:
     return text
 
 
-def pattern_assumptions(scenario: Scenario, given: frozenset[str] | None = None, cycles: int = 2000,
-                        seed: int = 1) -> tuple[str, ...]:
+def pattern_assumptions(scenario: Scenario, given: frozenset[str] | None = None) -> tuple[str, ...]:
     """What the simulated pattern of ``scenario`` rests on, in plain words: the model and its parameter set, the
-    start-electron supply (each rate with its value and where it came from), the inception criterion and the
-    start of the run.
+    inception criterion and the start-electron supply (each rate with its value and where it came from). The
+    start of the run (uncharged void, cycles, seed) is stated on the assumptions page beside these.
 
     Parameters
     ----------
@@ -647,10 +646,6 @@ def pattern_assumptions(scenario: Scenario, given: frozenset[str] | None = None,
         The design [-].
     given : frozenset of str, optional
         The keys the scenario file sets (see :class:`InputFile`); None for a Scenario built in Python [-].
-    cycles : int
-        Cycles simulated [-].
-    seed : int
-        The random seed [-].
 
     Returns
     -------
@@ -692,8 +687,6 @@ def pattern_assumptions(scenario: Scenario, given: frozenset[str] | None = None,
         out.append("Start electrons (the supply the pattern rests on): " + "; ".join(parts) + ". These rates "
                    "are illustrative unless fitted to a measured pattern (pdvoid fit); they set how long the void "
                    "waits for a discharge, how far above inception it starts and so its charge." + tail)
-    out.append(f"Run: an uncharged void from the positive-going zero crossing, {cycles} cycles, seed {seed}; "
-               "another seed gives another pattern of the same statistics.")
     return tuple(out)
 
 
