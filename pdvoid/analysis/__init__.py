@@ -4,6 +4,7 @@ void population."""
 
 from __future__ import annotations
 
+from pdvoid.analysis.acceptance import AcceptanceVerdict, acceptance_verdict
 from pdvoid.analysis.compare import compare
 from pdvoid.analysis.descriptors import fingerprint
 from pdvoid.analysis.fit import fit
@@ -25,7 +26,7 @@ __all__ = [
     "pulse_sequence", "iec60270", "largest_repeated_magnitude", "inception", "ramp_test", "probability_of_missing",
     "margin_table", "largest_pd_free_void", "design_margin", "RunSummary", "run_summary", "compare", "fit",
     "DischargeRegime", "discharge_regime",
-    "InceptionBand", "inception_band", "verdict",
+    "InceptionBand", "inception_band", "verdict", "AcceptanceVerdict", "acceptance_verdict",
     "measure", "pulse_pair_reading", "pulse_resolution_time",
     "void_count", "VoidCountResult", "acceptance_probability", "AcceptanceEstimate", "wilson_interval",
 ]

@@ -21,7 +21,8 @@ from typing import IO, Any
 from pdvoid.core.errors import InputError
 
 __all__ = ["atomic_write", "FolderLock", "write_manifest", "verify_manifest", "sha256_file", "MANIFEST_NAME",
-           "LOCK_NAME", "RUN_FILES", "check_run_file", "scenario_digest", "read_toml_file"]
+           "LOCK_NAME", "RUN_FILES", "check_run_file", "scenario_digest", "read_toml_file",
+           "read_toml_bytes"]
 
 MANIFEST_NAME = "manifest.json"
 LOCK_NAME = ".pdvoid.lock"
@@ -338,6 +339,32 @@ def read_toml_file(path: str | os.PathLike[str], limit: int, what: str) -> dict[
         Naming the file: not a regular file, too large, not UTF-8, malformed TOML (line and column), or nested
         too deeply.
     """
+    return read_toml_bytes(path, limit, what)[0]
+
+
+def read_toml_bytes(path: str | os.PathLike[str], limit: int, what: str) -> tuple[dict[str, Any], bytes]:
+    """As :func:`read_toml_file`, also returning the bytes read, so that a hash of the file is the hash of the
+    very text parsed (the review pack's SHA-256).
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+        The file.
+    limit : int
+        Largest size accepted [bytes].
+    what : str
+        What the file is, for messages (e.g. "scenario file").
+
+    Returns
+    -------
+    tuple
+        (the parsed document as a dict, the file's content as bytes).
+
+    Raises
+    ------
+    pdvoid.InputError
+        As :func:`read_toml_file`.
+    """
     import tomllib
 
     if not isinstance(path, (str, os.PathLike)) or isinstance(path, bytes):
@@ -357,7 +384,7 @@ def read_toml_file(path: str | os.PathLike[str], limit: int, what: str) -> dict[
     except UnicodeDecodeError as exc:
         raise InputError(f"{p}: {what} is not UTF-8 text ({exc.reason} at byte {exc.start})") from None
     try:
-        return tomllib.loads(text)
+        return tomllib.loads(text), raw
     except tomllib.TOMLDecodeError as exc:
         raise InputError(f"{p}: malformed TOML (the {what} is not valid TOML): {exc}") from None
     except RecursionError:

@@ -1,21 +1,26 @@
 """The design-review pack: a multi-page PDF (and optional PNG/SVG figures) for one void in one design.
 
-Pages: summary (scenario with units and data sources, inception and extinction by both criteria, margins to
-the test and service levels), margin chart, void field against time, phase-resolved pattern, sensitivity
-chart, assumptions and validity limits, references and the safety note. No physics of its own: every number
-comes from the scenario's coefficients, :mod:`pdvoid.analysis` and :func:`pdvoid.simulate`.
+Pages: summary (document control: date, revision, input file and its SHA-256, pdvoid version, author, checker
+and approver; the acceptance verdict; scenario with units and data sources, inception and extinction by both
+criteria, margins to the test and service levels), margin chart, void field against time, phase-resolved
+pattern, sensitivity chart, assumptions and validity limits, references and the safety note. No physics of its
+own: every number comes from the scenario's coefficients, :mod:`pdvoid.analysis` and :func:`pdvoid.simulate`.
 """
 
 from __future__ import annotations
 
+import datetime as _dt
+import hashlib
 import math
 import os
 from dataclasses import dataclass, fields, replace
 from pathlib import Path
+from typing import Any
 
 import numpy as np
 
 from pdvoid._version import __version__
+from pdvoid.analysis.acceptance import AcceptanceVerdict, acceptance_verdict
 from pdvoid.analysis.inception import InceptionEstimate, inception
 from pdvoid.analysis.margins import MarginTable, largest_pd_free_void, margin_table
 from pdvoid.analysis.regime import discharge_regime
@@ -27,6 +32,7 @@ from pdvoid.core.references import cite
 from pdvoid.core.validity import collect_validity_notes
 from pdvoid.faces.summary_table import summary_dict
 from pdvoid.inputs.coaxial import Coaxial
+from pdvoid.inputs.document import AcceptanceCriterion, DocumentControl, acceptance_from_dict, document_from_dict
 from pdvoid.inputs.materials import get_gas, get_material
 from pdvoid.inputs.measurement import Instrument, TestCircuit
 from pdvoid.inputs.model_sets import sets_matching
@@ -43,6 +49,9 @@ __all__ = [
     "design_review",
     "sensitivity",
     "at_voltage",
+    "InputFile",
+    "iso_date",
+    "pattern_assumptions",
 ]
 
 #: printed on the first and last page of every pack and by the command line
@@ -217,6 +226,16 @@ class ReviewPack:
         Validity notes of the design's own coefficients [-].
     variation_notes : tuple of str
         Validity notes of the varied designs (margin chart, sensitivity, void searches) [-].
+    document : DocumentControl
+        Revision, author, checker and approver as printed (empty fields print as blank lines to sign) [-].
+    date : str
+        Date and time of the run, ISO 8601 in UTC, as printed [-].
+    input_file : InputFile or None
+        The scenario file's name and SHA-256 (None for a Scenario given without its file) [-].
+    acceptance : AcceptanceVerdict or None
+        The verdict against the acceptance criterion (None when no criterion was given) [-].
+    acceptance_result : Result or None
+        The simulation at the criterion's voltage (``result`` itself when the factor is 1) [-].
     """
 
     path: Path
@@ -233,6 +252,62 @@ class ReviewPack:
     verdict: str = ""
     validity_notes: tuple[str, ...] = ()
     variation_notes: tuple[str, ...] = ()
+    document: DocumentControl = DocumentControl()
+    date: str = ""
+    input_file: InputFile | None = None
+    acceptance: AcceptanceVerdict | None = None
+    acceptance_result: Result | None = None
+
+
+@dataclass(frozen=True)
+class InputFile:
+    """The scenario file a pack was made from, as the document-control block names it.
+
+    Attributes
+    ----------
+    name : str
+        The file's name (without its folder) [-].
+    sha256 : str
+        SHA-256 of the file's bytes as read, 64 hex digits [-].
+    keys : frozenset of str
+        The keys the file sets, as "part.key" (e.g. "model.residual_ratio") [-].
+    document : DocumentControl
+        The file's [document] table (empty fields without one) [-].
+    acceptance : AcceptanceCriterion or None
+        The file's [acceptance] table (None without one) [-].
+    """
+
+    name: str
+    sha256: str
+    keys: frozenset[str]
+    document: DocumentControl
+    acceptance: AcceptanceCriterion | None
+
+
+def iso_date(when: _dt.datetime | None = None) -> str:
+    """A time in ISO 8601 in UTC to the second, e.g. "2026-12-04T19:40:12Z" (now when not given).
+
+    Parameters
+    ----------
+    when : datetime.datetime, optional
+        A time zone aware time (default: now) [-].
+
+    Returns
+    -------
+    str
+        The time in UTC, ISO 8601 [-].
+
+    Raises
+    ------
+    InputError
+        For anything but a time zone aware datetime.
+    """
+    if when is None:
+        when = _dt.datetime.now(_dt.UTC)
+    if not isinstance(when, _dt.datetime) or when.tzinfo is None or when.utcoffset() is None:
+        raise InputError(f"date must be a time zone aware datetime.datetime (e.g. datetime.now(timezone.utc)); "
+                         f"got {when!r}")
+    return when.astimezone(_dt.UTC).strftime("%Y-%m-%dT%H:%M:%SZ")
 
 
 def _check_out(out: str | os.PathLike[str], figures: str | None) -> tuple[Path, str | None]:
@@ -260,6 +335,9 @@ def design_review(
     circuit: TestCircuit | None = None,
     instrument: Instrument | None = None,
     scenario_file: str | os.PathLike[str] | None = None,
+    document: DocumentControl | None = None,
+    acceptance: AcceptanceCriterion | None = None,
+    date: _dt.datetime | None = None,
 ) -> ReviewPack:
     """Write the design-review pack of ``scenario`` as a multi-page PDF.
 
@@ -270,6 +348,12 @@ def design_review(
     (:func:`pdvoid.analysis.verdict.inception_band`). Validity warnings raised while computing are not issued:
     the summary page lists them next to the numbers they qualify, and the pack returns them
     (``validity_notes`` for the design itself, ``variation_notes`` for the varied designs).
+
+    The first page opens with the document control: the date of the run (ISO 8601, UTC), the revision, the
+    scenario file's name and SHA-256, the pdvoid version, and author, checker and approver (a field left empty is
+    a blank line to sign). With an acceptance criterion the run is simulated again at the criterion's voltage
+    (same cycles and seed; the test-voltage run itself when the factor is 1) and judged by
+    :func:`pdvoid.analysis.acceptance.acceptance_verdict`.
 
     Parameters
     ----------
@@ -293,7 +377,16 @@ def design_review(
     scenario_file : str or os.PathLike, optional
         The file ``scenario`` was read from: the scenario table then gives each input's origin (scenario file,
         parameter set or pdvoid default) from the keys the file sets, not from the values; without it the
-        origin is the Scenario object [-].
+        origin is the Scenario object [-]. Its name and SHA-256 (of the bytes read) go into the document
+        control, and its [document] and [acceptance] tables are used where ``document`` or ``acceptance`` is not
+        given. It must describe ``scenario``.
+    document : DocumentControl, optional
+        Revision, author, checker and approver (default: the scenario file's [document] table, else blank) [-].
+    acceptance : AcceptanceCriterion, optional
+        The acceptance criterion (default: the scenario file's [acceptance] table, else none: the pack then says
+        that no acceptance verdict is given) [-].
+    date : datetime.datetime, optional
+        The date of the run, time zone aware (default: now) [-].
 
     Returns
     -------
@@ -303,7 +396,8 @@ def design_review(
     Raises
     ------
     InputError
-        For a bad scenario, voltages, cycles, seed, path or figure format.
+        For a bad scenario, voltages, cycles, seed, path, figure format, document, criterion or date, or a
+        scenario file that does not describe ``scenario``.
     """
     from matplotlib.backends.backend_pdf import PdfPages
 
@@ -319,7 +413,18 @@ def design_review(
     path, fmt = _check_out(out, figures)
     if scenario_file is not None and not isinstance(scenario_file, (str, os.PathLike)):
         raise InputError(f"scenario_file must be a path to the scenario's TOML file; got {scenario_file!r}")
-    given = None if scenario_file is None else _file_keys(scenario_file)
+    if document is not None and not isinstance(document, DocumentControl):
+        raise InputError(f"document must be a pdvoid.inputs.document.DocumentControl; got {type(document).__name__}")
+    if acceptance is not None and not isinstance(acceptance, AcceptanceCriterion):
+        raise InputError("acceptance must be a pdvoid.inputs.document.AcceptanceCriterion; got "
+                         f"{type(acceptance).__name__}")
+    run_date = iso_date(date)
+    source = None if scenario_file is None else _read_input_file(scenario_file, scenario)
+    given = None if source is None else source.keys
+    if document is None:
+        document = DocumentControl() if source is None else source.document
+    if acceptance is None and source is not None:
+        acceptance = source.acceptance
     measurement_notes: tuple[str, ...] = ()
     if circuit is not None or instrument is not None:
         if not isinstance(circuit, TestCircuit) or not isinstance(instrument, Instrument):
@@ -338,6 +443,12 @@ def design_review(
         )
         tables = _margin_tables(scenario, test_voltage)
         regime = discharge_regime(result.scenario, result).text
+        judged: AcceptanceVerdict | None = None
+        at_acceptance: Result | None = None
+        if acceptance is not None:
+            at_acceptance = (result if acceptance.voltage_factor == 1.0 else
+                             simulate(at_voltage(scenario, acceptance.voltage_factor * test_voltage), cycles, seed))
+            judged = acceptance_verdict(at_acceptance, acceptance, test_voltage, band=band)
     own = band.notes
     variations = tuple(n for n in dict.fromkeys(noted) if n not in own)
     outcome = verdict(band, test_voltage)
@@ -366,13 +477,19 @@ def design_review(
         validity_notes=own,
         variation_notes=variations,
         measurement_notes=measurement_notes,
+        document=document,
+        date=run_date,
+        input_name=None if source is None else source.name,
+        input_sha256=None if source is None else source.sha256,
+        acceptance=judged,
+        pattern_notes=pattern_assumptions(scenario, given),
     )
     # the pages recompute coefficients of designs computed above, whose notes ctx already holds
     with collect_validity_notes():
         pages = rp.build_pages(ctx)
     meta = {
         "Title": f"Design review: {scenario.name or 'void in solid insulation'}",
-        "Author": "pdvoid",
+        "Author": document.author or "pdvoid",
         "Subject": "Partial discharges in a gas-filled void: inception, margins, simulated pattern",
         "Creator": f"pdvoid {__version__}",
         "CreationDate": None,
@@ -403,6 +520,11 @@ def design_review(
         verdict=outcome,
         validity_notes=own,
         variation_notes=variations,
+        document=document,
+        date=run_date,
+        input_file=source,
+        acceptance=judged,
+        acceptance_result=at_acceptance,
     )
 
 
@@ -463,14 +585,109 @@ _MODEL_UNITS = {
 }
 
 
+def _keys_of(data: dict[str, Any]) -> frozenset[str]:
+    return frozenset(f"{part}.{key}" for part in ("insulation", "void", "supply", "model")
+                     if isinstance(data.get(part), dict) for key in data[part])
+
+
 def _file_keys(path: str | os.PathLike[str]) -> frozenset[str]:
     """The keys a scenario file sets, as "part.key" (e.g. "model.residual_ratio")."""
     from pdvoid.core.files import read_toml_file
     from pdvoid.inputs.scenario_files import MAX_FILE_BYTES
 
-    data = read_toml_file(Path(path), MAX_FILE_BYTES, "scenario file")
-    return frozenset(f"{part}.{key}" for part in ("insulation", "void", "supply", "model")
-                     if isinstance(data.get(part), dict) for key in data[part])
+    return _keys_of(read_toml_file(Path(path), MAX_FILE_BYTES, "scenario file"))
+
+
+def _read_input_file(path: str | os.PathLike[str], scenario: Scenario) -> InputFile:
+    """The scenario file read once: its keys, review settings and the SHA-256 of the very bytes parsed; refused
+    when it does not describe ``scenario`` (the pack would name the wrong file)."""
+    from pdvoid.core.files import read_toml_bytes
+    from pdvoid.inputs.scenario import scenario_from_dict
+    from pdvoid.inputs.scenario_files import MAX_FILE_BYTES, scenario_to_dict
+
+    p = Path(path)
+    data, raw = read_toml_bytes(p, MAX_FILE_BYTES, "scenario file")
+    described = scenario_from_dict(data, source=str(p))
+    if scenario_to_dict(described) != scenario_to_dict(scenario):
+        raise InputError(f"scenario_file: {str(p)!r} does not describe the scenario given (read it with "
+                         "pdvoid.Scenario.from_file, or leave scenario_file out)")
+    return InputFile(p.name, hashlib.sha256(raw).hexdigest(), _keys_of(data),
+                     document_from_dict(data, source=str(p)), acceptance_from_dict(data, source=str(p)))
+
+
+#: model fields that make up the start-electron supply: field -> (words, unit, scale)
+_SUPPLY_FIELDS = {
+    "ionization_rate": ("volume ionisation G", "ion pairs/(m³ s) at 101.325 kPa and 293.15 K", 1.0),
+    "electron_yield": ("electron yield η", "", 1.0),
+    "surface_rate_same": ("surface emission, same polarity as the last discharge", "/s", 1.0),
+    "surface_rate_reversed": ("surface emission, polarity reversed", "/s", 1.0),
+    "surface_decay_time": ("its decay time τ_s", "ms", 1e-3),
+    "cathode_emission_rate": ("emission from a metal cathode wall", "/s", 1.0),
+}
+
+
+def _short(v: float) -> str:
+    """A number in 3 significant digits with a plain exponent ("1e9", not "1e+09")."""
+    text = f"{v:.3g}"
+    if "e" in text:
+        mantissa, exponent = text.split("e")
+        return f"{mantissa}e{int(exponent)}"
+    return text
+
+
+def pattern_assumptions(scenario: Scenario, given: frozenset[str] | None = None) -> tuple[str, ...]:
+    """What the simulated pattern of ``scenario`` rests on, in plain words: the model and its parameter set, the
+    inception criterion and the start-electron supply (each rate with its value and where it came from). The
+    start of the run (uncharged void, cycles, seed) is stated on the assumptions page beside these.
+
+    Parameters
+    ----------
+    scenario : Scenario
+        The design [-].
+    given : frozenset of str, optional
+        The keys the scenario file sets (see :class:`InputFile`); None for a Scenario built in Python [-].
+
+    Returns
+    -------
+    tuple of str
+        One sentence per assumption [-].
+
+    Raises
+    ------
+    InputError
+        For anything but a Scenario.
+    """
+    if not isinstance(scenario, Scenario):
+        raise InputError(f"scenario must be a pdvoid.Scenario; got {type(scenario).__name__}")
+    m = scenario.model
+    named = sets_matching(m)
+    where = (f"the values of parameter set {', '.join(named)}" if named
+             else "values as given (no named parameter set matches them; see the scenario table)")
+    out = [f"Model: the {m.title}, with {where}; inception by the "
+           f"{m.inception_criterion.replace('_', ' ').replace('ionization', 'ionisation')} criterion."]
+    if m.lag_free:
+        out.append("Start electrons: unlimited (lag-free). Every discharge starts the moment the void field reaches "
+                   "the inception field; a real void waits for a start electron, so its discharges start later, "
+                   "larger and scattered. The pattern is an idealisation, not a prediction of a measured one.")
+    else:
+        parts = []
+        for name, (words, unit, scale) in _SUPPLY_FIELDS.items():
+            value = getattr(m, name, None)
+            if value is None or (name == "cathode_emission_rate" and value == 0.0):
+                continue
+            text = "no decay" if math.isinf(value) else f"{_short(value / scale)}{' ' + unit if unit else ''}"
+            key = f"model.{name}"
+            origin = ("" if given is None else " (scenario file)" if key in given else " (pdvoid's default)")
+            parts.append(f"{words} = {text}{origin}")
+        if getattr(m, "field_assisted", False):
+            parts.append("surface emission field-assisted, × exp(|E_v|/E_inc)")
+        defaults = given is not None and not any(f"model.{k}" in given for k in _SUPPLY_FIELDS)
+        tail = (" None of these is set in the scenario file: the pattern rests on pdvoid's illustrative defaults."
+                if defaults else "")
+        out.append("Start electrons (the supply the pattern rests on): " + "; ".join(parts) + ". These rates "
+                   "are illustrative unless fitted to a measured pattern (pdvoid fit); they set how long the void "
+                   "waits for a discharge, how far above inception it starts and so its charge." + tail)
+    return tuple(out)
 
 
 def _input_rows(scenario: Scenario, given: frozenset[str] | None = None) -> list[list[str]]:

@@ -20,6 +20,11 @@ Layout (every key optional unless the class requires it; bare numbers are SI)::
     [model]        kind = "field" | "network"; residual_ratio, lag_free, ionization_rate, electron_yield,
                    surface_rate_same, surface_rate_reversed, surface_decay_time, field_assisted,
                    charge_decay_time, inception_criterion; network: capacitance_void, capacitance_series
+    [document]     revision, author, checker, approver (the review pack's document control; optional)
+    [acceptance]   charge, voltage_factor (the review pack's acceptance criterion; optional)
+
+The [document] and [acceptance] tables are not part of the Scenario: :func:`read_review_settings` reads them
+(:mod:`pdvoid.inputs.document`); they are checked, with unknown keys refused, whenever the file is read.
 """
 
 from __future__ import annotations
@@ -32,10 +37,11 @@ from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
 from pdvoid.core.errors import InputError
-from pdvoid.core.files import atomic_write, read_toml_file
+from pdvoid.core.files import atomic_write, read_toml_bytes, read_toml_file
 from pdvoid.core.limits import MAX_TEXT_FILE_BYTES
 from pdvoid.core.units import parse_quantity
 from pdvoid.inputs.coaxial import Coaxial
+from pdvoid.inputs.document import AcceptanceCriterion, DocumentControl, acceptance_from_dict, document_from_dict
 from pdvoid.inputs.geometries import insulation_class, insulation_kind
 from pdvoid.inputs.model_parameters import model_class, model_kinds
 from pdvoid.inputs.parameters import Insulation, Periodic, Sine, Void
@@ -45,7 +51,7 @@ if TYPE_CHECKING:
     from pdvoid.inputs.scenario import Scenario
 
 __all__ = ["read_scenario_parts", "parts_from_dict", "scenario_to_dict", "write_scenario_file", "field_schema",
-           "quantity_value"]
+           "quantity_value", "read_review_settings"]
 
 MAX_FILE_BYTES = MAX_TEXT_FILE_BYTES  #: largest scenario file [bytes] (see pdvoid.core.limits)
 
@@ -171,13 +177,15 @@ def parts_from_dict(data: dict, *, source: str = "scenario") -> dict[str, Any]:
 def _from_dict(data: dict, source: str) -> dict[str, Any]:
     if not isinstance(data, dict):
         raise InputError(f"{source}: a scenario must be a table")
-    unknown = set(data) - {"name", "insulation", "void", "supply", "model"}
+    unknown = set(data) - {"name", "insulation", "void", "supply", "model", "document", "acceptance"}
     if unknown:
         raise InputError(f"{source}: unknown top-level keys {sorted(unknown)}; allowed: name, insulation, void, "
-                         "supply, model")
+                         "supply, model, document, acceptance")
     if isinstance(data.get("void"), list):
         raise InputError(f"{source}: the file holds an array of [[void]] tables (several voids); read it with "
                          "pdvoid.MultiVoidScenario.from_file, or give one [void] table")
+    document_from_dict(data, source=source)  # not part of the Scenario, but checked whenever the file is read
+    acceptance_from_dict(data, source=source)
     for part in ("insulation", "void", "supply"):
         if part not in data:
             raise InputError(f"{source}: missing [{part}] table")
@@ -253,6 +261,33 @@ def read_scenario_parts(path: str | os.PathLike[str]) -> dict[str, Any]:
     except ValueError as exc:  # e.g. an integer of more digits than Python converts (int_max_str_digits)
         raise InputError(f"{p}: malformed TOML (the scenario file is not valid TOML): {exc}") from None
     return parts_from_dict(data, source=str(p))
+
+
+def read_review_settings(
+    path: str | os.PathLike[str],
+) -> tuple[DocumentControl, AcceptanceCriterion | None, bytes]:
+    """The review-pack settings of a scenario file: its [document] and [acceptance] tables, and the file's bytes
+    as read (for the pack's SHA-256, so that the hash is that of the text the settings came from).
+
+    Parameters
+    ----------
+    path : str or os.PathLike
+        The scenario file.
+
+    Returns
+    -------
+    tuple
+        (DocumentControl, AcceptanceCriterion or None, the file's content as bytes).
+
+    Raises
+    ------
+    pdvoid.InputError
+        For a file that cannot be read or is not valid TOML, and for an unknown key or bad value in either
+        table, naming the file and the key.
+    """
+    data, raw = read_toml_bytes(path, MAX_FILE_BYTES, "scenario file")
+    p = Path(path)
+    return document_from_dict(data, source=str(p)), acceptance_from_dict(data, source=str(p)), raw
 
 
 def _q(value: float | None, unit: str) -> Any:

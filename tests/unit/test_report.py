@@ -437,8 +437,34 @@ def test_cli_pack_labels_file_inputs_and_has_no_nan(tmp_path, capsys, scenario_f
     table = next(t for t in texts if "scenario input value unit origin" in t)
     assert "residual ratio 0.25 - scenario file" in table
     assert "mean / largest apparent charge none: no discharge in the simulated run" in " ".join(texts)
-    for i, text in enumerate(texts):  # no "nan" as a word anywhere (plain words instead)
-        assert " nan " not in f" {text} " and "/ nan" not in text, i
+    _assert_no_nan(texts)
+
+
+def _assert_no_nan(texts):
+    """No "nan" as a word on any page (plain words instead), nor "None" for an empty field."""
+    import re
+
+    for i, text in enumerate(texts):
+        words = re.findall(r"[a-z]+", text.lower())
+        assert "nan" not in words and "none none" not in text and " None" not in text, i
+
+
+def test_no_nan_in_any_pack(tmp_path, demo_pack, scenario_factory):
+    # every kind of run the pack meets: discharging (the demo), below inception, above inception but waiting for a
+    # start electron, and a criterion between the two inception criteria; each with an acceptance verdict
+    from pdvoid.inputs.document import AcceptanceCriterion
+
+    _assert_no_nan(_pdf_page_texts(demo_pack.path))
+    sc = scenario_factory()
+    u_inc = pdvoid.compute_coefficients(sc).inception_voltage
+    crit = AcceptanceCriterion(charge=10e-12, voltage_factor=1.1)
+    for name, test in (("low", 0.5 * u_inc), ("waiting", 18e3)):
+        pack = design_review(sc, test_voltage=test, cycles=20, out=tmp_path / f"{name}.pdf", acceptance=crit)
+        assert pack.acceptance is not None
+        _assert_no_nan(_pdf_page_texts(pack.path))
+    wide = sc.replace(**{"void.diameter": 2.5e-3, "void.height": 2.5e-3})
+    pack = design_review(wide, test_voltage=18e3, cycles=20, out=tmp_path / "wide.pdf", acceptance=crit)
+    _assert_no_nan(_pdf_page_texts(pack.path))
 
 
 def test_sensitivity_of_a_cable_moves_the_outer_radius():

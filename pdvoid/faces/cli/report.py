@@ -4,6 +4,11 @@ Hooked into :mod:`pdvoid.cli` through :func:`register`::
 
     pdvoid report SCENARIO.toml --out review.pdf --test-voltage 18kV [--service-voltage 8kV]
                   [--figures png|svg] [--cycles N] [--seed S]
+                  [--acceptance-charge 10pC] [--acceptance-voltage-factor 1.1]
+                  [--revision A] [--author NAME] [--checker NAME] [--approver NAME]
+
+The document-control fields and the acceptance criterion may also come from the scenario file's [document] and
+[acceptance] tables (:mod:`pdvoid.inputs.document`); an option given here overrides the file's value.
 """
 
 from __future__ import annotations
@@ -11,6 +16,7 @@ from __future__ import annotations
 import argparse
 
 from pdvoid.faces.cli import options
+from pdvoid.inputs.document import MAX_VOLTAGE_FACTOR
 
 __all__ = ["register"]
 
@@ -57,17 +63,63 @@ def register(subparsers: argparse._SubParsersAction[argparse.ArgumentParser]) ->
         help="cycles simulated at the test voltage, e.g. 5000 (default 2000)",
     )
     p.add_argument("--seed", type=options.seed, default=1, help="random seed, e.g. 7 (default 1)")
+    acc = p.add_argument_group(
+        "acceptance criterion",
+        "the verdict '<= charge at factor x test voltage', from a run simulated at that voltage; overrides the "
+        "scenario file's [acceptance] table (charge = \"10 pC\", voltage_factor = 1.1)",
+    )
+    acc.add_argument("--acceptance-charge", type=options.quantity("charge"), default=None,
+                     help="largest acceptable apparent charge, with a unit, e.g. 10pC (default: the scenario "
+                     "file's, else no acceptance verdict)")
+    acc.add_argument("--acceptance-voltage-factor", type=_factor, default=None,
+                     help="the criterion applies at this multiple of the test voltage, e.g. 1.1 (default: the "
+                     "scenario file's, else 1)")
+    doc = p.add_argument_group(
+        "document control",
+        "printed on the first page; overrides the scenario file's [document] table; a field left empty prints "
+        "as a blank line to sign",
+    )
+    doc.add_argument("--revision", default=None, help="revision of the pack, e.g. A (default: the file's, else blank)")
+    doc.add_argument("--author", default=None, help="who wrote the pack, e.g. 'A. Name' (default: the file's, else "
+                     "blank)")
+    doc.add_argument("--checker", default=None,
+                     help="who checked it, e.g. 'B. Name' (default: the file's, else blank)")
+    doc.add_argument("--approver", default=None,
+                     help="who approved it, e.g. 'C. Name' (default: the file's, else blank)")
     p.set_defaults(func=_cmd_report)
     return p
 
 
+def _factor(text: str) -> float:
+    """The acceptance voltage factor: a number in (0, 10]."""
+    value = options.number(0.0, MAX_VOLTAGE_FACTOR)(text)
+    if value == 0.0:
+        raise argparse.ArgumentTypeError(f"{text!r} is out of range; allowed: a number > 0 and at most "
+                                         f"{MAX_VOLTAGE_FACTOR:g}")
+    return value
+
+
 def _cmd_report(ns: argparse.Namespace) -> int:
+    from pdvoid.core.errors import InputError
     from pdvoid.faces.report import SAFETY_NOTE, design_review
+    from pdvoid.inputs.document import AcceptanceCriterion
     from pdvoid.inputs.scenario import Scenario
+    from pdvoid.inputs.scenario_files import read_review_settings
 
     test = ns.test_voltage
     service = ns.service_voltage
     scenario = Scenario.from_file(ns.scenario)
+    document, criterion, _ = read_review_settings(ns.scenario)
+    document = document.updated(revision=ns.revision, author=ns.author, checker=ns.checker, approver=ns.approver)
+    if ns.acceptance_charge is not None or ns.acceptance_voltage_factor is not None:
+        charge = ns.acceptance_charge if ns.acceptance_charge is not None else (
+            criterion.charge if criterion is not None else None)
+        if charge is None:
+            raise InputError("--acceptance-voltage-factor needs a limit: give --acceptance-charge (e.g. 10pC) or "
+                             "set charge in the scenario file's [acceptance] table")
+        factor = ns.acceptance_voltage_factor if ns.acceptance_voltage_factor is not None else (
+            criterion.voltage_factor if criterion is not None else 1.0)
+        criterion = AcceptanceCriterion(charge=charge, voltage_factor=factor)
     pack = design_review(
         scenario,
         test_voltage=test,
@@ -77,8 +129,15 @@ def _cmd_report(ns: argparse.Namespace) -> int:
         out=ns.out,
         figures=ns.figures,
         scenario_file=ns.scenario,
+        document=document,
+        acceptance=criterion,
     )
     est = pack.estimate
+    if pack.acceptance is not None:
+        print(pack.acceptance.describe())
+    else:
+        print("no acceptance criterion given (--acceptance-charge, or [acceptance] in the scenario file): no "
+              "acceptance verdict")
     if pack.band is not None:  # always set by design_review
         print(f"verdict at the test voltage {test / 1e3:.4g} kV rms: {pack.verdict}")
         print(pack.band.describe())

@@ -18,10 +18,12 @@ from pdvoid.faces.plots.patterns import phase_pattern
 from pdvoid.faces.plots.style import new_figure
 
 if TYPE_CHECKING:
+    from pdvoid.analysis.acceptance import AcceptanceVerdict
     from pdvoid.analysis.inception import InceptionEstimate
     from pdvoid.analysis.margins import LargestVoid, MarginTable
     from pdvoid.analysis.verdict import InceptionBand
     from pdvoid.faces.report import SensitivityRow
+    from pdvoid.inputs.document import DocumentControl
     from pdvoid.inputs.scenario import Scenario
     from pdvoid.simulation.results import Result
 
@@ -80,6 +82,16 @@ class Context:
     measurement_notes : tuple of str
         The measuring chain's assumptions (:meth:`pdvoid.TestCircuit.describe`,
         :meth:`pdvoid.Instrument.describe`); empty when no measuring chain was given.
+    document : DocumentControl or None
+        Revision, author, checker and approver; None or an empty field prints a blank line to sign.
+    date : str
+        Date and time of the run, ISO 8601 (UTC); empty: not stated.
+    input_name, input_sha256 : str or None
+        The scenario file's name and the SHA-256 of its bytes; None for a Scenario given without its file.
+    acceptance : AcceptanceVerdict or None
+        The verdict against the acceptance criterion; None when no criterion was given.
+    pattern_notes : tuple of str
+        What the simulated pattern rests on, in words (:func:`pdvoid.faces.report.pattern_assumptions`).
     """
 
     scenario: Scenario
@@ -106,6 +118,12 @@ class Context:
     validity_notes: tuple[str, ...] = ()
     variation_notes: tuple[str, ...] = ()
     measurement_notes: tuple[str, ...] = ()
+    document: DocumentControl | None = None
+    date: str = ""
+    input_name: str | None = None
+    input_sha256: str | None = None
+    acceptance: AcceptanceVerdict | None = None
+    pattern_notes: tuple[str, ...] = ()
 
 
 @dataclass(frozen=True)
@@ -197,6 +215,14 @@ def _verdict(ctx: Context) -> str:
     return f"Verdict at the test voltage {_kv4(ut)} kV rms: {ctx.verdict}. {where}; {band.regime} regime."
 
 
+def _pattern_caption(ctx: Context) -> str:
+    m = ctx.scenario.model
+    electrons = ("unlimited start electrons (lag-free)" if m.lag_free else
+                 "the start-electron supply of the assumptions page (illustrative rates unless fitted)")
+    return (f"Simulated with the {m.title} and {electrons}: the pattern's counts and magnitudes rest on both "
+            "(see 'What the simulated pattern rests on').")
+
+
 def _notes_section(w: PageWriter, ctx: Context) -> None:
     if ctx.validity_notes:
         w.heading("Validity notes on these numbers")
@@ -206,16 +232,84 @@ def _notes_section(w: PageWriter, ctx: Context) -> None:
         w.bullets(list(ctx.variation_notes), size=7.5)
 
 
+#: printed for an empty name, signature or date: a line to sign on
+BLANK = "_" * 18
+
+
+def _document_section(w: PageWriter, ctx: Context) -> None:
+    doc = ctx.document
+    rev = doc.revision if doc is not None else ""
+    if ctx.input_name is None:
+        name, digest = "none: the scenario was given as a Python object, not read from a file", "none (no file)"
+    else:
+        name, digest = ctx.input_name, ctx.input_sha256 or "none"
+    w.table(
+        ["document control", ""],
+        [
+            ["date of the run (ISO 8601, UTC)", ctx.date or BLANK],
+            ["revision", rev or BLANK],
+            ["input file (scenario)", name],
+            ["SHA-256 of the input file", digest],
+            ["pdvoid version", ctx.version],
+            ["simulation", f"{ctx.cycles} cycles from an uncharged void, seed {ctx.seed}"],
+        ],
+        [0.3, 0.7],
+        size=7.5,
+    )
+    people = [(role, getattr(doc, key, "") if doc is not None else "")
+              for role, key in (("author", "author"), ("checker", "checker"), ("approver", "approver"))]
+    w.table(["role", "name", "signature", "date"], [[r, n or BLANK, BLANK, BLANK] for r, n in people],
+            [0.16, 0.42, 0.24, 0.18], size=7.5)
+
+
+def _pc(q: float) -> str:
+    return f"{q * 1e12:.4g} pC"
+
+
+def _acceptance_section(w: PageWriter, ctx: Context) -> None:
+    a = ctx.acceptance
+    if a is None:
+        w.box("Acceptance: no acceptance criterion was given, so this pack gives no acceptance verdict (set one "
+              "with pdvoid report --acceptance-charge 10pC --acceptance-voltage-factor 1.1, or an [acceptance] "
+              "table in the scenario file; the limit comes from the applicable standard or specification).",
+              size=9.0, colour="#1b2a49", face="#f1f4fa")
+        return
+    w.box(f"Acceptance verdict: {a.outcome}. Criterion {a.criterion.describe()}, i.e. at most "
+          f"{_pc(a.criterion.charge)} at {_kv4(a.voltage)} kV rms.", size=9.5, colour="#1b2a49", face="#f1f4fa")
+    if a.largest_repeated > 0.0:
+        rep = _pc(a.largest_repeated)
+    else:
+        rep = f"0 pC: no magnitude repeats {a.repetition_rate:g} times per second in the run"
+    largest = _pc(a.largest_charge) if a.discharges else "none: no discharge in the run"
+    rows = [
+        ["acceptance voltage, rms", f"{_kv4(a.voltage)} kV ({a.criterion.voltage_factor:.4g} × "
+                                    f"{_kv4(a.test_voltage)} kV)"],
+        ["largest repeatedly occurring magnitude (pdvoid's counting rule, below)", rep],
+        ["apparent charge of a lag-free discharge", _pc(a.lag_free_charge)],
+        ["largest single discharge in the run", largest],
+        ["discharges in the run at the acceptance voltage",
+         f"{a.discharges} in {a.cycles} cycles" + (
+             "" if a.voltage == a.test_voltage else " (a run of its own, same cycles and seed)")],
+        ["inception band (both criteria)", a.band.describe()],
+        ["the band at the acceptance voltage", a.band_verdict],
+        ["validity of the design's own numbers",
+         f"{len(ctx.validity_notes)} validity note(s), listed below" if ctx.validity_notes else
+         "within the verified range of the closed forms (no validity note on the design itself)"],
+        ["why", a.reason],
+        ["the verdict rests on", "; ".join(a.rests_on)],
+    ]
+    w.table(["acceptance", "value"], rows, [0.34, 0.66], size=7.5)
+    w.paragraph(f"Counting rule: the {a.counting_rule}. The chart pages show the run at the test voltage.",
+                size=7.0, colour="#444444")
+
+
 def _summary_page(w: PageWriter, ctx: Context) -> None:
     sc, est, c = ctx.scenario, ctx.estimate, ctx.result.coefficients()
     w.new_page("Design review: partial discharges in a gas-filled void")
     w.paragraph(sc.name or "(unnamed scenario)", size=10, weight="bold")
-    w.paragraph(
-        f"pdvoid {ctx.version}; simulated at the test voltage for {ctx.cycles} cycles, seed {ctx.seed}.",
-        size=8.5,
-        colour="#444444",
-    )
+    _document_section(w, ctx)
     w.box(ctx.safety, size=8.5)
+    _acceptance_section(w, ctx)
     w.box(_verdict(ctx), size=9.5, colour="#1b2a49", face="#f1f4fa")
     _notes_section(w, ctx)
     w.heading("Inception, extinction and margins")
@@ -408,7 +502,7 @@ def standalone_chart(ctx: Context, name: str) -> Figure:
 
 
 _ASSUMPTIONS = (
-    "The void is an idealised {shape} {where} a plane slab between plane electrodes, its axis along the "
+    "The void is an idealised {shape} {where}, its axis along the "
     "field; the host is a homogeneous linear dielectric. Other geometries need the numerical field solver.",
     "Field enhancement and induced (apparent) charge use closed forms valid for a void small compared with "
     "its distance to the electrodes (here height/thickness = {h_d:.2f}; the margin chart stops where the "
@@ -428,6 +522,20 @@ _ASSUMPTIONS = (
 )
 
 
+def _where(sc: Scenario) -> str:
+    """Where the void sits, in words: in a plane slab, or in a cable's coaxial insulation."""
+    ins = sc.insulation
+    inner, outer = getattr(ins, "inner_radius", None), getattr(ins, "outer_radius", None)
+    r = sc.void.radial_position
+    if inner is not None and outer is not None and r is not None:
+        return (f"in the coaxial insulation of a cable (conductor radius {inner * 1e3:.4g} mm, screen radius "
+                f"{outer * 1e3:.4g} mm), its centre {r * 1e3:.4g} mm from the axis, in the local radial field "
+                "V/(r ln(R/r_i))")
+    where = {"centred": "centred in", "high_voltage_electrode": "on the high-voltage electrode of",
+             "ground_electrode": "on the ground electrode of"}[sc.void.position]
+    return f"{where} a plane slab between plane electrodes"
+
+
 def _assumptions_page(w: PageWriter, ctx: Context) -> None:
     sc, est = ctx.scenario, ctx.estimate
     a, b = est.inception_voltage_streamer, est.inception_voltage_integral
@@ -436,8 +544,7 @@ def _assumptions_page(w: PageWriter, ctx: Context) -> None:
     h_d = sc.void.height / sc.insulation.thickness
     values = {
         "shape": "spheroid" if sc.void.shape == "spheroid" else "flat cylinder (disc)",
-        "where": {"centred": "centred in", "high_voltage_electrode": "on the high-voltage electrode of",
-                  "ground_electrode": "on the ground electrode of"}[sc.void.position],
+        "where": _where(sc),
         "h_d": h_d,
         "l_mm": sc.void.streamer_length * 1e3,
         "spread": spread,
@@ -447,6 +554,9 @@ def _assumptions_page(w: PageWriter, ctx: Context) -> None:
         "seed": ctx.seed,
     }
     w.bullets([t.format(**values) for t in _ASSUMPTIONS])
+    if ctx.pattern_notes:
+        w.heading("What the simulated pattern rests on")
+        w.bullets(list(ctx.pattern_notes), size=8.5)
     w.heading("Measuring circuit")
     if ctx.measurement_notes:
         w.bullets(["Charges are read through a simulated IEC 60270 measuring chain (pdvoid.measure), calibrated "
@@ -523,7 +633,7 @@ def build_pages(ctx: Context) -> Pages:
         f"Discharges per cycle in each cell of phase × apparent charge over {ctx.result.cycles} simulated "
         "cycles (logarithmic colour scale; empty cells white), with the applied voltage drawn over it. "
         "Phase is measured from the positive-going zero crossing of the applied voltage (IEC 60270 "
-        "convention).",
+        "convention). " + _pattern_caption(ctx),
         chart_height=5.6,
     )
     draw_pattern(ctx, chart.add_subplot())

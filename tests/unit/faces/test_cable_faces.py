@@ -29,6 +29,12 @@ def test_review_pack_of_a_cable(cable, tmp_path):
     assert pack.path.read_bytes()[:5] == b"%PDF-"
     assert pack.estimate.inception_voltage == pytest.approx(U_HAND, rel=1e-9)
     assert pack.verdict == "discharges expected"  # 20.8 kV > 14.3 kV
+    # the assumptions page says where the void sits: in the cable's insulation (8 and 13.5 mm radii, 10.5 mm from
+    # the axis, as the example file sets them), not in a plane slab
+    page = next(t for t in pack.page_texts if t.startswith("Assumptions and validity limits"))
+    flat = " ".join(page.split())
+    assert "in the coaxial insulation of a cable (conductor radius 8 mm, screen radius 13.5 mm)" in flat
+    assert "10.5 mm from the axis" in flat and "plane slab" not in flat
 
 
 def test_workbench_session_keeps_the_cable(cable):
