@@ -44,11 +44,11 @@ from pdvoid.models.arguments import cathode_rate
 from pdvoid.models.time_domain import ConductionCoefficients, conduction_coefficients
 
 __all__ = ["SupplyInception", "supply_inception", "dc_inception", "vlf_inception", "repetitive_inception",
-           "transfer_magnitude", "repetition_probability_criterion"]
+           "transfer_magnitude"]
 
 #: share of impulses of one polarity with a discharge that counts as repetitive (IEC TS 60034-18-41:2014, from
 #: memory: more than five PD pulses on ten impulses)
-repetition_probability_criterion = 0.5
+_REPETITION_CRITERION = 0.5
 
 _SAMPLES = 1 << 15  # samples per period of the Fourier route (relative error of the peak below 1e-6)
 
@@ -399,7 +399,7 @@ def vlf_inception(scenario: Scenario) -> SupplyInception:
                            enhancement=gain, relaxation_time=tau, notes=tuple(notes))
 
 
-def repetitive_inception(scenario: Scenario, probability: float = repetition_probability_criterion
+def repetitive_inception(scenario: Scenario, probability: float = _REPETITION_CRITERION
                          ) -> SupplyInception:
     """RPDIV and RPDEV of the void under a :class:`pdvoid.SquareWave` (square wave or PWM with linear edges).
 
