@@ -181,3 +181,25 @@ def test_supply_inception_dispatches_and_refuses_what_it_cannot_answer():
         repetitive_inception(_scenario(pdvoid.SquareWave(1e3, frequency=1e4, rise_time=1e-7)), probability=1.5)
     with pytest.raises(pdvoid.InputError, match="omega"):
         transfer_magnitude(-1.0, 1.0, 1.5, 1.0)
+
+
+def _lag_free(sc):
+    return dataclasses.replace(sc, model=dataclasses.replace(sc.model, lag_free=True))
+
+
+def test_dc_inception_agrees_with_the_lag_free_time_domain_kernel():
+    # independent path: the event kernel (pdvoid.kernels.conduction_events) on the same scenario
+    sc = _scenario(pdvoid.DC(30e3), sigma=1e-12)
+    u = dc_inception(sc).inception_voltage
+    tau = dc_inception(sc).relaxation_time
+    below = pdvoid.simulate(_lag_free(dataclasses.replace(sc, supply=pdvoid.DC(0.99 * u))), duration=30 * tau)
+    above = pdvoid.simulate(_lag_free(dataclasses.replace(sc, supply=pdvoid.DC(1.01 * u))), duration=30 * tau)
+    assert below.event_count == 0 and above.event_count > 0
+
+
+def test_lag_free_rpdiv_agrees_with_the_time_domain_kernel():
+    sc = _scenario(pdvoid.SquareWave(1e3, frequency=1e4, rise_time=1e-7))
+    u_pp = repetitive_inception(sc).lag_free_inception_voltage
+    runs = [pdvoid.simulate(_lag_free(dataclasses.replace(sc, supply=pdvoid.SquareWave(
+        k * u_pp / 2, frequency=1e4, rise_time=1e-7))), cycles=50) for k in (0.99, 1.01)]
+    assert runs[0].event_count == 0 and runs[1].event_count > 0
