@@ -18,6 +18,7 @@ from pdvoid.analysis.quantities import iec60270, largest_repeated_magnitude
 from pdvoid.analysis.regime import DischargeRegime, discharge_regime
 from pdvoid.analysis.sequence import pulse_sequence
 from pdvoid.analysis.summary import RunSummary, run_summary
+from pdvoid.analysis.supply_inception import SupplyInception, supply_inception
 from pdvoid.analysis.verdict import InceptionBand, inception_band, verdict
 from pdvoid.analysis.void_count import VoidCountResult, void_count
 
@@ -27,6 +28,7 @@ __all__ = [
     "margin_table", "largest_pd_free_void", "design_margin", "RunSummary", "run_summary", "compare", "fit",
     "DischargeRegime", "discharge_regime",
     "InceptionBand", "inception_band", "verdict", "AcceptanceVerdict", "acceptance_verdict",
+    "supply_inception", "SupplyInception",
     "measure", "pulse_pair_reading", "pulse_resolution_time",
     "void_count", "VoidCountResult", "acceptance_probability", "AcceptanceEstimate", "wilson_interval",
 ]

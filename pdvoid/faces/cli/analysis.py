@@ -102,12 +102,60 @@ def _band_doc(band: InceptionBand) -> dict[str, object]:
             "inception regime": band.regime, "inception reason": band.reason, "band": band.describe()}
 
 
+def _supply_words(sc: object) -> str:
+    """Why the AC (50 Hz sine, perfect dielectric) analysis does not apply to ``sc``, or "" when it does."""
+    from pdvoid.inputs.parameters import Periodic, Sine
+    from pdvoid.models.time_domain import needs_time_domain
+
+    sup = getattr(sc, "supply", None)
+    if not isinstance(sup, (Sine, Periodic)):
+        return f"a {type(sup).__name__} supply"
+    if needs_time_domain(sc):  # type: ignore[arg-type]
+        return "a conducting insulation (its void field depends on the frequency through conduction)"
+    return ""
+
+
+def _cmd_supply_inception(ns: argparse.Namespace, sc: object, why: str) -> int:
+    """``pdvoid inception`` for a supply other than a sine in a perfect dielectric: the supply's own quantity."""
+    from pdvoid.analysis.supply_inception import supply_inception
+
+    if ns.ramp:
+        raise InputError(f"--ramp simulates a stepped test over AC cycles of a sine in a perfect dielectric; this "
+                         f"scenario has {why}: run the analytic estimate without --ramp, or simulate the voltage "
+                         "levels with pdvoid simulate")
+    with validity_notes() as notes:
+        r = supply_inception(sc)  # type: ignore[arg-type]
+    q = r.quantity
+    values = {f"inception voltage [V, {q}]": r.inception_voltage,
+              f"extinction voltage [V, {q}]": r.extinction_voltage,
+              f"lag-free inception voltage [V, {q}]": r.lag_free_inception_voltage,
+              f"transient inception voltage [V, {q}]": r.transient_inception_voltage,
+              "voltage jump per edge at inception [V]": r.edge_inception_voltage,
+              "voltage jump per edge at extinction [V]": r.edge_extinction_voltage,
+              "void field per applied field [-]": r.enhancement, "relaxation time [s]": r.relaxation_time}
+    values = {k: v for k, v in values.items() if not np.isnan(v)}
+    doc: dict[str, object] = {"scenario": ns.scenario, "supply": r.supply, "quantity": q,
+                              "analytic": values, "assumptions": list(r.notes), "validity_notes": notes,
+                              "safety": SAFETY}
+    lines = [f"{ns.scenario}: analytic, {r.supply} supply (voltages as {q})"]
+    for k, v in values.items():
+        shown = f"{v:.5g}" if np.isfinite(v) else "none at any voltage (see the notes)"
+        lines.append(f"  {k:<52s} {shown}")
+    lines += ["Assumptions:"] + [f"  - {n}" for n in r.notes]
+    emit(doc, ns.json, lines + notes_lines(notes))
+    return 0
+
+
 def _cmd_inception(ns: argparse.Namespace) -> int:
     from pdvoid.analysis.inception import inception
     from pdvoid.analysis.verdict import band_from_coefficients
     from pdvoid.coefficients import compute_coefficients
     from pdvoid.inputs.scenario import Scenario
 
+    sc0 = Scenario.from_file(ns.scenario)
+    why = _supply_words(sc0)
+    if why:
+        return _cmd_supply_inception(ns, sc0, why)
     with validity_notes() as notes:
         sc = Scenario.from_file(ns.scenario)
         est = inception(sc)
@@ -156,6 +204,12 @@ def _cmd_margin(ns: argparse.Namespace) -> int:
     from pdvoid.analysis.verdict import inception_band, verdict
     from pdvoid.inputs.scenario import Scenario
 
+    why = _supply_words(Scenario.from_file(ns.scenario))
+    if why:
+        raise InputError(f"pdvoid margin compares an rms test voltage with the inception of a sine in a perfect "
+                         f"dielectric; this scenario has {why}, so that comparison would be wrong. Use pdvoid "
+                         "inception: it gives the inception voltage in the supply's own quantity (DC level, VLF "
+                         "level, peak-to-peak of the impulses)")
     with validity_notes() as notes:
         sc = Scenario.from_file(ns.scenario)
         values = None

@@ -34,7 +34,16 @@ def _run_summary(result: Result) -> dict[str, float]:
 def _regime(result: Result) -> dict[str, object]:
     """The run's regime in words and its expected first wait, with display units in the keys."""
     from pdvoid.analysis.regime import discharge_regime
+    from pdvoid.inputs.parameters import Periodic, Sine
 
+    if not isinstance(result.scenario.supply, (Sine, Periodic)):  # the regime analysis is per cycle of a sine
+        n = result.event_count
+        state = "discharging" if n else "no discharge"
+        first = f", the first after {result.first_discharge_time:.4g} s" if n else ""
+        return {"state": state, "text": f"{state}: {n} discharges in {result.duration:.6g} s{first} (the "
+                "analysis of waits per cycle is for sine and Fourier-series supplies; not computed for a "
+                f"{type(result.scenario.supply).__name__} supply)",
+                "first discharge after [s]": result.first_discharge_time if n else float("nan")}
     r = discharge_regime(result.scenario, result)
     return {
         "state": r.state, "text": r.text, "first discharge after [s]": r.first_discharge_time,
@@ -118,6 +127,26 @@ def _check_out_folder(out: Path, force: bool) -> None:
                          "choose another folder")
 
 
+def _run_length(sc: object, cycles: int | None, duration: float | None) -> tuple[int | None, float | None]:
+    """``(cycles, duration)`` for the scenario's supply: ``--cycles`` for a periodic supply (default 1000),
+    ``--duration`` for one without a period (required); the wrong one is refused before any work."""
+    supply = getattr(sc, "supply", None)
+    periodic = bool(getattr(supply, "periodic", True))
+    name = type(supply).__name__
+    if periodic:
+        if duration is not None:
+            raise InputError(f"--duration is for supplies without a period; this {name} supply repeats: give "
+                             f"--cycles instead (got --duration {duration:g} s)")
+        return (1000 if cycles is None else cycles), None
+    if cycles is not None:
+        raise InputError(f"--cycles is for periodic supplies; a {name} supply has no period: give --duration "
+                         f"instead, e.g. --duration 1000s (got --cycles {cycles})")
+    if duration is None:
+        raise InputError(f"a {name} supply has no period: give --duration, the simulated time from energisation, "
+                         "e.g. --duration 1000s")
+    return None, duration
+
+
 def _cmd_simulate(ns: argparse.Namespace) -> int:
     from pdvoid.inputs.scenario import Scenario
     from pdvoid.inputs.scenario_files import scenario_to_dict
@@ -126,14 +155,16 @@ def _cmd_simulate(ns: argparse.Namespace) -> int:
     if ns.phase_bins is not None and not ns.histogram:
         raise InputError("--phase-bins sets the bins of --histogram; give --histogram with it")
     sc = Scenario.from_file(ns.scenario)
+    cycles, duration = _run_length(sc, ns.cycles, ns.duration)
     out = Path(ns.out)
     # --histogram keeps no event list, so there is no events.csv to write either
     files = tuple(n for n in RUN_FILES if n != "events.csv" or not (ns.no_events or ns.histogram))
     _check_out_folder(out, ns.force)
     with FolderLock(out):
         _check_out_folder(out, ns.force)  # again under the lock: another run may have finished meanwhile
-        with validity_notes() as notes, ProgressBar(ns.cycles, "simulating", "cycle", quiet=ns.quiet) as bar:
-            res = simulate(sc, cycles=ns.cycles, seed=ns.seed, progress=bar.update_to,
+        total, unit = (cycles, "cycle") if cycles is not None else (1, "run")
+        with validity_notes() as notes, ProgressBar(total, "simulating", unit, quiet=ns.quiet) as bar:
+            res = simulate(sc, cycles=cycles, duration=duration, seed=ns.seed, progress=bar.update_to,
                            histogram=ns.histogram, phase_bins=ns.phase_bins or DEFAULT_PHASE_BINS)
             c = compute_coefficients(sc)
         # an overwritten folder is marked incomplete first: a run killed from here on leaves a folder that
@@ -146,7 +177,7 @@ def _cmd_simulate(ns: argparse.Namespace) -> int:
             (out / "events.csv").unlink(missing_ok=True)
         summ = _run_summary(res)
         regime = _regime(res)
-        doc = {"scenario": str(ns.scenario), "cycles": ns.cycles, "seed": ns.seed,
+        doc = {"scenario": str(ns.scenario), "cycles": cycles, "duration [s]": res.duration, "seed": ns.seed,
                "model": {"kind": sc.model.kind, "title": sc.model.title, "assumptions": sc.model.caveat},
                "summary": summ,
                "regime": regime, "inception regime": c.inception_regime, "inception reason": c.inception_reason,
@@ -166,11 +197,17 @@ def _cmd_simulate(ns: argparse.Namespace) -> int:
     if ns.json:
         print(text)
     else:
+        if duration is not None:
+            print(f"simulated {duration:.6g} s from energisation (a supply without a period: one observation window)")
+        else:
+            print(f"simulated {res.cycles} cycles ({res.duration:.6g} s)")
         print(f"regime: {regime['text']}")
         print(f"model: {sc.model.title}; assumptions: {sc.model.caveat}")
         if c.inception_regime != "streamer":
             print(f"inception: {c.inception_regime} ({c.inception_reason})")
         for k, v in summ.items():
+            if duration is not None and "per cycle" in k:
+                continue  # one observation window: "per cycle" would mean per run
             print(f"{k:<53s} {_value(v)}")
         for line in notes_lines(notes):
             print(line)
@@ -199,8 +236,12 @@ def register(sub: argparse._SubParsersAction[argparse.ArgumentParser]) -> None:
     s = sub.add_parser("simulate", help="simulate a scenario file and write result, events CSV and summary",
                        epilog="example: pdvoid simulate demo.toml --out run1 --cycles 100000 --histogram")
     s.add_argument("scenario", help="scenario TOML file, e.g. demo.toml (pdvoid/inputs/examples/)")
-    s.add_argument("--cycles", type=options.integer(1, MAX_CYCLES), default=1000,
-                   help="AC cycles to simulate, e.g. 100000 (default 1000)")
+    s.add_argument("--cycles", type=options.integer(1, MAX_CYCLES), default=None,
+                   help="cycles to simulate for a periodic supply (sine, square wave, cosine-rectangular), e.g. "
+                   "100000 (default 1000)")
+    s.add_argument("--duration", type=options.time, default=None,
+                   help="simulated time from energisation for a supply without a period (DC, polarity reversal, "
+                   "piecewise linear), with a unit, e.g. 1000s (default: none, required for such a supply)")
     s.add_argument("--seed", type=options.seed, default=0,
                    help="seed of the random generator, 0 to 2**32-1, e.g. 7 (default 0)")
     s.add_argument("--out", required=True, help="output folder, e.g. run1: result.npz, events.csv, summary.json "
