@@ -21,7 +21,8 @@ from pdvoid.simulation.events import Events
 from pdvoid.simulation.results import Result
 
 if TYPE_CHECKING:
-    from matplotlib.axes import Axes
+    from matplotlib.cm import ScalarMappable
+    from matplotlib.colorbar import Colorbar
     from matplotlib.figure import Figure
 
 __all__ = [
@@ -63,17 +64,25 @@ def _figure(name: str) -> Figure:
     return fig
 
 
-def _pattern_colorbar(fig: Figure, ax: Axes) -> None:
-    from matplotlib.ticker import FuncFormatter
-
-    from pdvoid.faces.plots.style import MESH, attached, plain_number
-
+def _pattern_colorbar(fig: Figure, mesh: ScalarMappable) -> Colorbar:
+    """The pattern view's colour bar of ``mesh`` in its fixed place at the right of the figure."""
     w, h = _SIZES["pattern"]
     _, _, bottom, top = _MARGINS["pattern"]
     cax = fig.add_axes((1.0 - _COLORBAR[0] / w, bottom / h, _COLORBAR[1] / w, 1.0 - (bottom + top) / h))
-    cb = fig.colorbar(attached(ax, MESH), cax=cax)
+    cb = fig.colorbar(mesh, cax=cax)
     cb.set_label("discharges per cycle per cell [1/cycle]", size=9)
     cb.ax.tick_params(labelsize=8, which="both")
+    _colorbar_labels(cb)
+    return cb
+
+
+def _colorbar_labels(cb: Colorbar) -> None:
+    """Plain-number tick labels on the pattern's colour bar (again after each change of its norm, which resets
+    them)."""
+    from matplotlib.ticker import FuncFormatter
+
+    from pdvoid.faces.plots.style import plain_number
+
     cb.ax.yaxis.set_major_formatter(FuncFormatter(plain_number))
     cb.ax.yaxis.set_minor_formatter(FuncFormatter(_minor_label))
 
@@ -137,8 +146,10 @@ def view_figure(name: str, result: Result, measured: Result | Events | None = No
         if name == "field":
             plots.field_time(result, cycles=3, ax=fig.add_subplot())
         elif name == "pattern":
+            from pdvoid.faces.plots.style import MESH, attached
+
             ax = plots.phase_pattern(result, ax=fig.add_subplot(), colorbar=False)
-            _pattern_colorbar(fig, ax)
+            _pattern_colorbar(fig, attached(ax, MESH))
         elif name == "sequence":
             ax = plots.pulse_sequence_plot(result, "du", ax=fig.add_subplot())
             ax.xaxis.label.set_fontsize(9)
