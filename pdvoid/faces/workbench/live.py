@@ -27,6 +27,8 @@ from pdvoid.core.errors import InputError
 from pdvoid.simulation.results import Result
 
 if TYPE_CHECKING:
+    from matplotlib.artist import Artist
+    from matplotlib.axes import Axes
     from matplotlib.figure import Figure
 
 __all__ = ["LiveView", "LiveViews", "SEQUENCE_POINTS", "FIELD_CYCLES"]
@@ -40,17 +42,33 @@ _PC = 1e-12  # C per pC
 _MS = 1e3  # ms per s
 
 
-def _png(fig: Figure) -> bytes:
-    """Redraw ``fig`` on its Agg canvas and encode the pixels as PNG (fast compression)."""
+def _png(fig: Figure, overlay: Any = None) -> bytes:
+    """Redraw ``fig`` on its Agg canvas, lay ``overlay`` (a PIL RGBA image of the fixed texts, or None) over
+    it and encode the pixels as PNG (fast compression)."""
     from PIL import Image
 
     canvas: Any = fig.canvas
     canvas.draw()
     w, h = canvas.get_width_height(physical=True)
-    img = Image.frombuffer("RGBA", (w, h), canvas.buffer_rgba(), "raw", "RGBA", 0, 1).convert("RGB")
+    img = Image.frombuffer("RGBA", (w, h), canvas.buffer_rgba(), "raw", "RGBA", 0, 1)
+    if overlay is not None:
+        img = Image.alpha_composite(img, overlay)
     buf = io.BytesIO()
-    img.save(buf, format="png", compress_level=1)
+    img.convert("RGB").save(buf, format="png", compress_level=1)
     return buf.getvalue()
+
+
+def _fix_label(ax: Axes, which: str, inches: float) -> Artist:
+    """Put the axis label of ``ax`` at a fixed distance from the spine (``which``: "x" below, "y" left, "yr"
+    right) [in], so that it is drawn at the same place on every update; returns the label."""
+    fig: Any = ax.figure
+    box = ax.get_position()
+    width, height = box.width * fig.get_figwidth(), box.height * fig.get_figheight()
+    if which == "x":
+        ax.xaxis.set_label_coords(0.5, -inches / height)
+        return ax.xaxis.label
+    ax.yaxis.set_label_coords(-inches / width if which == "y" else 1.0 + inches / width, 0.5)
+    return ax.yaxis.label
 
 
 class LiveView:
@@ -85,6 +103,8 @@ class LiveView:
         self.figure = _figure(name)
         self.figure.set_dpi(SCREEN_DPI)
         FigureCanvasAgg(self.figure)
+        self._static: list[Artist] = []  # drawn once into the fixed layer
+        self._overlay: Any = None
         self._message = self.figure.text(0.5, 0.5, "", ha="center", va="center", fontsize=10, color="#444444",
                                          visible=False)
         self._build()
@@ -108,11 +128,28 @@ class LiveView:
             self._update(result)
         except InputError as exc:
             self._show_message(f"{self.name} view not available: {exc}")
-        else:
-            self._show_message("")
-        return _png(self.figure)
+            return _png(self.figure)
+        self._show_message("")
+        return _png(self.figure, self._fixed_layer())
 
     # ---- drawing, per view ---------------------------------------------------------------------------------
+    def _fixed_layer(self) -> Any:
+        """The texts that never change (axis labels, the field view's legend, the colour-bar label) drawn once
+        on a transparent layer and laid over every later picture: text is most of a redraw's cost."""
+        if self._overlay is None:
+            from PIL import Image
+
+            canvas: Any = self.figure.canvas
+            renderer = canvas.get_renderer()
+            renderer.clear()
+            for artist in self._static:
+                artist.set_visible(True)
+                artist.draw(renderer)
+                artist.set_visible(False)  # from now on in the layer only
+            w, h = canvas.get_width_height(physical=True)
+            self._overlay = Image.frombuffer("RGBA", (w, h), canvas.buffer_rgba(), "raw", "RGBA", 0, 1).copy()
+        return self._overlay
+
     def _show_message(self, text: str) -> None:
         for ax in self.figure.axes:
             ax.set_visible(not text)
@@ -163,8 +200,9 @@ class LiveView:
             Line2D([], [], color=POSITIVE, lw=2.2, marker="o", ms=4, label="discharge, positive"),
             Line2D([], [], color=NEGATIVE, lw=2.2, marker="o", ms=4, label="discharge, negative"),
         ]
-        ax.legend(handles=handles, loc="upper center", bbox_to_anchor=(0.5, -0.16), ncols=2, fontsize=8,
-                  frameon=False)
+        legend = ax.legend(handles=handles, loc="upper center", bbox_to_anchor=(0.5, -0.16), ncols=2, fontsize=8,
+                           frameon=False)
+        self._static += [_fix_label(ax, "x", 0.27), _fix_label(ax, "y", 0.4), _fix_label(vax, "yr", 0.42), legend]
         self._ax, self._vax = ax, vax
 
     def _update_field(self, result: Result) -> None:
@@ -229,6 +267,8 @@ class LiveView:
         ax.set_zorder(vax.get_zorder() + 1)
         ax.patch.set_visible(False)
         self._cbar = _pattern_colorbar(self.figure, self._mesh)
+        self._static += [_fix_label(ax, "x", 0.27), _fix_label(ax, "y", 0.48), _fix_label(vax, "yr", 0.42),
+                         _fix_label(self._cbar.ax, "yr", 0.45)]
         self._plain = FuncFormatter(plain_number)
         self._ax, self._vax = ax, vax
 
@@ -274,7 +314,9 @@ class LiveView:
         else:  # as phase_pattern: a unit sine marks the phase reference
             v, label = np.sin(np.radians(phase)), "applied voltage (shape) [p.u.]"
         self._voltage.set_data(phase, v)
-        self._vax.set_ylabel(label, color=VOLTAGE)
+        if label != self._vax.yaxis.label.get_text():  # a supply without a period: redraw the fixed layer
+            self._vax.set_ylabel(label, color=VOLTAGE)
+            self._overlay = None
         vtop = 1.12 * float(np.max(np.abs(v)))
         self._vax.set_ylim(-vtop, vtop)
 
@@ -293,6 +335,7 @@ class LiveView:
         xl, yl = SEQUENCE_KINDS["du"]
         ax.set_xlabel(xl, fontsize=9)
         ax.set_ylabel(yl, fontsize=9)
+        self._static += [_fix_label(ax, "x", 0.27), _fix_label(ax, "y", 0.42)]
         self._ax = ax
 
     def _update_sequence(self, result: Result) -> None:
