@@ -353,7 +353,7 @@ class Workbench:
         if outcome.network_capacitances is not None:
             self._sync_widgets()  # the capacitances from the geometry
         validity = "; ".join(outcome.validity_notes)
-        note = "; ".join(x for x in (outcome.regime, outcome.model_note,
+        note = "; ".join(x for x in (outcome.regime, outcome.mode_note, outcome.model_note,
                                      validity and f"validity notes: {validity}",
                                      outcome.comparison_error and f"comparison: {outcome.comparison_error}") if x)
         p.summary.value = summary_html(outcome.summary, outcome.comparison, note)
@@ -367,7 +367,10 @@ class Workbench:
         state = f"stopped after {r.cycles} of {r.requested_cycles} cycles" if outcome.stopped else "updated"
         p.status.value = message_html(
             f"{state}: {describe(outcome.controls)}; {r.cycles} cycles, {r.event_count} discharges "
-            f"({outcome.regime}); simulated in {outcome.seconds:.2f} s, drawn in {time.perf_counter() - t0:.2f} s",
+            f"({outcome.regime})"
+            + ("" if outcome.sample is None else
+               f"; histogram mode, field and pulse sequence of the first {outcome.sample.cycles} cycles")
+            + f"; simulated in {outcome.seconds:.2f} s, drawn in {time.perf_counter() - t0:.2f} s",
             "info",
         )
         if self.session.measured is not None:  # after the status: the main views come first
@@ -378,7 +381,7 @@ class Workbench:
 
     def _render(self, outcome: Outcome) -> Iterator[tuple[str, bytes]]:
         """(view name, PNG bytes) of each main view, drawn as :attr:`drawing` says."""
-        from pdvoid.faces.workbench.views import VIEW_NAMES, render_views
+        from pdvoid.faces.workbench.views import VIEW_NAMES, render_views, view_source
 
         if self.drawing == "new figures":
             yield from render_views(outcome)
@@ -387,9 +390,8 @@ class Workbench:
 
         if self._live is None:
             self._live = LiveViews()
-        assert outcome.result is not None
         for name in VIEW_NAMES:
-            yield name, self._live.render(name, outcome.result)
+            yield name, self._live.render(name, view_source(outcome, name))
 
     def _internal_error(self, exc: BaseException) -> None:
         text = "".join(traceback.format_exception(type(exc), exc, exc.__traceback__))

@@ -268,7 +268,7 @@ class LiveView:
         ax.patch.set_visible(False)
         self._cbar = _pattern_colorbar(self.figure, self._mesh)
         self._static += [_fix_label(ax, "x", 0.27), _fix_label(ax, "y", 0.48), _fix_label(vax, "yr", 0.42),
-                         _fix_label(self._cbar.ax, "yr", 0.45)]
+                         _fix_label(self._cbar.ax, "yr", 0.55)]
         self._plain = FuncFormatter(plain_number)
         self._ax, self._vax = ax, vax
 
@@ -344,6 +344,7 @@ class LiveView:
         ps = pulse_sequence(result)
         x, y, q = ps.delta_u_previous / 1e3, ps.delta_u_next / 1e3, ps.charge[2:]
         total = x.size
+        counts = (int(np.count_nonzero(q > 0.0)), int(np.count_nonzero(q < 0.0)))
         stride = max(1, math.ceil(total / SEQUENCE_POINTS))
         x, y, q = x[::stride], y[::stride], q[::stride]
         many = x.size > 500
@@ -352,13 +353,13 @@ class LiveView:
         if legend is not None:
             legend.remove()
         shown = []
-        for dots, sel, word in zip(self._pairs, (q > 0.0, q < 0.0), ("positive", "negative"), strict=True):
+        for dots, sel, word, count in zip(self._pairs, (q > 0.0, q < 0.0), ("positive", "negative"), counts,
+                                          strict=True):
             dots.set_offsets(np.column_stack([x[sel], y[sel]]))
             dots.set_sizes([5.0 if many else 10.0])
             dots.set_alpha(0.5 if many else 0.8)
             n = int(np.count_nonzero(sel))
-            dots.set_label(f"pulse n {word} ({n * stride if stride > 1 else n}"
-                           + (f", every {stride}th shown" if stride > 1 else "") + ")")
+            dots.set_label(f"pulse n {word} ({count}" + (f", every {stride}th shown" if stride > 1 else "") + ")")
             dots.set_visible(n > 0)
             if n:
                 shown.append(dots)

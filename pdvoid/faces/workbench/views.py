@@ -31,6 +31,7 @@ __all__ = [
     "view_figure",
     "render_views",
     "render_comparison",
+    "view_source",
     "figure_png",
     "export",
 ]
@@ -164,6 +165,34 @@ def view_figure(name: str, result: Result, measured: Result | Events | None = No
     return fig
 
 
+def view_source(outcome: Outcome, name: str) -> Result:
+    """The result view ``name`` draws: the whole run for the pattern; for the field, pulse-sequence and
+    comparison views the events of the first cycles when the run kept only a histogram
+    (:attr:`Outcome.sample`).
+
+    Parameters
+    ----------
+    outcome : Outcome
+        A workbench update with a result.
+    name : str
+        A view name [-].
+
+    Returns
+    -------
+    Result
+        The result to draw.
+
+    Raises
+    ------
+    InputError
+        When the outcome has no result.
+    """
+    result = outcome.result if name == "pattern" else outcome.events_result
+    if result is None:
+        raise InputError(f"there is nothing to draw: {outcome.error or 'no result'}")
+    return result
+
+
 def figure_png(fig: Figure, dpi: float = SCREEN_DPI) -> bytes:
     """PNG bytes of a Figure (fast compression: the panel redraws often).
 
@@ -205,7 +234,7 @@ def render_views(outcome: Outcome) -> Iterator[tuple[str, bytes]]:
     """
     if outcome.result is None:
         raise InputError(f"there is nothing to draw: {outcome.error or 'no result'}")
-    return ((name, figure_png(view_figure(name, outcome.result))) for name in VIEW_NAMES)
+    return ((name, figure_png(view_figure(name, view_source(outcome, name)))) for name in VIEW_NAMES)
 
 
 def render_comparison(outcome: Outcome, measured: Result | Events) -> bytes:
@@ -230,7 +259,7 @@ def render_comparison(outcome: Outcome, measured: Result | Events) -> bytes:
     """
     if outcome.result is None:
         raise InputError(f"there is nothing to compare: {outcome.error or 'no result'}")
-    return figure_png(view_figure("comparison", outcome.result, measured))
+    return figure_png(view_figure("comparison", view_source(outcome, "comparison"), measured))
 
 
 def export(
@@ -303,7 +332,7 @@ def export(
         raise InputError(f"export folder {str(out)!r} cannot be created: {exc}") from None
     written: list[Path] = []
     for name in names:
-        fig = view_figure(name, outcome.result, measured)
+        fig = view_figure(name, view_source(outcome, name), measured)
         for fmt in formats:
             path = out / f"{stem}_{name}.{fmt}"
             with atomic_write(path, "wb") as fh:
