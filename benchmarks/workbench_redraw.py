@@ -11,7 +11,7 @@ both see the same machine load.
 Targets (issue 17): redraw ≤ 0.3 s median at 200 cycles; 10⁶ cycles drawn in ≤ 2 s; Stop ends a run within
 0.5 s, drawing included.
 
-Run: python benchmarks/workbench_redraw.py [--repeats N] [--no-big]
+Run: python benchmarks/workbench_redraw.py [--repeats N] [--no-big] [--no-big-before] (about 2 min)
 """
 
 from __future__ import annotations
@@ -90,16 +90,34 @@ def _drawn_seconds(wb: Workbench) -> str:
     return text.rpartition("drawn in ")[2].partition(" s")[0]
 
 
-def big_runs() -> None:
-    print("\nbig runs (in place drawing)")
+def _big(wb: Workbench, cycles: str) -> tuple[float, str]:
+    t0 = time.perf_counter()
+    wb.widgets["cycles"].value = cycles
+    wb.wait(600.0)
+    return time.perf_counter() - t0, _drawn_seconds(wb)
+
+
+def big_runs(before: bool) -> None:
+    if before:
+        # the former path: every event kept (no histogram mode) and new figures on each update
+        import pdvoid.faces.workbench.session as session_module
+
+        saved = session_module.HISTOGRAM_FROM_CYCLES
+        session_module.HISTOGRAM_FROM_CYCLES = 10**9
+        try:
+            wb = Workbench(drawing="new figures")
+            total, drawn = _big(wb, "1000000")
+            wb.close()
+        finally:
+            session_module.HISTOGRAM_FROM_CYCLES = saved
+        print(f"\nbefore: 1000000 cycles, every event kept, new figures: change to redrawn panel {total:6.2f} s, of "
+              f"which drawing {drawn} s")
+    print("\nafter: big runs (histogram mode, in place drawing)")
     wb = Workbench()
     for cycles in ("100000", "1000000"):
-        t0 = time.perf_counter()
-        wb.widgets["cycles"].value = cycles
-        wb.wait(600.0)
-        print(f"  {int(cycles):>9d} cycles: change to redrawn panel {time.perf_counter() - t0:6.2f} s, of which "
-              f"drawing {_drawn_seconds(wb)} s")
-    for cycles, after in (("1000000", 0.5), ("10000000", 2.0)):
+        total, drawn = _big(wb, cycles)
+        print(f"  {int(cycles):>9d} cycles: change to redrawn panel {total:6.2f} s, of which drawing {drawn} s")
+    for cycles, after in (("2000000", 0.5), ("10000000", 2.0)):
         wb.widgets["cycles"].value = cycles
         time.sleep(after)
         t0 = time.perf_counter()
@@ -108,18 +126,22 @@ def big_runs() -> None:
         dt = time.perf_counter() - t0
         ran = wb.outcome.result.cycles if wb.outcome is not None and wb.outcome.result is not None else 0
         print(f"  Stop {after:g} s into a {int(cycles):>9d}-cycle run: idle with the partial result drawn after "
-              f"{dt:5.2f} s ({ran} cycles run)")
+              f"{dt:5.2f} s ({ran} cycles run; {wb.panel.status.value.count('stopped after')} 'stopped' status)")
     wb.close()
 
 
 def main() -> None:
     parser = argparse.ArgumentParser(description=__doc__.splitlines()[0])
-    parser.add_argument("--repeats", type=int, default=2, help="passes over every control (default 2)")
+    parser.add_argument("--repeats", type=int, default=2,
+                        help="passes over every control (default 2; 0 leaves the table out)")
     parser.add_argument("--no-big", action="store_true", help="leave out the big runs and Stop")
+    parser.add_argument("--no-big-before", action="store_true",
+                        help="leave out the former path's 10^6-cycle run (about 20 s)")
     args = parser.parse_args()
-    redraw_table(args.repeats)
+    if args.repeats > 0:
+        redraw_table(args.repeats)
     if not args.no_big:
-        big_runs()
+        big_runs(before=not args.no_big_before)
 
 
 if __name__ == "__main__":

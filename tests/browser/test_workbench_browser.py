@@ -283,3 +283,77 @@ def test_workbench_reacts_to_void_size_and_pressure(playwright_api, lab):
             finally:
                 browser.close()
     print("; ".join(f"{k} {v:.2f}" for k, v in timings.items()))
+
+
+#: browser redraw measurement: (control, entry values in turn, the status words that mark each value drawn)
+_LATENCY_CHANGES = (
+    ("diameter_mm", ("1.6", "1.7", "1.5"), lambda v: [f"void {v} mm × 1.5 mm"]),
+    ("height_mm", ("1.4", "1.6", "1.5"), lambda v: [f"× {v} mm, air"]),
+    ("pressure_kPa", ("90", "110", "101.325"), lambda v: [f"air at {v} kPa"]),
+    ("voltage_kV", ("17", "19", "18"), lambda v: [f"{v} kV rms"]),
+)
+
+
+def test_redraw_latency_big_run_and_stop_in_the_browser(playwright_api, lab):
+    """Redraw latency per control (change typed → status says it is drawn, pictures included), a 10⁶-cycle run
+    in histogram mode, and Stop during a 10⁷-cycle run; prints the table and writes it and screenshots to
+    test-artifacts/."""
+    import statistics
+
+    ARTIFACTS.mkdir(exist_ok=True)
+    lines = []
+    with playwright_api() as pw:
+        browser = pw.chromium.launch(executable_path=str(CHROMIUM), headless=True, args=CHROMIUM_ARGS)
+        page = browser.new_page(viewport={"width": 1600, "height": 1500})
+        page.route("**/*", _local_only)
+        try:
+            page.goto(f"{lab}/lab/tree/workbench.ipynb?reset", wait_until="domcontentloaded")
+            page.wait_for_function(_JS_KERNEL_IDLE, timeout=90_000)
+            page.evaluate("window.jupyterapp.commands.execute('notebook:run-all-cells')")
+            _wait_updated(page, ["void 1.5 mm × 1.5 mm"], timeout_ms=90_000)
+            page.wait_for_selector("img.pdvoid-image-field", state="visible")
+            every = []
+            for _ in range(2):
+                for name, values, words in _LATENCY_CHANGES:
+                    for value in values:
+                        before = _images(page)
+                        t0 = _set_slider(page, name, value)
+                        _wait_updated(page, words(value))
+                        every.append((name, time.perf_counter() - t0))
+                        assert _images(page)["pattern"] != before["pattern"]  # the pictures were redrawn
+            lines.append("redraw in the browser, 200 cycles: median / max [s]")
+            for name, _, _ in _LATENCY_CHANGES:
+                got = [t for n, t in every if n == name]
+                lines.append(f"  {name:14s} {statistics.median(got):.3f} / {max(got):.3f}  ({len(got)} changes)")
+            got = [t for _, t in every]
+            lines.append(f"  {'all':14s} {statistics.median(got):.3f} / {max(got):.3f}")
+
+            page.evaluate("window.jupyterapp.shell.collapseLeft()")
+            t0 = _type_into(page, ".pdvoid-cycles input", "1000000")
+            _wait_updated(page, ["1000000 cycles,", "histogram mode"], timeout_ms=120_000)
+            lines.append(f"10^6 cycles, change to redrawn panel in the browser: {time.perf_counter() - t0:.2f} s")
+            page.locator(".pdvoid-workbench").evaluate("e => e.scrollIntoView({block: 'start'})")
+            page.wait_for_timeout(300)
+            page.screenshot(path=str(ARTIFACTS / "workbench-histogram.png"))
+
+            _type_into(page, ".pdvoid-cycles input", "10000000")
+            page.wait_for_function(_JS_STATUS_HAS, arg=["running:"], timeout=60_000)
+            page.wait_for_timeout(1000)
+            t0 = time.perf_counter()
+            page.locator(".pdvoid-stop button, button.pdvoid-stop").first.click()
+            page.wait_for_function(_JS_STATUS_HAS, arg=["stopped after"], timeout=60_000)
+            stop = time.perf_counter() - t0
+            lines.append(f"Stop 1 s into a 10^7-cycle run, click to the stopped panel drawn: {stop:.2f} s")
+            page.wait_for_timeout(300)
+            page.screenshot(path=str(ARTIFACTS / "workbench-stopped.png"))
+            assert stop < 5.0  # generous: the benchmark's figure is the measurement, this only catches a hang
+        except Exception:
+            page.screenshot(path=str(ARTIFACTS / "workbench-failure.png"))
+            raise
+        finally:
+            try:
+                page.evaluate("window.jupyterapp.serviceManager.sessions.shutdownAll()")
+            finally:
+                browser.close()
+    (ARTIFACTS / "redraw-latency.txt").write_text("\n".join(lines) + "\n", encoding="utf-8")
+    print("\n".join(lines))
