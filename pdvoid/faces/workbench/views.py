@@ -80,12 +80,15 @@ def _pattern_colorbar(fig: Figure, mesh: ScalarMappable) -> Colorbar:
 def _colorbar_labels(cb: Colorbar) -> None:
     """Plain-number tick labels on the pattern's colour bar (again after each change of its norm, which resets
     them)."""
-    from matplotlib.ticker import FuncFormatter
+    from matplotlib.ticker import FuncFormatter, NullFormatter
 
     from pdvoid.faces.plots.style import plain_number
 
     cb.ax.yaxis.set_major_formatter(FuncFormatter(plain_number))
-    cb.ax.yaxis.set_minor_formatter(FuncFormatter(_minor_label))
+    low, high = cb.norm.vmin, cb.norm.vmax
+    wide = low is not None and high is not None and low > 0.0 and high / low > 1e3
+    # over more than three decades the labels at 2 and 5 would crowd the bar: the decades alone
+    cb.ax.yaxis.set_minor_formatter(NullFormatter() if wide else FuncFormatter(_minor_label))
 
 
 def _minor_label(value: float, _pos: int | None = None) -> str:
