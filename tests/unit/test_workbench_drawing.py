@@ -131,3 +131,21 @@ def test_big_run_in_the_panel_draws_every_view_and_says_histogram_mode():
         assert "not available" not in wb.panel.status.value
     finally:
         wb.close()
+
+
+def test_the_former_drawing_stays_available_and_a_bad_choice_is_refused():
+    from pdvoid.core.errors import InputError
+    from pdvoid.faces.workbench import Workbench
+
+    with pytest.raises(InputError, match="drawing"):
+        Workbench(drawing="fast")
+    old, new = Workbench(drawing="new figures"), Workbench()
+    try:
+        for name in VIEW_NAMES:
+            a, b = bytes(old.panel.images[name].value), bytes(new.panel.images[name].value)
+            assert a.startswith(PNG) and b.startswith(PNG), name
+            assert _pixels(a).shape == _pixels(b).shape, name
+        assert old.outcome.summary == new.outcome.summary  # drawing changes the pictures only
+    finally:
+        old.close()
+        new.close()
