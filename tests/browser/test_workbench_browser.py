@@ -283,3 +283,105 @@ def test_workbench_reacts_to_void_size_and_pressure(playwright_api, lab):
             finally:
                 browser.close()
     print("; ".join(f"{k} {v:.2f}" for k, v in timings.items()))
+
+
+#: browser redraw measurement: (control, entry values in turn, the status words that mark each value drawn)
+_LATENCY_CHANGES = (
+    ("diameter_mm", ("1.6", "1.7", "1.5"), lambda v: [f"void {v} mm × 1.5 mm"]),
+    ("height_mm", ("1.4", "1.6", "1.5"), lambda v: [f"× {v} mm, air"]),
+    ("pressure_kPa", ("90", "110", "101.325"), lambda v: [f"air at {v} kPa"]),
+    ("voltage_kV", ("17", "19", "18"), lambda v: [f"{v} kV rms"]),
+)
+
+
+def _open_workbench(page, lab: str, notebook: str) -> None:
+    page.goto(f"{lab}/lab/tree/{notebook}?reset", wait_until="domcontentloaded")
+    page.wait_for_function(_JS_KERNEL_IDLE, timeout=90_000)
+    page.evaluate("window.jupyterapp.commands.execute('notebook:run-all-cells')")
+    _wait_updated(page, ["void 1.5 mm × 1.5 mm"], timeout_ms=90_000)
+    page.wait_for_selector("img.pdvoid-image-field", state="visible")
+
+
+def _latencies(page, passes: int = 2) -> list[tuple[str, float]]:
+    """Seconds from a typed change (Enter) to the status line that says the new value is drawn."""
+    every = []
+    for _ in range(passes):
+        for name, values, words in _LATENCY_CHANGES:
+            for value in values:
+                before = _images(page)
+                t0 = _set_slider(page, name, value)
+                _wait_updated(page, words(value))
+                every.append((name, time.perf_counter() - t0))
+                assert _images(page)["pattern"] != before["pattern"]  # the pictures were redrawn
+    return every
+
+
+def test_redraw_latency_big_run_and_stop_in_the_browser(playwright_api, lab, tmp_path):
+    """Redraw latency per control (change typed → status says it is drawn, pictures included) with the former
+    drawing (new figures, a copy of the workbench notebook that asks for it) and the persistent views, a
+    10⁶-cycle run in histogram mode, and Stop during a 10⁷-cycle run; prints the table and writes it and
+    screenshots to test-artifacts/."""
+    import json
+    import statistics
+
+    ARTIFACTS.mkdir(exist_ok=True)
+    nb = json.loads((REPO / "notebooks" / "workbench.ipynb").read_text(encoding="utf-8"))
+    for cell in nb["cells"]:
+        if cell["cell_type"] == "code":
+            cell["source"] = "".join(cell["source"]).replace("open_workbench()",
+                                                             'open_workbench(drawing="new figures")')
+    (tmp_path / "notebooks" / "workbench_former.ipynb").write_text(json.dumps(nb), encoding="utf-8")
+    lines = []
+    with playwright_api() as pw:
+        browser = pw.chromium.launch(executable_path=str(CHROMIUM), headless=True, args=CHROMIUM_ARGS)
+        page = browser.new_page(viewport={"width": 1600, "height": 1500})
+        page.route("**/*", _local_only)
+        try:
+            measured = {}
+            for label, notebook in (("before (new figures)", "workbench_former.ipynb"),
+                                    ("after (in place)", "workbench.ipynb")):
+                _open_workbench(page, lab, notebook)
+                measured[label] = _latencies(page)
+                page.evaluate("window.jupyterapp.serviceManager.sessions.shutdownAll()")
+            lines.append("redraw in the browser, 200 cycles: median / max [s]")
+            lines.append(f"  {'control':14s}" + "".join(f"{lab:>24s}" for lab in measured))
+            for name in [*(c[0] for c in _LATENCY_CHANGES), "all"]:
+                cells = []
+                for every in measured.values():
+                    got = [t for n, t in every if name in (n, "all")]
+                    cells.append(f"{statistics.median(got):.3f} / {max(got):.3f}")
+                lines.append(f"  {name:14s}" + "".join(f"{c:>24s}" for c in cells))
+            # the persistent views keep the redraw within the issue's 0.3 s median; generous, to catch a
+            # regression to the former drawing, not to time the machine
+            assert statistics.median(t for _, t in measured["after (in place)"]) < 1.0
+
+            _open_workbench(page, lab, "workbench.ipynb")
+            page.evaluate("window.jupyterapp.shell.collapseLeft()")
+            t0 = _type_into(page, ".pdvoid-cycles input", "1000000")
+            _wait_updated(page, ["1000000 cycles,", "histogram mode"], timeout_ms=120_000)
+            lines.append(f"10^6 cycles, change to redrawn panel in the browser: {time.perf_counter() - t0:.2f} s")
+            page.locator(".pdvoid-workbench").evaluate("e => e.scrollIntoView({block: 'start'})")
+            page.wait_for_timeout(300)
+            page.screenshot(path=str(ARTIFACTS / "workbench-histogram.png"))
+
+            _type_into(page, ".pdvoid-cycles input", "10000000")
+            page.wait_for_function(_JS_STATUS_HAS, arg=["running:"], timeout=60_000)
+            page.wait_for_timeout(1000)
+            t0 = time.perf_counter()
+            page.locator(".pdvoid-stop button, button.pdvoid-stop").first.click()
+            page.wait_for_function(_JS_STATUS_HAS, arg=["stopped after"], timeout=60_000)
+            stop = time.perf_counter() - t0
+            lines.append(f"Stop 1 s into a 10^7-cycle run, click to the stopped panel drawn: {stop:.2f} s")
+            page.wait_for_timeout(300)
+            page.screenshot(path=str(ARTIFACTS / "workbench-stopped.png"))
+            assert stop < 5.0  # generous: the benchmark's figure is the measurement, this only catches a hang
+        except Exception:
+            page.screenshot(path=str(ARTIFACTS / "workbench-failure.png"))
+            raise
+        finally:
+            try:
+                page.evaluate("window.jupyterapp.serviceManager.sessions.shutdownAll()")
+            finally:
+                browser.close()
+    (ARTIFACTS / "redraw-latency.txt").write_text("\n".join(lines) + "\n", encoding="utf-8")
+    print("\n".join(lines))

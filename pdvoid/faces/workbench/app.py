@@ -12,11 +12,11 @@ import tempfile
 import threading
 import time
 import traceback
-from collections.abc import Callable
+from collections.abc import Callable, Iterator
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
-from pdvoid.core.errors import InputError
+from pdvoid.core.errors import InputError, check_choice
 from pdvoid.faces.workbench.controls import MAX_CYCLES, NETWORK_CONTROLS, SPECS, parse_whole_number
 from pdvoid.faces.workbench.layout import build_panel, message_html, summary_html
 from pdvoid.faces.workbench.messages import panel_message
@@ -28,8 +28,12 @@ from pdvoid.inputs.scenario import Scenario
 if TYPE_CHECKING:
     import ipywidgets
 
+    from pdvoid.faces.workbench.live import LiveViews
+
 __all__ = ["Workbench", "open_workbench"]
 
+#: how the views are drawn: kept figures updated in place, or new figures on each update (the former way)
+DRAWINGS = ("in place", "new figures")
 _WHOLE_RANGES = {"cycles": (1, MAX_CYCLES), "seed": (0, 2**32 - 1)}  # what the whole-number fields take
 
 
@@ -51,6 +55,10 @@ class Workbench:
     export_folder : str or pathlib.Path, optional
         The folder the export field shows at first; default ``~/pdvoid_export`` (outside any project folder;
         an export never replaces files unless asked to) [-].
+    drawing : str
+        "in place": the views are kept figures whose data is replaced on each update
+        (:mod:`pdvoid.faces.workbench.live`); "new figures": each update builds new figures, the former way
+        (kept to measure the difference, ``benchmarks/workbench_redraw.py``) [-].
 
     Attributes
     ----------
@@ -82,8 +90,10 @@ class Workbench:
         test_voltage: float | None = None,
         delay: float = 0.05,
         export_folder: str | Path | None = None,
+        drawing: str = "in place",
     ) -> None:
         require("ipywidgets")
+        self.drawing = check_choice("drawing", drawing, DRAWINGS)
         self.session = WorkbenchSession(scenario, cycles=cycles, seed=seed, test_voltage=test_voltage)
         if export_folder is None:
             export_folder = Path.home() / "pdvoid_export"
@@ -93,6 +103,7 @@ class Workbench:
         self.panel = build_panel(self.session.controls, self.session.base.name or "scenario", folder)
         self.worker = DebouncedWorker(self._job, delay=delay, on_error=self._internal_error)
         self._render_lock = threading.Lock()
+        self._live: LiveViews | None = None
         self._syncing = False
         self._last_progress = 0.0
         self._upload_dir: Path | None = None
@@ -330,7 +341,7 @@ class Workbench:
     def _show(self, outcome: Outcome) -> None:
         """Numbers first (they are ready at once), then the pictures, then the status line that says
         "updated"."""
-        from pdvoid.faces.workbench.views import render_comparison, render_views
+        from pdvoid.faces.workbench.views import render_comparison
 
         p = self.panel
         r = outcome.result
@@ -342,7 +353,7 @@ class Workbench:
         if outcome.network_capacitances is not None:
             self._sync_widgets()  # the capacitances from the geometry
         validity = "; ".join(outcome.validity_notes)
-        note = "; ".join(x for x in (outcome.regime, outcome.model_note,
+        note = "; ".join(x for x in (outcome.regime, outcome.mode_note, outcome.model_note,
                                      validity and f"validity notes: {validity}",
                                      outcome.comparison_error and f"comparison: {outcome.comparison_error}") if x)
         p.summary.value = summary_html(outcome.summary, outcome.comparison, note)
@@ -351,12 +362,15 @@ class Workbench:
         p.progress.value = int(r.cycles)
         t0 = time.perf_counter()
         with self._render_lock:
-            for name, png in render_views(outcome):
+            for name, png in self._render(outcome):
                 _put_image(p.images[name], png)
         state = f"stopped after {r.cycles} of {r.requested_cycles} cycles" if outcome.stopped else "updated"
         p.status.value = message_html(
             f"{state}: {describe(outcome.controls)}; {r.cycles} cycles, {r.event_count} discharges "
-            f"({outcome.regime}); simulated in {outcome.seconds:.2f} s, drawn in {time.perf_counter() - t0:.2f} s",
+            f"({outcome.regime})"
+            + ("" if outcome.sample is None else
+               f"; histogram mode, field and pulse sequence of the first {outcome.sample.cycles} cycles")
+            + f"; simulated in {outcome.seconds:.2f} s, drawn in {time.perf_counter() - t0:.2f} s",
             "info",
         )
         if self.session.measured is not None:  # after the status: the main views come first
@@ -364,6 +378,20 @@ class Workbench:
                 _put_image(p.measured["image"], render_comparison(outcome, self.session.measured))
         self._shown = outcome
         self._mark_stale(False)
+
+    def _render(self, outcome: Outcome) -> Iterator[tuple[str, bytes]]:
+        """(view name, PNG bytes) of each main view, drawn as :attr:`drawing` says."""
+        from pdvoid.faces.workbench.views import VIEW_NAMES, render_views, view_source
+
+        if self.drawing == "new figures":
+            yield from render_views(outcome)
+            return
+        from pdvoid.faces.workbench.live import LiveViews
+
+        if self._live is None:
+            self._live = LiveViews()
+        for name in VIEW_NAMES:
+            yield name, self._live.render(name, view_source(outcome, name))
 
     def _internal_error(self, exc: BaseException) -> None:
         text = "".join(traceback.format_exception(type(exc), exc, exc.__traceback__))

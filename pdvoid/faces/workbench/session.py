@@ -12,6 +12,8 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import TYPE_CHECKING, Any
 
+import numpy as np
+
 from pdvoid.analysis.inception import inception
 from pdvoid.analysis.regime import discharge_regime
 from pdvoid.analysis.summary import run_summary
@@ -21,6 +23,7 @@ from pdvoid.faces.summary_table import summary_dict
 from pdvoid.faces.workbench.controls import CUSTOM_MATERIAL, PANEL_VALUES, Controls
 from pdvoid.faces.workbench.messages import panel_message
 from pdvoid.inputs.scenario import Scenario
+from pdvoid.models.time_domain import needs_time_domain
 from pdvoid.simulation.events import Events
 from pdvoid.simulation.results import Result
 from pdvoid.simulation.simulate import simulate
@@ -28,7 +31,12 @@ from pdvoid.simulation.simulate import simulate
 if TYPE_CHECKING:
     from pdvoid.analysis.compare import Comparison
 
-__all__ = ["Outcome", "WorkbenchSession", "summary_numbers", "describe"]
+__all__ = ["Outcome", "WorkbenchSession", "summary_numbers", "describe", "HISTOGRAM_FROM_CYCLES", "SAMPLE_CYCLES"]
+
+#: runs of more cycles keep only the phase-resolved histogram (plus the events of the first cycles) [-]
+HISTOGRAM_FROM_CYCLES = 20_000
+#: cycles whose events a histogram-mode run keeps for the field and pulse-sequence views [-]
+SAMPLE_CYCLES = 1000
 
 
 @dataclass(frozen=True)
@@ -66,6 +74,11 @@ class Outcome:
     model_note : str
         What the model's parameters mean for this run, in words (e.g. that the network model with capacitances
         from a spheroid's geometry reproduces the field model); "" when there is nothing to say.
+    sample : Result or None
+        For a run of more than :data:`HISTOGRAM_FROM_CYCLES` cycles (histogram mode: ``result`` keeps only the
+        phase-resolved counts and the IEC 60270 sums), the events of its first :data:`SAMPLE_CYCLES` cycles with
+        the same seed, drawn in the field and pulse-sequence views and compared with the measured pattern;
+        None otherwise.
     """
 
     controls: Controls
@@ -81,11 +94,33 @@ class Outcome:
     validity_notes: tuple[str, ...] = ()
     network_capacitances: tuple[float, float] | None = None
     model_note: str = ""
+    sample: Result | None = None
 
     @property
     def ok(self) -> bool:
         """True when the controls were valid (no error)."""
         return not self.error
+
+    @property
+    def events_result(self) -> Result | None:
+        """The result whose events the field and pulse-sequence views draw: :attr:`sample` in histogram mode,
+        else :attr:`result`."""
+        return self.sample if self.sample is not None else self.result
+
+    @property
+    def mode_note(self) -> str:
+        """What a histogram-mode run shows, in words ("" for a run that kept every event)."""
+        if self.sample is None or self.result is None:
+            return ""
+        text = (f"histogram mode ({self.result.requested_cycles} cycles > {HISTOGRAM_FROM_CYCLES}): the pattern "
+                f"and the numbers cover all {self.result.cycles} cycles run; the field and pulse-sequence views "
+                f"and the comparison show the events of the first {self.sample.cycles} cycles (same seed)")
+        hist = self.result.histogram
+        if hist is not None and hist.below + hist.above:
+            top = float(hist.charge_edges[-1]) / 1e-12
+            text += (f"; {hist.below + hist.above} discharges larger than ±{top:.4g} pC (1.25 times the largest of "
+                     "the first cycles) are counted in the numbers but lie outside the pattern's range")
+        return text
 
 
 def summary_numbers(scenario: Scenario, result: Result, test_voltage: float) -> dict[str, float]:
@@ -143,6 +178,16 @@ def _network_state(scenario: Scenario) -> tuple[tuple[float, float] | None, str]
         note += ("; for a spheroid they are chosen to reproduce the field model's induced charge, so the pattern "
                  "equals the field model's; untick 'C_c and C_b from the geometry' to set them")
     return caps, note
+
+
+def _histogram_edges(sample: Result) -> np.ndarray:
+    """Signed charge edges of a histogram-mode run [C]: 60 linear cells per polarity up to 1.25 times the largest
+    magnitude of the first cycles' events (3 times the lag-free charge per discharge without any), as the
+    pattern of a run that keeps its events is binned (0 ... largest magnitude)."""
+    mags = np.abs(sample.events.charge)
+    top = 1.25 * float(mags.max()) if mags.size and mags.max() > 0.0 else 3.0 * abs(
+        float(sample.coefficients().charge_per_discharge))
+    return np.linspace(-top, top, 121)
 
 
 def describe(controls: Controls) -> str:
@@ -308,14 +353,22 @@ class WorkbenchSession:
                 cycles, seed, test = controls.run_settings()
                 if chunk_cycles is None:
                     chunk_cycles = min(max(cycles // 50, 10), 5000)
+                sample = edges = None
+                if cycles > HISTOGRAM_FROM_CYCLES and not needs_time_domain(scenario):
+                    sample = simulate(scenario, cycles=SAMPLE_CYCLES, seed=seed)
+                    edges = _histogram_edges(sample)
                 result = simulate(
                     scenario,
                     cycles=cycles,
                     seed=seed,
+                    histogram=sample is not None,
+                    charge_edges=edges,
                     progress=progress,
                     should_stop=should_stop,
                     chunk_cycles=chunk_cycles,
                 )
+                if sample is not None and result.cycles < sample.cycles:  # stopped early: as far as it ran
+                    sample = simulate(scenario, cycles=max(result.cycles, 1), seed=seed)
                 summary = summary_numbers(scenario, result, test)
                 regime = discharge_regime(scenario, result).text
                 caps, model_note = _network_state(scenario)
@@ -326,7 +379,7 @@ class WorkbenchSession:
         if error is not None:
             outcome = Outcome(controls=controls, error=error, seconds=time.perf_counter() - t0)
         else:
-            comp, comp_err = self._compare(result)
+            comp, comp_err = self._compare(result if sample is None else sample)
             if caps is not None and controls.network_from_geometry:
                 # show the geometry's capacitances (they become the typed values when the box is unticked)
                 shown = {"capacitance_void_pF": caps[0] / 1e-12, "capacitance_series_pF": caps[1] / 1e-12}
@@ -346,6 +399,7 @@ class WorkbenchSession:
                 comparison_error=comp_err,
                 regime=regime,
                 validity_notes=tuple(notes),
+                sample=sample,
             )
         self.outcome = outcome
         return outcome

@@ -21,7 +21,8 @@ from pdvoid.simulation.events import Events
 from pdvoid.simulation.results import Result
 
 if TYPE_CHECKING:
-    from matplotlib.axes import Axes
+    from matplotlib.cm import ScalarMappable
+    from matplotlib.colorbar import Colorbar
     from matplotlib.figure import Figure
 
 __all__ = [
@@ -30,6 +31,7 @@ __all__ = [
     "view_figure",
     "render_views",
     "render_comparison",
+    "view_source",
     "figure_png",
     "export",
 ]
@@ -63,19 +65,30 @@ def _figure(name: str) -> Figure:
     return fig
 
 
-def _pattern_colorbar(fig: Figure, ax: Axes) -> None:
-    from matplotlib.ticker import FuncFormatter
-
-    from pdvoid.faces.plots.style import MESH, attached, plain_number
-
+def _pattern_colorbar(fig: Figure, mesh: ScalarMappable) -> Colorbar:
+    """The pattern view's colour bar of ``mesh`` in its fixed place at the right of the figure."""
     w, h = _SIZES["pattern"]
     _, _, bottom, top = _MARGINS["pattern"]
     cax = fig.add_axes((1.0 - _COLORBAR[0] / w, bottom / h, _COLORBAR[1] / w, 1.0 - (bottom + top) / h))
-    cb = fig.colorbar(attached(ax, MESH), cax=cax)
+    cb = fig.colorbar(mesh, cax=cax)
     cb.set_label("discharges per cycle per cell [1/cycle]", size=9)
     cb.ax.tick_params(labelsize=8, which="both")
+    _colorbar_labels(cb)
+    return cb
+
+
+def _colorbar_labels(cb: Colorbar) -> None:
+    """Plain-number tick labels on the pattern's colour bar (again after each change of its norm, which resets
+    them)."""
+    from matplotlib.ticker import FuncFormatter, NullFormatter
+
+    from pdvoid.faces.plots.style import plain_number
+
     cb.ax.yaxis.set_major_formatter(FuncFormatter(plain_number))
-    cb.ax.yaxis.set_minor_formatter(FuncFormatter(_minor_label))
+    low, high = cb.norm.vmin, cb.norm.vmax
+    wide = low is not None and high is not None and low > 0.0 and high / low > 1e3
+    # over more than three decades the labels at 2 and 5 would crowd the bar: the decades alone
+    cb.ax.yaxis.set_minor_formatter(NullFormatter() if wide else FuncFormatter(_minor_label))
 
 
 def _minor_label(value: float, _pos: int | None = None) -> str:
@@ -137,8 +150,10 @@ def view_figure(name: str, result: Result, measured: Result | Events | None = No
         if name == "field":
             plots.field_time(result, cycles=3, ax=fig.add_subplot())
         elif name == "pattern":
+            from pdvoid.faces.plots.style import MESH, attached
+
             ax = plots.phase_pattern(result, ax=fig.add_subplot(), colorbar=False)
-            _pattern_colorbar(fig, ax)
+            _pattern_colorbar(fig, attached(ax, MESH))
         elif name == "sequence":
             ax = plots.pulse_sequence_plot(result, "du", ax=fig.add_subplot())
             ax.xaxis.label.set_fontsize(9)
@@ -151,6 +166,34 @@ def view_figure(name: str, result: Result, measured: Result | Events | None = No
     except InputError as exc:
         fig = _message_figure(name, f"{name} view not available: {exc}")
     return fig
+
+
+def view_source(outcome: Outcome, name: str) -> Result:
+    """The result view ``name`` draws: the whole run for the pattern; for the field, pulse-sequence and
+    comparison views the events of the first cycles when the run kept only a histogram
+    (:attr:`Outcome.sample`).
+
+    Parameters
+    ----------
+    outcome : Outcome
+        A workbench update with a result.
+    name : str
+        A view name [-].
+
+    Returns
+    -------
+    Result
+        The result to draw.
+
+    Raises
+    ------
+    InputError
+        When the outcome has no result.
+    """
+    result = outcome.result if name == "pattern" else outcome.events_result
+    if result is None:
+        raise InputError(f"there is nothing to draw: {outcome.error or 'no result'}")
+    return result
 
 
 def figure_png(fig: Figure, dpi: float = SCREEN_DPI) -> bytes:
@@ -194,7 +237,7 @@ def render_views(outcome: Outcome) -> Iterator[tuple[str, bytes]]:
     """
     if outcome.result is None:
         raise InputError(f"there is nothing to draw: {outcome.error or 'no result'}")
-    return ((name, figure_png(view_figure(name, outcome.result))) for name in VIEW_NAMES)
+    return ((name, figure_png(view_figure(name, view_source(outcome, name)))) for name in VIEW_NAMES)
 
 
 def render_comparison(outcome: Outcome, measured: Result | Events) -> bytes:
@@ -219,7 +262,7 @@ def render_comparison(outcome: Outcome, measured: Result | Events) -> bytes:
     """
     if outcome.result is None:
         raise InputError(f"there is nothing to compare: {outcome.error or 'no result'}")
-    return figure_png(view_figure("comparison", outcome.result, measured))
+    return figure_png(view_figure("comparison", view_source(outcome, "comparison"), measured))
 
 
 def export(
@@ -292,7 +335,7 @@ def export(
         raise InputError(f"export folder {str(out)!r} cannot be created: {exc}") from None
     written: list[Path] = []
     for name in names:
-        fig = view_figure(name, outcome.result, measured)
+        fig = view_figure(name, view_source(outcome, name), measured)
         for fmt in formats:
             path = out / f"{stem}_{name}.{fmt}"
             with atomic_write(path, "wb") as fh:
