@@ -323,6 +323,25 @@ def _check_out(out: str | os.PathLike[str], figures: str | None) -> tuple[Path, 
     return path, figures
 
 
+def _check_ac_design(scenario: Scenario) -> None:
+    """Refuse, in plain words, a design the pack cannot judge: its margins compare rms test voltages with the
+    inception of a sine (or Fourier-series) supply in a perfect dielectric."""
+    from pdvoid.inputs.parameters import Sine
+    from pdvoid.models.time_domain import needs_time_domain
+
+    sup = scenario.supply
+    why = ""
+    if not isinstance(sup, (Sine, Periodic)):
+        why = f"a {type(sup).__name__} supply"
+    elif needs_time_domain(scenario):
+        why = "a conducting insulation (its void field depends on the frequency through conduction)"
+    if why:
+        raise InputError(f"the review pack compares rms test voltages with the inception of a sine in a perfect "
+                         f"dielectric; this scenario has {why}, so its margins would be wrong. Use pdvoid inception "
+                         "(the inception voltage in the supply's own quantity: DC level, VLF level, peak-to-peak "
+                         "of the impulses) and pdvoid simulate --duration or --cycles for the discharges")
+
+
 def design_review(
     scenario: Scenario,
     *,
@@ -405,6 +424,7 @@ def design_review(
 
     if not isinstance(scenario, Scenario):
         raise InputError(f"scenario must be a pdvoid.Scenario; got {type(scenario).__name__}")
+    _check_ac_design(scenario)
     test_voltage = check_positive("test_voltage", test_voltage, "V")
     if service_voltage is not None:
         service_voltage = check_positive("service_voltage", service_voltage, "V")

@@ -485,3 +485,20 @@ def test_sensitivity_of_a_cable_moves_the_outer_radius():
     for factor, got in ((0.8, row.inception_low), (1.2, row.inception_high)):
         expected = row.inception_base * math.log((a + factor * wall) / a) / math.log(b / a)
         assert got == pytest.approx(expected, rel=1e-9)
+
+
+@pytest.mark.parametrize("supply", ["dc", "conducting"])
+def test_pack_refuses_a_design_it_cannot_judge(tmp_path, supply):
+    # the pack's margins are rms test voltages against a sine's inception in a perfect dielectric: a DC supply or
+    # a conducting host is refused in words before any work, never judged as a 50 Hz sine
+    base = pdvoid.Scenario(insulation=pdvoid.Insulation(thickness=6e-3, permittivity=4.0),
+                           void=pdvoid.Void(diameter=1e-3, height=1e-3), supply=pdvoid.Sine(rms=10e3))
+    if supply == "dc":
+        sc = dataclasses.replace(base, supply=pdvoid.DC(voltage=30e3))
+    else:
+        sc = dataclasses.replace(base, insulation=pdvoid.Insulation(thickness=6e-3, permittivity=4.0,
+                                                                    conductivity=1e-12))
+    out = tmp_path / "pack.pdf"
+    with pytest.raises(pdvoid.InputError, match="review pack compares rms test voltages"):
+        design_review(sc, test_voltage=20e3, out=out)
+    assert not out.exists()
