@@ -140,6 +140,33 @@ def test_time_rescaling_of_the_start_electron_wait_on_a_dc_piece():
     assert stats.kstest(hazard, "expon").pvalue > 1e-3
 
 
+def test_time_rescaling_of_the_start_electron_wait_on_a_linear_piece():
+    # Time-rescaling theorem (Brown et al. 2002) on a linear piece: a perfect dielectric (no conduction part, the
+    # deposited charge kept) under a voltage rising at a constant rate r. After a discharge at t_l the void field
+    # restarts at E_res and rises at f_cap r / d (x = f_cap V/d + q, hand derivation), so it re-crosses E_inc after
+    # (E_inc - E_res) d / (f_cap r); from there the rate is n_vol + n_s exp(-(t - t_l)/tau_s), and its integral
+    # up to the discharge is Exp(1). The first discharge (from V = 0) is left out.
+    model = pdvoid.FieldModel(surface_rate_same=2000.0, surface_decay_time=5e-4, ionization_rate=1e13)
+    rate = 1e7  # V/s: 0 to 10 MV in 1 s (an invented stress test of the kernel, not a real supply)
+    s = _dc(sigma=0.0, model=model, supply=pdvoid.PiecewiseLinear([0.0, 1.0], [0.0, rate]))
+    c = pdvoid.compute_coefficients(s)
+    f_cap = 3 * ER / (2 * ER + 1)
+    r = pdvoid.simulate(s, duration=1.0, seed=5)
+    t = r.time
+    assert t.size > 300 and np.all(r.charge > 0)
+    t_last, t_d = t[:-1], t[1:]
+    t_c = t_last + (c.inception_field - c.residual_field) * D_SLAB / (f_cap * rate)
+    n_vol, n_s, tau_s = c.volume_electron_rate, 2000.0, 5e-4
+    hazard = n_vol * (t_d - t_c) + n_s * tau_s * (np.exp(-(t_c - t_last) / tau_s) - np.exp(-(t_d - t_last) / tau_s))
+    assert np.all(t_d >= t_c - 1e-9)
+    assert stats.kstest(hazard, "expon").pvalue > 1e-3
+    # a wrong crossing time (the field's slope taken 10 % steeper) is detected: the test can fail
+    t_wrong = t_last + (c.inception_field - c.residual_field) * D_SLAB / (1.1 * f_cap * rate)
+    wrong = n_vol * (t_d - t_wrong) + n_s * tau_s * (np.exp(-(t_wrong - t_last) / tau_s)
+                                                     - np.exp(-(t_d - t_last) / tau_s))
+    assert stats.kstest(wrong, "expon").pvalue < 1e-3
+
+
 def test_dc_repetition_is_orders_of_magnitude_below_ac_of_the_same_peak():
     # Published behaviour (from memory: U. Fromm, "Interpretation of partial discharges at dc voltages", IEEE
     # TDEI 2(5) (1995) 761-770): under DC the repetition rate is set by the host's relaxation time and is orders
