@@ -83,3 +83,26 @@ def test_missing_optional_package_names_the_extra(monkeypatch):
     with pytest.raises(MissingDependencyError, match=r'pip install "pdvoid\[sweep\]"') as info:
         require("xarray")
     assert isinstance(info.value, ImportError) and "xarray" in str(info.value)
+
+
+def test_a_reused_pool_whose_manager_thread_ended_is_replaced():
+    # a loky executor whose manager thread has ended accepts tasks and never runs them (the hang seen once in a
+    # full test run): _local_executor must hand out a fresh executor instead
+    pytest.importorskip("joblib")
+    import threading
+
+    from pdvoid.simulation import parallel
+
+    assert parallel_map(math.factorial, ITEMS[:6], workers=2) == [math.factorial(x) for x in ITEMS[:6]]
+    executor = parallel._local_executor(2)
+    ended = threading.Thread(target=lambda: None)
+    ended.start()
+    ended.join()
+    real = executor._executor_manager_thread
+    executor._executor_manager_thread = ended
+    try:
+        fresh = parallel._local_executor(2)
+        assert fresh is not executor
+        assert parallel_map(math.factorial, ITEMS[:6], workers=2) == [math.factorial(x) for x in ITEMS[:6]]
+    finally:
+        executor._executor_manager_thread = real
