@@ -44,7 +44,7 @@ _LAZY = {
     "weibull_fit": "pdvoid.analysis.magnitudes",
     "run_summary": "pdvoid.analysis.summary",
     "compare": "pdvoid.analysis.compare",
-    "fit": "pdvoid.analysis.fit",
+    "fit": "pdvoid.analysis.fitting",
     "read_events": "pdvoid.io",
     "read_pattern_matrix": "pdvoid.io",
     "sweep": "pdvoid.sweeps",
