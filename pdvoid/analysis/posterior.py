@@ -80,7 +80,7 @@ from pdvoid.inputs.parameters import check_seed
 from pdvoid.inputs.scenario import Scenario
 from pdvoid.io.matrix import PatternMatrix
 from pdvoid.simulation.events import Events
-from pdvoid.simulation.parallel import parallel_map
+from pdvoid.simulation.parallel import local_workers, parallel_map
 from pdvoid.simulation.simulate import simulate
 
 __all__ = ["PosteriorResult", "posterior", "SyntheticLikelihood", "PRIORS", "STATISTIC_FLOOR"]
@@ -163,6 +163,22 @@ class SyntheticLikelihood:
             ev = measurement_effects(res, int(seed), threshold=self.stats.threshold, **self.detector)
         return self.stats.of_events(ev.phase_deg, ev.charge, ev.cycles)
 
+    def many(self, task: tuple[np.ndarray, tuple[int, ...]]) -> np.ndarray:
+        """The statistic vectors at ``u`` for several seeds, one row each (one task for a worker).
+
+        Parameters
+        ----------
+        task : tuple of (numpy.ndarray, tuple of int)
+            normalised coordinates and the seeds [-].
+
+        Returns
+        -------
+        numpy.ndarray
+            Shape (seeds, statistics) [-].
+        """
+        u, seeds = task
+        return np.array([self((u, s)) for s in seeds]).reshape(len(seeds), len(STATISTIC_NAMES))
+
 
 def _moments(rows: np.ndarray) -> tuple[np.ndarray, np.ndarray] | None:
     if not np.all(np.isfinite(rows)):
@@ -185,6 +201,7 @@ class _Evaluator:
         self.records: dict[bytes, tuple[np.ndarray, np.ndarray]] = {}
         self.simulations = 0
         self.floor = np.eye(observed.size) * STATISTIC_FLOOR**2
+        self.lanes = 2 if client is not None else (local_workers() if workers is None else workers)
 
     def observed_covariance(self, cov: np.ndarray) -> np.ndarray:
         """Covariance of s_obs - mean: (1 + 1/R) x scale x simulated covariance, plus the floor."""
@@ -207,12 +224,15 @@ class _Evaluator:
         pts = np.atleast_2d(np.asarray(points, dtype=float))
         out = np.full(pts.shape[0], -math.inf)
         inside = [i for i in range(pts.shape[0]) if np.all((pts[i] >= 0.0) & (pts[i] <= 1.0))]
-        tasks = [(pts[i].copy(), s) for i in inside for s in self.seeds]
-        rows = parallel_map(self.sl, tasks, workers=self.workers, client=self.client) if tasks else []
-        self.simulations += len(tasks)
-        r = len(self.seeds)
+        # one task per point and group of seeds: enough tasks to keep every worker busy, few enough to keep the
+        # overhead of sending them small (the grouping does not change any result)
+        groups = [tuple(g) for g in np.array_split(np.array(self.seeds), min(len(self.seeds), max(
+            1, math.ceil(2 * self.lanes / max(len(inside), 1))))) if g.size]
+        tasks = [(pts[i].copy(), g) for i in inside for g in groups]
+        parts = parallel_map(self.sl.many, tasks, workers=self.workers, client=self.client) if tasks else []
+        self.simulations += len(inside) * len(self.seeds)
         for j, i in enumerate(inside):
-            mom = _moments(np.array(rows[j * r:(j + 1) * r]))
+            mom = _moments(np.concatenate(parts[j * len(groups):(j + 1) * len(groups)]))
             if mom is None:
                 continue
             self.records[pts[i].tobytes()] = mom
@@ -221,7 +241,9 @@ class _Evaluator:
 
 
 def _split_rhat(chains: np.ndarray) -> np.ndarray:
-    """Split R̂ (Gelman et al. 2013, BDA3 eq. 11.4) per parameter from chains of shape (steps, walkers, k)."""
+    """Split R̂ per parameter from chains of shape (steps, walkers, k): each walker's chain cut in two halves,
+    R̂ = sqrt(var+ / W) with var+ = (n - 1) / n W + B / n (Gelman et al. 2013, Bayesian Data Analysis, 3rd ed.,
+    section 11.4; section number from memory)."""
     n = chains.shape[0] // 2
     if n < 2:
         return np.full(chains.shape[2], np.nan)
@@ -455,7 +477,7 @@ def posterior(
     burn : int or None
         steps discarded at the start [-]; None for steps // 3.
     check_draws : int
-        posterior draws of the predictive check, 19 ... 100000 [-].
+        posterior draws of the predictive check, 100 ... 100000 [-] (so that p can fall below 0.01).
     workers : int or None
         local processes (1 = in this process; None = all cores).
     client : Any
@@ -490,7 +512,7 @@ def posterior(
         raise InputError(f"walkers must be even (the ensemble moves half the walkers at a time); got {walkers}")
     steps = check_int("steps", steps, 10, 100_000)
     burn = steps // 3 if burn is None else check_int("burn", burn, 0, steps - 5)
-    check_draws = check_int("check_draws", check_draws, 19, 100_000)
+    check_draws = check_int("check_draws", check_draws, 100, 100_000)
     if workers is not None:
         workers = check_int("workers", workers, 1, 1024)
     if detector is not None:
@@ -550,12 +572,18 @@ def posterior(
     logl = sampler.get_log_prob()[burn:].reshape(-1)
     values = np.column_stack([[s.to_value(x) for x in flat[:, i]] for i, s in enumerate(specs)])
     # (3) diagnostics
-    tau = np.atleast_1d(sampler.get_autocorr_time(discard=burn, tol=0))
+    with np.errstate(divide="ignore", invalid="ignore"):  # a walker that never moved has no autocorrelation
+        tau = np.atleast_1d(sampler.get_autocorr_time(discard=burn, tol=0))
+    tau = np.where(np.isfinite(tau), tau, np.inf)
     acceptance = float(np.mean(sampler.acceptance_fraction))
-    rhat = _split_rhat(kept)
+    with np.errstate(divide="ignore", invalid="ignore"):
+        rhat = _split_rhat(kept)
     names = tuple(s.name for s in specs)
     ess = {p: float(walkers * kept.shape[0] / max(t, 1.0)) for p, t in zip(names, tau, strict=True)}
-    if kept.shape[0] < 10 * float(np.max(tau)):
+    if not np.all(np.isfinite(tau)):
+        notes.append("some walkers never moved after the burn-in (no autocorrelation time): the posterior is not "
+                     "sampled; widen vary or check that the model can produce the pattern")
+    elif kept.shape[0] < 10 * float(np.max(tau)):
         notes.append(f"the chain is short: {kept.shape[0]} kept steps against an autocorrelation time of up to "
                      f"{float(np.max(tau)):.0f} steps (at least 10 times as many recommended); intervals are rough, "
                      "run more steps")
