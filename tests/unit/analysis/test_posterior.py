@@ -189,12 +189,15 @@ def _independent_pattern(diameter: float, cycles: int, seed: int) -> Events:
 def test_reduced_coverage_study():
     # 12 patterns with diameters drawn from the prior; the 90 % intervals should hold the truth in about 90 %
     # of cases. With a true coverage of 0.9, 8 or fewer hits of 12 happen with probability 0.026 (binomial).
+    # (the prior starts at 1.3 mm: smaller voids often wait longer than the record for a first electron)
+    prior = {"void.diameter": (1.3e-3, 2.5e-3)}
     rng = np.random.default_rng(2026)
     hits = 0
     for i in range(12):
-        d = float(rng.uniform(*VARY1["void.diameter"]))
+        d = float(rng.uniform(*prior["void.diameter"]))
         data = _independent_pattern(d, 100, 10**6 + i)
-        r = posterior(data, demo_scenario(), VARY1, threshold=THRESHOLD, detector=DETECTOR, seed=i, replicates=16,
+        assert data.count > 20
+        r = posterior(data, demo_scenario(), prior, threshold=THRESHOLD, detector=DETECTOR, seed=i, replicates=16,
                       steps=30)
         lo, hi = r.credible_interval("void.diameter", 0.9)
         hits += lo <= d <= hi
