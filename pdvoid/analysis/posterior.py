@@ -14,12 +14,25 @@ alternatives considered:
 - *Neural posterior estimation* needs tens of thousands of training simulations and a neural-network
   library for a posterior of a few parameters; too heavy for a workbench.
 - *Bayesian synthetic likelihood* (Wood 2010, Nature 466, 1102-1104; Price, Drovandi, Lee & Nott 2018,
-  J. Comput. Graph. Stat. 27, 1-11), chosen here: at each parameter set θ, R simulations give the mean μ(θ)
-  and covariance Σ(θ) of a short statistic vector s (:mod:`pdvoid.analysis.pattern_statistics`); the
-  likelihood of the measured statistics is taken as normal, N(s_obs; μ(θ), Σ(θ)). It needs no tolerance, its
-  posterior approaches the one for the statistics' normal model as R grows (the approximation is the
-  normality of s, which counts and moments of thousands of discharges meet well), and it is a smooth function
-  of θ that a standard MCMC sampler handles.
+  J. Comput. Graph. Stat. 27, 1-11), chosen here: at each parameter set θ, R simulations give the mean μ̂(θ)
+  and covariance S(θ) of a short statistic vector s (:mod:`pdvoid.analysis.pattern_statistics`), taken as
+  normal. It needs no tolerance, it is a smooth function of θ that a standard MCMC sampler handles, and counts
+  and moments of thousands of discharges are close to normal.
+
+**Likelihood with an estimated covariance** (our own arrangement of standard parts). A covariance re-estimated at
+every θ from R = 20 runs in d = 12 dimensions is noisy: its inverse overstates the precision by a factor of about
+(R - 1)/(R - d - 2) (the mean of an inverse Wishart matrix) and its log-determinant, rough from point to point,
+shapes the posterior more than the data do. So the covariance is estimated *once*, from R0 = ``pilot`` (100)
+simulations at the mode found in step 1 below, scaled by (R0 - 1)/(R0 - d - 2) so that its inverse is an unbiased
+estimate of the precision, and kept fixed; at each θ only the mean μ̂(θ) is estimated, from R simulations (common
+seeds). The measured statistics are then scored with the normal density N(s_obs; μ̂(θ), S0 (c + 1/R)), where c is
+simulated / measured cycles (1 by default; the statistics' spread scales with the inverse length of the record,
+assuming cycles independent of each other) and 1/R carries the sampling error of μ̂. The assumption is that the
+covariance changes little across the posterior, which is narrow against the prior once the data are informative;
+the coverage study tests the outcome. For the search of step 1 only, each point is scored with its own
+covariance through the Student t predictive density with R - d degrees of freedom (Geisser & Cornfield 1963,
+J. R. Stat. Soc. B 25, 368-376, from memory), which stays finite far from the data. A floor of
+:data:`STATISTIC_FLOOR` is added to the diagonal.
 
 **Sampler.** The affine-invariant ensemble sampler of Goodman & Weare (2010, Comm. App. Math. Comp. Sci. 5,
 65-80) as implemented in emcee (Foreman-Mackey, Hogg, Lang & Goodman 2013, PASP 125, 306-312), in the
@@ -29,16 +42,17 @@ parameters whose scales differ by orders of magnitude.
 **Common random numbers.** The R simulations at every θ use the same R seeds, so the synthetic log-likelihood is a
 deterministic function of θ: the chain does not stick at a point whose likelihood was overestimated by chance (the
 known weakness of a noisy likelihood in MCMC), and nearby θ are compared on the same random numbers. The price is
-that μ(θ) carries the same sampling error (about Σ/R) everywhere; this is accounted for by using the covariance
-Σ(θ)(1 + 1/R), the covariance of s_obs - μ̂(θ) when μ̂ is the mean of R independent simulations.
+that μ̂(θ) carries the same sampling error (about S0/R) everywhere, which the term 1/R of the covariance accounts
+for.
 
 **Priors** (stated per parameter in the result): uniform on [low, high] of ``vary``, or log-uniform (uniform in
 log of the value) for scale parameters, which is the default when low > 0 and high / low >= 10 (rates, times,
 sizes spanning a decade); ``priors={"model.surface_rate_same": "log-uniform"}`` sets it explicitly. Parameter sets
 the scenario refuses (e.g. a void taller than the insulation) have zero prior density.
 
-**Steps.** (1) a Latin hypercube of ``8 k`` prior points (k parameters) and a bounded Nelder-Mead search from the
-best give a starting point near the posterior mode; (2) ``walkers`` walkers start in a ball about it (standard
+**Steps.** (1) a Latin hypercube of ``8 k`` prior points (k parameters), the fixed covariance at the best of them,
+and a bounded Nelder-Mead search from there give a starting point near the posterior mode, where the fixed
+covariance is estimated again; (2) ``walkers`` walkers start in a ball about it (standard
 deviation 0.05 of each normalised range) and run
 ``steps`` steps; the first ``burn`` are discarded; (3) the diagnostics: mean acceptance fraction (healthy between
 about 0.2 and 0.5), integrated autocorrelation time τ per parameter (emcee's estimator; the effective sample size is
@@ -112,10 +126,14 @@ class SyntheticLikelihood:
         keyword arguments of :func:`pdvoid.analysis.synthetic.measurement_effects`, or None [-].
     measurement : tuple of (TestCircuit, Instrument) or None
         the IEC 60270 forward model applied instead of ``detector`` [-].
+    warmup : int
+        cycles simulated first and discarded (the record starts on a void that has been active) [-].
     """
 
     def __init__(self, statistics: PatternStatistics, scenario: Scenario, specs: tuple[_Spec, ...], *, cycles: int,
-                 detector: dict | None, measurement: tuple[TestCircuit, Instrument] | None) -> None:
+                 detector: dict | None, measurement: tuple[TestCircuit, Instrument] | None,
+                 warmup: int = 0) -> None:
+        self.warmup = warmup
         self.stats = statistics
         self.scenario = scenario
         self.specs = specs
@@ -153,14 +171,21 @@ class SyntheticLikelihood:
         """
         u, seed = task
         try:
-            res = simulate(self.scenario_at(u), cycles=self.cycles, seed=int(seed))
+            res = simulate(self.scenario_at(u), cycles=self.cycles + self.warmup, seed=int(seed))
         except InputError:
             return np.full(len(STATISTIC_NAMES), np.nan)
         ev: Events | Any = res.events
+        if self.warmup:
+            cycle, t, v = np.asarray(ev.cycle), np.asarray(ev.time), np.asarray(ev.voltage)  # filled for simulations
+            keep = cycle >= self.warmup
+            f = ev.frequency
+            ev = Events(phase_deg=ev.phase_deg[keep], charge=ev.charge[keep], frequency=f, cycles=float(self.cycles),
+                        time=t[keep] - self.warmup / f, cycle=cycle[keep] - self.warmup, voltage=v[keep],
+                        label=ev.label)
         if self.measurement is not None:
-            ev = measure(res, self.measurement[0], self.measurement[1], seed=int(seed))
+            ev = measure(ev, self.measurement[0], self.measurement[1], seed=int(seed))
         elif self.detector is not None:
-            ev = measurement_effects(res, int(seed), threshold=self.stats.threshold, **self.detector)
+            ev = measurement_effects(ev, int(seed), threshold=self.stats.threshold, **self.detector)
         return self.stats.of_events(ev.phase_deg, ev.charge, ev.cycles)
 
     def many(self, task: tuple[np.ndarray, tuple[int, ...]]) -> np.ndarray:
@@ -201,24 +226,54 @@ class _Evaluator:
         self.records: dict[bytes, tuple[np.ndarray, np.ndarray]] = {}
         self.simulations = 0
         self.floor = np.eye(observed.size) * STATISTIC_FLOOR**2
+        self.fixed: np.ndarray | None = None
         self.lanes = 2 if client is not None else (local_workers() if workers is None else workers)
 
     def observed_covariance(self, cov: np.ndarray) -> np.ndarray:
-        """Covariance of s_obs - mean: (1 + 1/R) x scale x simulated covariance, plus the floor."""
-        return cov * self.scale * (1.0 + 1.0 / len(self.seeds)) + self.floor
+        """Covariance of s_obs - μ̂ (module docs): the fixed covariance S0 x (cycles ratio + 1/R) once it is set;
+        before, the Student t scale matrix of the point's own covariance."""
+        r, d = len(self.seeds), self.observed.size
+        if self.fixed is not None:
+            return self.fixed * (self.scale + 1.0 / r) + self.floor
+        return cov * self.scale * (1.0 + 1.0 / r) * (r - 1.0) / (r - d) + self.floor
 
     def replicate_covariance(self, cov: np.ndarray) -> np.ndarray:
-        """Covariance of a new simulation minus the mean: (1 + 1/R) x simulated covariance, plus the floor."""
-        return cov * (1.0 + 1.0 / len(self.seeds)) + self.floor
+        """The same for a new simulation of the simulations' length."""
+        r, d = len(self.seeds), self.observed.size
+        if self.fixed is not None:
+            return self.fixed * (1.0 + 1.0 / r) + self.floor
+        return cov * (1.0 + 1.0 / r) * (r - 1.0) / (r - d) + self.floor
+
+    def set_covariance(self, u: np.ndarray, seeds: list[int]) -> None:
+        """Estimate the fixed covariance S0 from len(seeds) simulations at ``u`` (scaled so that its inverse is
+        unbiased for the precision: factor (R0 - 1) / (R0 - d - 2))."""
+        parts = parallel_map(self.sl.many, [(np.array(u, dtype=float), tuple(g)) for g in np.array_split(
+            np.array(seeds), max(1, 2 * self.lanes))], workers=self.workers, client=self.client)
+        rows = np.concatenate(parts)
+        self.simulations += len(seeds)
+        ok = rows[np.all(np.isfinite(rows), axis=1)]
+        r0, d = ok.shape[0], self.observed.size
+        if r0 < d + 5:
+            raise InputError("the starting point found for the posterior gives no possible scenario; check the "
+                             "ranges in vary")
+        self.fixed = np.cov(ok, rowvar=False) * (r0 - 1.0) / (r0 - d - 2.0)
 
     def log_likelihood(self, mean: np.ndarray, cov: np.ndarray) -> float:
+        """Log-likelihood of s_obs: normal with the fixed covariance once it is set; before, the multivariate
+        Student t with R - d degrees of freedom of the point's own covariance (module docs)."""
         c = self.observed_covariance(cov)
         try:
             chol = np.linalg.cholesky(c)
         except np.linalg.LinAlgError:
             return -math.inf
         z = np.linalg.solve(chol, self.observed - mean)
-        return float(-0.5 * (z @ z) - np.sum(np.log(np.diag(chol))) - 0.5 * z.size * math.log(2.0 * math.pi))
+        d = z.size
+        q = float(z @ z)
+        if self.fixed is not None:
+            return float(-0.5 * q - np.sum(np.log(np.diag(chol))) - 0.5 * d * math.log(2.0 * math.pi))
+        nu = len(self.seeds) - d
+        return float(math.lgamma((nu + d) / 2.0) - math.lgamma(nu / 2.0) - 0.5 * d * math.log(nu * math.pi)
+                     - np.sum(np.log(np.diag(chol))) - 0.5 * (nu + d) * math.log1p(q / nu))
 
     def __call__(self, points: np.ndarray) -> np.ndarray:
         pts = np.atleast_2d(np.asarray(points, dtype=float))
@@ -428,6 +483,7 @@ def posterior(
     *,
     threshold: float = 0.0,
     cycles: int | None = None,
+    warmup: int = 0,
     seed: int = 0,
     detector: dict | None = None,
     circuit: TestCircuit | None = None,
@@ -438,6 +494,7 @@ def posterior(
     steps: int = 80,
     burn: int | None = None,
     check_draws: int = 199,
+    pilot: int = 100,
     workers: int | None = 1,
     client: Any = None,
 ) -> PosteriorResult:
@@ -458,6 +515,10 @@ def posterior(
         simulated cycles per simulation [-]; None for the measured pattern's cycles (recommended). With another
         length the statistics' covariance is rescaled by cycles / measured cycles (assumes cycles independent
         of each other; the notes say so).
+    warmup : int
+        cycles each simulation runs first and discards, 0 ... 1000000 [-]: 0 when the record started as the voltage
+        was applied (as :func:`pdvoid.analysis.synthetic.synthetic_measurement` makes it); more when the void had
+        been discharging before the record started (the wait for a first electron is then not in the record).
     seed : int
         the seed of everything random [-].
     detector : dict or None
@@ -476,6 +537,8 @@ def posterior(
         steps per walker, 10 ... 100000 [-].
     burn : int or None
         steps discarded at the start [-]; None for steps // 3.
+    pilot : int
+        simulations R0 for the fixed covariance of the statistics, at least 24 [-].
     check_draws : int
         posterior draws of the predictive check, 100 ... 100000 [-] (so that p can fall below 0.01).
     workers : int or None
@@ -513,6 +576,7 @@ def posterior(
     steps = check_int("steps", steps, 10, 100_000)
     burn = steps // 3 if burn is None else check_int("burn", burn, 0, steps - 5)
     check_draws = check_int("check_draws", check_draws, 100, 100_000)
+    pilot = check_int("pilot", pilot, 2 * len(STATISTIC_NAMES), 100_000)
     if workers is not None:
         workers = check_int("workers", workers, 1, 1024)
     if detector is not None:
@@ -533,10 +597,12 @@ def posterior(
     if cycles is None:
         cycles = max(10, round(measured_cycles))
     cycles = check_int("cycles", cycles, 10, 10_000_000)
+    warmup = check_int("warmup", warmup, 0, 1_000_000)
     stats, observed = pattern_statistics(measured, threshold)
 
     t0 = time.perf_counter()
-    sl = SyntheticLikelihood(stats, scenario, specs, cycles=cycles, detector=detector, measurement=measurement)
+    sl = SyntheticLikelihood(stats, scenario, specs, cycles=cycles, detector=detector, measurement=measurement,
+                             warmup=warmup)
     seeds = [int(s) for s in np.random.SeedSequence([seed, 1]).generate_state(replicates)]
     ev = _Evaluator(sl, observed, seeds, cycles / measured_cycles, workers, client)
     notes: list[str] = []
@@ -551,15 +617,20 @@ def posterior(
         raise InputError("no parameter set of the Latin hypercube over vary gave a possible scenario with a "
                          "finite likelihood; check the ranges in vary")
     u0 = lhs[int(np.argmax(ll))]
+    # the fixed covariance, first at the best of the hypercube, then again at the mode the search finds
+    pilot_seeds = [int(s) for s in np.random.SeedSequence([seed, 5]).generate_state(pilot)]
+    ev.set_covariance(u0, pilot_seeds)
 
     def negative(u: np.ndarray) -> float:
         v = float(ev(np.clip(u, 0.0, 1.0)[None, :])[0])
         return -v if math.isfinite(v) else 1e300
 
+    start_value = negative(u0)
     opt = minimize(negative, u0, method="Nelder-Mead", bounds=[(0.0, 1.0)] * k,
                    options={"maxfev": 20 * k, "xatol": 1e-3, "fatol": 1e-2})
-    if opt.fun < -float(np.max(ll)):
+    if opt.fun < start_value:
         u0 = np.clip(opt.x, 0.0, 1.0)
+    ev.set_covariance(u0, pilot_seeds)
     # (2) the ensemble: a ball about the start, inside the prior
     rng = np.random.default_rng([seed, 4])
     p0 = np.clip(u0 + 0.05 * rng.standard_normal((walkers, k)), 1e-6, 1.0 - 1e-6)
@@ -617,7 +688,8 @@ def posterior(
         autocorrelation_time={p: float(t) for p, t in zip(names, tau, strict=True)},
         effective_samples=ess, rhat={p: float(r) for p, r in zip(names, rhat, strict=True)}, notes=notes,
         statistics=observed,
-        settings={"replicates": replicates, "walkers": walkers, "steps": steps, "burn": burn, "cycles": cycles,
+        settings={"replicates": replicates, "pilot": pilot, "walkers": walkers, "steps": steps, "burn": burn,
+                  "cycles": cycles, "warmup": warmup,
                   "seed": seed, "check draws": check_draws, "measured cycles": measured_cycles,
                   "measured kind": "count matrix" if stats.binned else "events",
                   "start": {s.name: float(_get(scenario, s.name)) for s in specs}},

@@ -49,8 +49,9 @@ def parse_vary(items: list[str]) -> dict[str, tuple[float, float]]:
 def _cmd_fit(ns: argparse.Namespace) -> int:
     if ns.method == "posterior":
         return _cmd_posterior(ns)
-    if ns.matrix:
-        raise InputError("--matrix needs --method posterior (the search reads event files)")
+    if ns.matrix or ns.warmup:
+        raise InputError("--matrix and --warmup need --method posterior (the search reads event files and starts "
+                         "every simulation as the voltage is applied)")
     from pdvoid.analysis.fit import fit
     from pdvoid.analysis.synthetic import hidden_parameters
     from pdvoid.inputs.scenario import Scenario
@@ -117,8 +118,8 @@ def _cmd_posterior(ns: argparse.Namespace) -> int:
                     "relative_noise": ns.relative_noise,
                     "phase_resolution_deg": 0.0 if ns.phase_resolution is None else ns.phase_resolution}
     with validity_notes() as notes:
-        r = posterior(measured, sc, vary, threshold=ns.threshold, cycles=ns.cycles, seed=ns.seed,
-                      detector=detector, replicates=ns.replicates, walkers=ns.walkers, steps=ns.steps,
+        r = posterior(measured, sc, vary, threshold=ns.threshold, cycles=ns.cycles, warmup=ns.warmup,
+                      seed=ns.seed, detector=detector, replicates=ns.replicates, walkers=ns.walkers, steps=ns.steps,
                       workers=ns.workers)
     truth = None
     if isinstance(measured, Events):
@@ -193,6 +194,9 @@ def register(sub: argparse._SubParsersAction[argparse.ArgumentParser]) -> None:
                    help="posterior: simulations per parameter set (default 20)")
     f.add_argument("--walkers", type=options.integer(4, 10_000), default=None,
                    help="posterior: ensemble walkers, even (default max(8, 4 x parameters))")
+    f.add_argument("--warmup", type=options.integer(0, 1_000_000), default=0,
+                   help="posterior: cycles simulated and discarded before each simulated record, when the void had "
+                        "been discharging before the measurement started (default 0)")
     f.add_argument("--steps", type=options.integer(10, 100_000), default=80,
                    help="posterior: steps per walker (default 80)")
 
