@@ -5,8 +5,9 @@ After :func:`pdvoid.fit` with ``method="posterior"`` the question is no longer o
 voids at once do not look like one void, and a fit to them is confidently wrong).
 
 **Discrepancy.** For a parameter set θ the synthetic likelihood (:mod:`pdvoid.analysis.posterior`) holds the mean
-μ(θ) and covariance Σ(θ) of the statistic vector s (:mod:`pdvoid.analysis.pattern_statistics`). The discrepancy of
-a pattern s is the squared Mahalanobis distance D(s; θ) = (s - μ(θ))ᵀ Σ(θ)⁻¹ (s - μ(θ)).
+μ(θ) of the statistic vector s (:mod:`pdvoid.analysis.pattern_statistics`) and its covariance Σ (the fixed one of
+the fit, for a record of the measured length and for one of the simulated length). The discrepancy of a pattern
+s is the squared Mahalanobis distance D(s; θ) = (s - μ(θ))ᵀ Σ⁻¹ (s - μ(θ)).
 
 **Posterior-predictive p-value** (Gelman, Meng & Stern 1996): for M parameter sets θ_j drawn from the posterior
 sample, one new pattern s_j is simulated at θ_j with a seed of its own (never one of the fit's common seeds) and

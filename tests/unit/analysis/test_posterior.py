@@ -172,15 +172,20 @@ def test_fit_method_dispatch_and_bad_arguments(good, good_fit):
             good_fit.credible_interval("void.diameter", level)
 
 
+WARMUP = 100
+
+
 def _independent_pattern(diameter: float, cycles: int, seed: int) -> Events:
-    """A synthetic pattern made without the fit's simulator call: the runner advanced in chunks of 25 cycles,
-    times folded into phases here, then the detector model (seeds 10**6 + i, which the fit never uses)."""
+    """A synthetic pattern made without the fit's simulator call: the runner run for WARMUP cycles (discarded: the
+    record starts on an active void), then advanced in chunks of 25 cycles, times folded into phases here, then the
+    detector model (seeds 10**6 + i, which the fit never uses)."""
     sc = demo_scenario().replace(**{"void.diameter": diameter})
     runner = VoidRunner(sc, seed)
+    runner.run(WARMUP)
     pieces = [runner.run(25)[:2] for _ in range(cycles // 25)]
-    t = np.concatenate([p[0] for p in pieces])
-    q = np.concatenate([p[1] for p in pieces])
     f = sc.supply.frequency
+    t = np.concatenate([p[0] for p in pieces]) - WARMUP / f
+    q = np.concatenate([p[1] for p in pieces])
     cyc = np.floor(t * f)
     phase = np.minimum((t * f - cyc) * 360.0, np.nextafter(360.0, 0.0))
     ev = Events(phase_deg=phase, charge=q, frequency=f, cycles=float(cycles), time=t, cycle=cyc)
@@ -200,7 +205,7 @@ def test_reduced_coverage_study():
         data = _independent_pattern(d, 100, 10**6 + i)
         assert data.count > 20
         r = posterior(data, demo_scenario(), prior, threshold=THRESHOLD, detector=DETECTOR, seed=i, replicates=16,
-                      steps=30)
+                      steps=30, check_draws=100, warmup=WARMUP, workers=2)
         lo, hi = r.credible_interval("void.diameter", 0.9)
         hits += lo <= d <= hi
         assert not r.check.poor  # patterns the model made are not flagged (p >= 0.01 each; conservative check)
