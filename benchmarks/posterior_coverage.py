@@ -73,7 +73,7 @@ def surface_like(cycles: int, seed: int) -> Events:
                   time=(cycle + phase / 360.0) / 50.0, label="synthetic surface-discharge-like pattern")
 
 
-def coverage(patterns: int) -> None:
+def coverage(patterns: int, walkers: int, steps: int) -> None:
     rng = np.random.default_rng(2027)
     hits = dict.fromkeys(PRIOR, 0)
     flagged = done = 0
@@ -87,7 +87,7 @@ def coverage(patterns: int) -> None:
             continue
         done += 1
         r = posterior(data, demo_scenario(), PRIOR, threshold=THRESHOLD, detector=DETECTOR, seed=i, replicates=20,
-                      walkers=8, steps=50, check_draws=100, warmup=WARMUP, workers=2)
+                      walkers=walkers, steps=steps, check_draws=100, warmup=WARMUP, workers=2)
         line = []
         for k in PRIOR:
             lo, hi = r.credible_interval(k, 0.9)
@@ -124,12 +124,15 @@ def speed() -> None:
 def main() -> None:
     ap = argparse.ArgumentParser(description=__doc__.splitlines()[0])
     ap.add_argument("--patterns", type=int, default=20)
+    ap.add_argument("--walkers", type=int, default=8, help="walkers of each coverage posterior (default 8)")
+    ap.add_argument("--steps", type=int, default=50, help="steps of each coverage posterior (default 50)")
     ap.add_argument("--skip-coverage", action="store_true")
     ap.add_argument("--skip-speed", action="store_true")
     ns = ap.parse_args()
     warnings.simplefilter("ignore", ValidityWarning)  # trial voids wide against the slab: closed forms ~2 % off
     if not ns.skip_coverage:
-        coverage(ns.patterns)
+        print(f"coverage posteriors: {ns.walkers} walkers x {ns.steps} steps, 20 replicates, 200-cycle records")
+        coverage(ns.patterns, ns.walkers, ns.steps)
     if not ns.skip_speed:
         speed()
 

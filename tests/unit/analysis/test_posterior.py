@@ -194,22 +194,26 @@ def _independent_pattern(diameter: float, cycles: int, seed: int) -> Events:
 
 @pytest.mark.slow
 def test_reduced_coverage_study():
-    # 12 patterns with diameters drawn from the prior; the 90 % intervals should hold the truth in about 90 %
-    # of cases. With a true coverage of 0.9, 8 or fewer hits of 12 happen with probability 0.026 (binomial).
+    # patterns with diameters drawn from the prior; the 90 % intervals should hold the truth in about 90 % of cases
     # (the prior starts at 1.3 mm: smaller voids often wait longer than the record for a first electron)
     prior = {"void.diameter": (1.3e-3, 2.5e-3)}
+    # (a record in which the void did not start at all cannot be fitted and is skipped)
     rng = np.random.default_rng(2026)
-    hits = 0
-    for i in range(12):
+    hits = fitted = 0
+    for i in range(14):
         d = float(rng.uniform(*prior["void.diameter"]))
         data = _independent_pattern(d, 100, 10**6 + i)
-        assert data.count > 20
+        if data.count < 20:
+            continue
+        fitted += 1
         r = posterior(data, demo_scenario(), prior, threshold=THRESHOLD, detector=DETECTOR, seed=i, replicates=16,
                       steps=30, check_draws=100, warmup=WARMUP, workers=2)
         lo, hi = r.credible_interval("void.diameter", 0.9)
         hits += lo <= d <= hi
         assert not r.check.poor  # patterns the model made are not flagged (p >= 0.01 each; conservative check)
-    assert hits >= 9
+    # with a true coverage of 0.9, 3 or fewer misses in 12 happen with probability 0.97 (binomial)
+    assert fitted >= 12
+    assert hits >= fitted - 3
 
 
 def test_warmup_discards_the_first_cycles_like_a_runner_that_ran_before():
