@@ -49,7 +49,7 @@ _LAZY = {
     "weibull_fit": "pdvoid.analysis.magnitudes",
     "run_summary": "pdvoid.analysis.summary",
     "compare": "pdvoid.analysis.compare",
-    "fit": "pdvoid.analysis.fit",
+    "fit": "pdvoid.analysis.fitting",
     "void_count": "pdvoid.analysis.void_count",
     "acceptance_probability": "pdvoid.analysis.population",
     "read_events": "pdvoid.io",

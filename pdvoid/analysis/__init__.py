@@ -7,7 +7,7 @@ from __future__ import annotations
 from pdvoid.analysis.acceptance import AcceptanceVerdict, acceptance_verdict
 from pdvoid.analysis.compare import compare
 from pdvoid.analysis.descriptors import fingerprint
-from pdvoid.analysis.fit import fit
+from pdvoid.analysis.fitting import fit
 from pdvoid.analysis.inception import inception, probability_of_missing, ramp_test
 from pdvoid.analysis.magnitudes import weibull_fit
 from pdvoid.analysis.margins import design_margin, largest_pd_free_void, margin_table
