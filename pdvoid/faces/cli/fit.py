@@ -188,8 +188,8 @@ def register(sub: argparse._SubParsersAction[argparse.ArgumentParser]) -> None:
                    help="supply frequency of the measured file, e.g. 50Hz (default: from the file)")
     f.add_argument("--seed", type=options.seed, default=0, help="random seed, e.g. 7 (default 0)")
     f.add_argument("--method", choices=("search", "posterior"), default="search",
-                   help="search: best values and acceptance ranges (default); posterior: credible intervals and a "
-                        "check whether the model can produce the pattern at all")
+                   help="search: best values and acceptance ranges; posterior: credible intervals and a check "
+                        "whether the model can produce the pattern at all (default: search)")
     f.add_argument("--matrix", action="store_true",
                    help="the measured file is a phase-resolved count matrix (with --method posterior; default: an "
                    "events file)")
