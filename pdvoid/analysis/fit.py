@@ -295,6 +295,50 @@ def _specs(scenario: Scenario | MultiVoidScenario, vary: dict) -> tuple[_Spec, .
 _DETECTOR_KEYS = {"noise", "relative_noise", "phase_resolution_deg"}
 
 
+def _check_measurement_model(detector: dict | None, circuit: object, instrument: object, seed: int,
+                            threshold: float) -> tuple[TestCircuit, Instrument] | None:
+    """Check a fit's model of the measurement before any simulation: a simple detector model, or a test circuit
+    with an instrument (not both).
+
+    Parameters
+    ----------
+    detector : dict or None
+        ``measurement_effects`` settings (keys ``noise``, ``relative_noise``, ``phase_resolution_deg``) [-].
+    circuit, instrument : TestCircuit and Instrument, or None
+        the measuring chain, given together [-].
+    seed : int
+        seed the detector model is tried with [-].
+    threshold : float
+        detection threshold [C].
+
+    Returns
+    -------
+    tuple of (TestCircuit, Instrument) or None
+        the measuring chain, or None when there is none.
+
+    Raises
+    ------
+    InputError
+        For a detector that is not such a dict or whose settings the detector model refuses, a circuit without
+        an instrument (or the reverse), or a detector together with a measuring chain.
+    """
+    if detector is not None:
+        if not isinstance(detector, dict) or not set(detector) <= _DETECTOR_KEYS:
+            raise InputError(f"detector must be None or a dict with keys from {sorted(_DETECTOR_KEYS)}; got "
+                             f"{detector!r}"[:300])
+        # the detector model checks its own settings: try them once on no events, before any simulation
+        measurement_effects(Events(phase_deg=np.empty(0), charge=np.empty(0), frequency=50.0, cycles=1.0), seed,
+                            threshold=threshold, **detector)
+    if circuit is None and instrument is None:
+        return None
+    if not isinstance(circuit, TestCircuit) or not isinstance(instrument, Instrument):
+        raise InputError("circuit and instrument must be given together as a pdvoid.TestCircuit and a "
+                         f"pdvoid.Instrument; got {type(circuit).__name__} and {type(instrument).__name__}")
+    if detector is not None:
+        raise InputError("give either detector or circuit and instrument, not both")
+    return circuit, instrument
+
+
 def fit(
     measured: PatternSource,
     scenario: Scenario | MultiVoidScenario,
@@ -384,21 +428,7 @@ def fit(
     polish = check_bool("polish", polish)
     if workers is not None:
         workers = check_int("workers", workers, 1, 1024)
-    if detector is not None:
-        if not isinstance(detector, dict) or not set(detector) <= _DETECTOR_KEYS:
-            raise InputError(f"detector must be None or a dict with keys from {sorted(_DETECTOR_KEYS)}; got "
-                             f"{detector!r}"[:300])
-        # the detector model checks its own settings: try them once on no events, before any simulation
-        measurement_effects(Events(phase_deg=np.empty(0), charge=np.empty(0), frequency=50.0, cycles=1.0), seed,
-                            threshold=threshold, **detector)
-    measurement = None
-    if circuit is not None or instrument is not None:
-        if not isinstance(circuit, TestCircuit) or not isinstance(instrument, Instrument):
-            raise InputError("circuit and instrument must be given together as a pdvoid.TestCircuit and a "
-                             f"pdvoid.Instrument; got {type(circuit).__name__} and {type(instrument).__name__}")
-        if detector is not None:
-            raise InputError("give either detector or circuit and instrument, not both")
-        measurement = (circuit, instrument)
+    measurement = _check_measurement_model(detector, circuit, instrument, seed, threshold)
     t0 = time.perf_counter()
     objective = FitObjective(measured, scenario, specs, threshold=threshold, cycles=cycles, seed=seed,
                              detector=detector, measurement=measurement)

@@ -83,7 +83,7 @@ import numpy as np
 from scipy.optimize import minimize
 from scipy.stats import qmc
 
-from pdvoid.analysis.fit import _DETECTOR_KEYS, _get, _Spec, _specs
+from pdvoid.analysis.fit import _check_measurement_model, _get, _Spec, _specs
 from pdvoid.analysis.measured import measure
 from pdvoid.analysis.pattern_statistics import STATISTIC_NAMES, PatternStatistics, pattern_statistics
 from pdvoid.analysis.predictive import PredictiveCheck, predictive_check
@@ -579,20 +579,7 @@ def posterior(
     pilot = check_int("pilot", pilot, 2 * len(STATISTIC_NAMES), 100_000)
     if workers is not None:
         workers = check_int("workers", workers, 1, 1024)
-    if detector is not None:
-        if not isinstance(detector, dict) or not set(detector) <= _DETECTOR_KEYS:
-            raise InputError(f"detector must be None or a dict with keys from {sorted(_DETECTOR_KEYS)}; got "
-                             f"{detector!r}"[:300])
-        measurement_effects(Events(phase_deg=np.empty(0), charge=np.empty(0), frequency=50.0, cycles=1.0), seed,
-                            threshold=threshold, **detector)
-    measurement = None
-    if circuit is not None or instrument is not None:
-        if not isinstance(circuit, TestCircuit) or not isinstance(instrument, Instrument):
-            raise InputError("circuit and instrument must be given together as a pdvoid.TestCircuit and a "
-                             f"pdvoid.Instrument; got {type(circuit).__name__} and {type(instrument).__name__}")
-        if detector is not None:
-            raise InputError("give either detector or circuit and instrument, not both")
-        measurement = (circuit, instrument)
+    measurement = _check_measurement_model(detector, circuit, instrument, seed, threshold)
     measured_cycles = _measured_cycles(measured)
     if cycles is None:
         cycles = max(10, round(measured_cycles))
