@@ -113,25 +113,21 @@ def _shutdown_stdlib_pools() -> None:
     _stdlib_pools.clear()
 
 
-#: idle loky workers are kept this long before they exit [s] (loky's default is 10 s)
-LOKY_IDLE_TIMEOUT = 300.0
-
-
 def _local_executor(workers: int) -> cf.Executor:
     """The reusable local process pool (loky when joblib is installed, else a stdlib pool).
 
     A reused loky executor whose manager thread has already ended (its workers gone, but neither flagged broken
     nor shut down) would accept tasks and never run them: such an executor is replaced by a fresh one. Seen on a
-    loaded 2-core machine after many parallel runs with idle gaps in one process.
+    loaded 2-core machine after many parallel runs with idle gaps in one process. Idle workers keep loky's
+    default timeout (10 s), so workers orphaned by a killed main process exit soon after.
     """
     if available("joblib"):
         from joblib.externals.loky import get_reusable_executor
 
-        executor = get_reusable_executor(max_workers=workers, timeout=LOKY_IDLE_TIMEOUT)
+        executor = get_reusable_executor(max_workers=workers)
         manager = getattr(executor, "_executor_manager_thread", None)
         if manager is not None and not manager.is_alive():
-            executor = get_reusable_executor(max_workers=workers, timeout=LOKY_IDLE_TIMEOUT, reuse=False,
-                                             kill_workers=True)
+            executor = get_reusable_executor(max_workers=workers, reuse=False, kill_workers=True)
         return executor
     return _stdlib_pool(workers)
 

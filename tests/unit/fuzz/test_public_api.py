@@ -77,7 +77,8 @@ CATALOGUE = {
                {"frequency": [50.0], "cycles": [4.0, 10.0], "time": [None, EV.time], "label": ["", "m"]},
                {"frequency", "cycles"}),
     "simulate": (pdvoid.simulate, {"scenario": SC, "cycles": 3},
-                 {"cycles": [1, 3], "seed": [0, 2**32 - 1], "histogram": [False]}, {"cycles", "seed"}),
+                 # cycles=None is the documented default (1000 cycles) of a periodic supply
+                 {"cycles": [1, 3, None], "seed": [0, 2**32 - 1], "histogram": [False]}, {"cycles", "seed"}),
     "pattern": (pdvoid.pattern, {"events": EV},
                 {"phase_bins": [1, 72, 3600], "charge_bins": [2, 50], "charge_scale": ["log", "linear"],
                  "per_cycle": [True, False]}, {"phase_bins", "charge_bins"}),
