@@ -364,6 +364,8 @@ class Workbench:
         with self._render_lock:
             for name, png in self._render(outcome):
                 _put_image(p.images[name], png)
+        self._shown = outcome
+        self._mark_stale(False)  # before the status line: "updated" there is the signal that the views are current
         state = f"stopped after {r.cycles} of {r.requested_cycles} cycles" if outcome.stopped else "updated"
         p.status.value = message_html(
             f"{state}: {describe(outcome.controls)}; {r.cycles} cycles, {r.event_count} discharges "
@@ -376,8 +378,6 @@ class Workbench:
         if self.session.measured is not None:  # after the status: the main views come first
             with self._render_lock:
                 _put_image(p.measured["image"], render_comparison(outcome, self.session.measured))
-        self._shown = outcome
-        self._mark_stale(False)
 
     def _render(self, outcome: Outcome) -> Iterator[tuple[str, bytes]]:
         """(view name, PNG bytes) of each main view, drawn as :attr:`drawing` says."""
