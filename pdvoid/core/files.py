@@ -370,19 +370,7 @@ def read_toml_bytes(path: str | os.PathLike[str], limit: int, what: str) -> tupl
     if not isinstance(path, (str, os.PathLike)) or isinstance(path, bytes):
         raise InputError(f"{what} path must be a str or path; got {type(path).__name__}")
     p = Path(path)
-    try:
-        if not p.is_file():
-            raise InputError(f"{p}: cannot read {what}: not found or not a regular file")
-        with open(p, "rb") as fh:
-            raw = fh.read(limit + 1)
-    except OSError as exc:
-        raise InputError(f"{p}: cannot read {what} ({exc.strerror})") from None
-    if len(raw) > limit:
-        raise InputError(f"{p}: {what} larger than the {limit} byte limit")
-    try:
-        text = raw.decode("utf-8-sig")
-    except UnicodeDecodeError as exc:
-        raise InputError(f"{p}: {what} is not UTF-8 text ({exc.reason} at byte {exc.start})") from None
+    text, raw = read_text_bytes(p, limit, what)
     try:
         return tomllib.loads(text), raw
     except tomllib.TOMLDecodeError as exc:
@@ -391,3 +379,40 @@ def read_toml_bytes(path: str | os.PathLike[str], limit: int, what: str) -> tupl
         raise InputError(f"{p}: {what} nests tables or arrays too deeply") from None
     except ValueError as exc:  # e.g. an integer of more digits than Python converts (sys.int_info)
         raise InputError(f"{p}: malformed TOML (the {what} holds a value that cannot be read: {exc})"[:400]) from None
+
+
+def read_text_bytes(path: Path, limit: int, what: str) -> tuple[str, bytes]:
+    """A UTF-8 text file (a byte-order mark accepted) of at most ``limit`` bytes, as text and as read.
+
+    Parameters
+    ----------
+    path : pathlib.Path
+        The file.
+    limit : int
+        Largest size read [bytes]; a larger file is refused before it is decoded.
+    what : str
+        What the file is, for the messages (e.g. "the diameters file").
+
+    Returns
+    -------
+    tuple of (str, bytes)
+        The decoded text and the bytes read.
+
+    Raises
+    ------
+    InputError
+        For a missing or unreadable file, one larger than ``limit``, or one that is not UTF-8.
+    """
+    try:
+        if not path.is_file():
+            raise InputError(f"{path}: cannot read {what}: not found or not a regular file")
+        with open(path, "rb") as fh:
+            raw = fh.read(limit + 1)
+    except OSError as exc:
+        raise InputError(f"{path}: cannot read {what} ({exc.strerror})") from None
+    if len(raw) > limit:
+        raise InputError(f"{path}: {what} larger than the {limit} byte limit")
+    try:
+        return raw.decode("utf-8-sig"), raw
+    except UnicodeDecodeError as exc:
+        raise InputError(f"{path}: {what} is not UTF-8 text ({exc.reason} at byte {exc.start})") from None

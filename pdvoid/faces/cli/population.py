@@ -39,20 +39,10 @@ def read_diameters(path: str) -> tuple[float, ...]:
     InputError
         For an unreadable file, a line that is not a length with a unit (naming the line), or no size at all.
     """
+    from pdvoid.core.files import read_text_bytes
+
     p = Path(path)
-    try:
-        if not p.is_file():
-            raise InputError(f"{p}: cannot read the diameters file: not found or not a regular file")
-        with open(p, "rb") as fh:
-            raw = fh.read(MAX_TEXT_FILE_BYTES + 1)
-    except OSError as exc:
-        raise InputError(f"{p}: cannot read the diameters file ({exc.strerror})") from None
-    if len(raw) > MAX_TEXT_FILE_BYTES:
-        raise InputError(f"{p}: diameters file larger than the {MAX_TEXT_FILE_BYTES} byte limit")
-    try:
-        text = raw.decode("utf-8-sig")
-    except UnicodeDecodeError as exc:
-        raise InputError(f"{p}: the diameters file is not UTF-8 text ({exc.reason} at byte {exc.start})") from None
+    text, _ = read_text_bytes(p, MAX_TEXT_FILE_BYTES, "the diameters file")
     out: list[float] = []
     for n, line in enumerate(text.splitlines(), start=1):
         item = line.strip()
